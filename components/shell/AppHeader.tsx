@@ -1,0 +1,49 @@
+import Link from "next/link";
+import { IconMark } from "@/components/ui/icons";
+import { ROLE_LABELS, type Role } from "@/lib/auth/roles";
+import type { ThemeChoice } from "@/lib/preferences/theme";
+import { NavLinks } from "./NavLinks";
+import { SignOutButton } from "./SignOutButton";
+import { ThemeSwitcher } from "./ThemeSwitcher";
+import { UnitSwitcher } from "./UnitSwitcher";
+
+export type NavItem = { href: string; label: string };
+
+function navFor(role: Role): NavItem[] {
+  const items: NavItem[] = [{ href: "/board", label: "Board" }];
+  if (role === "admin") items.push({ href: "/admin/users", label: "Users" });
+  return items;
+}
+
+export function AppHeader({
+  user,
+  units,
+  unitChoice,
+  theme,
+}: {
+  user: { name: string; role: Role };
+  units: { id: number; code: string; name: string }[];
+  unitChoice: string;
+  theme: ThemeChoice;
+}) {
+  return (
+    <header className="border-b border-border bg-surface">
+      <div className="mx-auto flex max-w-7xl flex-wrap items-center gap-x-5 gap-y-2 px-4 py-2">
+        <Link href="/board" className="flex items-center gap-1.5 text-accent" aria-label="Tidemark, go to the Board">
+          <IconMark className="text-2xl" />
+          <span className="text-lg font-semibold tracking-tight text-ink">Tidemark</span>
+        </Link>
+        <NavLinks items={navFor(user.role)} />
+        <div className="ml-auto flex flex-wrap items-center gap-3">
+          <UnitSwitcher units={units} value={unitChoice} />
+          <ThemeSwitcher value={theme} />
+          <div className="text-right leading-tight" data-testid="current-user">
+            <div className="text-sm font-medium">{user.name}</div>
+            <div className="text-xs text-ink-muted">{ROLE_LABELS[user.role]}</div>
+          </div>
+          <SignOutButton />
+        </div>
+      </div>
+    </header>
+  );
+}

@@ -1,0 +1,15 @@
+import type { DefaultSession } from "next-auth";
+import type { Role } from "@/lib/auth/roles";
+
+declare module "next-auth" {
+  interface Session {
+    user?: DefaultSession["user"] & { id?: number; role?: Role };
+  }
+}
+
+declare module "next-auth/jwt" {
+  interface JWT {
+    uid?: number;
+    role?: string;
+  }
+}

@@ -1,0 +1,19 @@
+import { forbidden, redirect } from "next/navigation";
+import { ForbiddenError, UnauthenticatedError } from "../errors";
+import type { Actor } from "./actor";
+import { requireRole } from "./guard";
+import type { Role } from "./roles";
+
+/**
+ * The guard for pages: the same requireRole, with its failures turned into the
+ * sign-in redirect (401) or the framework's 403 page.
+ */
+export async function pageActor(...roles: Role[]): Promise<Actor> {
+  try {
+    return await requireRole(...roles);
+  } catch (error) {
+    if (error instanceof UnauthenticatedError) redirect("/sign-in");
+    if (error instanceof ForbiddenError) forbidden();
+    throw error;
+  }
+}

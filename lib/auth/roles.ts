@@ -1,0 +1,18 @@
+/** The five roles of DESIGN.md §3. */
+export const ROLES = ["physician", "therapist", "nurse", "reviewer", "admin"] as const;
+export type Role = (typeof ROLES)[number];
+
+export const ROLE_LABELS: Record<Role, string> = {
+  physician: "Physician",
+  therapist: "Respiratory therapist",
+  nurse: "Nurse",
+  reviewer: "Reviewer",
+  admin: "Administrator",
+};
+
+/** Roles that work at the bedside (may chart readings, blood gases, acknowledge alerts). */
+export const CLINICAL_ROLES: readonly Role[] = ["physician", "therapist", "nurse"];
+
+export function isRole(value: unknown): value is Role {
+  return typeof value === "string" && (ROLES as readonly string[]).includes(value);
+}

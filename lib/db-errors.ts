@@ -1,0 +1,15 @@
+/** mysql2 error fields we translate into field errors. */
+type DbError = { code?: string; errno?: number; sqlMessage?: string };
+
+export function isDbError(error: unknown): error is DbError {
+  return typeof error === "object" && error !== null && "code" in error;
+}
+
+/**
+ * Names the unique index a duplicate hit, relying on the `<table>_<column>_unique`
+ * index-name convention of the migrations.
+ */
+export function duplicateIndex(error: unknown): string | undefined {
+  if (!isDbError(error) || error.code !== "ER_DUP_ENTRY") return undefined;
+  return /for key '(?:[^.']+\.)?([^']+)'/.exec(error.sqlMessage ?? "")?.[1];
+}

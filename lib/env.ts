@@ -1,0 +1,71 @@
+import { z } from "zod";
+
+// Environment, parsed once with zod. Defaults are the documented demo values
+// (README "Configuration"); production sets every secret itself.
+
+/** The documented demo secret; refused in production unless TIDEMARK_DEMO=1. */
+export const DEMO_SECRET = "tidemark-demo-secret-not-for-production-use";
+
+const envSchema = z
+  .object({
+    NODE_ENV: z
+      .enum(["development", "production", "test"])
+      .default("development"),
+    DATABASE_HOST: z.string().min(1).default("127.0.0.1"),
+    DATABASE_PORT: z.coerce.number().int().min(1).max(65535).default(3399),
+    DATABASE_NAME: z
+      .string()
+      .regex(/^[A-Za-z0-9_]+$/)
+      .default("tidemark"),
+    DATABASE_USER: z.string().min(1).default("tidemark_app"),
+    DATABASE_PASSWORD: z.string().default("tidemark-app-dev"),
+    DATABASE_OWNER_USER: z.string().min(1).default("tidemark_owner"),
+    DATABASE_OWNER_PASSWORD: z.string().default("tidemark-owner-dev"),
+    DATABASE_POOL_MAX: z.coerce.number().int().min(1).max(100).default(10),
+    NEXTAUTH_URL: z.url().default("http://localhost:3000"),
+    NEXTAUTH_SECRET: z
+      .string()
+      .min(32, "NEXTAUTH_SECRET must be at least 32 characters")
+      .default(DEMO_SECRET),
+    /** Set by `npm run demo` and `npm test`: allows the documented demo secret in a production build. */
+    TIDEMARK_DEMO: z.enum(["0", "1"]).default("0"),
+    SIGNIN_MAX_FAILURES: z.coerce.number().int().min(1).max(100).default(5),
+    SIGNIN_WINDOW_MINUTES: z.coerce.number().int().min(1).max(1440).default(15),
+    SMTP_HOST: z.string().default("127.0.0.1"),
+    SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(2525),
+    SMTP_FROM: z
+      .string()
+      .default("Tidemark <tidemark@northbay-general.example>"),
+  })
+  .refine(
+    (e) =>
+      !(
+        e.NODE_ENV === "production" &&
+        e.TIDEMARK_DEMO !== "1" &&
+        e.NEXTAUTH_SECRET === DEMO_SECRET
+      ),
+    {
+      path: ["NEXTAUTH_SECRET"],
+      message:
+        "set a real NEXTAUTH_SECRET in production (the demo secret is refused)",
+    },
+  );
+
+export type Env = z.infer<typeof envSchema>;
+
+let cached: Env | undefined;
+
+/** Parses process.env on first use, so a build without secrets still succeeds. */
+export function getEnv(): Env {
+  if (!cached) {
+    const parsed = envSchema.safeParse(process.env);
+    if (!parsed.success) {
+      const problems = parsed.error.issues.map(
+        (i) => `${i.path.join(".")}: ${i.message}`,
+      );
+      throw new Error(`Invalid environment:\n  ${problems.join("\n  ")}`);
+    }
+    cached = parsed.data;
+  }
+  return cached;
+}

@@ -1,0 +1,50 @@
+/**
+ * Typed errors thrown by domain code and mapped to a status once, at the
+ * boundary (lib/http.ts for routes, lib/action-result.ts for server actions).
+ */
+export type FieldErrors = Record<string, string[]>;
+
+export class DomainError extends Error {
+  constructor(
+    message: string,
+    readonly status: 400 | 401 | 403 | 404 | 409 | 413 | 422 | 429,
+    readonly fieldErrors?: FieldErrors,
+  ) {
+    super(message);
+    this.name = new.target.name;
+  }
+}
+
+/** No session, or the session's user is gone or deactivated. */
+export class UnauthenticatedError extends DomainError {
+  constructor(message = "Sign in to continue.") {
+    super(message, 401);
+  }
+}
+
+/** Signed in, but the role or unit does not allow this. */
+export class ForbiddenError extends DomainError {
+  constructor(message = "Your role does not allow this action.") {
+    super(message, 403);
+  }
+}
+
+export class NotFoundError extends DomainError {
+  constructor(message = "Not found.") {
+    super(message, 404);
+  }
+}
+
+/** Input refused; carries the field paths so forms can show errors beside each field. */
+export class ValidationError extends DomainError {
+  constructor(message: string, fieldErrors: FieldErrors = {}) {
+    super(message, 400, fieldErrors);
+  }
+}
+
+/** Someone else changed the record first, or a unique value is taken. */
+export class ConflictError extends DomainError {
+  constructor(message: string, fieldErrors?: FieldErrors) {
+    super(message, 409, fieldErrors);
+  }
+}

@@ -1,0 +1,46 @@
+import { NextResponse } from "next/server";
+import { DomainError } from "./errors";
+
+/** The one JSON error shape of the API. */
+export type ApiError = { error: { message: string; fieldErrors?: Record<string, string[]> } };
+
+export function errorResponse(error: unknown): NextResponse<ApiError> {
+  if (error instanceof DomainError) {
+    return NextResponse.json(
+      {
+        error: {
+          message: error.message,
+          ...(error.fieldErrors ? { fieldErrors: error.fieldErrors } : {}),
+        },
+      },
+      { status: error.status },
+    );
+  }
+  console.error("[api] unexpected error", error);
+  return NextResponse.json(
+    { error: { message: "Something went wrong on our side; nothing was saved." } },
+    { status: 500 },
+  );
+}
+
+/** Wraps a route handler body so every failure leaves through errorResponse. */
+export async function handleRoute(body: () => Promise<Response>): Promise<Response> {
+  try {
+    return await body();
+  } catch (error) {
+    return errorResponse(error);
+  }
+}
+
+/** Reads a JSON body with a size cap; malformed or oversized bodies are a 400/413. */
+export async function readJson(request: Request, maxBytes = 64 * 1024): Promise<unknown> {
+  const text = await request.text();
+  if (Buffer.byteLength(text) > maxBytes) {
+    throw new DomainError(`Request body is larger than ${maxBytes} bytes.`, 413);
+  }
+  try {
+    return JSON.parse(text) as unknown;
+  } catch {
+    throw new DomainError("Request body is not valid JSON.", 400);
+  }
+}

@@ -1,0 +1,12 @@
+/** The ledger's action vocabulary: one constant per kind of write. */
+export const LEDGER_ACTIONS = [
+  "user.create",
+  "user.update",
+  "user.deactivate",
+  "user.reactivate",
+] as const;
+
+export type LedgerAction = (typeof LEDGER_ACTIONS)[number];
+
+export const LEDGER_ENTITY_TYPES = ["user", "unit", "bed", "patient", "admission"] as const;
+export type LedgerEntityType = (typeof LEDGER_ENTITY_TYPES)[number];

@@ -1,0 +1,91 @@
+import type { Knex } from "knex";
+import type { Actor } from "../auth/actor";
+import type { LedgerAction, LedgerEntityType } from "./actions";
+import { GENESIS_HASH, hashLedgerEntry } from "./hash";
+
+export type LedgerInput = {
+  action: LedgerAction;
+  entityType: LedgerEntityType;
+  entityId: string | number;
+  /** Clinical writes chain per patient; everything else chains per area. */
+  patientId?: number | null;
+  unitId?: number | null;
+  before?: unknown;
+  after?: unknown;
+  rationale?: string | null;
+};
+
+export type LedgerRow = {
+  id: number;
+  chainKey: string;
+  chainSeq: number;
+  hash: string;
+};
+
+/** The chain a write belongs to: one per patient, else one for administration. */
+export function chainKeyFor(input: Pick<LedgerInput, "patientId">): string {
+  return input.patientId ? `patient:${input.patientId}` : "admin";
+}
+
+/**
+ * Appends one hash-chained ledger row inside the caller's transaction. Only the
+ * chain's head row is locked, so writes on different patients do not queue
+ * behind each other.
+ */
+export async function appendLedger(
+  trx: Knex.Transaction,
+  actor: Pick<Actor, "id" | "role">,
+  input: LedgerInput,
+  now: Date = new Date(),
+): Promise<LedgerRow> {
+  const chainKey = chainKeyFor(input);
+  // Creates the head if missing and takes its row lock in one statement.
+  await trx.raw(
+    "INSERT INTO ledger_chains (chain_key, last_seq, last_hash) VALUES (?, 0, ?) ON DUPLICATE KEY UPDATE chain_key = chain_key",
+    [chainKey, GENESIS_HASH],
+  );
+  const head = (await trx("ledger_chains")
+    .where({ chain_key: chainKey })
+    .forUpdate()
+    .first("last_seq", "last_hash")) as { last_seq: number | string; last_hash: string };
+
+  const occurredAt = new Date(Math.floor(now.getTime()));
+  const fields = {
+    chainKey,
+    chainSeq: Number(head.last_seq) + 1,
+    prevHash: head.last_hash,
+    actorUserId: actor.id,
+    actorRole: actor.role,
+    occurredAt,
+    action: input.action,
+    entityType: input.entityType,
+    entityId: String(input.entityId),
+    patientId: input.patientId ?? null,
+    unitId: input.unitId ?? null,
+    beforeJson: input.before === undefined ? null : JSON.stringify(input.before),
+    afterJson: input.after === undefined ? null : JSON.stringify(input.after),
+    rationale: input.rationale ?? null,
+  };
+  const hash = hashLedgerEntry(fields);
+  const [id] = await trx("ledger_entries").insert({
+    chain_key: fields.chainKey,
+    chain_seq: fields.chainSeq,
+    prev_hash: fields.prevHash,
+    hash,
+    actor_user_id: fields.actorUserId,
+    actor_role: fields.actorRole,
+    occurred_at: fields.occurredAt,
+    action: fields.action,
+    entity_type: fields.entityType,
+    entity_id: fields.entityId,
+    patient_id: fields.patientId,
+    unit_id: fields.unitId,
+    before_json: fields.beforeJson,
+    after_json: fields.afterJson,
+    rationale: fields.rationale,
+  });
+  await trx("ledger_chains")
+    .where({ chain_key: chainKey })
+    .update({ last_seq: fields.chainSeq, last_hash: hash });
+  return { id: Number(id), chainKey, chainSeq: fields.chainSeq, hash };
+}

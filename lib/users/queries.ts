@@ -1,0 +1,77 @@
+import type { Knex } from "knex";
+import type { Role } from "../auth/roles";
+
+export type UserSummary = {
+  id: number;
+  email: string;
+  name: string;
+  role: Role;
+  active: boolean;
+  pressureUnit: "mmHg" | "kPa";
+  version: number;
+  updatedAt: string;
+  units: { id: number; code: string; name: string }[];
+};
+
+type UserRow = {
+  id: number;
+  email: string;
+  name: string;
+  role: Role;
+  active: number;
+  pressure_unit: "mmHg" | "kPa";
+  version: number;
+  updated_at: Date;
+};
+
+/** All users with their units, for the admin area (two queries, no N+1). */
+export async function listUsers(knex: Knex): Promise<UserSummary[]> {
+  const users = (await knex("users")
+    .orderBy("name")
+    .select("id", "email", "name", "role", "active", "pressure_unit", "version", "updated_at")) as UserRow[];
+  const links = (await knex("user_units")
+    .join("units", "units.id", "user_units.unit_id")
+    .orderBy("units.code")
+    .select("user_units.user_id", "units.id", "units.code", "units.name")) as {
+    user_id: number;
+    id: number;
+    code: string;
+    name: string;
+  }[];
+  const byUser = new Map<number, UserSummary["units"]>();
+  for (const l of links) {
+    const list = byUser.get(l.user_id) ?? [];
+    list.push({ id: l.id, code: l.code, name: l.name });
+    byUser.set(l.user_id, list);
+  }
+  return users.map((u) => toSummary(u, byUser.get(u.id) ?? []));
+}
+
+export async function getUser(knex: Knex, id: number): Promise<UserSummary | undefined> {
+  const u = (await knex("users")
+    .where({ id })
+    .first("id", "email", "name", "role", "active", "pressure_unit", "version", "updated_at")) as
+    | UserRow
+    | undefined;
+  if (!u) return undefined;
+  const units = (await knex("user_units")
+    .join("units", "units.id", "user_units.unit_id")
+    .where({ user_id: id })
+    .orderBy("units.code")
+    .select("units.id", "units.code", "units.name")) as UserSummary["units"];
+  return toSummary(u, units);
+}
+
+function toSummary(u: UserRow, units: UserSummary["units"]): UserSummary {
+  return {
+    id: u.id,
+    email: u.email,
+    name: u.name,
+    role: u.role,
+    active: Boolean(u.active),
+    pressureUnit: u.pressure_unit,
+    version: u.version,
+    updatedAt: u.updated_at.toISOString(),
+    units,
+  };
+}

@@ -1,0 +1,177 @@
+import type { Knex } from "knex";
+import type { Actor } from "../auth/actor";
+import { assertRole } from "../auth/actor-queries";
+import { hashPassword } from "../auth/password";
+import { duplicateIndex } from "../db-errors";
+import { ConflictError, NotFoundError, ValidationError } from "../errors";
+import { appendLedger } from "../ledger/service";
+import { parseInput } from "../validation";
+import { getUser, type UserSummary } from "./queries";
+import {
+  userActiveSchema,
+  userCreateSchema,
+  userUpdateSchema,
+  type UserActiveInput,
+  type UserCreateInput,
+  type UserUpdateInput,
+} from "./schema";
+
+/** What the ledger records of a user: never the password hash. */
+function ledgerView(u: UserSummary) {
+  return {
+    email: u.email,
+    name: u.name,
+    role: u.role,
+    active: u.active,
+    pressureUnit: u.pressureUnit,
+    unitIds: u.units.map((x) => x.id),
+  };
+}
+
+async function assertUnitsExist(trx: Knex.Transaction, unitIds: number[]): Promise<void> {
+  const found = (await trx("units").whereIn("id", unitIds).where({ active: true }).select("id")) as {
+    id: number;
+  }[];
+  if (found.length !== new Set(unitIds).size) {
+    throw new ValidationError("Some fields need attention.", {
+      unitIds: ["One or more units do not exist or are inactive."],
+    });
+  }
+}
+
+function rethrowDuplicate(error: unknown): never {
+  if (duplicateIndex(error) === "users_email_unique") {
+    throw new ConflictError("Another account already uses this e-mail.", {
+      email: ["Another account already uses this e-mail."],
+    });
+  }
+  throw error;
+}
+
+/** Creates a user with their units, and its ledger row, in one transaction. */
+export async function createUser(
+  knex: Knex,
+  actor: Actor,
+  raw: UserCreateInput,
+): Promise<UserSummary> {
+  assertRole(actor, ["admin"]);
+  const input = parseInput(userCreateSchema, raw);
+  const passwordHash = await hashPassword(input.password);
+  try {
+    return await knex.transaction(async (trx) => {
+      await assertUnitsExist(trx, input.unitIds);
+      const [id] = await trx("users").insert({
+        email: input.email,
+        name: input.name,
+        role: input.role,
+        password_hash: passwordHash,
+        pressure_unit: input.pressureUnit,
+      });
+      const userId = Number(id);
+      await trx("user_units").insert([...new Set(input.unitIds)].map((unitId) => ({ user_id: userId, unit_id: unitId })));
+      const created = (await getUser(trx, userId))!;
+      await appendLedger(trx, actor, {
+        action: "user.create",
+        entityType: "user",
+        entityId: userId,
+        after: ledgerView(created),
+        rationale: input.rationale || null,
+      });
+      return created;
+    });
+  } catch (error) {
+    rethrowDuplicate(error);
+  }
+}
+
+async function lockForChange(trx: Knex.Transaction, id: number, version: number): Promise<UserSummary> {
+  const locked = (await trx("users").where({ id }).forUpdate().first("id", "version")) as
+    | { id: number; version: number }
+    | undefined;
+  if (!locked) throw new NotFoundError("That user does not exist.");
+  const current = (await getUser(trx, id))!;
+  if (locked.version !== version) {
+    throw new ConflictError(
+      `${current.name}'s account was changed by someone else while you were editing. Reload to see the current details, then apply your change again.`,
+    );
+  }
+  return current;
+}
+
+/** Edits a user's details, role and units; refuses a stale version. */
+export async function updateUser(
+  knex: Knex,
+  actor: Actor,
+  raw: UserUpdateInput,
+): Promise<UserSummary> {
+  assertRole(actor, ["admin"]);
+  const input = parseInput(userUpdateSchema, raw);
+  if (input.id === actor.id && input.role !== "admin") {
+    throw new ValidationError("You cannot remove your own administrator role.", {
+      role: ["You cannot remove your own administrator role; ask another administrator."],
+    });
+  }
+  const passwordHash = input.password ? await hashPassword(input.password) : undefined;
+  try {
+    return await knex.transaction(async (trx) => {
+      const before = await lockForChange(trx, input.id, input.version);
+      await assertUnitsExist(trx, input.unitIds);
+      await trx("users")
+        .where({ id: input.id })
+        .update({
+          email: input.email,
+          name: input.name,
+          role: input.role,
+          pressure_unit: input.pressureUnit,
+          ...(passwordHash ? { password_hash: passwordHash } : {}),
+          version: before.version + 1,
+          updated_at: trx.fn.now(3),
+        });
+      await trx("user_units").where({ user_id: input.id }).delete();
+      await trx("user_units").insert([...new Set(input.unitIds)].map((unitId) => ({ user_id: input.id, unit_id: unitId })));
+      const after = (await getUser(trx, input.id))!;
+      await appendLedger(trx, actor, {
+        action: "user.update",
+        entityType: "user",
+        entityId: input.id,
+        before: ledgerView(before),
+        after: { ...ledgerView(after), ...(passwordHash ? { passwordChanged: true } : {}) },
+        rationale: input.rationale || null,
+      });
+      return after;
+    });
+  } catch (error) {
+    rethrowDuplicate(error);
+  }
+}
+
+/** Deactivates (or reactivates) an account; a reason is required. */
+export async function setUserActive(
+  knex: Knex,
+  actor: Actor,
+  raw: UserActiveInput,
+): Promise<UserSummary> {
+  assertRole(actor, ["admin"]);
+  const input = parseInput(userActiveSchema, raw);
+  if (input.id === actor.id && !input.active) {
+    throw new ValidationError("You cannot deactivate your own account.", {
+      active: ["You cannot deactivate your own account; ask another administrator."],
+    });
+  }
+  return knex.transaction(async (trx) => {
+    const before = await lockForChange(trx, input.id, input.version);
+    await trx("users")
+      .where({ id: input.id })
+      .update({ active: input.active, version: before.version + 1, updated_at: trx.fn.now(3) });
+    const after = (await getUser(trx, input.id))!;
+    await appendLedger(trx, actor, {
+      action: input.active ? "user.reactivate" : "user.deactivate",
+      entityType: "user",
+      entityId: input.id,
+      before: ledgerView(before),
+      after: ledgerView(after),
+      rationale: input.rationale,
+    });
+    return after;
+  });
+}

@@ -1,0 +1,38 @@
+// Adds up vitest's JSON reports and the plain checks (type-check, lint, build)
+// into the one closing line "N passed, N failed"; exits non-zero on any failure.
+import { readdirSync, readFileSync } from "node:fs";
+import { join } from "node:path";
+
+const dir = process.argv[2];
+let passed = 0;
+let failed = 0;
+const failures = [];
+for (const file of readdirSync(dir).sort()) {
+  if (!file.endsWith(".json")) continue;
+  const data = JSON.parse(readFileSync(join(dir, file), "utf8"));
+  if (file.startsWith("check-")) {
+    if (data.ok) passed += 1;
+    else {
+      failed += 1;
+      failures.push(data.name);
+    }
+  } else if (file.startsWith("vitest-")) {
+    passed += data.numPassedTests;
+    failed += data.numFailedTests;
+    // A file that fails to load has no tests but still fails the run.
+    for (const suite of data.testResults ?? []) {
+      if (suite.status === "failed" && (suite.assertionResults ?? []).length === 0) {
+        failed += 1;
+        failures.push(suite.name);
+      }
+    }
+    for (const suite of data.testResults ?? []) {
+      for (const t of suite.assertionResults ?? []) {
+        if (t.status === "failed") failures.push(`${t.fullName}`);
+      }
+    }
+  }
+}
+if (failures.length) console.log(`\nFailed:\n  ${failures.join("\n  ")}`);
+console.log(`\n${passed} passed, ${failed} failed`);
+process.exit(failed === 0 && passed > 0 ? 0 : 1);
