@@ -1,5 +1,10 @@
-/** @type {import('next').NextConfig} */
-const nextConfig = {
+import { PHASE_DEVELOPMENT_SERVER } from "next/constants.js";
+
+/** @type {(phase: string) => import('next').NextConfig} */
+const nextConfig = (phase) => ({
+  // `next dev` keeps its own output so it never clobbers the build that the
+  // demo and the end-to-end tests serve.
+  distDir: phase === PHASE_DEVELOPMENT_SERVER ? ".next-dev" : ".next",
   poweredByHeader: false,
   reactStrictMode: true,
   // Lint runs in `npm test` with the project's own config; the build only builds.
@@ -21,6 +26,6 @@ const nextConfig = {
       },
     ];
   },
-};
+});
 
 export default nextConfig;

@@ -1,4 +1,4 @@
-import { DomainError, type FieldErrors } from "./errors";
+import { DomainError, fromEngineError, type FieldErrors } from "./errors";
 
 /** The one result type every server action returns. */
 export type ActionResult<T> =
@@ -12,7 +12,8 @@ export type ActionResult<T> =
 export async function runAction<T>(body: () => Promise<T>): Promise<ActionResult<T>> {
   try {
     return { ok: true, data: await body() };
-  } catch (error) {
+  } catch (thrown) {
+    const error = fromEngineError(thrown) ?? thrown;
     if (error instanceof DomainError) {
       return {
         ok: false,

@@ -35,7 +35,7 @@ const envSchema = z
     SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(2525),
     SMTP_FROM: z
       .string()
-      .default("Tidemark <tidemark@northbay-general.example>"),
+      .default("Tidemark <tidemark@kestrel.example>"),
   })
   .refine(
     (e) =>

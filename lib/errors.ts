@@ -48,3 +48,19 @@ export class ConflictError extends DomainError {
     super(message, 409, fieldErrors);
   }
 }
+
+/**
+ * Engine input errors (lib/oxygen stays free of app imports) become a 400
+ * naming the field and its range.
+ */
+export function fromEngineError(error: unknown): DomainError | undefined {
+  if (
+    error instanceof Error &&
+    error.name === "OxygenInputError" &&
+    "field" in error &&
+    typeof error.field === "string"
+  ) {
+    return new ValidationError(error.message, { [error.field]: [error.message] });
+  }
+  return undefined;
+}

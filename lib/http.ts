@@ -1,10 +1,11 @@
 import { NextResponse } from "next/server";
-import { DomainError } from "./errors";
+import { DomainError, fromEngineError } from "./errors";
 
 /** The one JSON error shape of the API. */
 export type ApiError = { error: { message: string; fieldErrors?: Record<string, string[]> } };
 
-export function errorResponse(error: unknown): NextResponse<ApiError> {
+export function errorResponse(thrown: unknown): NextResponse<ApiError> {
+  const error = fromEngineError(thrown) ?? thrown;
   if (error instanceof DomainError) {
     return NextResponse.json(
       {

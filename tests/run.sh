@@ -15,7 +15,7 @@ export TEST_DB="tidemark_test_$$"
 export DATABASE_NAME="$TEST_DB"
 export TIDEMARK_DEMO=1
 export E2E_PORT="${E2E_PORT:-3100}"
-export E2E_BASE_URL="http://127.0.0.1:$E2E_PORT"
+export E2E_BASE_URL="http://localhost:$E2E_PORT"
 SERVER_PID=""
 
 cleanup() {
@@ -35,7 +35,7 @@ check() {
 vitest_project() {
   local name="$1"; shift
   say "vitest: $name"
-  npx vitest run --config tests/vitest.config.ts "$@" \
+  npx vitest run --config tests/vitest.config.mts "$@" \
     --reporter=default --reporter=json --outputFile.json="$RESULTS/vitest-$name.json"
   [ -f "$RESULTS/vitest-$name.json" ] || echo "{\"name\":\"vitest-$name\",\"ok\":false}" > "$RESULTS/check-vitest-$name.json"
 }

@@ -19,9 +19,10 @@ for (const file of readdirSync(dir).sort()) {
   } else if (file.startsWith("vitest-")) {
     passed += data.numPassedTests;
     failed += data.numFailedTests;
-    // A file that fails to load has no tests but still fails the run.
+    // A file that fails to load, or in a hook, has no failed test but still fails the run.
     for (const suite of data.testResults ?? []) {
-      if (suite.status === "failed" && (suite.assertionResults ?? []).length === 0) {
+      const failedInside = (suite.assertionResults ?? []).some((t) => t.status === "failed");
+      if (suite.status === "failed" && !failedInside) {
         failed += 1;
         failures.push(suite.name);
       }

@@ -22,7 +22,8 @@ export default defineConfig({
       },
       {
         resolve: { alias },
-        esbuild: { jsx: "automatic" },
+        // tsconfig keeps JSX for Next; tests compile it with the automatic runtime.
+        oxc: { jsx: { runtime: "automatic" } },
         test: {
           name: "component",
           environment: "jsdom",

@@ -1,0 +1,42 @@
+/** What an out-of-range input carries, so the boundary can map it to a field error. */
+export interface OxygenInputErrorDetails {
+  /** The argument's name or path, e.g. "fio2" or "order.limits.fio2Max". */
+  field: string;
+  value: number;
+  min: number;
+  max: number;
+  unit: string;
+  /** Why the range is what it is, when it depends on other inputs. */
+  reason?: string;
+}
+
+function formatBound(bound: number): string {
+  // Dynamic bounds (e.g. the highest PaCO2 that keeps PAO2 positive) are
+  // irrational; six significant digits are enough to act on.
+  return String(Number(bound.toPrecision(6)));
+}
+
+/**
+ * Thrown by every engine function for a non-finite or out-of-range input.
+ * The engine never answers NaN or Infinity; it refuses instead.
+ */
+export class OxygenInputError extends Error {
+  override readonly name = "OxygenInputError";
+  readonly field: string;
+  readonly value: number;
+  readonly min: number;
+  readonly max: number;
+  readonly unit: string;
+
+  constructor({ field, value, min, max, unit, reason }: OxygenInputErrorDetails) {
+    super(
+      `${field} must be between ${formatBound(min)} and ${formatBound(max)} (${unit}); got ${value}` +
+        (reason ? ` — ${reason}` : ""),
+    );
+    this.field = field;
+    this.value = value;
+    this.min = min;
+    this.max = max;
+    this.unit = unit;
+  }
+}

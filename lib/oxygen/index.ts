@@ -1,0 +1,95 @@
+/**
+ * Tidemark's oxygenation engine: pure functions over published methods. Every
+ * function refuses non-finite or out-of-range input with an OxygenInputError.
+ * Pressures in mmHg, FiO2 and saturations as fractions, arguments named spo2 in %.
+ */
+export const ENGINE_VERSION = "1.0.0";
+
+export { OxygenInputError, type OxygenInputErrorDetails } from "./errors";
+export { RANGES, MIN_ALVEOLAR_PO2, type InputRange } from "./ranges";
+export { SOURCES } from "./sources";
+export {
+  MMHG_PER_KPA,
+  HEMOGLOBIN_MONOMER_MOLAR_MASS,
+  toMmHg,
+  fromMmHg,
+  toGramsPerDecilitre,
+  fromGramsPerDecilitre,
+  formatPressure,
+  type PressureUnit,
+  type HemoglobinUnit,
+} from "./units";
+export {
+  STANDARD_BAROMETRIC_PRESSURE,
+  BODY_WATER_VAPOUR_PRESSURE,
+  DEFAULT_RESPIRATORY_QUOTIENT,
+  partialPressure,
+  inspiredPO2,
+  alveolarPO2,
+  barometricPressureAtAltitude,
+  type InspiredGasInput,
+  type AlveolarGasInput,
+} from "./gas";
+export { saturationFromPO2, po2FromSaturation } from "./dissociation";
+export {
+  HEMOGLOBIN_OXYGEN_CAPACITY,
+  OXYGEN_SOLUBILITY,
+  dissolvedOxygen,
+  oxygenContent,
+  oxygenContentParts,
+  oxygenDelivery,
+  type OxygenContentInput,
+  type OxygenContentParts,
+} from "./content";
+export { pfRatio, sfRatio, roxIndex, oxygenationIndex, oxygenSaturationIndex, expectedAaGradient } from "./indices";
+export {
+  predictedBodyWeight,
+  tidalVolumePerKilogram,
+  drivingPressure,
+  staticCompliance,
+  mechanicalPower,
+  type Sex,
+  type MechanicalPowerInput,
+} from "./ventilation";
+export {
+  classifyOxygenation,
+  type RespiratorySupport,
+  type BerlinCategory,
+  type GlobalCategory,
+  type ClassificationResult,
+  type OxygenationClassification,
+  type ClassifyOxygenationInput,
+} from "./classification";
+export {
+  ASSUMED_ARTERIOVENOUS_DIFFERENCE,
+  FORECAST_ASSUMPTIONS,
+  PEEP_NOT_FORECAST,
+  forecastFio2Change,
+  type ForecastInput,
+  type ModelForecast,
+  type Fio2Forecast,
+} from "./forecast";
+export {
+  ardsNetworkTable,
+  ardsNetworkTableSource,
+  type SettingValue,
+  type ArdsNetworkStep,
+  type ArdsNetworkTableName,
+} from "./step-tables";
+export {
+  ASSUMED_HEMOGLOBIN,
+  ASSUMED_PACO2,
+  HIGHEST_SPO2_FOR_IMPUTING,
+  proposeStep,
+  type OrderStep,
+  type OrderLimits,
+  type TitrationOrder,
+  type CurrentSettings,
+  type LatestReading,
+  type LatestBloodGas,
+  type ProposeStepInput,
+  type ProposalDirection,
+  type ProposedSetting,
+  type Proposal,
+} from "./propose-step";
+export { assessBloodGas, type Basis, type IndexValue, type BloodGasInput, type BloodGasAssessment } from "./basis";

@@ -1,0 +1,353 @@
+import { po2FromSaturation } from "./dissociation";
+import { OxygenInputError } from "./errors";
+import { forecastFio2Change, PEEP_NOT_FORECAST, type Fio2Forecast } from "./forecast";
+import { checkBetween, checkRange, RANGES } from "./ranges";
+import type { SettingValue } from "./step-tables";
+
+/** One row of an order's step table: FiO2 with PEEP (ventilation, CPAP) or with flow (HFNC). */
+export interface OrderStep {
+  readonly fio2: SettingValue;
+  /** cmH2O */
+  readonly peep?: SettingValue;
+  /** L/min */
+  readonly flow?: number;
+}
+
+/** The ranges inside which the bedside team may titrate. */
+export interface OrderLimits {
+  fio2Min: number;
+  fio2Max: number;
+  peepMin?: number;
+  peepMax?: number;
+  flowMin?: number;
+  flowMax?: number;
+}
+
+export interface TitrationOrder {
+  /** SpO2 target band in % */
+  spo2Target: { lower: number; upper: number };
+  limits: OrderLimits;
+  /** Ordered from least to most support. */
+  steps: readonly OrderStep[];
+}
+
+export interface CurrentSettings {
+  fio2: number;
+  /** cmH2O */
+  peep?: number;
+  /** L/min */
+  flow?: number;
+}
+
+export interface LatestReading {
+  /** % */
+  spo2: number;
+  /** FiO2 in use when the reading was taken, if it differs from the current setting */
+  fio2?: number;
+}
+
+export interface LatestBloodGas {
+  /** mmHg */
+  pao2: number;
+  /** mmHg */
+  paco2: number;
+  /** g/dL */
+  hemoglobin?: number;
+  /** FiO2 at sampling */
+  fio2: number;
+  /** PEEP at sampling, cmH2O */
+  peep?: number;
+}
+
+export interface ProposeStepInput {
+  order: TitrationOrder;
+  current: CurrentSettings;
+  latestReading: LatestReading;
+  /** Pass only a blood gas that still represents the patient. */
+  latestBloodGas?: LatestBloodGas | null;
+  /** mmHg, from the unit's altitude; 760 if omitted */
+  barometricPressure?: number;
+}
+
+export type ProposalDirection = "up" | "down" | "hold" | "escalate";
+
+/** A concrete setting taken from the step table (a published range resolved to one end). */
+export interface ProposedSetting {
+  fio2: number;
+  peep?: number;
+  flow?: number;
+  /** 0-based index of the row in the order's step table */
+  stepIndex: number;
+}
+
+export interface Proposal {
+  direction: ProposalDirection;
+  /** The setting to move to; null for hold and escalate. */
+  step: ProposedSetting | null;
+  /** Forecast at the proposed FiO2; null when there is no step or nothing to forecast from. */
+  forecast: Fio2Forecast | null;
+  reason: string;
+  caveats: string[];
+}
+
+/** Used only when the blood gas lacks it, and said so in the caveats. */
+export const ASSUMED_HEMOGLOBIN = 12;
+/** Used only when PaO2 is imputed from SpO2 without a blood gas, and said so. */
+export const ASSUMED_PACO2 = 40;
+/** Above this SpO2 the curve is too flat to impute PaO2 from it. */
+export const HIGHEST_SPO2_FOR_IMPUTING = 96;
+
+// Settings within these are the same setting (FiO2 0.3 vs 0.30000000001).
+const SAME = { fio2: 0.001, peep: 0.01, flow: 0.01 } as const;
+
+const ends = (value: SettingValue): readonly [number, number] => (typeof value === "number" ? [value, value] : value);
+const distinct = ([low, high]: readonly [number, number]): number[] => (low === high ? [low] : [low, high]);
+const format = (value: number, digits = 2): string => String(Number(value.toFixed(digits)));
+
+/** FiO2 with the PEEP and/or flow that go with it. */
+type Setting = Pick<ProposedSetting, "fio2" | "peep" | "flow">;
+
+function describe(setting: Setting): string {
+  const parts = [`FiO2 ${format(setting.fio2)}`];
+  if (setting.peep !== undefined) parts.push(`PEEP ${format(setting.peep, 1)} cmH2O`);
+  if (setting.flow !== undefined) parts.push(`flow ${format(setting.flow, 1)} L/min`);
+  return parts.join(", ");
+}
+
+// A published range is a choice within one row: expand it into its two ends,
+// least support first, so "next step up" can stop at the lower end.
+function candidates(steps: readonly OrderStep[]): ProposedSetting[] {
+  const result: ProposedSetting[] = [];
+  for (const [stepIndex, step] of steps.entries()) {
+    const peeps = step.peep === undefined ? [undefined] : distinct(ends(step.peep));
+    for (const fio2 of distinct(ends(step.fio2))) {
+      for (const peep of peeps) result.push({ fio2, peep, flow: step.flow, stepIndex });
+    }
+  }
+  return result;
+}
+
+function sign(a: number | undefined, b: number | undefined, tolerance: number): -1 | 0 | 1 {
+  if (a === undefined || b === undefined) return 0;
+  return a > b + tolerance ? 1 : a < b - tolerance ? -1 : 0;
+}
+
+/**
+ * How a table setting relates to the current one, on every dimension both
+ * define: `above` gives more of something and less of nothing, `below` the
+ * reverse, `apart` more of one and less of another.
+ */
+function relation(candidate: Setting, current: Setting): "same" | "above" | "below" | "apart" {
+  const signs = [
+    sign(candidate.fio2, current.fio2, SAME.fio2),
+    sign(candidate.peep, current.peep, SAME.peep),
+    sign(candidate.flow, current.flow, SAME.flow),
+  ];
+  const more = signs.includes(1);
+  const less = signs.includes(-1);
+  return more ? (less ? "apart" : "above") : less ? "below" : "same";
+}
+
+function inside(value: number | undefined, min: number | undefined, max: number | undefined, tolerance: number): boolean {
+  return value === undefined || ((min === undefined || value >= min - tolerance) && (max === undefined || value <= max + tolerance));
+}
+
+function withinLimits(setting: Setting, limits: OrderLimits): boolean {
+  return (
+    inside(setting.fio2, limits.fio2Min, limits.fio2Max, SAME.fio2) &&
+    inside(setting.peep, limits.peepMin, limits.peepMax, SAME.peep) &&
+    inside(setting.flow, limits.flowMin, limits.flowMax, SAME.flow)
+  );
+}
+
+function checkSetting(field: string, value: SettingValue, range: { min: number; max: number; unit: string }): void {
+  const [low, high] = ends(value);
+  checkRange(field, low, range);
+  checkBetween(field, high, low, range.max, range.unit);
+}
+
+function checkOptional(field: string, value: number | undefined, min: number, max: number, unit: string): void {
+  if (value !== undefined) checkBetween(field, value, min, max, unit);
+}
+
+function checkInput({ order, current, latestReading, latestBloodGas, barometricPressure }: ProposeStepInput): void {
+  const { spo2Target, limits, steps } = order;
+  checkRange("order.spo2Target.lower", spo2Target.lower, RANGES.spo2);
+  checkBetween("order.spo2Target.upper", spo2Target.upper, spo2Target.lower, RANGES.spo2.max, RANGES.spo2.unit);
+  checkRange("order.limits.fio2Min", limits.fio2Min, RANGES.fio2);
+  checkBetween("order.limits.fio2Max", limits.fio2Max, limits.fio2Min, RANGES.fio2.max, RANGES.fio2.unit);
+  checkOptional("order.limits.peepMin", limits.peepMin, RANGES.peep.min, RANGES.peep.max, RANGES.peep.unit);
+  checkOptional("order.limits.peepMax", limits.peepMax, limits.peepMin ?? RANGES.peep.min, RANGES.peep.max, RANGES.peep.unit);
+  checkOptional("order.limits.flowMin", limits.flowMin, RANGES.flow.min, RANGES.flow.max, RANGES.flow.unit);
+  checkOptional("order.limits.flowMax", limits.flowMax, limits.flowMin ?? RANGES.flow.min, RANGES.flow.max, RANGES.flow.unit);
+  for (const [index, step] of steps.entries()) {
+    checkSetting(`order.steps[${index}].fio2`, step.fio2, RANGES.fio2);
+    if (step.peep !== undefined) checkSetting(`order.steps[${index}].peep`, step.peep, RANGES.peep);
+    if (step.flow !== undefined) checkRange(`order.steps[${index}].flow`, step.flow, RANGES.flow);
+  }
+  checkRange("current.fio2", current.fio2, RANGES.fio2);
+  if (current.peep !== undefined) checkRange("current.peep", current.peep, RANGES.peep);
+  if (current.flow !== undefined) checkRange("current.flow", current.flow, RANGES.flow);
+  checkRange("latestReading.spo2", latestReading.spo2, RANGES.spo2);
+  if (latestReading.fio2 !== undefined) checkRange("latestReading.fio2", latestReading.fio2, RANGES.fio2);
+  if (latestBloodGas) {
+    checkRange("latestBloodGas.pao2", latestBloodGas.pao2, RANGES.pao2);
+    checkRange("latestBloodGas.paco2", latestBloodGas.paco2, RANGES.paco2);
+    checkRange("latestBloodGas.fio2", latestBloodGas.fio2, RANGES.fio2);
+    if (latestBloodGas.hemoglobin !== undefined) checkRange("latestBloodGas.hemoglobin", latestBloodGas.hemoglobin, RANGES.hemoglobin);
+    if (latestBloodGas.peep !== undefined) checkRange("latestBloodGas.peep", latestBloodGas.peep, RANGES.peep);
+  }
+  if (barometricPressure !== undefined) checkRange("barometricPressure", barometricPressure, RANGES.barometricPressure);
+}
+
+function forecastFor(input: ProposeStepInput, step: ProposedSetting, caveats: string[]): Fio2Forecast | null {
+  const { current, latestReading, latestBloodGas, barometricPressure } = input;
+  const peepChanges =
+    step.peep !== undefined && current.peep !== undefined && Math.abs(step.peep - current.peep) > SAME.peep;
+  if (peepChanges) {
+    caveats.push(
+      `PEEP changes from ${format(current.peep ?? 0, 1)} to ${format(step.peep ?? 0, 1)} cmH2O: its effect is not forecast — re-measure after the change.`,
+    );
+  }
+  let baseline: { fio2: number; pao2: number; paco2: number; hemoglobin: number };
+  if (latestBloodGas) {
+    const { fio2, pao2, paco2, hemoglobin, peep } = latestBloodGas;
+    if (hemoglobin === undefined) caveats.push(`The blood gas has no haemoglobin: ${ASSUMED_HEMOGLOBIN} g/dL assumed for the shunt model.`);
+    if (Math.abs(fio2 - current.fio2) > SAME.fio2) {
+      caveats.push(`The blood gas was taken at FiO2 ${format(fio2)}, not the current ${format(current.fio2)}: the forecast starts from the blood gas.`);
+    }
+    if (peep !== undefined && current.peep !== undefined && Math.abs(peep - current.peep) > SAME.peep) {
+      caveats.push(`The blood gas was taken at PEEP ${format(peep, 1)} cmH2O, not the current ${format(current.peep, 1)} cmH2O.`);
+    }
+    baseline = { fio2, pao2, paco2, hemoglobin: hemoglobin ?? ASSUMED_HEMOGLOBIN };
+  } else if (latestReading.spo2 <= HIGHEST_SPO2_FOR_IMPUTING) {
+    const pao2 = po2FromSaturation(latestReading.spo2 / 100);
+    caveats.push(
+      `No blood gas: PaO2 ${Math.round(pao2)} mmHg imputed from SpO2 ${latestReading.spo2} % on the standard curve (Ellis 1989), ` +
+        `with PaCO2 ${ASSUMED_PACO2} mmHg and haemoglobin ${ASSUMED_HEMOGLOBIN} g/dL assumed; oximeter error of a few percent makes this rough.`,
+    );
+    baseline = { fio2: latestReading.fio2 ?? current.fio2, pao2, paco2: ASSUMED_PACO2, hemoglobin: ASSUMED_HEMOGLOBIN };
+  } else {
+    caveats.push(
+      `No blood gas, and SpO2 ${latestReading.spo2} % is above ${HIGHEST_SPO2_FOR_IMPUTING} %, where the curve is too flat to impute PaO2: no forecast.`,
+    );
+    return null;
+  }
+  try {
+    const forecast = forecastFio2Change({ ...baseline, barometricPressure, nextFio2: step.fio2 });
+    // The specific PEEP caveat above replaces the forecast's general one.
+    caveats.push(...forecast.caveats.filter((caveat) => !(peepChanges && caveat === PEEP_NOT_FORECAST)));
+    return forecast;
+  } catch (error) {
+    if (!(error instanceof OxygenInputError)) throw error;
+    caveats.push(`No forecast: ${error.message}.`);
+    return null;
+  }
+}
+
+/**
+ * The next step from the order's step table for the latest SpO2: below the
+ * target band, the first table setting above the current one (no less FiO2,
+ * PEEP or flow, more of at least one) within the order's limits, or `escalate`
+ * when there is none; above the band on FiO2 > 0.21, the last table setting
+ * below the current one within the limits (wean); in the band, `hold`.
+ * A published range (e.g. PEEP 18–24) offers both its ends, least support first.
+ * The forecast is forecastFio2Change from the latest blood gas to the proposed
+ * FiO2, or from a PaO2 imputed from SpO2 ≤ 96 % when there is no blood gas.
+ */
+export function proposeStep(input: ProposeStepInput): Proposal {
+  checkInput(input);
+  const { order, current, latestReading } = input;
+  const spo2 = latestReading.spo2;
+  const { lower, upper } = order.spo2Target;
+  const band = `${format(lower, 1)}–${format(upper, 1)} %`;
+  const reading = `SpO2 ${format(spo2, 1)} %`;
+  const caveats: string[] = [];
+  // One pass over the table: is the current setting a row, which is the first
+  // setting above it (within the limits or not), and the last below it within them.
+  let onTable = false;
+  let nextAbove: ProposedSetting | undefined;
+  let nextAboveWithinLimits: ProposedSetting | undefined;
+  let nextBelowWithinLimits: ProposedSetting | undefined;
+  for (const candidate of candidates(order.steps)) {
+    const relative = relation(candidate, current);
+    if (relative === "same") onTable = true;
+    else if (relative === "above") {
+      nextAbove ??= candidate;
+      if (!nextAboveWithinLimits && withinLimits(candidate, order.limits)) nextAboveWithinLimits = candidate;
+    } else if (relative === "below" && withinLimits(candidate, order.limits)) nextBelowWithinLimits = candidate;
+  }
+  if (!onTable && order.steps.length > 0) caveats.push(`The current setting (${describe(current)}) is not a row of the step table.`);
+  if (!withinLimits(current, order.limits)) {
+    caveats.push(`The current setting (${describe(current)}) is outside the order's limits.`);
+  }
+  if (latestReading.fio2 !== undefined && Math.abs(latestReading.fio2 - current.fio2) > SAME.fio2) {
+    caveats.push(`The reading was taken at FiO2 ${format(latestReading.fio2)}, not the current ${format(current.fio2)}.`);
+  }
+  const position = (step: ProposedSetting) => `step ${step.stepIndex + 1} of ${order.steps.length}`;
+
+  if (spo2 < lower) {
+    const step = nextAboveWithinLimits;
+    if (!step) {
+      const why =
+        nextAbove === undefined
+          ? "the step table has no higher step"
+          : `the next table step (${describe(nextAbove)}) is outside the order's limits`;
+      return {
+        direction: "escalate",
+        step: null,
+        forecast: null,
+        reason: `${reading} is below the target band ${band} and ${why}: escalate to the prescriber.`,
+        caveats,
+      };
+    }
+    const forecast = forecastFor(input, step, caveats);
+    return {
+      direction: "up",
+      step,
+      forecast,
+      reason: `${reading} is below the target band ${band}: next step up is ${describe(step)} (${position(step)}).`,
+      caveats,
+    };
+  }
+
+  if (spo2 > upper) {
+    if (current.fio2 <= RANGES.fio2.min + SAME.fio2) {
+      return {
+        direction: "hold",
+        step: null,
+        forecast: null,
+        reason: `${reading} is above the target band ${band}, but the patient breathes room air (FiO2 0.21): nothing to wean.`,
+        caveats,
+      };
+    }
+    const step = nextBelowWithinLimits;
+    if (!step) {
+      return {
+        direction: "hold",
+        step: null,
+        forecast: null,
+        reason:
+          `${reading} is above the target band ${band} on FiO2 ${format(current.fio2)}, but no lower step is within ` +
+          "the order: hold and ask the prescriber to review the order.",
+        caveats,
+      };
+    }
+    const forecast = forecastFor(input, step, caveats);
+    return {
+      direction: "down",
+      step,
+      forecast,
+      reason: `${reading} is above the target band ${band} on FiO2 ${format(current.fio2)}: next step down (wean) is ${describe(step)} (${position(step)}).`,
+      caveats,
+    };
+  }
+
+  return {
+    direction: "hold",
+    step: null,
+    forecast: null,
+    reason: `${reading} is within the target band ${band}: hold the current settings.`,
+    caveats,
+  };
+}

@@ -1,0 +1,42 @@
+import { BASE_URL, DEMO_PASSWORD } from "./browser";
+
+/** A tiny cookie-keeping HTTP client for calling the running app as a given user. */
+export class Session {
+  private cookies = new Map<string, string>();
+
+  private remember(res: Response) {
+    for (const line of res.headers.getSetCookie()) {
+      const [pair] = line.split(";");
+      const eq = pair!.indexOf("=");
+      this.cookies.set(pair!.slice(0, eq), pair!.slice(eq + 1));
+    }
+  }
+
+  async fetch(path: string, init: RequestInit = {}): Promise<Response> {
+    const headers = new Headers(init.headers);
+    if (this.cookies.size) headers.set("cookie", [...this.cookies].map(([k, v]) => `${k}=${v}`).join("; "));
+    const res = await fetch(`${BASE_URL}${path}`, { ...init, headers, redirect: "manual" });
+    this.remember(res);
+    return res;
+  }
+
+  /** NextAuth's credentials flow over HTTP: CSRF token, then the callback. */
+  static async signIn(email: string, password = DEMO_PASSWORD): Promise<Session> {
+    const s = new Session();
+    const csrf = (await (await s.fetch("/api/auth/csrf")).json()) as { csrfToken: string };
+    await s.fetch("/api/auth/callback/credentials", {
+      method: "POST",
+      headers: { "content-type": "application/x-www-form-urlencoded" },
+      body: new URLSearchParams({ csrfToken: csrf.csrfToken, email, password, json: "true" }).toString(),
+    });
+    return s;
+  }
+
+  json(path: string, method: string, body: unknown): Promise<Response> {
+    return this.fetch(path, {
+      method,
+      headers: { "content-type": "application/json" },
+      body: typeof body === "string" ? body : JSON.stringify(body),
+    });
+  }
+}

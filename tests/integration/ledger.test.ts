@@ -1,0 +1,126 @@
+import { afterAll, describe, expect, it } from "vitest";
+import { closeDb } from "@/lib/db";
+import { GENESIS_HASH, hashLedgerEntry } from "@/lib/ledger/hash";
+import { appendLedger, chainKeyFor } from "@/lib/ledger/service";
+import { verifyLedger } from "@/lib/ledger/verify";
+import { actorByEmail, appDb, ownerDb, SEEDED } from "../helpers/db";
+
+afterAll(async () => {
+  await closeDb();
+});
+
+async function appendOne(patientId: number | null, rationale: string) {
+  const actor = await actorByEmail(SEEDED.admin);
+  return appDb().transaction((trx) =>
+    appendLedger(trx, actor, {
+      action: "user.update",
+      entityType: "user",
+      entityId: actor.id,
+      patientId,
+      before: { n: 1 },
+      after: { n: 2 },
+      rationale,
+    }),
+  );
+}
+
+describe("ledger is append-only at the database level", () => {
+  it("refuses UPDATE of a ledger row by the application's database user", async () => {
+    const row = await appendOne(null, "append-only update probe");
+    const refused = await appDb()
+      .raw("UPDATE ledger_entries SET rationale = 'rewritten' WHERE id = ?", [row.id])
+      .then(() => null, (e: { errno?: number; sqlMessage?: string }) => e);
+    expect(refused?.errno).toBe(1644);
+    expect(refused?.sqlMessage).toMatch(/append-only/);
+    const stored = (await appDb()("ledger_entries").where({ id: row.id }).first("rationale")) as { rationale: string };
+    expect(stored.rationale).toBe("append-only update probe");
+  });
+
+  it("refuses DELETE of a ledger row by the application's database user", async () => {
+    const row = await appendOne(null, "append-only delete probe");
+    await expect(appDb().raw("DELETE FROM ledger_entries WHERE id = ?", [row.id])).rejects.toMatchObject({
+      errno: 1644,
+    });
+    expect(await appDb()("ledger_entries").where({ id: row.id }).first("id")).toBeDefined();
+  });
+
+  it("refuses TRUNCATE and DROP to the application's database user (no DDL rights)", async () => {
+    const refused = await appDb()
+      .raw("TRUNCATE TABLE ledger_entries")
+      .then(() => null, (e: { code?: string }) => e);
+    expect(refused?.code).toMatch(/ACCESS_DENIED/);
+    await expect(appDb().raw("DROP TRIGGER ledger_entries_no_update")).rejects.toBeDefined();
+  });
+
+  it("refuses UPDATE even to the owner account (the trigger, not just grants)", async () => {
+    const row = await appendOne(null, "owner probe");
+    const owner = ownerDb();
+    try {
+      await expect(
+        owner.raw("UPDATE ledger_entries SET rationale = 'x' WHERE id = ?", [row.id]),
+      ).rejects.toMatchObject({ errno: 1644 });
+    } finally {
+      await owner.destroy();
+    }
+  });
+});
+
+describe("ledger hash chain", () => {
+  it("links each row to the previous row of its chain and verifies", async () => {
+    const first = await appendOne(1, "chain a");
+    const second = await appendOne(1, "chain b");
+    expect(second.chainKey).toBe(chainKeyFor({ patientId: 1 }));
+    expect(second.chainSeq).toBe(first.chainSeq + 1);
+    const stored = (await appDb()("ledger_entries").where({ id: second.id }).first("prev_hash")) as {
+      prev_hash: string;
+    };
+    expect(stored.prev_hash).toBe(first.hash);
+    const result = await verifyLedger(appDb());
+    expect(result).toMatchObject({ ok: true, firstBroken: null });
+    expect(result.checked).toBeGreaterThanOrEqual(2);
+  });
+
+  it("keeps every chain intact under concurrent writers on the same and different patients", async () => {
+    await Promise.all(
+      Array.from({ length: 24 }, (_, i) => appendOne(i % 3 === 0 ? 2 : 3 + (i % 5), `concurrent ${i}`)),
+    );
+    expect((await verifyLedger(appDb())).ok).toBe(true);
+  });
+
+  it("reports the first broken link when a chain head no longer matches its rows", async () => {
+    const row = await appendOne(4, "head tamper probe");
+    // The head table is writable (it must be, to advance); tampering with it is caught.
+    await appDb()("ledger_chains").where({ chain_key: row.chainKey }).update({ last_hash: GENESIS_HASH });
+    try {
+      const result = await verifyLedger(appDb());
+      expect(result.ok).toBe(false);
+      expect(result.firstBroken).toMatchObject({ chainKey: row.chainKey });
+    } finally {
+      await appDb()("ledger_chains").where({ chain_key: row.chainKey }).update({ last_hash: row.hash });
+    }
+    expect((await verifyLedger(appDb())).ok).toBe(true);
+  });
+
+  it("a stored row's hash covers its content (recomputing from the row reproduces it)", async () => {
+    const row = await appendOne(5, "recompute probe");
+    const r = (await appDb()("ledger_entries").where({ id: row.id }).first()) as Record<string, unknown>;
+    const fields = {
+      chainKey: r.chain_key as string,
+      chainSeq: Number(r.chain_seq),
+      prevHash: r.prev_hash as string,
+      actorUserId: r.actor_user_id as number,
+      actorRole: r.actor_role as string,
+      occurredAt: r.occurred_at as Date,
+      action: r.action as string,
+      entityType: r.entity_type as string,
+      entityId: r.entity_id as string,
+      patientId: r.patient_id as number,
+      unitId: r.unit_id as number | null,
+      beforeJson: r.before_json as string,
+      afterJson: r.after_json as string,
+      rationale: r.rationale as string,
+    };
+    expect(hashLedgerEntry(fields)).toBe(r.hash);
+    expect(hashLedgerEntry({ ...fields, rationale: "recompute probe!" })).not.toBe(r.hash);
+  });
+});
