@@ -19,7 +19,7 @@ export E2E_BASE_URL="http://localhost:$E2E_PORT"
 SERVER_PID=""
 
 cleanup() {
-  [ -n "$SERVER_PID" ] && kill "$SERVER_PID" 2>/dev/null
+  if [ -n "$SERVER_PID" ]; then kill "$SERVER_PID" 2>/dev/null; wait "$SERVER_PID" 2>/dev/null; fi
   bash db/scripts/mariadb.sh drop-db "$TEST_DB" >/dev/null 2>&1
 }
 trap cleanup EXIT
@@ -49,7 +49,8 @@ vitest_project integration --project integration
 if build_is_stale; then check build npx next build; fi
 if [ -f .next/BUILD_ID ]; then
   say "Starting the app for end-to-end tests on $E2E_BASE_URL"
-  NEXTAUTH_URL="$E2E_BASE_URL" npx next start -H 127.0.0.1 -p "$E2E_PORT" > "$RESULTS/server.log" 2>&1 &
+  # The next binary itself (not npx), so the PID we stop is the server.
+  NEXTAUTH_URL="$E2E_BASE_URL" node_modules/.bin/next start -H 127.0.0.1 -p "$E2E_PORT" > "$RESULTS/server.log" 2>&1 &
   SERVER_PID=$!
   for _ in $(seq 1 100); do curl -sf -o /dev/null "$E2E_BASE_URL/sign-in" && break; sleep 0.2; done
   vitest_project e2e --project e2e

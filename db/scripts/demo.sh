@@ -31,6 +31,6 @@ fi
 npx tsx db/scripts/print-sign-ins.ts "$NEXTAUTH_URL"
 echo "Stop the server with Ctrl-C; stop the database with: npm run db:stop"
 mkdir -p .run
-npx next start -H 127.0.0.1 -p "$PORT" &
+node_modules/.bin/next start -H 127.0.0.1 -p "$PORT" &
 echo $! > .run/next.pid
 wait $!

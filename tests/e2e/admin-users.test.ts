@@ -57,6 +57,7 @@ describe("admin manages users", () => {
       expect(await page.evaluate(() => document.documentElement.dataset.theme)).toBe("night");
       await page.screenshot({ path: `${ARTIFACTS}/admin-users-night.png`, fullPage: true });
       await page.goto(`${BASE_URL}/board`);
+      await page.getByRole("heading", { name: "Board", level: 1 }).waitFor();
       await page.screenshot({ path: `${ARTIFACTS}/board-night.png`, fullPage: true });
     } finally {
       await context.close();

@@ -1,3 +1,5 @@
+import { readFileSync } from "node:fs";
+import { join } from "node:path";
 import { describe, expect, it } from "vitest";
 import { Session } from "../helpers/http";
 
@@ -69,5 +71,53 @@ describe("JSON API guard", () => {
     const admin = await Session.signIn(ADMIN);
     expect((await admin.fetch("/api/v1/users/999999")).status).toBe(404);
     expect((await admin.fetch("/api/v1/users/abc")).status).toBe(400);
+  });
+});
+
+/** The id Next gave a server action in this build (its manifest maps ids to exports). */
+function serverActionId(exportedName: string): string {
+  const manifest = JSON.parse(
+    readFileSync(join(process.cwd(), ".next/server/server-reference-manifest.json"), "utf8"),
+  ) as { node: Record<string, { exportedName?: string }> };
+  const id = Object.entries(manifest.node).find(([, v]) => v.exportedName === exportedName)?.[0];
+  if (!id) throw new Error(`server action ${exportedName} not in the build manifest`);
+  return id;
+}
+
+describe("server actions are guarded like routes", () => {
+  it("refuses a nurse who posts to the admin createUserAction directly, and writes nothing", async () => {
+    const nurse = await Session.signIn(NURSE);
+    const email = `action-probe-${Date.now()}@test.kestrel.example`;
+    const res = await nurse.fetch("/admin/users/new", {
+      method: "POST",
+      headers: {
+        "next-action": serverActionId("createUserAction"),
+        "content-type": "text/plain;charset=UTF-8",
+        accept: "text/x-component",
+      },
+      body: JSON.stringify([{ ...newUserBody(email), role: "admin" }]),
+    });
+    // The action protocol answers 200 and carries the action's typed result.
+    const payload = await res.text();
+    expect(payload).toContain('"ok":false');
+    expect(payload).toContain('"status":403');
+    const admin = await Session.signIn(ADMIN);
+    const list = (await (await admin.fetch("/api/v1/users")).json()) as { users: { email: string }[] };
+    expect(list.users.some((u) => u.email === email)).toBe(false);
+  });
+
+  it("refuses the same action without a session (401 result)", async () => {
+    const res = await new Session().fetch("/admin/users/new", {
+      method: "POST",
+      headers: {
+        "next-action": serverActionId("createUserAction"),
+        "content-type": "text/plain;charset=UTF-8",
+        accept: "text/x-component",
+      },
+      body: JSON.stringify([newUserBody(`anon-action-${Date.now()}@test.kestrel.example`)]),
+    });
+    // The middleware stops it before the action runs: a redirect to sign-in.
+    expect([302, 303, 307]).toContain(res.status);
+    expect(res.headers.get("location")).toMatch(/\/sign-in/);
   });
 });

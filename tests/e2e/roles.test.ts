@@ -32,6 +32,7 @@ describe.each(ROLE_STORIES)("$role", ({ role, email, label, units }) => {
         expect(shown, `${code} section`).toBe((units as readonly string[]).includes(code) ? 1 : 0);
       }
       expect(await page.getByTestId("board-row").count()).toBeGreaterThan(0);
+      await page.screenshot({ path: `${ARTIFACTS}/${role}-board-day.png`, fullPage: true });
 
       const response = await page.goto(`${BASE_URL}/admin/users`);
       if (role === "admin") {
