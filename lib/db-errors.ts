@@ -13,3 +13,8 @@ export function duplicateIndex(error: unknown): string | undefined {
   if (!isDbError(error) || error.code !== "ER_DUP_ENTRY") return undefined;
   return /for key '(?:[^.']+\.)?([^']+)'/.exec(error.sqlMessage ?? "")?.[1];
 }
+
+/** Two writers locked each other out; InnoDB rolled one back. Same meaning as a lost race. */
+export function isLockConflict(error: unknown): boolean {
+  return isDbError(error) && (error.code === "ER_LOCK_DEADLOCK" || error.code === "ER_LOCK_WAIT_TIMEOUT");
+}

@@ -1,4 +1,5 @@
 import { NextResponse } from "next/server";
+import { z } from "zod";
 import { DomainError, fromEngineError } from "./errors";
 
 /** The one JSON error shape of the API. */
@@ -45,3 +46,17 @@ export async function readJson(request: Request, maxBytes = 64 * 1024): Promise<
     throw new DomainError("Request body is not valid JSON.", 400);
   }
 }
+
+/** Reads a JSON object body and folds in an `Idempotency-Key` header, if sent. */
+export async function readWriteBody(request: Request): Promise<Record<string, unknown>> {
+  const body = await readJson(request);
+  if (typeof body !== "object" || body === null || Array.isArray(body)) {
+    throw new DomainError("Request body must be a JSON object.", 400);
+  }
+  const key = request.headers.get("idempotency-key");
+  return key ? { ...(body as Record<string, unknown>), idempotencyKey: key } : (body as Record<string, unknown>);
+}
+
+/** Route params are validated like any other input. */
+export const idParam = (name: string) =>
+  z.object({ [name]: z.coerce.number().int().positive(`${name} must be a positive whole number.`) });

@@ -1,3 +1,4 @@
+import Link from "next/link";
 import { StatusBadge } from "@/components/ui/StatusBadge";
 import type { BoardRow } from "@/lib/board/queries";
 
@@ -27,7 +28,13 @@ export function BoardTable({ rows, now, caption }: { rows: BoardRow[]; now: stri
             <tr key={r.bedId} className="border-b border-border last:border-0" data-testid="board-row">
               <th scope="row" className="px-3 py-2 font-semibold">{r.bedLabel}</th>
               <td className="px-3 py-2">
-                {r.patientInitials} <span className="text-ink-muted">· {r.patientAge} y · {r.sex === "female" ? "F" : "M"}</span>
+                <Link href={`/patients/${r.patientId}`} className="rounded font-medium text-accent hover:underline">
+                  {r.patientInitials}{" "}
+                  <span className="font-normal text-ink-muted">
+                    · {r.patientAge} y · {r.sex === "female" ? "F" : "M"}
+                  </span>
+                  <span className="sr-only">, bed {r.bedLabel}: open the Chart</span>
+                </Link>
               </td>
               <td className="px-3 py-2 tabular">{hoursSince(r.admittedAt, now)} ago</td>
               <td className="px-3 py-2">

@@ -4,9 +4,27 @@ export const LEDGER_ACTIONS = [
   "user.update",
   "user.deactivate",
   "user.reactivate",
+  "order.write",
+  "order.verbal",
+  "order.supersede",
+  "order.cosign",
+  "order.discontinue",
+  "adjustment.record",
+  "reading.chart",
+  "blood_gas.record",
 ] as const;
 
 export type LedgerAction = (typeof LEDGER_ACTIONS)[number];
 
-export const LEDGER_ENTITY_TYPES = ["user", "unit", "bed", "patient", "admission"] as const;
+export const LEDGER_ENTITY_TYPES = [
+  "user",
+  "unit",
+  "bed",
+  "patient",
+  "admission",
+  "order",
+  "adjustment",
+  "reading",
+  "blood_gas",
+] as const;
 export type LedgerEntityType = (typeof LEDGER_ENTITY_TYPES)[number];

@@ -1,0 +1,85 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { notFound } from "next/navigation";
+import { z } from "zod";
+import { BloodGasEvaluator } from "@/components/oxygenation/BloodGasEvaluator";
+import { buttonClasses } from "@/components/ui/Button";
+import { pageActor } from "@/lib/auth/page-guard";
+import { db } from "@/lib/db";
+import { NotFoundError } from "@/lib/errors";
+import { ageInYears } from "@/lib/patients/display";
+import { type ChartPatient, getPatientForActor } from "@/lib/patients/queries";
+
+export const metadata: Metadata = { title: "Chart" };
+
+const paramsSchema = z.object({ patientId: z.coerce.number().int().positive() });
+
+async function loadPatient(...args: Parameters<typeof getPatientForActor>): Promise<ChartPatient> {
+  try {
+    return await getPatientForActor(...args);
+  } catch (error) {
+    // Not admitted, not existing and another unit's patient look the same.
+    if (error instanceof NotFoundError) notFound();
+    throw error;
+  }
+}
+
+function admittedAgo(admittedAt: Date, now: Date): string {
+  const hours = Math.max(0, Math.round((now.getTime() - admittedAt.getTime()) / 3600_000));
+  return hours < 48 ? `${hours} h ago` : `${Math.round(hours / 24)} d ago`;
+}
+
+/** The Chart (first part): who the patient is, where they lie, and blood-gas evaluation. */
+export default async function ChartPage({ params }: { params: Promise<{ patientId: string }> }) {
+  const actor = await pageActor();
+  const parsed = paramsSchema.safeParse(await params);
+  if (!parsed.success) notFound();
+  const patient = await loadPatient(db(), actor, parsed.data.patientId);
+  const now = new Date();
+  const age = ageInYears(patient.birthDate, now);
+  const { bed, unit } = patient.admission;
+  const facts: [string, string][] = [
+    ["MRN", patient.mrn],
+    ["Age", `${age} y`],
+    ["Sex", patient.sex === "female" ? "Female" : "Male"],
+    ["Bed", bed.label],
+    ["Unit", `${unit.name} (${unit.code})`],
+    ["Admitted", admittedAgo(patient.admission.admittedAt, now)],
+  ];
+
+  return (
+    <div className="space-y-6">
+      <header className="flex flex-wrap items-start justify-between gap-3 rounded-card border border-border bg-surface p-4 shadow-card">
+        <div className="space-y-1">
+          <p className="text-xs font-medium uppercase tracking-wide text-ink-muted">Chart</p>
+          <h1 className="text-2xl font-semibold tracking-tight">
+            {patient.givenName} {patient.familyName}
+          </h1>
+          <dl className="flex flex-wrap gap-x-5 gap-y-1 text-sm" data-testid="patient-facts">
+            {facts.map(([term, value]) => (
+              <div key={term} className="flex gap-1.5">
+                <dt className="text-ink-muted">{term}</dt>
+                <dd className="font-medium tabular">{value}</dd>
+              </div>
+            ))}
+          </dl>
+        </div>
+        <Link href="/board" className={buttonClasses("secondary")}>
+          Back to the Board
+        </Link>
+      </header>
+
+      <section aria-labelledby="evaluate-heading" className="space-y-3">
+        <h2 id="evaluate-heading" className="text-lg font-semibold">
+          Evaluate a blood gas
+        </h2>
+        <BloodGasEvaluator
+          pressureUnit={actor.pressureUnit}
+          unitId={unit.id}
+          ageYears={age}
+          unitLabel={`${unit.name} (${unit.altitudeM} m)`}
+        />
+      </section>
+    </div>
+  );
+}

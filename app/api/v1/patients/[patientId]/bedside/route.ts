@@ -1,0 +1,15 @@
+import { NextResponse } from "next/server";
+import { requireRole } from "@/lib/auth/guard";
+import { db } from "@/lib/db";
+import { handleRoute, idParam } from "@/lib/http";
+import { getBedsideContext } from "@/lib/patients/bedside";
+import { parseInput } from "@/lib/validation";
+
+/** Order in effect, applied settings, latest reading and gas, and the engine's proposal. */
+export function GET(_request: Request, { params }: { params: Promise<{ patientId: string }> }) {
+  return handleRoute(async () => {
+    const actor = await requireRole();
+    const { patientId } = parseInput(idParam("patientId"), await params) as { patientId: number };
+    return NextResponse.json(await getBedsideContext(db(), actor, patientId));
+  });
+}

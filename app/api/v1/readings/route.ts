@@ -1,0 +1,15 @@
+import { NextResponse } from "next/server";
+import { requireRole } from "@/lib/auth/guard";
+import { db } from "@/lib/db";
+import { handleRoute, readWriteBody } from "@/lib/http";
+import type { ReadingInput } from "@/lib/readings/schema";
+import { chartReading } from "@/lib/readings/service";
+
+/** Charts an SpO2 reading with the device and oxygen in use. */
+export function POST(request: Request) {
+  return handleRoute(async () => {
+    const actor = await requireRole("physician", "therapist", "nurse");
+    const reading = await chartReading(db(), actor, (await readWriteBody(request)) as ReadingInput);
+    return NextResponse.json({ reading }, { status: 201 });
+  });
+}

@@ -1,0 +1,331 @@
+"use client";
+
+import { zodResolver } from "@hookform/resolvers/zod";
+import { useId } from "react";
+import { useForm, useWatch } from "react-hook-form";
+import useSWRMutation from "swr/mutation";
+import { Button } from "@/components/ui/Button";
+import { EmptyState } from "@/components/ui/EmptyState";
+import { Field, inputClasses } from "@/components/ui/Field";
+import { IconWarning } from "@/components/ui/icons";
+import type { FieldErrors } from "@/lib/errors";
+import type { PressureUnit } from "@/lib/oxygen";
+import type { AssessResponse } from "@/lib/oxygenation/evaluate";
+import {
+  type AssessFormOutput,
+  type AssessFormValues,
+  assessFormSchema,
+  type AssessRequest,
+  assessRequestFromForm,
+  FIELD_LABELS,
+  formFieldOf,
+  HEMOGLOBIN_UNITS,
+  PRESSURE_UNITS,
+  RESPIRATORY_SUPPORTS,
+  SUPPORT_LABELS,
+} from "@/lib/oxygenation/schema";
+import { BasisDisclosure } from "./BasisDisclosure";
+import { formatPressureNumber } from "./format";
+import { OxygenationPanel } from "./OxygenationPanel";
+
+const ASSESS_URL = "/api/v1/oxygenation/assess";
+
+/** A refusal from the JSON API, with the fields it names. */
+class ApiRequestError extends Error {
+  constructor(
+    message: string,
+    readonly status: number,
+    readonly fieldErrors: FieldErrors = {},
+  ) {
+    super(message);
+    this.name = "ApiRequestError";
+  }
+}
+
+function readApiError(body: unknown): { message?: string; fieldErrors?: FieldErrors } {
+  if (typeof body !== "object" || body === null || !("error" in body)) return {};
+  const error = (body as { error: unknown }).error;
+  if (typeof error !== "object" || error === null) return {};
+  const { message, fieldErrors } = error as { message?: unknown; fieldErrors?: unknown };
+  return {
+    message: typeof message === "string" ? message : undefined,
+    fieldErrors: typeof fieldErrors === "object" && fieldErrors !== null ? (fieldErrors as FieldErrors) : undefined,
+  };
+}
+
+async function postAssessment(url: string, { arg }: { arg: AssessRequest }): Promise<AssessResponse> {
+  let response: Response;
+  try {
+    response = await fetch(url, {
+      method: "POST",
+      headers: { "content-type": "application/json" },
+      body: JSON.stringify(arg),
+    });
+  } catch {
+    throw new ApiRequestError("Tidemark could not be reached. Check the connection and try again; your values are kept.", 0);
+  }
+  const body: unknown = await response.json().catch(() => null);
+  if (!response.ok) {
+    const { message, fieldErrors } = readApiError(body);
+    const fallback =
+      response.status === 401 ? "Your session has ended. Sign in again; your values are kept here until you leave." : "The evaluation failed; try again.";
+    throw new ApiRequestError(response.status === 401 ? fallback : (message ?? fallback), response.status, fieldErrors);
+  }
+  return body as AssessResponse;
+}
+
+// Text inputs (no scroll-wheel changes, a decimal comma accepted); empty is "not given".
+function toNumber(value: unknown): number | undefined {
+  if (typeof value === "number") return value;
+  if (typeof value !== "string" || value.trim() === "") return undefined;
+  return Number(value.trim().replace(",", "."));
+}
+const toOptional = (value: unknown): unknown => (value === "" ? undefined : value);
+
+/**
+ * The Chart's "Evaluate a blood gas": a keyboard-complete form over the shared
+ * schema that posts to api/v1/oxygenation/assess and shows the oxygenation
+ * panel. Refusals land beside the fields and what was typed stays.
+ */
+export function BloodGasEvaluator({
+  pressureUnit,
+  unitId,
+  ageYears,
+  unitLabel,
+}: {
+  /** The user's preferred unit: the form starts in it and the panel shows it. */
+  pressureUnit: PressureUnit;
+  unitId: number;
+  ageYears: number;
+  unitLabel: string;
+}) {
+  const id = useId();
+  const {
+    register,
+    control,
+    handleSubmit,
+    setError,
+    formState: { errors },
+  } = useForm<AssessFormValues, unknown, AssessFormOutput>({
+    resolver: zodResolver(assessFormSchema),
+    defaultValues: { pressureUnit, hemoglobinUnit: "g/dL" },
+  });
+  const typedUnit = useWatch({ control, name: "pressureUnit" }) ?? pressureUnit;
+  const { trigger, data, error, isMutating } = useSWRMutation<AssessResponse, ApiRequestError, string, AssessRequest>(
+    ASSESS_URL,
+    postAssessment,
+  );
+
+  const onSubmit = handleSubmit(async (values) => {
+    try {
+      await trigger(assessRequestFromForm(values, { unitId, ageYears }));
+    } catch (thrown) {
+      if (!(thrown instanceof ApiRequestError)) throw thrown;
+      for (const [path, messages] of Object.entries(thrown.fieldErrors)) {
+        const field = formFieldOf(path);
+        if (field) setError(field, { type: "server", message: messages.join(" ") });
+      }
+    }
+  });
+
+  // Errors with a field sit beside it; the rest (e.g. the unit) are listed here.
+  const fieldPaths = error ? Object.keys(error.fieldErrors) : [];
+  const unplaced = error ? Object.entries(error.fieldErrors).filter(([path]) => !formFieldOf(path)) : [];
+  const summary =
+    error && fieldPaths.some((path) => formFieldOf(path))
+      ? "Some values were refused: see the message beside each field. Nothing you typed was lost."
+      : error?.message;
+
+  const number = (name: keyof AssessFormValues) => register(name, { setValueAs: toNumber });
+  const numberInput = (name: keyof AssessFormValues, describedBy: string | undefined, invalid: boolean) => (
+    <input
+      id={`${id}-${name}`}
+      type="text"
+      inputMode="decimal"
+      autoComplete="off"
+      className={`${inputClasses} tabular`}
+      aria-invalid={invalid}
+      aria-describedby={describedBy}
+      {...number(name)}
+    />
+  );
+
+  return (
+    <div className="space-y-4">
+      <form
+        onSubmit={onSubmit}
+        noValidate
+        aria-describedby={`${id}-form-note`}
+        className="space-y-3 rounded-card border border-border bg-surface p-4 shadow-card"
+      >
+        <p id={`${id}-form-note`} className="text-sm text-ink-muted">
+          Type a blood gas to see its indices and a forecast. Nothing typed here is saved. Barometric pressure comes
+          from the altitude of {unitLabel} unless you give one.
+        </p>
+        <fieldset className="grid grid-cols-2 gap-x-3 sm:grid-cols-3 lg:grid-cols-6">
+          <legend className="mb-1 text-sm font-semibold">Blood gas</legend>
+          <Field id={`${id}-pressureUnit`} label="Pressures in" error={errors.pressureUnit?.message}>
+            {(d, invalid) => (
+              <select
+                id={`${id}-pressureUnit`}
+                className={inputClasses}
+                aria-invalid={invalid}
+                aria-describedby={d}
+                {...register("pressureUnit")}
+              >
+                {PRESSURE_UNITS.map((u) => (
+                  <option key={u} value={u}>
+                    {u}
+                  </option>
+                ))}
+              </select>
+            )}
+          </Field>
+          <Field id={`${id}-fio2Percent`} label="FiO2 (%)" error={errors.fio2Percent?.message}>
+            {(d, invalid) => numberInput("fio2Percent", d, invalid)}
+          </Field>
+          <Field id={`${id}-pao2`} label={`PaO2 (${typedUnit})`} error={errors.pao2?.message}>
+            {(d, invalid) => numberInput("pao2", d, invalid)}
+          </Field>
+          <Field id={`${id}-paco2`} label={`PaCO2 (${typedUnit})`} error={errors.paco2?.message}>
+            {(d, invalid) => numberInput("paco2", d, invalid)}
+          </Field>
+          <Field id={`${id}-hemoglobin`} label="Haemoglobin" hint="Optional" error={errors.hemoglobin?.message}>
+            {(d, invalid) => numberInput("hemoglobin", d, invalid)}
+          </Field>
+          <Field id={`${id}-hemoglobinUnit`} label="Haemoglobin unit" error={errors.hemoglobinUnit?.message}>
+            {(d, invalid) => (
+              <select
+                id={`${id}-hemoglobinUnit`}
+                className={inputClasses}
+                aria-invalid={invalid}
+                aria-describedby={d}
+                {...register("hemoglobinUnit")}
+              >
+                {HEMOGLOBIN_UNITS.map((u) => (
+                  <option key={u} value={u}>
+                    {u}
+                  </option>
+                ))}
+              </select>
+            )}
+          </Field>
+        </fieldset>
+
+        <fieldset className="grid grid-cols-2 gap-x-3 sm:grid-cols-3 lg:grid-cols-6">
+          <legend className="mb-1 text-sm font-semibold">Oximetry and support at sampling (optional)</legend>
+          <Field id={`${id}-spo2`} label="SpO2 (%)" error={errors.spo2?.message}>
+            {(d, invalid) => numberInput("spo2", d, invalid)}
+          </Field>
+          <Field id={`${id}-sao2`} label="SaO2 (%)" hint="Co-oximetry" error={errors.sao2?.message}>
+            {(d, invalid) => numberInput("sao2", d, invalid)}
+          </Field>
+          <Field id={`${id}-support`} label="Support" error={errors.support?.message}>
+            {(d, invalid) => (
+              <select
+                id={`${id}-support`}
+                className={inputClasses}
+                aria-invalid={invalid}
+                aria-describedby={d}
+                {...register("support", { setValueAs: toOptional })}
+              >
+                <option value="">Not stated</option>
+                {RESPIRATORY_SUPPORTS.map((s) => (
+                  <option key={s} value={s}>
+                    {SUPPORT_LABELS[s]}
+                  </option>
+                ))}
+              </select>
+            )}
+          </Field>
+          <Field id={`${id}-peep`} label="PEEP/CPAP (cmH2O)" error={errors.peep?.message}>
+            {(d, invalid) => numberInput("peep", d, invalid)}
+          </Field>
+          <Field id={`${id}-flow`} label="HFNC flow (L/min)" error={errors.flow?.message}>
+            {(d, invalid) => numberInput("flow", d, invalid)}
+          </Field>
+          <Field id={`${id}-respiratoryRate`} label="Resp. rate (/min)" error={errors.respiratoryRate?.message}>
+            {(d, invalid) => numberInput("respiratoryRate", d, invalid)}
+          </Field>
+          <Field
+            id={`${id}-meanAirwayPressure`}
+            label="Mean airway pressure (cmH2O)"
+            error={errors.meanAirwayPressure?.message}
+          >
+            {(d, invalid) => numberInput("meanAirwayPressure", d, invalid)}
+          </Field>
+          <Field
+            id={`${id}-barometricPressure`}
+            label={`Barometric pressure (${typedUnit})`}
+            hint="Empty: from the unit's altitude"
+            error={errors.barometricPressure?.message}
+          >
+            {(d, invalid) => numberInput("barometricPressure", d, invalid)}
+          </Field>
+        </fieldset>
+
+        <div className="flex flex-wrap items-center gap-3">
+          <Button type="submit" disabled={isMutating}>
+            {isMutating ? "Evaluating…" : "Evaluate"}
+          </Button>
+          <div role="status" aria-live="polite" className="text-sm">
+            {isMutating ? <span className="text-ink-muted">Evaluating the blood gas…</span> : null}
+            {error ? (
+              <span className="inline-flex items-start gap-1.5 font-medium text-below">
+                <IconWarning className="mt-0.5 shrink-0" />
+                <span>
+                  {summary}
+                  {unplaced.map(([path, messages]) => (
+                    <span key={path} className="block font-normal">
+                      {FIELD_LABELS[path] ?? (path === "_form" ? "Request" : path)}: {messages.join(" ")}
+                    </span>
+                  ))}
+                </span>
+              </span>
+            ) : null}
+            {data && !error && !isMutating ? <span className="text-in-band">Evaluated; the results are below.</span> : null}
+          </div>
+        </div>
+      </form>
+
+      <section aria-label="Evaluation" aria-busy={isMutating} className="space-y-3">
+        {data && !error ? (
+          <div className={isMutating ? "opacity-60 transition-opacity" : undefined}>
+            <div className="flex flex-wrap items-baseline gap-x-4 gap-y-1 text-xs text-ink-muted">
+              <p>
+                Barometric pressure used:{" "}
+                <span className="tabular text-ink">
+                  {formatPressureNumber(data.barometricPressure.value, pressureUnit)} {pressureUnit}
+                </span>
+              </p>
+              <BasisDisclosure basis={data.barometricPressure.basis} pressureUnit={pressureUnit} className="" />
+              <p>Engine {data.engineVersion}</p>
+            </div>
+            <div className="mt-3">
+              <OxygenationPanel
+                key={JSON.stringify(data.input)}
+                assessment={data.assessment}
+                input={data.input}
+                pressureUnit={pressureUnit}
+              />
+            </div>
+          </div>
+        ) : isMutating ? (
+          <div className="space-y-3" aria-hidden>
+            <div className="grid grid-cols-2 gap-3 lg:grid-cols-4">
+              {Array.from({ length: 8 }, (_, i) => (
+                <div key={i} className="h-24 animate-pulse rounded-card bg-surface-muted" />
+              ))}
+            </div>
+            <div className="h-64 animate-pulse rounded-card bg-surface-muted" />
+          </div>
+        ) : (
+          <EmptyState title="No blood gases recorded yet">
+            Recording blood gases against this Chart comes with oxygen orders. Until then, type one above to see its
+            indices, the ARDS oxygenation criterion and a forecast for a proposed FiO2, each with its basis.
+          </EmptyState>
+        )}
+      </section>
+    </div>
+  );
+}

@@ -1,0 +1,55 @@
+import { z } from "zod";
+import { idempotencyKeySchema } from "../orders/schema";
+
+export const ADJUSTMENT_REASONS = [
+  { value: "below_band", label: "SpO2 below the target band" },
+  { value: "above_band", label: "SpO2 above the target band on oxygen" },
+  { value: "wean", label: "Weaning per step table" },
+  { value: "blood_gas", label: "Blood gas result" },
+  { value: "work_of_breathing", label: "Work of breathing" },
+  { value: "procedure", label: "Procedure, transfer or suction" },
+  { value: "other", label: "Other (explain in the rationale)" },
+] as const;
+export type AdjustmentReason = (typeof ADJUSTMENT_REASONS)[number]["value"];
+const reasonValues = ADJUSTMENT_REASONS.map((r) => r.value) as [
+  AdjustmentReason,
+  ...AdjustmentReason[],
+];
+
+const optional = (schema: z.ZodNumber) =>
+  z.preprocess(
+    (v) => (v === "" || v === null || (typeof v === "number" && Number.isNaN(v)) ? undefined : v),
+    schema.optional(),
+  );
+
+/** One applied settings change at the bedside. */
+export const adjustmentSchema = z.object({
+  patientId: z.number().int().positive(),
+  /** The bedside settings version the change starts from (conflict guard). */
+  settingsVersion: z.number().int().positive(),
+  toFio2: z
+    .number({ error: "New FiO2 must be a number between 0.21 and 1.00." })
+    .min(0.21, "New FiO2 must be between 0.21 and 1.00.")
+    .max(1, "New FiO2 must be between 0.21 and 1.00."),
+  toPeep: optional(
+    z
+      .number()
+      .min(0, "New PEEP must be between 0 and 30 cmH2O.")
+      .max(30, "New PEEP must be between 0 and 30 cmH2O."),
+  ),
+  toFlow: optional(
+    z
+      .number()
+      .min(0.5, "New flow must be between 0.5 and 70 L/min.")
+      .max(70, "New flow must be between 0.5 and 70 L/min."),
+  ),
+  reason: z.enum(reasonValues, { error: "Choose a reason from the list." }),
+  rationale: z
+    .string()
+    .trim()
+    .min(3, "Rationale is required (3 to 1000 characters).")
+    .max(1000, "Rationale must be at most 1000 characters."),
+  appliedAt: z.coerce.date({ error: "Time applied must be a date and time." }),
+  idempotencyKey: idempotencyKeySchema,
+});
+export type AdjustmentInput = z.input<typeof adjustmentSchema>;

@@ -1,0 +1,122 @@
+/** Oxygen delivery devices an order can prescribe (DESIGN.md §2, "Order"). */
+export const DEVICES = [
+  "room_air",
+  "nasal_cannula",
+  "simple_mask",
+  "venturi_mask",
+  "reservoir_mask",
+  "hfnc",
+  "niv",
+  "invasive",
+] as const;
+export type Device = (typeof DEVICES)[number];
+
+type Range = { min: number; max: number };
+
+export type DeviceProfile = {
+  label: string;
+  /** Low-flow devices: the delivered FiO2 varies with breathing, so it is an estimate. */
+  lowFlow: boolean;
+  /** Which settings the order limits and the bedside team titrates. */
+  uses: { fio2: "set" | "estimated" | "fixed"; peep: boolean; flow: boolean };
+  /** What the device can physically deliver; limits outside this are refused. */
+  fio2: Range;
+  peep?: Range;
+  flow?: Range;
+};
+
+// Flow and FiO2 ranges per device are common practice (typical manufacturer
+// and ward ranges), not a single published source.
+export const DEVICE_PROFILES: Record<Device, DeviceProfile> = {
+  room_air: {
+    label: "Room air",
+    lowFlow: true,
+    uses: { fio2: "fixed", peep: false, flow: false },
+    fio2: { min: 0.21, max: 0.21 },
+  },
+  nasal_cannula: {
+    label: "Nasal cannula",
+    lowFlow: true,
+    uses: { fio2: "estimated", peep: false, flow: true },
+    fio2: { min: 0.21, max: 0.45 },
+    flow: { min: 0.5, max: 6 },
+  },
+  simple_mask: {
+    label: "Simple face mask",
+    lowFlow: true,
+    uses: { fio2: "estimated", peep: false, flow: true },
+    fio2: { min: 0.35, max: 0.6 },
+    flow: { min: 5, max: 10 },
+  },
+  venturi_mask: {
+    label: "Venturi mask",
+    lowFlow: false,
+    uses: { fio2: "set", peep: false, flow: false },
+    fio2: { min: 0.24, max: 0.6 },
+  },
+  reservoir_mask: {
+    label: "Reservoir (non-rebreather) mask",
+    lowFlow: true,
+    uses: { fio2: "estimated", peep: false, flow: true },
+    fio2: { min: 0.6, max: 0.9 },
+    flow: { min: 10, max: 15 },
+  },
+  hfnc: {
+    label: "High-flow nasal cannula",
+    lowFlow: false,
+    uses: { fio2: "set", peep: false, flow: true },
+    fio2: { min: 0.21, max: 1 },
+    flow: { min: 10, max: 70 },
+  },
+  niv: {
+    label: "NIV / CPAP",
+    lowFlow: false,
+    uses: { fio2: "set", peep: true, flow: false },
+    fio2: { min: 0.21, max: 1 },
+    peep: { min: 3, max: 20 },
+  },
+  invasive: {
+    label: "Invasive ventilation",
+    lowFlow: false,
+    uses: { fio2: "set", peep: true, flow: false },
+    fio2: { min: 0.21, max: 1 },
+    peep: { min: 0, max: 30 },
+  },
+};
+
+/**
+ * Estimated FiO2 for a low-flow device at a given flow. Rules of thumb of the
+ * trade (common practice, recalled from memory): nasal cannula adds about 4 %
+ * per L/min above air; a simple mask gives about 35–55 % at 5–10 L/min; a
+ * reservoir mask about 60–90 % at 10–15 L/min.
+ */
+export function estimateFio2(device: Device, flowLMin: number | null | undefined): number | null {
+  const clamp = (v: number, p: DeviceProfile) => Math.min(p.fio2.max, Math.max(p.fio2.min, v));
+  const round = (v: number) => Math.round(v * 100) / 100;
+  const profile = DEVICE_PROFILES[device];
+  switch (device) {
+    case "room_air":
+      return 0.21;
+    case "nasal_cannula":
+      return flowLMin == null ? null : round(clamp(0.21 + 0.04 * flowLMin, profile));
+    case "simple_mask":
+      return flowLMin == null ? null : round(clamp(0.35 + 0.04 * (flowLMin - 5), profile));
+    case "reservoir_mask":
+      return flowLMin == null ? null : round(clamp(0.6 + 0.06 * (flowLMin - 10), profile));
+    case "venturi_mask":
+    case "hfnc":
+    case "niv":
+    case "invasive":
+      return null;
+  }
+}
+
+/** SpO2 target bands commonly prescribed (BTS guideline for oxygen use in adults, 2017). */
+export const TARGET_BAND_PRESETS = [
+  { lower: 94, upper: 98, label: "94–98 % (most acutely ill adults)" },
+  { lower: 88, upper: 92, label: "88–92 % (risk of hypercapnic respiratory failure)" },
+  { lower: 92, upper: 96, label: "92–96 %" },
+] as const;
+
+export const SIGNATURE_MEANING =
+  "I am the prescriber of this oxygen order and I have reviewed it for this patient.";

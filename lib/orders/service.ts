@@ -1,0 +1,334 @@
+import type { Knex } from "knex";
+import type { Actor } from "../auth/actor";
+import { assertRole } from "../auth/actor-queries";
+import { confirmPassword } from "../auth/reauth";
+import { ConflictError, NotFoundError, ValidationError } from "../errors";
+import { once } from "../idempotency";
+import { appendLedger } from "../ledger/service";
+import { duplicateIndex, isLockConflict } from "../db-errors";
+import { findOpenAdmission, type OpenAdmission } from "../patients/access";
+import { parseInput } from "../validation";
+import { DEVICE_PROFILES, estimateFio2, SIGNATURE_MEANING } from "./devices";
+import { getCurrentOrder, getOrder, type OrderView } from "./queries";
+import {
+  cosignSchema,
+  discontinueSchema,
+  orderInputSchema,
+  type CosignInput,
+  type DiscontinueInput,
+  type OrderInput,
+} from "./schema";
+
+type ParsedOrder = ReturnType<typeof orderInputSchema.parse>;
+
+/**
+ * Writes an order. A physician's written order is signed (password re-asked)
+ * and takes effect at once; a nurse's or therapist's verbal or telephone order,
+ * read back, takes effect marked "awaiting co-sign" until a physician co-signs.
+ * The order in effect before is superseded in the same transaction, and the
+ * bedside settings start from the order's starting settings.
+ */
+export async function writeOrder(knex: Knex, actor: Actor, raw: OrderInput): Promise<OrderView> {
+  assertRole(actor, ["physician", "therapist", "nurse"]);
+  const input = parseInput(orderInputSchema, raw);
+  if (actor.role === "physician" && input.entryMode !== "written") {
+    throw new ValidationError("Physicians write and sign orders themselves.", {
+      entryMode: [
+        "Physicians write orders directly; verbal and telephone entry is for nurses and therapists.",
+      ],
+    });
+  }
+  if (actor.role !== "physician" && input.entryMode === "written") {
+    throw new ValidationError("Only a physician can write and sign an order.", {
+      entryMode: ["Enter it as a verbal or telephone order from the physician, with read-back."],
+    });
+  }
+  const admission = await findOpenAdmission(knex, actor, input.patientId);
+  if (input.entryMode === "written") {
+    await confirmPassword(knex, actor.id, input.password);
+  } else {
+    const prescriber = (await knex("users as u")
+      .join("user_units as uu", "uu.user_id", "u.id")
+      .where({
+        "u.id": input.prescriberId,
+        "u.role": "physician",
+        "u.active": true,
+        "uu.unit_id": admission.unitId,
+      })
+      .first("u.id")) as { id: number } | undefined;
+    if (!prescriber) {
+      throw new ValidationError("Some fields need attention.", {
+        prescriberId: ["Choose an active physician of this patient's unit."],
+      });
+    }
+  }
+  if (input.stepTableId !== undefined) {
+    const table = (await knex("step_tables")
+      .where({ id: input.stepTableId, active: true })
+      .andWhere((q) => {
+        void q.whereNull("unit_id").orWhere("unit_id", admission.unitId);
+      })
+      .first("id")) as { id: number } | undefined;
+    if (!table)
+      throw new ValidationError("Some fields need attention.", {
+        stepTableId: ["Choose a step table from this unit's library."],
+      });
+  }
+
+  return once(knex, actor.id, input.idempotencyKey, "order.write", async (trx) => {
+    // Two writers who both saw "no order in effect" meet at the unique index.
+    return writeOrderInTransaction(trx, actor, input, admission).catch((error: unknown) => {
+      if (duplicateIndex(error) === "orders_current_patient_id_unique" || isLockConflict(error)) {
+        throw new ConflictError(
+          "Another order was just written for this patient. Review it, then write yours again if it is still needed.",
+        );
+      }
+      throw error;
+    });
+  });
+}
+
+async function writeOrderInTransaction(
+  trx: Knex.Transaction,
+  actor: Actor,
+  input: ParsedOrder,
+  admission: OpenAdmission,
+): Promise<OrderView> {
+  const now = new Date();
+  const current = (await trx("orders")
+    .where({ current_patient_id: input.patientId })
+    .forUpdate()
+    .first("id", "version", "status")) as
+    { id: number; version: number; status: string } | undefined;
+  if ((current?.id ?? null) !== input.supersedesOrderId) {
+    const fresh = await getCurrentOrder(trx, input.patientId);
+    throw new ConflictError(
+      fresh
+        ? `Another order (#${fresh.id}, by ${fresh.prescriber.name}) is now in effect for this patient. Review it, then write yours again if it is still needed.`
+        : "The order you meant to replace is no longer in effect. Review the patient's current state, then write again.",
+    );
+  }
+  const written = input.entryMode === "written";
+  // The old order leaves effect first: one order in effect per patient is a unique index.
+  const before = current ? await getOrder(trx, current.id) : null;
+  if (current) {
+    await trx("orders")
+      .where({ id: current.id })
+      .update({ status: "superseded", version: current.version + 1, updated_at: now });
+  }
+  const [orderId] = await trx("orders").insert({
+    patient_id: input.patientId,
+    admission_id: admission.admissionId,
+    unit_id: admission.unitId,
+    status: written ? "active" : "awaiting_cosign",
+    device: input.device,
+    spo2_lower_pct: input.spo2Lower,
+    spo2_upper_pct: input.spo2Upper,
+    pao2_lower_mmhg: input.pao2Lower ?? null,
+    pao2_upper_mmhg: input.pao2Upper ?? null,
+    fio2_min: input.fio2Min,
+    fio2_max: input.fio2Max,
+    peep_min_cmh2o: input.peepMin ?? null,
+    peep_max_cmh2o: input.peepMax ?? null,
+    flow_min_l_min: input.flowMin ?? null,
+    flow_max_l_min: input.flowMax ?? null,
+    initial_fio2: input.initialFio2,
+    initial_peep_cmh2o: input.initialPeep ?? null,
+    initial_flow_l_min: input.initialFlow ?? null,
+    step_table_id: input.stepTableId ?? null,
+    reassess_minutes: input.reassessMinutes,
+    rationale: input.rationale,
+    entry_mode: input.entryMode,
+    read_back_confirmed: !written,
+    entered_by: actor.id,
+    prescriber_id: written ? actor.id : input.prescriberId,
+    signed_by: written ? actor.id : null,
+    signed_at: written ? now : null,
+    signature_meaning: written ? SIGNATURE_MEANING : null,
+  });
+  const newId = Number(orderId);
+  if (current) {
+    await trx("orders").where({ id: current.id }).update({ superseded_by_order_id: newId });
+    await appendLedger(
+      trx,
+      actor,
+      {
+        action: "order.supersede",
+        entityType: "order",
+        entityId: current.id,
+        patientId: input.patientId,
+        unitId: admission.unitId,
+        before,
+        after: await getOrder(trx, current.id),
+        rationale: `Superseded by order #${newId}`,
+      },
+      now,
+    );
+  }
+  const order = (await getOrder(trx, newId))!;
+  const settings = await applyStartingSettings(trx, order, now);
+  await appendLedger(
+    trx,
+    actor,
+    {
+      action: written ? "order.write" : "order.verbal",
+      entityType: "order",
+      entityId: newId,
+      patientId: input.patientId,
+      unitId: admission.unitId,
+      after: { order, bedsideSettings: settings },
+      rationale: input.rationale,
+    },
+    now,
+  );
+  return order;
+}
+
+async function applyStartingSettings(trx: Knex.Transaction, order: OrderView, now: Date) {
+  const profile = DEVICE_PROFILES[order.device];
+  const estimated = profile.uses.fio2 === "estimated";
+  const settings = {
+    device: order.device,
+    fio2: estimated
+      ? (estimateFio2(order.device, order.initial.flow) ?? order.initial.fio2)
+      : order.initial.fio2,
+    fio2_estimated: estimated,
+    peep_cmh2o: order.initial.peep,
+    flow_l_min: order.initial.flow,
+  };
+  const existing = (await trx("bedside_settings")
+    .where({ admission_id: order.admissionId })
+    .forUpdate()
+    .first("version")) as { version: number } | undefined;
+  if (existing) {
+    await trx("bedside_settings")
+      .where({ admission_id: order.admissionId })
+      .update({
+        ...settings,
+        version: existing.version + 1,
+        updated_at: now,
+        last_reassessed_at: now,
+      });
+  } else {
+    await trx("bedside_settings").insert({
+      admission_id: order.admissionId,
+      patient_id: order.patientId,
+      ...settings,
+      updated_at: now,
+      last_reassessed_at: now,
+    });
+  }
+  return settings;
+}
+
+async function lockOrder(
+  trx: Knex.Transaction,
+  actor: Actor,
+  orderId: number,
+  version: number,
+): Promise<OrderView> {
+  const row = (await trx("orders")
+    .where({ id: orderId })
+    .forUpdate()
+    .first("id", "unit_id", "version")) as
+    { id: number; unit_id: number; version: number } | undefined;
+  if (!row || !actor.unitIds.includes(row.unit_id))
+    throw new NotFoundError("No order with that id on your units.");
+  const order = (await getOrder(trx, orderId))!;
+  if (row.version !== version) {
+    throw new ConflictError(
+      `Order #${orderId} was changed by someone else (it is now ${order.status.replace("_", " ")}). Reload it and try again.`,
+    );
+  }
+  return order;
+}
+
+/** A physician co-signs a verbal or telephone order; it becomes active. */
+export async function cosignOrder(knex: Knex, actor: Actor, raw: CosignInput): Promise<OrderView> {
+  assertRole(actor, ["physician"]);
+  const input = parseInput(cosignSchema, raw);
+  await confirmPassword(knex, actor.id, input.password);
+  return knex.transaction(async (trx) => {
+    const before = await lockOrder(trx, actor, input.orderId, input.version);
+    if (before.status !== "awaiting_cosign") {
+      throw new ConflictError(
+        `Order #${before.id} is ${before.status.replace("_", " ")}, not awaiting co-signature.`,
+      );
+    }
+    const now = new Date();
+    await trx("orders")
+      .where({ id: before.id })
+      .update({
+        status: "active",
+        cosigned_by: actor.id,
+        cosigned_at: now,
+        signed_by: actor.id,
+        signed_at: now,
+        signature_meaning: SIGNATURE_MEANING,
+        version: before.version + 1,
+        updated_at: now,
+      });
+    const after = (await getOrder(trx, before.id))!;
+    await appendLedger(
+      trx,
+      actor,
+      {
+        action: "order.cosign",
+        entityType: "order",
+        entityId: before.id,
+        patientId: before.patientId,
+        unitId: before.unitId,
+        before,
+        after,
+        rationale: `Co-signed ${before.entryMode} order entered by ${before.enteredBy.name}`,
+      },
+      now,
+    );
+    return after;
+  });
+}
+
+/** A physician discontinues the order in effect; a reason is required. */
+export async function discontinueOrder(
+  knex: Knex,
+  actor: Actor,
+  raw: DiscontinueInput,
+): Promise<OrderView> {
+  assertRole(actor, ["physician"]);
+  const input = parseInput(discontinueSchema, raw);
+  await confirmPassword(knex, actor.id, input.password);
+  return knex.transaction(async (trx) => {
+    const before = await lockOrder(trx, actor, input.orderId, input.version);
+    if (before.status !== "active" && before.status !== "awaiting_cosign") {
+      throw new ConflictError(`Order #${before.id} is already ${before.status.replace("_", " ")}.`);
+    }
+    const now = new Date();
+    await trx("orders")
+      .where({ id: before.id })
+      .update({
+        status: "discontinued",
+        discontinued_by: actor.id,
+        discontinued_at: now,
+        discontinue_reason: input.reason,
+        version: before.version + 1,
+        updated_at: now,
+      });
+    const after = (await getOrder(trx, before.id))!;
+    await appendLedger(
+      trx,
+      actor,
+      {
+        action: "order.discontinue",
+        entityType: "order",
+        entityId: before.id,
+        patientId: before.patientId,
+        unitId: before.unitId,
+        before,
+        after,
+        rationale: input.reason,
+      },
+      now,
+    );
+    return after;
+  });
+}

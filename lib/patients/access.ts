@@ -1,0 +1,52 @@
+import type { Knex } from "knex";
+import type { Actor } from "../auth/actor";
+import { NotFoundError } from "../errors";
+
+export type OpenAdmission = {
+  admissionId: number;
+  patientId: number;
+  bedId: number;
+  unitId: number;
+  altitudeM: number;
+};
+
+/**
+ * The patient's open admission, if it is on one of the actor's units. Any
+ * other case answers "not found", so another unit's patients do not leak.
+ */
+export async function findOpenAdmission(
+  knex: Knex,
+  actor: Actor,
+  patientId: number,
+): Promise<OpenAdmission> {
+  const row = (await knex("admissions as a")
+    .join("beds as b", "b.id", "a.bed_id")
+    .join("units as u", "u.id", "b.unit_id")
+    .where("a.patient_id", patientId)
+    .whereNull("a.discharged_at")
+    .first(
+      "a.id as admission_id",
+      "a.patient_id",
+      "b.id as bed_id",
+      "u.id as unit_id",
+      "u.altitude_m",
+    )) as
+    | {
+        admission_id: number;
+        patient_id: number;
+        bed_id: number;
+        unit_id: number;
+        altitude_m: number;
+      }
+    | undefined;
+  if (!row || !actor.unitIds.includes(row.unit_id)) {
+    throw new NotFoundError("No admitted patient with that id on your units.");
+  }
+  return {
+    admissionId: row.admission_id,
+    patientId: row.patient_id,
+    bedId: row.bed_id,
+    unitId: row.unit_id,
+    altitudeM: row.altitude_m,
+  };
+}

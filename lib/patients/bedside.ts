@@ -1,0 +1,240 @@
+import type { Knex } from "knex";
+import type { Actor } from "../auth/actor";
+import { getCurrentOrder, type OrderView } from "../orders/queries";
+import {
+  barometricPressureAtAltitude,
+  proposeStep,
+  type OrderStep,
+  type Proposal,
+  type SettingValue,
+} from "../oxygen";
+import type { Device } from "../orders/devices";
+import { findOpenAdmission, type OpenAdmission } from "./access";
+
+export type BedsideSettings = {
+  device: Device;
+  fio2: number;
+  fio2Estimated: boolean;
+  peep: number | null;
+  flow: number | null;
+  version: number;
+  updatedAt: string;
+  lastReassessedAt: string;
+};
+
+export type LatestReadingView = {
+  id: number;
+  takenAt: string;
+  spo2: number;
+  respiratoryRate: number | null;
+  device: Device;
+  fio2: number;
+  fio2Estimated: boolean;
+  flow: number | null;
+};
+
+export type LatestBloodGasView = {
+  id: number;
+  sampledAt: string;
+  sampleType: "arterial" | "venous";
+  pao2: number;
+  paco2: number;
+  hb: number | null;
+  fio2: number;
+  fio2Estimated: boolean;
+  peep: number | null;
+  pfRatio: number | null;
+};
+
+export type BedsideContext = {
+  admission: OpenAdmission;
+  barometricPressure: number;
+  order: OrderView | null;
+  steps: OrderStep[];
+  settings: BedsideSettings | null;
+  latestReading: LatestReadingView | null;
+  latestBloodGas: LatestBloodGasView | null;
+  proposal: Proposal | null;
+  proposalError: string | null;
+};
+
+const asSetting = (min: number | null, max: number | null): SettingValue | undefined =>
+  min === null || max === null ? undefined : min === max ? min : [min, max];
+
+export async function loadSteps(knex: Knex, stepTableId: number | null): Promise<OrderStep[]> {
+  if (stepTableId === null) return [];
+  const rows = (await knex("step_table_rows")
+    .where({ step_table_id: stepTableId })
+    .orderBy("position")) as {
+    fio2_min: number;
+    fio2_max: number;
+    peep_min_cmh2o: number | null;
+    peep_max_cmh2o: number | null;
+    flow_l_min: number | null;
+  }[];
+  return rows.map((r) => {
+    const peep = asSetting(r.peep_min_cmh2o, r.peep_max_cmh2o);
+    return {
+      fio2: asSetting(r.fio2_min, r.fio2_max)!,
+      ...(peep !== undefined ? { peep } : {}),
+      ...(r.flow_l_min !== null ? { flow: r.flow_l_min } : {}),
+    };
+  });
+}
+
+/**
+ * What the bedside forms show: the order in effect, the applied settings, the
+ * latest reading and blood gas, and the engine's proposal for the next step.
+ */
+export async function getBedsideContext(
+  knex: Knex,
+  actor: Actor,
+  patientId: number,
+): Promise<BedsideContext> {
+  const admission = await findOpenAdmission(knex, actor, patientId);
+  const barometricPressure = barometricPressureAtAltitude(admission.altitudeM);
+  // Rows are typed by assertion below, at the knex boundary.
+  const first = (q: Knex.QueryBuilder): Promise<unknown> => q.first() as Promise<unknown>;
+  const [order, settingsRow, readingRow, gasRow] = await Promise.all([
+    getCurrentOrder(knex, patientId),
+    first(knex("bedside_settings").where({ admission_id: admission.admissionId })),
+    first(
+      knex("readings").where({ admission_id: admission.admissionId }).orderBy("taken_at", "desc"),
+    ),
+    first(
+      knex("blood_gases")
+        .where({ admission_id: admission.admissionId })
+        .orderBy("sampled_at", "desc"),
+    ),
+  ]);
+  const s = settingsRow as
+    | {
+        device: Device;
+        fio2: number;
+        fio2_estimated: number;
+        peep_cmh2o: number | null;
+        flow_l_min: number | null;
+        version: number;
+        updated_at: Date;
+        last_reassessed_at: Date;
+      }
+    | undefined;
+  const settings: BedsideSettings | null = s
+    ? {
+        device: s.device,
+        fio2: s.fio2,
+        fio2Estimated: Boolean(s.fio2_estimated),
+        peep: s.peep_cmh2o,
+        flow: s.flow_l_min,
+        version: s.version,
+        updatedAt: s.updated_at.toISOString(),
+        lastReassessedAt: s.last_reassessed_at.toISOString(),
+      }
+    : null;
+  const r = readingRow as
+    | {
+        id: number;
+        taken_at: Date;
+        spo2_pct: number;
+        respiratory_rate_per_min: number | null;
+        device: Device;
+        fio2: number;
+        fio2_estimated: number;
+        flow_l_min: number | null;
+      }
+    | undefined;
+  const latestReading: LatestReadingView | null = r
+    ? {
+        id: Number(r.id),
+        takenAt: r.taken_at.toISOString(),
+        spo2: r.spo2_pct,
+        respiratoryRate: r.respiratory_rate_per_min,
+        device: r.device,
+        fio2: r.fio2,
+        fio2Estimated: Boolean(r.fio2_estimated),
+        flow: r.flow_l_min,
+      }
+    : null;
+  const g = gasRow as
+    | {
+        id: number;
+        sampled_at: Date;
+        sample_type: "arterial" | "venous";
+        pao2_mmhg: number;
+        paco2_mmhg: number;
+        hb_g_dl: number | null;
+        fio2: number;
+        fio2_estimated: number;
+        peep_cmh2o: number | null;
+        pf_ratio: number | null;
+      }
+    | undefined;
+  const latestBloodGas: LatestBloodGasView | null = g
+    ? {
+        id: g.id,
+        sampledAt: g.sampled_at.toISOString(),
+        sampleType: g.sample_type,
+        pao2: g.pao2_mmhg,
+        paco2: g.paco2_mmhg,
+        hb: g.hb_g_dl,
+        fio2: g.fio2,
+        fio2Estimated: Boolean(g.fio2_estimated),
+        peep: g.peep_cmh2o,
+        pfRatio: g.pf_ratio,
+      }
+    : null;
+
+  const steps = order ? await loadSteps(knex, order.stepTableId) : [];
+  let proposal: Proposal | null = null;
+  let proposalError: string | null = null;
+  if (order && settings && latestReading) {
+    try {
+      proposal = proposeStep({
+        order: {
+          spo2Target: order.spo2Band,
+          limits: {
+            fio2Min: order.limits.fio2Min,
+            fio2Max: order.limits.fio2Max,
+            ...(order.limits.peepMin !== null ? { peepMin: order.limits.peepMin } : {}),
+            ...(order.limits.peepMax !== null ? { peepMax: order.limits.peepMax } : {}),
+            ...(order.limits.flowMin !== null ? { flowMin: order.limits.flowMin } : {}),
+            ...(order.limits.flowMax !== null ? { flowMax: order.limits.flowMax } : {}),
+          },
+          steps,
+        },
+        current: {
+          fio2: settings.fio2,
+          ...(settings.peep !== null ? { peep: settings.peep } : {}),
+          ...(settings.flow !== null ? { flow: settings.flow } : {}),
+        },
+        latestReading: { spo2: latestReading.spo2, fio2: latestReading.fio2 },
+        latestBloodGas:
+          latestBloodGas && latestBloodGas.sampleType === "arterial"
+            ? {
+                pao2: latestBloodGas.pao2,
+                paco2: latestBloodGas.paco2,
+                fio2: latestBloodGas.fio2,
+                ...(latestBloodGas.hb !== null ? { hemoglobin: latestBloodGas.hb } : {}),
+                ...(latestBloodGas.peep !== null ? { peep: latestBloodGas.peep } : {}),
+              }
+            : null,
+        barometricPressure,
+      });
+    } catch (error) {
+      // A proposal is advice; a recorded value the engine refuses must not hide the page.
+      proposalError =
+        error instanceof Error ? error.message : "The engine could not propose a step.";
+    }
+  }
+  return {
+    admission,
+    barometricPressure,
+    order,
+    steps,
+    settings,
+    latestReading,
+    latestBloodGas,
+    proposal,
+    proposalError,
+  };
+}

@@ -1,0 +1,88 @@
+import type { Knex } from "knex";
+import type { Actor } from "../auth/actor";
+import { NotFoundError } from "../errors";
+
+/** A patient as the Chart shows them: who, and where they lie now. */
+export type ChartPatient = {
+  id: number;
+  mrn: string;
+  familyName: string;
+  givenName: string;
+  birthDate: Date;
+  sex: "female" | "male";
+  heightCm: number | null;
+  admission: {
+    id: number;
+    admittedAt: Date;
+    bed: { id: number; label: string };
+    unit: { id: number; code: string; name: string; altitudeM: number };
+  };
+};
+
+/**
+ * One patient with their open admission, for an actor who may see it: the
+ * admission's unit must be one of the actor's. A patient who does not exist,
+ * is not admitted, or lies on another unit is the same NotFoundError, so the
+ * answer does not reveal which.
+ */
+export async function getPatientForActor(knex: Knex, actor: Actor, patientId: number): Promise<ChartPatient> {
+  if (actor.unitIds.length === 0) throw new NotFoundError();
+  const row = (await knex("patients as p")
+    .join("admissions as a", "a.patient_id", "p.id")
+    .join("beds as b", "b.id", "a.bed_id")
+    .join("units as u", "u.id", "b.unit_id")
+    .where("p.id", patientId)
+    .whereNull("a.discharged_at")
+    .whereIn("u.id", actor.unitIds)
+    .first(
+      "p.id",
+      "p.mrn",
+      "p.family_name",
+      "p.given_name",
+      "p.birth_date",
+      "p.sex",
+      "p.height_cm",
+      "a.id as admission_id",
+      "a.admitted_at",
+      "b.id as bed_id",
+      "b.label as bed_label",
+      "u.id as unit_id",
+      "u.code as unit_code",
+      "u.name as unit_name",
+      "u.altitude_m",
+    )) as
+    | {
+        id: number;
+        mrn: string;
+        family_name: string;
+        given_name: string;
+        birth_date: Date;
+        sex: "female" | "male";
+        height_cm: number | null;
+        admission_id: number;
+        admitted_at: Date;
+        bed_id: number;
+        bed_label: string;
+        unit_id: number;
+        unit_code: string;
+        unit_name: string;
+        altitude_m: number;
+      }
+    | undefined;
+  if (!row) throw new NotFoundError();
+  return {
+    id: row.id,
+    mrn: row.mrn,
+    familyName: row.family_name,
+    givenName: row.given_name,
+    birthDate: row.birth_date,
+    sex: row.sex,
+    heightCm: row.height_cm === null ? null : Number(row.height_cm),
+    admission: {
+      id: row.admission_id,
+      admittedAt: row.admitted_at,
+      bed: { id: row.bed_id, label: row.bed_label },
+      unit: { id: row.unit_id, code: row.unit_code, name: row.unit_name, altitudeM: row.altitude_m },
+    },
+  };
+}

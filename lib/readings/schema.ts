@@ -1,0 +1,48 @@
+import { z } from "zod";
+import { DEVICES } from "../orders/devices";
+import { idempotencyKeySchema } from "../orders/schema";
+
+const optional = (schema: z.ZodNumber) =>
+  z.preprocess(
+    (v) => (v === "" || v === null || (typeof v === "number" && Number.isNaN(v)) ? undefined : v),
+    schema.optional(),
+  );
+
+/** One charted observation: SpO2 with the device and oxygen in use. */
+export const readingSchema = z.object({
+  patientId: z.number().int().positive(),
+  takenAt: z.coerce.date({ error: "Time taken must be a date and time." }),
+  spo2: z
+    .number({ error: "SpO2 must be a number between 50 and 100 %." })
+    .min(50, "SpO2 must be between 50 and 100 %.")
+    .max(100, "SpO2 must be between 50 and 100 %."),
+  respiratoryRate: optional(
+    z
+      .number()
+      .int("Respiratory rate must be a whole number.")
+      .min(2, "Respiratory rate must be between 2 and 80 /min.")
+      .max(80, "Respiratory rate must be between 2 and 80 /min."),
+  ),
+  pulseRate: optional(
+    z
+      .number()
+      .int("Pulse rate must be a whole number.")
+      .min(20, "Pulse rate must be between 20 and 250 /min.")
+      .max(250, "Pulse rate must be between 20 and 250 /min."),
+  ),
+  device: z.enum(DEVICES, { error: "Choose the device in use." }),
+  flow: optional(
+    z
+      .number()
+      .min(0.5, "Flow must be between 0.5 and 70 L/min.")
+      .max(70, "Flow must be between 0.5 and 70 L/min."),
+  ),
+  fio2: optional(
+    z
+      .number()
+      .min(0.21, "FiO2 must be between 0.21 and 1.00.")
+      .max(1, "FiO2 must be between 0.21 and 1.00."),
+  ),
+  idempotencyKey: idempotencyKeySchema,
+});
+export type ReadingInput = z.input<typeof readingSchema>;

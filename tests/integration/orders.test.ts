@@ -1,0 +1,236 @@
+import { afterAll, describe, expect, it } from "vitest";
+import { closeDb } from "@/lib/db";
+import { ConflictError, ForbiddenError, NotFoundError, ValidationError } from "@/lib/errors";
+import { verifyLedger } from "@/lib/ledger/verify";
+import { getBedsideContext } from "@/lib/patients/bedside";
+import { getOrder } from "@/lib/orders/queries";
+import type { OrderInput } from "@/lib/orders/schema";
+import { cosignOrder, discontinueOrder, writeOrder } from "@/lib/orders/service";
+import { actorByEmail, admitTestPatient, appDb, SEEDED } from "../helpers/db";
+
+afterAll(async () => {
+  await closeDb();
+});
+
+const PASSWORD = "tidemark-demo";
+
+function ventilatorOrder(patientId: number, over: Partial<OrderInput> = {}): OrderInput {
+  return {
+    entryMode: "written",
+    password: PASSWORD,
+    patientId,
+    device: "invasive",
+    spo2Lower: 88,
+    spo2Upper: 95,
+    fio2Min: 0.3,
+    fio2Max: 0.8,
+    peepMin: 5,
+    peepMax: 16,
+    initialFio2: 0.5,
+    initialPeep: 8,
+    reassessMinutes: 60,
+    rationale: "ARDS, protective ventilation",
+    supersedesOrderId: null,
+    ...over,
+  } as OrderInput;
+}
+
+async function ledgerFor(entityType: string, id: number) {
+  return (await appDb()("ledger_entries")
+    .where({ entity_type: entityType, entity_id: String(id) })
+    .orderBy("id")) as {
+    action: string;
+    rationale: string | null;
+    patient_id: number;
+    chain_key: string;
+  }[];
+}
+
+describe("orders", () => {
+  it("a physician writes and signs an order: active, bedside settings started, ledger row with rationale", async () => {
+    const { patientId } = await admitTestPatient();
+    const physician = await actorByEmail(SEEDED.physician);
+    const order = await writeOrder(appDb(), physician, ventilatorOrder(patientId));
+    expect(order).toMatchObject({
+      status: "active",
+      device: "invasive",
+      spo2Band: { lower: 88, upper: 95 },
+    });
+    expect(order.signedAt).not.toBeNull();
+    const context = await getBedsideContext(appDb(), physician, patientId);
+    expect(context.settings).toMatchObject({ fio2: 0.5, peep: 8, version: 1 });
+    const rows = await ledgerFor("order", order.id);
+    expect(rows).toEqual([
+      expect.objectContaining({
+        action: "order.write",
+        rationale: "ARDS, protective ventilation",
+        chain_key: `patient:${patientId}`,
+      }),
+    ]);
+  });
+
+  it("refuses a wrong signing password and writes nothing", async () => {
+    const { patientId } = await admitTestPatient();
+    const physician = await actorByEmail(SEEDED.physician);
+    const error = await writeOrder(
+      appDb(),
+      physician,
+      ventilatorOrder(patientId, { password: "nope" }),
+    ).catch((e: unknown) => e);
+    expect(error).toBeInstanceOf(ValidationError);
+    expect((error as ValidationError).fieldErrors?.password).toBeDefined();
+    expect(await appDb()("orders").where({ patient_id: patientId }).first()).toBeUndefined();
+  });
+
+  it("refuses limits that do not fit the device, naming the field and range", async () => {
+    const { patientId } = await admitTestPatient();
+    const physician = await actorByEmail(SEEDED.physician);
+    const error = (await writeOrder(
+      appDb(),
+      physician,
+      ventilatorOrder(patientId, {
+        device: "nasal_cannula",
+        peepMin: 5,
+        fio2Max: 0.8,
+        flowMin: undefined,
+      }),
+    ).catch((e: unknown) => e)) as ValidationError;
+    expect(error).toBeInstanceOf(ValidationError);
+    expect(error.fieldErrors?.fio2Max?.[0]).toMatch(
+      /Nasal cannula delivers FiO2 between 0.21 and 0.45/,
+    );
+    expect(error.fieldErrors?.peepMin?.[0]).toMatch(/no PEEP setting/);
+    expect(error.fieldErrors?.flowMin?.[0]).toMatch(/required/);
+  });
+
+  it("a nurse cannot write a signed order, but can enter a read-back verbal order that waits for co-signature", async () => {
+    const { patientId } = await admitTestPatient();
+    const nurse = await actorByEmail(SEEDED.nurse);
+    const physician = await actorByEmail(SEEDED.physician);
+    await expect(writeOrder(appDb(), nurse, ventilatorOrder(patientId))).rejects.toMatchObject({
+      fieldErrors: { entryMode: [expect.stringMatching(/verbal or telephone/)] },
+    });
+    const verbal = {
+      ...ventilatorOrder(patientId),
+      entryMode: "verbal",
+      prescriberId: physician.id,
+      readBackConfirmed: false,
+    } as unknown as OrderInput;
+    await expect(writeOrder(appDb(), nurse, verbal)).rejects.toMatchObject({
+      fieldErrors: { readBackConfirmed: [expect.any(String)] },
+    });
+    const order = await writeOrder(appDb(), nurse, {
+      ...verbal,
+      readBackConfirmed: true,
+    } as OrderInput);
+    expect(order).toMatchObject({
+      status: "awaiting_cosign",
+      entryMode: "verbal",
+      prescriber: { id: physician.id },
+    });
+    const before = new Date();
+    await new Promise((r) => setTimeout(r, 20));
+
+    // Only a physician co-signs, with the password re-asked.
+    await expect(
+      cosignOrder(appDb(), nurse, {
+        orderId: order.id,
+        version: order.version,
+        password: PASSWORD,
+      }),
+    ).rejects.toBeInstanceOf(ForbiddenError);
+    const signed = await cosignOrder(appDb(), physician, {
+      orderId: order.id,
+      version: order.version,
+      password: PASSWORD,
+    });
+    expect(signed).toMatchObject({ status: "active", cosignedBy: { id: physician.id } });
+    // The system-versioned table still shows the order as it stood before co-signature.
+    expect((await getOrder(appDb(), order.id, before))?.status).toBe("awaiting_cosign");
+    expect((await ledgerFor("order", order.id)).map((r) => r.action)).toEqual([
+      "order.verbal",
+      "order.cosign",
+    ]);
+  });
+
+  it("a new order supersedes the one in effect; a writer who saw a different order gets a conflict", async () => {
+    const { patientId } = await admitTestPatient();
+    const physician = await actorByEmail(SEEDED.physician);
+    const first = await writeOrder(appDb(), physician, ventilatorOrder(patientId));
+    await expect(writeOrder(appDb(), physician, ventilatorOrder(patientId))).rejects.toBeInstanceOf(
+      ConflictError,
+    );
+    const second = await writeOrder(
+      appDb(),
+      physician,
+      ventilatorOrder(patientId, { supersedesOrderId: first.id, fio2Max: 0.9 }),
+    );
+    expect(second.status).toBe("active");
+    expect((await getOrder(appDb(), first.id))?.status).toBe("superseded");
+    expect((await ledgerFor("order", first.id)).map((r) => r.action)).toEqual([
+      "order.write",
+      "order.supersede",
+    ]);
+  });
+
+  it("lets exactly one of two simultaneous first orders win", async () => {
+    const { patientId } = await admitTestPatient();
+    const physician = await actorByEmail(SEEDED.physician);
+    const results = await Promise.allSettled([
+      writeOrder(appDb(), physician, ventilatorOrder(patientId)),
+      writeOrder(appDb(), physician, ventilatorOrder(patientId)),
+    ]);
+    expect(results.filter((r) => r.status === "fulfilled")).toHaveLength(1);
+    expect(
+      (results.find((r) => r.status === "rejected") as PromiseRejectedResult).reason,
+    ).toBeInstanceOf(ConflictError);
+  });
+
+  it("writes once for a repeated idempotency key", async () => {
+    const { patientId } = await admitTestPatient();
+    const physician = await actorByEmail(SEEDED.physician);
+    const input = ventilatorOrder(patientId, { idempotencyKey: `order-${patientId}-key` });
+    const [a, b] = await Promise.all([
+      writeOrder(appDb(), physician, input),
+      writeOrder(appDb(), physician, input),
+    ]);
+    expect(a.id).toBe(b.id);
+    expect(
+      await appDb()("orders").where({ patient_id: patientId }).count({ n: "*" }).first(),
+    ).toMatchObject({ n: 1 });
+  });
+
+  it("discontinues with a reason; another unit's order answers not found", async () => {
+    const { patientId } = await admitTestPatient("RESP");
+    const physician = await actorByEmail(SEEDED.physician);
+    const order = await writeOrder(appDb(), physician, ventilatorOrder(patientId));
+    const micuOnly = await actorByEmail("tobias.renwick@kestrel.example");
+    await expect(
+      discontinueOrder(appDb(), micuOnly, {
+        orderId: order.id,
+        version: order.version,
+        reason: "not mine",
+        password: PASSWORD,
+      }),
+    ).rejects.toBeInstanceOf(NotFoundError);
+    await expect(
+      discontinueOrder(appDb(), physician, {
+        orderId: order.id,
+        version: order.version,
+        reason: "",
+        password: PASSWORD,
+      }),
+    ).rejects.toMatchObject({ fieldErrors: { reason: [expect.any(String)] } });
+    const done = await discontinueOrder(appDb(), physician, {
+      orderId: order.id,
+      version: order.version,
+      reason: "Extubated to room air",
+      password: PASSWORD,
+    });
+    expect(done).toMatchObject({
+      status: "discontinued",
+      discontinueReason: "Extubated to room air",
+    });
+    expect((await verifyLedger(appDb())).ok).toBe(true);
+  });
+});
