@@ -8,7 +8,7 @@ export default tseslint.config(
     ignores: [
       "node_modules/**",
       ".next/**",
-      ".next-dev/**",
+      ".next-dev*/**",
       ".data/**",
       ".run/**",
       "tests/artifacts/**",

@@ -11,7 +11,12 @@ export type NavItem = { href: string; label: string };
 
 function navFor(role: Role): NavItem[] {
   const items: NavItem[] = [{ href: "/board", label: "Board" }];
-  if (role === "admin") items.push({ href: "/admin/users", label: "Users" });
+  if (role === "physician") items.push({ href: "/orders/cosign", label: "Co-sign" });
+  items.push({ href: "/ledger", label: "Ledger" });
+  if (role === "admin") {
+    items.push({ href: "/admin/users", label: "Users" });
+    items.push({ href: "/admin/step-tables", label: "Step tables" });
+  }
   return items;
 }
 

@@ -2,11 +2,13 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { z } from "zod";
+import { BedsideSummary } from "@/components/bedside/BedsideSummary";
 import { BloodGasEvaluator } from "@/components/oxygenation/BloodGasEvaluator";
 import { buttonClasses } from "@/components/ui/Button";
 import { pageActor } from "@/lib/auth/page-guard";
 import { db } from "@/lib/db";
 import { NotFoundError } from "@/lib/errors";
+import { getBedsideContext } from "@/lib/patients/bedside";
 import { ageInYears } from "@/lib/patients/display";
 import { type ChartPatient, getPatientForActor } from "@/lib/patients/queries";
 
@@ -36,6 +38,7 @@ export default async function ChartPage({ params }: { params: Promise<{ patientI
   if (!parsed.success) notFound();
   const patient = await loadPatient(db(), actor, parsed.data.patientId);
   const now = new Date();
+  const bedside = await getBedsideContext(db(), actor, patient.id);
   const age = ageInYears(patient.birthDate, now);
   const { bed, unit } = patient.admission;
   const facts: [string, string][] = [
@@ -68,6 +71,8 @@ export default async function ChartPage({ params }: { params: Promise<{ patientI
           Back to the Board
         </Link>
       </header>
+
+      <BedsideSummary actor={actor} context={bedside} now={now} />
 
       <section aria-labelledby="evaluate-heading" className="space-y-3">
         <h2 id="evaluate-heading" className="text-lg font-semibold">
