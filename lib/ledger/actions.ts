@@ -12,6 +12,10 @@ export const LEDGER_ACTIONS = [
   "adjustment.record",
   "reading.chart",
   "blood_gas.record",
+  "step_table.create",
+  "step_table.update",
+  "step_table.deactivate",
+  "step_table.reactivate",
 ] as const;
 
 export type LedgerAction = (typeof LEDGER_ACTIONS)[number];
@@ -26,5 +30,6 @@ export const LEDGER_ENTITY_TYPES = [
   "adjustment",
   "reading",
   "blood_gas",
+  "step_table",
 ] as const;
 export type LedgerEntityType = (typeof LEDGER_ENTITY_TYPES)[number];
