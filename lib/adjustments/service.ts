@@ -89,10 +89,10 @@ export async function recordAdjustment(
   knex: Knex,
   actor: Actor,
   raw: AdjustmentInput,
+  now: Date = new Date(),
 ): Promise<AdjustmentView> {
   assertRole(actor, ["physician", "therapist", "nurse"]);
   const input = parseInput(adjustmentSchema, raw);
-  const now = new Date();
   if (
     input.appliedAt.getTime() > now.getTime() + 5 * 60_000 ||
     input.appliedAt.getTime() < now.getTime() - 24 * 3600_000

@@ -50,10 +50,10 @@ export async function recordBloodGas(
   knex: Knex,
   actor: Actor,
   raw: BloodGasInput,
+  now: Date = new Date(),
 ): Promise<BloodGasView> {
   assertRole(actor, ["physician", "therapist", "nurse"]);
   const input = parseInput(bloodGasSchema, raw);
-  const now = new Date();
   if (
     input.sampledAt.getTime() > now.getTime() + 5 * 60_000 ||
     input.sampledAt.getTime() < now.getTime() - 72 * 3600_000

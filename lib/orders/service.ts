@@ -28,7 +28,13 @@ type ParsedOrder = ReturnType<typeof orderInputSchema.parse>;
  * The order in effect before is superseded in the same transaction, and the
  * bedside settings start from the order's starting settings.
  */
-export async function writeOrder(knex: Knex, actor: Actor, raw: OrderInput): Promise<OrderView> {
+/** `now` is injectable so the demo seed can replay a timeline; callers leave it out. */
+export async function writeOrder(
+  knex: Knex,
+  actor: Actor,
+  raw: OrderInput,
+  now: Date = new Date(),
+): Promise<OrderView> {
   assertRole(actor, ["physician", "therapist", "nurse"]);
   const input = parseInput(orderInputSchema, raw);
   if (actor.role === "physician" && input.entryMode !== "written") {
@@ -77,7 +83,7 @@ export async function writeOrder(knex: Knex, actor: Actor, raw: OrderInput): Pro
 
   return once(knex, actor.id, input.idempotencyKey, "order.write", async (trx) => {
     // Two writers who both saw "no order in effect" meet at the unique index.
-    return writeOrderInTransaction(trx, actor, input, admission).catch((error: unknown) => {
+    return writeOrderInTransaction(trx, actor, input, admission, now).catch((error: unknown) => {
       if (duplicateIndex(error) === "orders_current_patient_id_unique" || isLockConflict(error)) {
         throw new ConflictError(
           "Another order was just written for this patient. Review it, then write yours again if it is still needed.",
@@ -93,8 +99,8 @@ async function writeOrderInTransaction(
   actor: Actor,
   input: ParsedOrder,
   admission: OpenAdmission,
+  now: Date,
 ): Promise<OrderView> {
-  const now = new Date();
   const current = (await trx("orders")
     .where({ current_patient_id: input.patientId })
     .forUpdate()
@@ -145,6 +151,8 @@ async function writeOrderInTransaction(
     signed_by: written ? actor.id : null,
     signed_at: written ? now : null,
     signature_meaning: written ? SIGNATURE_MEANING : null,
+    created_at: now,
+    updated_at: now,
   });
   const newId = Number(orderId);
   if (current) {

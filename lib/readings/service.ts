@@ -50,10 +50,10 @@ export async function chartReading(
   knex: Knex,
   actor: Actor,
   raw: ReadingInput,
+  now: Date = new Date(),
 ): Promise<ReadingView> {
   assertRole(actor, ["physician", "therapist", "nurse"]);
   const input = parseInput(readingSchema, raw);
-  const now = new Date();
   if (
     input.takenAt.getTime() > now.getTime() + 5 * 60_000 ||
     input.takenAt.getTime() < now.getTime() - 72 * 3600_000
