@@ -4,10 +4,39 @@ import { db } from "@/lib/db";
 import { handleRoute } from "@/lib/http";
 import { verifyLedger } from "@/lib/ledger/verify";
 
-/** Walks every hash chain: `{ ok, checked, firstBroken }`. */
+/**
+ * Walks every hash chain: `{ ok, checked, firstBroken }`. Admins and reviewers
+ * see where a break is; others see which break only if it is on their units.
+ */
 export function GET() {
   return handleRoute(async () => {
-    await requireRole();
-    return NextResponse.json(await verifyLedger(db()));
+    const actor = await requireRole();
+    const result = await verifyLedger(db());
+    const broken = result.firstBroken;
+    if (!broken || actor.role === "admin" || actor.role === "reviewer")
+      return NextResponse.json(result);
+    const patientId = /^patient:(\d+)$/.exec(broken.chainKey)?.[1];
+    const unit = patientId
+      ? ((await db()("admissions as a")
+          .join("beds as b", "b.id", "a.bed_id")
+          .where("a.patient_id", Number(patientId))
+          .orderBy("a.admitted_at", "desc")
+          .first("b.unit_id")) as { unit_id: number } | undefined)
+      : undefined;
+    const visible = unit !== undefined && actor.unitIds.includes(unit.unit_id);
+    return NextResponse.json(
+      visible
+        ? result
+        : {
+            ...result,
+            firstBroken: {
+              id: 0,
+              chainKey: "outside your units",
+              chainSeq: 0,
+              problem:
+                "a chain outside your units is broken; a reviewer or administrator can see where",
+            },
+          },
+    );
   });
 }

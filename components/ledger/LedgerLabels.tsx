@@ -1,0 +1,49 @@
+import { isRole, ROLE_LABELS } from "@/lib/auth/roles";
+import type { LedgerAction, LedgerEntityType } from "@/lib/ledger/actions";
+
+// Every action in the vocabulary must have a label (a missing one fails the
+// type check); codes written by a newer release still read, as their code.
+const ACTION_LABELS: Record<LedgerAction, string> & Record<string, string | undefined> = {
+  "user.create": "User created",
+  "user.update": "User changed",
+  "user.deactivate": "User deactivated",
+  "user.reactivate": "User reactivated",
+  "order.write": "Order written and signed",
+  "order.verbal": "Verbal/telephone order entered",
+  "order.supersede": "Order superseded",
+  "order.cosign": "Verbal order co-signed",
+  "order.discontinue": "Order discontinued",
+  "adjustment.record": "Adjustment recorded",
+  "reading.chart": "Reading charted",
+  "blood_gas.record": "Blood gas recorded",
+  "step_table.create": "Step table created",
+  "step_table.update": "Step table changed",
+  "step_table.deactivate": "Step table withdrawn",
+  "step_table.reactivate": "Step table restored",
+};
+
+const ENTITY_LABELS: Record<LedgerEntityType, string> & Record<string, string | undefined> = {
+  user: "User",
+  unit: "Unit",
+  bed: "Bed",
+  patient: "Patient",
+  admission: "Admission",
+  order: "Order",
+  adjustment: "Adjustment",
+  reading: "Reading",
+  blood_gas: "Blood gas",
+  step_table: "Step table",
+};
+
+/** The human label of a ledger action code ("order.write" → "Order written and signed"). */
+export function actionLabel(code: string): string {
+  return ACTION_LABELS[code] ?? code;
+}
+
+export function entityLabel(type: string): string {
+  return ENTITY_LABELS[type] ?? type;
+}
+
+export function roleLabel(role: string): string {
+  return isRole(role) ? ROLE_LABELS[role] : role;
+}
