@@ -1,0 +1,75 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { AdjustmentForm } from "@/components/adjustments/AdjustmentForm";
+import { BedsideFormHeader, loadBedsidePage } from "@/components/adjustments/BedsideFormPage";
+import { buttonClasses } from "@/components/ui/Button";
+import { EmptyState } from "@/components/ui/EmptyState";
+import { pageActor } from "@/lib/auth/page-guard";
+import { DEVICE_PROFILES } from "@/lib/orders/devices";
+
+export const metadata: Metadata = { title: "Record adjustment" };
+
+/** Record one applied settings change within the order in effect (DESIGN.md §3). */
+export default async function NewAdjustmentPage({
+  params,
+}: {
+  params: Promise<{ patientId: string }>;
+}) {
+  const actor = await pageActor("physician", "therapist", "nurse");
+  const { patient, context, timeZone } = await loadBedsidePage(actor, params);
+  const chart = `/patients/${patient.id}`;
+  const { order } = context;
+
+  let body;
+  if (!order || !context.settings) {
+    body = (
+      <EmptyState title="No oxygen order in effect">
+        Settings can only be changed within an order. A physician must write one first (device, SpO2
+        target band and limits); readings and blood gases can still be charted.
+        <span className="mt-3 flex flex-wrap justify-center gap-2">
+          {actor.role === "physician" ? (
+            <Link href={`${chart}/orders/new`} className={buttonClasses("primary")}>
+              Write order
+            </Link>
+          ) : null}
+          <Link href={chart} className={buttonClasses("secondary")}>
+            Back to the Chart
+          </Link>
+        </span>
+      </EmptyState>
+    );
+  } else if (actor.role === "nurse" && !DEVICE_PROFILES[order.device].lowFlow) {
+    const device = DEVICE_PROFILES[order.device].label;
+    body = (
+      <EmptyState title={`${device} changes are recorded by a therapist or physician`}>
+        Nurses record settings changes on low-flow devices only (nasal cannula, simple and reservoir
+        masks). Ask the respiratory therapist or the physician to record a change on {device}; you
+        can still chart a reading or enter a blood gas.
+        <span className="mt-3 flex flex-wrap justify-center gap-2">
+          <Link href={`${chart}/readings/new`} className={buttonClasses("secondary")}>
+            Chart reading
+          </Link>
+          <Link href={chart} className={buttonClasses("ghost")}>
+            Back to the Chart
+          </Link>
+        </span>
+      </EmptyState>
+    );
+  } else {
+    body = (
+      <AdjustmentForm
+        patientId={patient.id}
+        initialContext={context}
+        pressureUnit={actor.pressureUnit}
+        timeZone={timeZone}
+      />
+    );
+  }
+
+  return (
+    <div className="space-y-4">
+      <BedsideFormHeader patient={patient} title="Record adjustment" />
+      {body}
+    </div>
+  );
+}

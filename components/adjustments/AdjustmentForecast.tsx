@@ -1,0 +1,233 @@
+"use client";
+
+import { useMemo } from "react";
+import { BasisDisclosure } from "@/components/oxygenation/BasisDisclosure";
+import {
+  ForecastChart,
+  forecastSamples,
+  MODELS,
+  ModelSwatch,
+} from "@/components/oxygenation/ForecastChart";
+import { formatNumber, formatPressureNumber } from "@/components/oxygenation/format";
+import { formatFio2Value, formatUnitTime } from "@/components/readings/BedsideFormParts";
+import { IconInfo, IconWarning } from "@/components/ui/icons";
+import {
+  ASSUMED_HEMOGLOBIN,
+  type Fio2Forecast,
+  forecastFio2Change,
+  OxygenInputError,
+  PEEP_NOT_FORECAST,
+  type PressureUnit,
+  RANGES,
+} from "@/lib/oxygen";
+import { forecastBasis } from "@/lib/oxygenation/forecast-basis";
+import type { LatestBloodGasView } from "@/lib/patients/bedside";
+
+type Outcome =
+  | { kind: "none"; message: string }
+  | { kind: "refused"; message: string }
+  | { kind: "ok"; fio2: number; forecast: Fio2Forecast };
+
+/** The words shown when PEEP changes: only FiO2 is forecast (DESIGN.md §4). */
+export const PEEP_CHANGE_NOTE =
+  "PEEP changes are not forecast numerically: re-measure (blood gas or SpO2) after changing PEEP.";
+
+/**
+ * The forecast for the FiO2 being typed, computed here with the pure engine
+ * from the latest arterial blood gas: the three models' range in words and on
+ * the chart, each model's basis one click away, and the caveats.
+ */
+export function AdjustmentForecast({
+  gas,
+  barometricPressure,
+  nextFio2,
+  fio2Estimated,
+  peepChanges,
+  pressureUnit,
+  timeZone,
+}: {
+  gas: LatestBloodGasView | null;
+  barometricPressure: number;
+  /** The FiO2 typed (or estimated from the typed flow); undefined when there is none yet. */
+  nextFio2: number | undefined;
+  fio2Estimated: boolean;
+  peepChanges: boolean;
+  pressureUnit: PressureUnit;
+  timeZone: string;
+}) {
+  const unit = pressureUnit;
+  const arterial = gas && gas.sampleType === "arterial" ? gas : null;
+  const baseline = useMemo(
+    () =>
+      arterial
+        ? {
+            fio2: arterial.fio2,
+            pao2: arterial.pao2,
+            paco2: arterial.paco2,
+            hemoglobin: arterial.hb ?? ASSUMED_HEMOGLOBIN,
+            barometricPressure,
+          }
+        : null,
+    [arterial, barometricPressure],
+  );
+  const samples = useMemo(() => {
+    if (!baseline) return [];
+    try {
+      return forecastSamples(baseline);
+    } catch (error) {
+      if (error instanceof OxygenInputError) return [];
+      throw error;
+    }
+  }, [baseline]);
+
+  const outcome = useMemo<Outcome>(() => {
+    if (!baseline) {
+      return {
+        kind: "none",
+        message:
+          "No arterial blood gas on record, so there is no numeric forecast. Enter a blood gas to see one; until then re-measure SpO2 after the change.",
+      };
+    }
+    if (nextFio2 === undefined || !Number.isFinite(nextFio2)) {
+      return {
+        kind: "none",
+        message: `Type the new ${fio2Estimated ? "flow" : "FiO2"} to see the forecast.`,
+      };
+    }
+    if (nextFio2 < RANGES.fio2.min || nextFio2 > RANGES.fio2.max) {
+      return {
+        kind: "refused",
+        message: "FiO2 must be a fraction between 0.21 and 1.00 (0.40 for 40 %) to be forecast.",
+      };
+    }
+    try {
+      return {
+        kind: "ok",
+        fio2: nextFio2,
+        forecast: forecastFio2Change({ ...baseline, nextFio2 }),
+      };
+    } catch (error) {
+      if (error instanceof OxygenInputError)
+        return { kind: "refused", message: `No forecast: ${error.message}.` };
+      throw error;
+    }
+  }, [baseline, nextFio2, fio2Estimated]);
+
+  const forecast = outcome.kind === "ok" ? outcome.forecast : null;
+  const bases =
+    outcome.kind === "ok" && baseline
+      ? forecastBasis({ ...baseline, nextFio2: outcome.fio2 }, outcome.forecast)
+      : null;
+  const caveats = [
+    ...(arterial && arterial.hb === null
+      ? [
+          `The blood gas has no haemoglobin: ${ASSUMED_HEMOGLOBIN} g/dL is assumed for the shunt model.`,
+        ]
+      : []),
+    ...(arterial?.fio2Estimated
+      ? [
+          "The blood gas was taken on an estimated FiO2 (low-flow device): every model inherits that uncertainty.",
+        ]
+      : []),
+    ...(fio2Estimated ? ["The new FiO2 is itself an estimate from the flow."] : []),
+    ...(forecast?.caveats.filter((c) => c !== PEEP_NOT_FORECAST) ?? []),
+  ];
+
+  return (
+    <section
+      aria-labelledby="forecast-heading"
+      className="min-w-0 space-y-2"
+      data-testid="adjustment-forecast"
+    >
+      <h2 id="forecast-heading" className="text-base font-semibold">
+        Forecast for this change
+      </h2>
+      {arterial ? (
+        <p className="text-xs text-ink-muted">
+          From the arterial gas of {formatUnitTime(arterial.sampledAt, timeZone)}: PaO2{" "}
+          <span className="tabular">
+            {formatPressureNumber(arterial.pao2, unit)} {unit}
+          </span>{" "}
+          at FiO2 <span className="tabular">{formatFio2Value(arterial.fio2)}</span>.
+        </p>
+      ) : null}
+      <div
+        role="status"
+        aria-live="polite"
+        className="rounded-md bg-accent-soft px-3 py-2"
+        data-testid="forecast-range"
+      >
+        {outcome.kind === "ok" ? (
+          <>
+            <p className="tabular text-lg font-semibold">
+              PaO2 forecast {formatPressureNumber(outcome.forecast.range.low.pao2, unit)}–
+              {formatPressureNumber(outcome.forecast.range.high.pao2, unit)} {unit}
+            </p>
+            <p className="tabular text-sm">
+              SpO2 forecast {formatNumber(outcome.forecast.range.low.spo2, 0)}–
+              {formatNumber(outcome.forecast.range.high.spo2, 0)} % (standard curve) at FiO2{" "}
+              {formatFio2Value(outcome.fio2)}
+              {fio2Estimated ? " (estimate)" : ""}
+            </p>
+          </>
+        ) : (
+          <p
+            className={`flex items-start gap-1.5 text-sm ${outcome.kind === "refused" ? "font-medium text-below" : "text-ink"}`}
+          >
+            <IconInfo className="mt-0.5 shrink-0" />
+            {outcome.message}
+          </p>
+        )}
+      </div>
+      {peepChanges ? (
+        <p
+          className="flex items-start gap-2 rounded-md border border-overdue/40 bg-overdue-soft px-3 py-2 text-sm text-overdue"
+          data-testid="peep-note"
+        >
+          <IconWarning className="mt-0.5 shrink-0" />
+          <span>{PEEP_CHANGE_NOTE}</span>
+        </p>
+      ) : null}
+      {forecast && bases ? (
+        <>
+          <BasisDisclosure basis={bases.range} pressureUnit={unit} className="mt-0" />
+          <ul className="grid gap-1.5 sm:grid-cols-3" aria-label="Forecast by model">
+            {MODELS.map((m) => (
+              <li key={m.key} className="min-w-0 rounded-md border border-border p-2 text-xs">
+                <div className="flex flex-wrap items-center gap-x-1.5">
+                  <ModelSwatch model={m} />
+                  <span className="font-medium">{m.label}</span>
+                </div>
+                <p className="tabular">
+                  {formatPressureNumber(forecast.models[m.key].pao2, unit)} {unit} ·{" "}
+                  {formatNumber(forecast.models[m.key].spo2, 0)} %
+                </p>
+                <BasisDisclosure basis={bases[m.key]} pressureUnit={unit} />
+              </li>
+            ))}
+          </ul>
+        </>
+      ) : null}
+      {arterial && samples.length > 0 ? (
+        <ForecastChart
+          samples={samples}
+          measured={{ fio2: arterial.fio2, pao2: arterial.pao2 }}
+          proposed={
+            outcome.kind === "ok" ? { fio2: outcome.fio2, forecast: outcome.forecast } : null
+          }
+          pressureUnit={unit}
+        />
+      ) : null}
+      {caveats.length > 0 ? (
+        <ul
+          className="list-disc space-y-0.5 pl-5 text-xs text-ink-muted"
+          aria-label="Forecast caveats"
+        >
+          {[...new Set(caveats)].map((c) => (
+            <li key={c}>{c}</li>
+          ))}
+        </ul>
+      ) : null}
+    </section>
+  );
+}

@@ -1,0 +1,618 @@
+"use client";
+
+import { zodResolver } from "@hookform/resolvers/zod";
+import Link from "next/link";
+import { useRouter } from "next/navigation";
+import { useId, useMemo, useState } from "react";
+import { useForm, useWatch, type Resolver } from "react-hook-form";
+import useSWR, { SWRConfig } from "swr";
+import { z } from "zod";
+import { recordAdjustmentAction } from "@/app/(app)/patients/[patientId]/actions";
+import {
+  describeDeviceFio2,
+  estimateFromFlow,
+  fetchJson,
+  FieldWarning,
+  formatFio2Value,
+  type FormNotice,
+  FormStatus,
+  fromZonedLocalInput,
+  localDateTimeSchema,
+  placeServerErrors,
+  textDefault,
+  timeZoneNote,
+  toNumber,
+  toZonedLocalInput,
+  useHydrated,
+  useIdempotencyKey,
+} from "@/components/readings/BedsideFormParts";
+import { Button, buttonClasses } from "@/components/ui/Button";
+import { Caution } from "@/components/ui/Caution";
+import { EmptyState } from "@/components/ui/EmptyState";
+import { Field, inputClasses } from "@/components/ui/Field";
+import {
+  ADJUSTMENT_REASONS,
+  adjustmentSchema,
+  type AdjustmentReason,
+} from "@/lib/adjustments/schema";
+import type { PressureUnit, ProposalDirection, ProposedSetting } from "@/lib/oxygen";
+import { DEVICE_PROFILES, type Device } from "@/lib/orders/devices";
+import type { OrderView } from "@/lib/orders/queries";
+import type { BedsideContext, BedsideSettings } from "@/lib/patients/bedside";
+import { AdjustmentForecast } from "./AdjustmentForecast";
+import { BedsideContextCards } from "./BedsideContextCards";
+import { ProposalCard } from "./ProposalCard";
+
+const emptyToUndefined = (v: unknown) =>
+  v === "" || v === null || (typeof v === "number" && Number.isNaN(v)) ? undefined : v;
+
+const SAME = 1e-9;
+
+/**
+ * The adjustment form's schema: the shared adjustmentSchema's fields and
+ * messages, with the settings the order's device uses required, the FiO2 left
+ * to the flow for low-flow devices, and the time in the unit's wall clock.
+ */
+export function adjustmentFormSchema(device: Device, current: BedsideSettings | null) {
+  const uses = DEVICE_PROFILES[device].uses;
+  const shared = adjustmentSchema.shape;
+  return z
+    .object({
+      toFio2: z.preprocess(emptyToUndefined, shared.toFio2.optional()),
+      toPeep: shared.toPeep,
+      toFlow: shared.toFlow,
+      reason: shared.reason,
+      rationale: shared.rationale,
+      appliedAt: localDateTimeSchema("Time applied"),
+    })
+    .superRefine(
+      (raw, ctx) => {
+        // Runs even when other fields failed, so every field shows its error at once.
+        const v = raw as { toFio2?: unknown; toPeep?: unknown; toFlow?: unknown };
+        const given = (value: unknown): value is number =>
+          typeof value === "number" && Number.isFinite(value);
+        const issue = (path: string, message: string) =>
+          ctx.addIssue({ code: "custom", path: [path], message });
+        if (uses.fio2 === "set" && v.toFio2 === undefined)
+          issue("toFio2", "New FiO2 must be a number between 0.21 and 1.00.");
+        if (uses.peep && v.toPeep === undefined)
+          issue("toPeep", "New PEEP is required for this device.");
+        if (uses.flow && v.toFlow === undefined)
+          issue("toFlow", "New flow is required for this device.");
+        if (!current) return;
+        const same = (a: unknown, b: number | null) =>
+          (b === null && a === undefined) || (given(a) && b !== null && Math.abs(a - b) < SAME);
+        const unchanged =
+          (uses.fio2 !== "set" || same(v.toFio2, current.fio2)) &&
+          (!uses.peep || same(v.toPeep, current.peep)) &&
+          (!uses.flow || same(v.toFlow, current.flow));
+        if (unchanged && (uses.fio2 === "set" || uses.flow || uses.peep)) {
+          issue(
+            uses.fio2 === "set" ? "toFio2" : "toFlow",
+            "These are the settings in effect now: change at least one value (to record a reassessment, chart a reading).",
+          );
+        }
+      },
+      { when: () => true },
+    );
+}
+type FormInput = z.input<ReturnType<typeof adjustmentFormSchema>>;
+type FormOutput = z.output<ReturnType<typeof adjustmentFormSchema>>;
+type FieldName = "toFio2" | "toPeep" | "toFlow" | "reason" | "rationale" | "appliedAt";
+const FIELDS: readonly FieldName[] = [
+  "toFio2",
+  "toPeep",
+  "toFlow",
+  "reason",
+  "rationale",
+  "appliedAt",
+];
+
+const NEW_ORDER = "ask the physician for a new order.";
+
+/**
+ * Warnings shown while typing, before anything is sent, when a value lies
+ * outside the order's limits. They do not block: the server refuses, in the
+ * same words, beside the same field.
+ */
+export function limitWarnings(
+  order: OrderView,
+  typed: { fio2?: number; peep?: number; flow?: number },
+  fio2Estimated: boolean,
+): Partial<Record<"toFio2" | "toPeep" | "toFlow", string>> {
+  const out: Partial<Record<"toFio2" | "toPeep" | "toFlow", string>> = {};
+  const { limits } = order;
+  const finite = (v: number | undefined): v is number => v !== undefined && Number.isFinite(v);
+  const label = fio2Estimated ? "Estimated FiO2" : "FiO2";
+  if (finite(typed.fio2)) {
+    if (typed.fio2 > 1 && !fio2Estimated) {
+      const percent = Math.round(typed.fio2);
+      out.toFio2 = `FiO2 is a fraction between 0.21 and 1.00: type ${formatFio2Value(percent / 100)} for ${percent} %.`;
+    } else if (typed.fio2 > limits.fio2Max) {
+      out.toFio2 = `${label} ${formatFio2Value(typed.fio2)} is above this order's maximum of ${formatFio2Value(limits.fio2Max)} — ${NEW_ORDER}`;
+    } else if (typed.fio2 < limits.fio2Min) {
+      out.toFio2 = `${label} ${formatFio2Value(typed.fio2)} is below this order's minimum of ${formatFio2Value(limits.fio2Min)} — ${NEW_ORDER}`;
+    }
+  }
+  const pair = (
+    key: "toPeep" | "toFlow",
+    value: number | undefined,
+    min: number | null,
+    max: number | null,
+    name: string,
+    unit: string,
+  ) => {
+    if (!finite(value) || min === null || max === null) return;
+    if (value > max)
+      out[key] =
+        `${name} ${value} ${unit} is above this order's maximum of ${max} ${unit} — ${NEW_ORDER}`;
+    else if (value < min)
+      out[key] =
+        `${name} ${value} ${unit} is below this order's minimum of ${min} ${unit} — ${NEW_ORDER}`;
+  };
+  pair("toPeep", typed.peep, limits.peepMin, limits.peepMax, "PEEP", "cmH2O");
+  pair("toFlow", typed.flow, limits.flowMin, limits.flowMax, "Flow", "L/min");
+  return out;
+}
+
+function reasonFor(context: BedsideContext): AdjustmentReason | undefined {
+  const { order, latestReading } = context;
+  if (!order || !latestReading) return undefined;
+  if (latestReading.spo2 < order.spo2Band.lower) return "below_band";
+  if (latestReading.spo2 > order.spo2Band.upper && latestReading.fio2 > 0.21) return "above_band";
+  return undefined;
+}
+
+const asNumber = (v: unknown): number | undefined => (typeof v === "number" ? v : undefined);
+
+/**
+ * Record one applied settings change: the order in effect, the applied
+ * settings, the latest observations and the engine's proposal above; the new
+ * settings with a live forecast and limit warnings below. Sends the settings
+ * version it started from; a conflict keeps what was typed and offers to
+ * reload the current settings.
+ */
+export function AdjustmentForm(props: {
+  patientId: number;
+  initialContext: BedsideContext;
+  pressureUnit: PressureUnit;
+  timeZone: string;
+}) {
+  // A cache of this page's own: the context the server rendered is what the
+  // form starts from, never one left in a shared cache by an earlier visit.
+  return (
+    <SWRConfig value={{ provider: () => new Map() }}>
+      <AdjustmentFormWithContext {...props} />
+    </SWRConfig>
+  );
+}
+
+function AdjustmentFormWithContext({
+  patientId,
+  initialContext,
+  pressureUnit,
+  timeZone,
+}: {
+  patientId: number;
+  initialContext: BedsideContext;
+  pressureUnit: PressureUnit;
+  timeZone: string;
+}) {
+  const bedsideUrl = `/api/v1/patients/${patientId}/bedside`;
+  // No background refresh: the version sent must be the one the person saw.
+  const { data, mutate, isValidating } = useSWR<BedsideContext, Error>(
+    bedsideUrl,
+    fetchJson<BedsideContext>,
+    {
+      fallbackData: initialContext,
+      revalidateOnMount: false,
+      revalidateOnFocus: false,
+      revalidateOnReconnect: false,
+      revalidateIfStale: false,
+    },
+  );
+  const context = data ?? initialContext;
+  const { order, settings } = context;
+  if (!order || !settings) {
+    return (
+      <EmptyState title="No oxygen order in effect">
+        Settings can only be changed within an order. A physician must write one first (device, SpO2
+        target band and limits).{" "}
+        <Link href={`/patients/${patientId}`} className="text-accent underline">
+          Back to the Chart
+        </Link>
+      </EmptyState>
+    );
+  }
+  return (
+    <AdjustmentFormBody
+      // A new order on another device has other fields; on the same device what was typed stays.
+      key={order.device}
+      patientId={patientId}
+      context={context}
+      order={order}
+      settings={settings}
+      pressureUnit={pressureUnit}
+      timeZone={timeZone}
+      reload={async () => {
+        await mutate();
+      }}
+      reloading={isValidating}
+    />
+  );
+}
+
+function AdjustmentFormBody({
+  patientId,
+  context,
+  order,
+  settings,
+  pressureUnit,
+  timeZone,
+  reload,
+  reloading,
+}: {
+  patientId: number;
+  context: BedsideContext;
+  order: OrderView;
+  settings: BedsideSettings;
+  pressureUnit: PressureUnit;
+  timeZone: string;
+  reload: () => Promise<void>;
+  reloading: boolean;
+}) {
+  const id = useId();
+  const router = useRouter();
+  const idempotencyKey = useIdempotencyKey();
+  const hydrated = useHydrated();
+  const device = order.device;
+  const profile = DEVICE_PROFILES[device];
+  const uses = profile.uses;
+  const [notice, setNotice] = useState<FormNotice | null>(null);
+  const [conflict, setConflict] = useState<string | null>(null);
+  const [saved, setSaved] = useState(false);
+
+  const resolver = useMemo<Resolver<FormInput, unknown, FormOutput>>(
+    () => zodResolver(adjustmentFormSchema(device, settings)),
+    [device, settings],
+  );
+  const {
+    register,
+    control,
+    handleSubmit,
+    setError,
+    setValue,
+    setFocus,
+    formState: { errors, isSubmitting },
+  } = useForm<FormInput, unknown, FormOutput>({
+    resolver,
+    defaultValues: {
+      toFio2: uses.fio2 === "set" ? settings.fio2 : undefined,
+      toPeep: uses.peep ? (settings.peep ?? undefined) : undefined,
+      toFlow: uses.flow ? (settings.flow ?? undefined) : undefined,
+      reason: reasonFor(context),
+      rationale: "",
+      appliedAt: toZonedLocalInput(new Date(), timeZone),
+    },
+  });
+  // Shown by the server-rendered page too, before the form takes over.
+  const initial = { toFio2: settings.fio2, toPeep: settings.peep, toFlow: settings.flow };
+
+  const [typedFio2, typedPeep, typedFlow] = useWatch({
+    control,
+    name: ["toFio2", "toPeep", "toFlow"],
+  });
+  const fio2Estimated = uses.fio2 === "estimated";
+  const nextFio2 =
+    uses.fio2 === "set"
+      ? asNumber(typedFio2)
+      : uses.fio2 === "fixed"
+        ? profile.fio2.min
+        : (estimateFromFlow(device, asNumber(typedFlow)) ?? undefined);
+  const warnings = limitWarnings(
+    order,
+    { fio2: nextFio2, peep: asNumber(typedPeep), flow: asNumber(typedFlow) },
+    fio2Estimated,
+  );
+  const peep = asNumber(typedPeep);
+  const peepChanges =
+    uses.peep &&
+    peep !== undefined &&
+    Number.isFinite(peep) &&
+    settings.peep !== null &&
+    Math.abs(peep - settings.peep) > 1e-9;
+
+  const applyProposal = (step: ProposedSetting, direction: ProposalDirection) => {
+    const options = { shouldDirty: true, shouldValidate: false } as const;
+    if (uses.fio2 === "set") setValue("toFio2", step.fio2, options);
+    if (uses.peep && step.peep !== undefined) setValue("toPeep", step.peep, options);
+    if (uses.flow && step.flow !== undefined) setValue("toFlow", step.flow, options);
+    if (direction === "up") setValue("reason", "below_band", options);
+    if (direction === "down") setValue("reason", "above_band", options);
+    setNotice({
+      kind: "info",
+      text: "The proposed step is filled in. Check it, give your rationale, then record it.",
+    });
+    setFocus("rationale");
+  };
+
+  const onSubmit = handleSubmit(async (values) => {
+    setNotice(null);
+    setConflict(null);
+    const appliedAt = fromZonedLocalInput(values.appliedAt, timeZone);
+    if (!appliedAt) {
+      setError("appliedAt", { type: "client", message: "Time applied must be a date and time." });
+      return;
+    }
+    const toFio2 =
+      uses.fio2 === "set"
+        ? values.toFio2
+        : uses.fio2 === "fixed"
+          ? profile.fio2.min
+          : (estimateFromFlow(device, values.toFlow) ?? undefined);
+    let result: Awaited<ReturnType<typeof recordAdjustmentAction>>;
+    try {
+      result = await recordAdjustmentAction({
+        patientId,
+        settingsVersion: settings.version,
+        toFio2,
+        ...(uses.peep ? { toPeep: values.toPeep } : {}),
+        ...(uses.flow ? { toFlow: values.toFlow } : {}),
+        reason: values.reason,
+        rationale: values.rationale,
+        appliedAt: appliedAt.toISOString(),
+        idempotencyKey,
+      });
+    } catch {
+      setNotice({
+        kind: "error",
+        text: "Tidemark could not be reached; nothing was recorded. Check the connection and try again — your values are kept.",
+      });
+      return;
+    }
+    if (!result.ok) {
+      if (result.status === 409) {
+        setConflict(result.message);
+        return;
+      }
+      if (result.status === 401) {
+        setNotice({
+          kind: "error",
+          text: "Your session has ended. Sign in again in another tab, then record the change; your values are kept here.",
+        });
+        return;
+      }
+      const unplaced = placeServerErrors(
+        result.fieldErrors,
+        (path) => FIELDS.find((f) => f === path),
+        setError,
+      );
+      setNotice({
+        kind: "error",
+        text:
+          Object.keys(result.fieldErrors ?? {}).length > unplaced.length
+            ? `${result.message} See the message beside each field; nothing you typed was lost.`
+            : result.message,
+        details: unplaced,
+      });
+      return;
+    }
+    setSaved(true);
+    setNotice({
+      kind: "success",
+      text: `Adjustment recorded: FiO2 ${formatFio2Value(result.data.to.fio2)}. Opening the Chart…`,
+    });
+    router.push(`/patients/${patientId}`);
+  });
+
+  const reloadSettings = async () => {
+    await reload();
+    setConflict(null);
+    setNotice({
+      kind: "info",
+      text: "Current settings reloaded (see Applied settings above). Your values are kept: check them against the new settings, then record the change if it is still needed.",
+    });
+  };
+
+  const numberInput = (
+    name: "toFio2" | "toPeep" | "toFlow",
+    describedBy: string | undefined,
+    invalid: boolean,
+  ) => (
+    <input
+      id={`${id}-${name}`}
+      type="text"
+      inputMode="decimal"
+      autoComplete="off"
+      className={`${inputClasses} tabular`}
+      aria-invalid={invalid}
+      aria-describedby={
+        [describedBy, warnings[name] ? `${id}-${name}-warning` : undefined]
+          .filter(Boolean)
+          .join(" ") || undefined
+      }
+      defaultValue={textDefault(initial[name])}
+      {...register(name, { setValueAs: toNumber })}
+    />
+  );
+  const warning = (name: "toFio2" | "toPeep" | "toFlow") =>
+    warnings[name] ? (
+      <FieldWarning id={`${id}-${name}-warning`}>{warnings[name]}</FieldWarning>
+    ) : null;
+
+  return (
+    <div className="space-y-4">
+      <BedsideContextCards context={context} pressureUnit={pressureUnit} timeZone={timeZone} />
+      <ProposalCard
+        proposal={context.proposal}
+        proposalError={context.proposalError}
+        hasReading={context.latestReading !== null}
+        pressureUnit={pressureUnit}
+        onUse={applyProposal}
+      />
+
+      <form
+        onSubmit={onSubmit}
+        noValidate
+        aria-labelledby={`${id}-heading`}
+        data-ready={hydrated ? "true" : undefined}
+        className="grid gap-5 rounded-card border border-border bg-surface p-4 shadow-card lg:grid-cols-[minmax(0,2fr)_minmax(0,3fr)]"
+      >
+        <fieldset disabled={!hydrated} className="min-w-0 space-y-3">
+          <h2 id={`${id}-heading`} className="text-base font-semibold">
+            New settings on {profile.label}
+          </h2>
+          <div className="grid grid-cols-2 gap-x-3">
+            {uses.fio2 === "set" ? (
+              <div className="col-span-2 sm:col-span-1">
+                <Field
+                  id={`${id}-toFio2`}
+                  label="New FiO2"
+                  hint="A fraction: 0.40 for 40 %."
+                  error={errors.toFio2?.message}
+                >
+                  {(d, invalid) => numberInput("toFio2", d, invalid)}
+                </Field>
+                {warning("toFio2")}
+              </div>
+            ) : null}
+            {uses.flow ? (
+              <div className="col-span-2 sm:col-span-1">
+                <Field id={`${id}-toFlow`} label="New flow (L/min)" error={errors.toFlow?.message}>
+                  {(d, invalid) => numberInput("toFlow", d, invalid)}
+                </Field>
+                {warning("toFlow")}
+              </div>
+            ) : null}
+            {uses.peep ? (
+              <div className="col-span-2 sm:col-span-1">
+                <Field id={`${id}-toPeep`} label="New PEEP (cmH2O)" error={errors.toPeep?.message}>
+                  {(d, invalid) => numberInput("toPeep", d, invalid)}
+                </Field>
+                {warning("toPeep")}
+              </div>
+            ) : null}
+            {uses.fio2 !== "set" ? (
+              <div className="col-span-2 sm:col-span-1">
+                <p id={`${id}-estimate-label`} className="text-sm font-medium">
+                  {uses.fio2 === "estimated" ? "New FiO2 (estimated)" : "FiO2"}
+                </p>
+                <output
+                  id={`${id}-estimate`}
+                  htmlFor={`${id}-toFlow`}
+                  aria-labelledby={`${id}-estimate-label`}
+                  aria-describedby={errors.toFio2 ? `${id}-estimate-error` : undefined}
+                  className="tabular mt-1 block rounded-md border border-dashed border-border-strong px-2.5 py-1.5 text-base"
+                  data-testid="estimated-fio2"
+                >
+                  {describeDeviceFio2(device, asNumber(typedFlow))}
+                </output>
+                <p className="text-xs text-ink-muted">
+                  {uses.fio2 === "estimated"
+                    ? "Estimated from the flow by the server; a low-flow device delivers a varying FiO2."
+                    : "Room air: FiO2 is fixed."}
+                </p>
+                <p
+                  id={`${id}-estimate-error`}
+                  className="min-h-4 text-xs font-medium text-below"
+                  aria-live="polite"
+                >
+                  {errors.toFio2?.message ?? ""}
+                </p>
+                {warning("toFio2")}
+              </div>
+            ) : null}
+          </div>
+
+          <Field id={`${id}-reason`} label="Reason" error={errors.reason?.message}>
+            {(d, invalid) => (
+              <select
+                id={`${id}-reason`}
+                className={inputClasses}
+                aria-invalid={invalid}
+                aria-describedby={d}
+                defaultValue={reasonFor(context) ?? ""}
+                {...register("reason")}
+              >
+                <option value="">Choose a reason…</option>
+                {ADJUSTMENT_REASONS.map((r) => (
+                  <option key={r.value} value={r.value}>
+                    {r.label}
+                  </option>
+                ))}
+              </select>
+            )}
+          </Field>
+          <Field
+            id={`${id}-appliedAt`}
+            label="Time applied"
+            hint={timeZoneNote(timeZone)}
+            error={errors.appliedAt?.message}
+          >
+            {(d, invalid) => (
+              <input
+                id={`${id}-appliedAt`}
+                type="datetime-local"
+                className={`${inputClasses} tabular`}
+                aria-invalid={invalid}
+                aria-describedby={d}
+                {...register("appliedAt")}
+              />
+            )}
+          </Field>
+          <Field
+            id={`${id}-rationale`}
+            label="Rationale"
+            hint="Why this change, in your words; recorded in the ledger."
+            error={errors.rationale?.message}
+          >
+            {(d, invalid) => (
+              <textarea
+                id={`${id}-rationale`}
+                rows={3}
+                className={inputClasses}
+                aria-invalid={invalid}
+                aria-describedby={d}
+                {...register("rationale")}
+              />
+            )}
+          </Field>
+
+          <div className="flex flex-wrap items-center gap-3">
+            <Button type="submit" disabled={isSubmitting || saved}>
+              {isSubmitting ? "Recording…" : saved ? "Recorded" : "Record adjustment"}
+            </Button>
+            <Link href={`/patients/${patientId}`} className={buttonClasses("ghost")}>
+              Cancel
+            </Link>
+          </div>
+          <FormStatus notice={conflict ? { kind: "error", text: conflict } : notice}>
+            {conflict ? (
+              <Button
+                variant="secondary"
+                className="mt-1"
+                disabled={reloading}
+                onClick={reloadSettings}
+              >
+                {reloading ? "Reloading…" : "Reload current settings"}
+              </Button>
+            ) : null}
+          </FormStatus>
+        </fieldset>
+
+        <div className="min-w-0 space-y-3">
+          <AdjustmentForecast
+            gas={context.latestBloodGas}
+            barometricPressure={context.barometricPressure}
+            nextFio2={nextFio2}
+            fio2Estimated={fio2Estimated}
+            peepChanges={peepChanges}
+            pressureUnit={pressureUnit}
+            timeZone={timeZone}
+          />
+          <Caution />
+        </div>
+      </form>
+    </div>
+  );
+}

@@ -1,0 +1,86 @@
+import Link from "next/link";
+import { notFound } from "next/navigation";
+import type { ReactNode } from "react";
+import { z } from "zod";
+import { buttonClasses } from "@/components/ui/Button";
+import type { Actor } from "@/lib/auth/actor";
+import { db } from "@/lib/db";
+import { NotFoundError } from "@/lib/errors";
+import { getBedsideContext, type BedsideContext } from "@/lib/patients/bedside";
+import { getPatientForActor, type ChartPatient } from "@/lib/patients/queries";
+import { listUnits } from "@/lib/units/queries";
+
+// Server-side frame of the three bedside form pages (adjustment, reading,
+// blood gas): the patient with a 404 for other units, the bedside context, the
+// unit's time zone, and the heading.
+
+const paramsSchema = z.object({ patientId: z.coerce.number().int().positive() });
+
+export type BedsidePageData = {
+  patient: ChartPatient;
+  context: BedsideContext;
+  /** The unit's time zone: times are typed and shown in it. */
+  timeZone: string;
+};
+
+/** Loads what a bedside form page needs; not admitted, missing and other units all answer 404. */
+export async function loadBedsidePage(
+  actor: Actor,
+  params: Promise<{ patientId: string }>,
+): Promise<BedsidePageData> {
+  const parsed = paramsSchema.safeParse(await params);
+  if (!parsed.success) notFound();
+  let data: BedsidePageData;
+  try {
+    const patient = await getPatientForActor(db(), actor, parsed.data.patientId);
+    const [context, units] = await Promise.all([
+      getBedsideContext(db(), actor, patient.id),
+      listUnits(db(), [patient.admission.unit.id]),
+    ]);
+    data = { patient, context, timeZone: units[0]?.timeZone ?? "UTC" };
+  } catch (error) {
+    if (error instanceof NotFoundError) notFound();
+    throw error;
+  }
+  return data;
+}
+
+/** The page heading: what is being recorded, for whom, and the way back to the Chart. */
+export function BedsideFormHeader({
+  patient,
+  title,
+  children,
+}: {
+  patient: ChartPatient;
+  title: string;
+  children?: ReactNode;
+}) {
+  const { bed, unit } = patient.admission;
+  return (
+    <header className="flex flex-wrap items-start justify-between gap-3 rounded-card border border-border bg-surface p-4 shadow-card">
+      <div className="min-w-0 space-y-1">
+        <p className="text-xs font-medium tracking-wide text-ink-muted uppercase">
+          <Link href={`/patients/${patient.id}`} className="text-accent hover:underline">
+            Chart
+          </Link>{" "}
+          › {title}
+        </p>
+        <h1 className="text-2xl font-semibold tracking-tight">{title}</h1>
+        <p className="text-sm" data-testid="form-patient">
+          <span className="font-medium">
+            {patient.givenName} {patient.familyName}
+          </span>
+          <span className="text-ink-muted">
+            {" "}
+            · MRN <span className="tabular">{patient.mrn}</span> · Bed {bed.label} · {unit.name} (
+            {unit.code})
+          </span>
+        </p>
+        {children}
+      </div>
+      <Link href={`/patients/${patient.id}`} className={buttonClasses("secondary")}>
+        Back to the Chart
+      </Link>
+    </header>
+  );
+}

@@ -1,0 +1,638 @@
+"use client";
+
+import { zodResolver } from "@hookform/resolvers/zod";
+import Link from "next/link";
+import { useId, useMemo, useState } from "react";
+import { useForm, useWatch, type Resolver } from "react-hook-form";
+import { z } from "zod";
+import { recordBloodGasAction } from "@/app/(app)/patients/[patientId]/actions";
+import {
+  describeDeviceFio2,
+  DeviceOptions,
+  flowHint,
+  formatFio2Value,
+  type FormNotice,
+  FormStatus,
+  fromZonedLocalInput,
+  localDateTimeSchema,
+  placeServerErrors,
+  textDefault,
+  timeZoneNote,
+  toNumber,
+  toZonedLocalInput,
+  useHydrated,
+  useIdempotencyKey,
+} from "@/components/readings/BedsideFormParts";
+import { Button, buttonClasses } from "@/components/ui/Button";
+import { Field, inputClasses } from "@/components/ui/Field";
+import type { BloodGasInput as BloodGasPayload } from "@/lib/blood-gases/schema";
+import { bloodGasSchema } from "@/lib/blood-gases/schema";
+import type { BloodGasView } from "@/lib/blood-gases/service";
+import {
+  type BloodGasInput as EngineInput,
+  type PressureUnit,
+  type RespiratorySupport,
+  toGramsPerDecilitre,
+  toMmHg,
+} from "@/lib/oxygen";
+import {
+  HEMOGLOBIN_UNITS,
+  hemoglobinRangeIn,
+  PRESSURE_UNITS,
+  pressureRangeIn,
+  rangeMessage,
+} from "@/lib/oxygenation/schema";
+import { DEVICE_PROFILES, DEVICES, type Device } from "@/lib/orders/devices";
+import type { BedsideContext } from "@/lib/patients/bedside";
+import { BloodGasResult } from "./BloodGasResult";
+
+const shared = bloodGasSchema.shape;
+
+const emptyToUndefined = (v: unknown) =>
+  v === "" || v === null || (typeof v === "number" && Number.isNaN(v)) ? undefined : v;
+const typedNumber = (label: string) =>
+  z.number({
+    error: (issue) =>
+      issue.input === undefined ? `Enter ${label}.` : `${label} must be a number.`,
+  });
+
+/**
+ * The blood-gas form's schema: the shared bloodGasSchema's fields and messages
+ * for everything kept in its own unit; PaO2, PaCO2 and haemoglobin checked
+ * against the same ranges re-stated in the unit typed (kPa, g/L, mmol/L), so a
+ * refusal speaks the unit the person used; flow, FiO2 and PEEP required as the
+ * device uses them.
+ */
+export const bloodGasFormSchema = z
+  .object({
+    sampleType: shared.sampleType,
+    sampledAt: localDateTimeSchema("Time sampled"),
+    pressureUnit: z.enum(PRESSURE_UNITS, { error: "Pressure unit must be mmHg or kPa." }),
+    hemoglobinUnit: z.enum(HEMOGLOBIN_UNITS, {
+      error: "Haemoglobin unit must be g/dL, g/L or mmol/L.",
+    }),
+    ph: shared.ph,
+    pao2: typedNumber("PaO2"),
+    paco2: typedNumber("PaCO2"),
+    hco3: shared.hco3,
+    baseExcess: shared.baseExcess,
+    sao2: shared.sao2,
+    hemoglobin: z.preprocess(emptyToUndefined, typedNumber("Haemoglobin").optional()),
+    device: shared.device,
+    flow: shared.flow,
+    fio2: shared.fio2,
+    peep: shared.peep,
+  })
+  .superRefine(
+    (raw, ctx) => {
+      // Runs even when other fields failed, so every field shows its error at once.
+      const v = raw as Record<string, unknown>;
+      const issue = (path: string, message: string) =>
+        ctx.addIssue({ code: "custom", path: [path], message });
+      const inRange = (
+        field: string,
+        label: string,
+        range: { min: number; max: number; unit: string },
+      ) => {
+        const value = v[field];
+        if (typeof value !== "number" || !Number.isFinite(value)) return;
+        if (value < range.min || value > range.max)
+          issue(field, rangeMessage(label, range.min, range.max, range.unit));
+      };
+      const pressure = PRESSURE_UNITS.find((u) => u === v.pressureUnit);
+      if (pressure) {
+        inRange("pao2", "PaO2", pressureRangeIn("pao2", pressure));
+        inRange("paco2", "PaCO2", pressureRangeIn("paco2", pressure));
+      }
+      const hb = HEMOGLOBIN_UNITS.find((u) => u === v.hemoglobinUnit);
+      if (hb) inRange("hemoglobin", "Haemoglobin", hemoglobinRangeIn(hb));
+      const device = DEVICES.find((d) => d === v.device);
+      if (!device) return;
+      const profile = DEVICE_PROFILES[device];
+      if (profile.uses.flow && v.flow === undefined)
+        issue("flow", `Flow is required for ${profile.label}.`);
+      if (profile.uses.fio2 === "set" && v.fio2 === undefined)
+        issue("fio2", `FiO2 is required for ${profile.label}.`);
+    },
+    { when: () => true },
+  );
+export type BloodGasFormInput = z.input<typeof bloodGasFormSchema>;
+export type BloodGasFormOutput = z.output<typeof bloodGasFormSchema>;
+
+type FieldName =
+  | "sampleType"
+  | "sampledAt"
+  | "ph"
+  | "pao2"
+  | "paco2"
+  | "hco3"
+  | "baseExcess"
+  | "sao2"
+  | "hemoglobin"
+  | "device"
+  | "flow"
+  | "fio2"
+  | "peep";
+const FIELDS: readonly FieldName[] = [
+  "sampleType",
+  "sampledAt",
+  "ph",
+  "pao2",
+  "paco2",
+  "hco3",
+  "baseExcess",
+  "sao2",
+  "hemoglobin",
+  "device",
+  "flow",
+  "fio2",
+  "peep",
+];
+
+// Stored to 0.1 mmHg and 0.1 g/dL: rounding before sending keeps the stored
+// values and the indices computed from them the same numbers.
+const round1 = (v: number) => Math.round(v * 10) / 10;
+
+/**
+ * What the server takes (mmHg, g/dL, the settings the device uses) from what
+ * the form holds (the unit typed). The time is already an instant.
+ */
+export function bloodGasPayload(
+  values: BloodGasFormOutput,
+  extra: { patientId: number; sampledAt: Date; idempotencyKey: string },
+): BloodGasPayload {
+  const uses = DEVICE_PROFILES[values.device].uses;
+  return {
+    patientId: extra.patientId,
+    sampledAt: extra.sampledAt.toISOString(),
+    sampleType: values.sampleType,
+    ph: values.ph,
+    pao2: round1(toMmHg(values.pao2, values.pressureUnit)),
+    paco2: round1(toMmHg(values.paco2, values.pressureUnit)),
+    hco3: values.hco3,
+    baseExcess: values.baseExcess,
+    sao2: values.sao2,
+    hemoglobin:
+      values.hemoglobin === undefined
+        ? undefined
+        : round1(toGramsPerDecilitre(values.hemoglobin, values.hemoglobinUnit)),
+    device: values.device,
+    ...(uses.flow ? { flow: values.flow } : {}),
+    ...(uses.fio2 === "set" ? { fio2: values.fio2 } : {}),
+    ...(uses.peep ? { peep: values.peep } : {}),
+    idempotencyKey: extra.idempotencyKey,
+  };
+}
+
+// The same support categories the server assesses with (lib/blood-gases/service.ts).
+const SUPPORT: Record<Device, RespiratorySupport> = {
+  room_air: "none",
+  nasal_cannula: "conventional",
+  simple_mask: "conventional",
+  venturi_mask: "conventional",
+  reservoir_mask: "conventional",
+  hfnc: "hfnc",
+  niv: "niv",
+  invasive: "invasive",
+};
+
+/** The engine input the stored indices were computed from, for the oxygenation panel. */
+export function engineInputOf(view: BloodGasView, sent: BloodGasPayload): EngineInput {
+  return {
+    fio2: view.fio2,
+    pao2: view.pao2,
+    paco2: view.paco2,
+    barometricPressure: view.barometricPressure,
+    support: SUPPORT[view.device],
+    ...(typeof sent.hemoglobin === "number" ? { hemoglobin: sent.hemoglobin } : {}),
+    ...(typeof sent.sao2 === "number" ? { sao2: sent.sao2 / 100 } : {}),
+    ...(view.peep !== null ? { peep: view.peep } : {}),
+    ...(view.device === "hfnc" && typeof sent.flow === "number" ? { flow: sent.flow } : {}),
+  };
+}
+
+const asNumber = (v: unknown): number | undefined => (typeof v === "number" ? v : undefined);
+
+function prefill(
+  device: Device,
+  context: BedsideContext,
+): { flow?: number; fio2?: number; peep?: number } {
+  const { settings } = context;
+  const uses = DEVICE_PROFILES[device].uses;
+  if (!settings || settings.device !== device) return {};
+  return {
+    ...(uses.flow && settings.flow !== null ? { flow: settings.flow } : {}),
+    ...(uses.fio2 === "set" ? { fio2: settings.fio2 } : {}),
+    ...(uses.peep && settings.peep !== null ? { peep: settings.peep } : {}),
+  };
+}
+
+type Saved = { view: BloodGasView; sent: BloodGasPayload };
+
+/**
+ * Enter one blood gas. After saving, an arterial gas shows its stored indices
+ * in the oxygenation panel at once; "Enter another blood gas" starts afresh.
+ */
+export function BloodGasForm(props: {
+  patientId: number;
+  context: BedsideContext;
+  pressureUnit: PressureUnit;
+  timeZone: string;
+}) {
+  const [round, setRound] = useState(0);
+  const [saved, setSaved] = useState<Saved | null>(null);
+  if (saved) {
+    return (
+      <BloodGasResult
+        view={saved.view}
+        input={engineInputOf(saved.view, saved.sent)}
+        patientId={props.patientId}
+        pressureUnit={props.pressureUnit}
+        timeZone={props.timeZone}
+        onAnother={() => {
+          setSaved(null);
+          setRound((r) => r + 1);
+        }}
+      />
+    );
+  }
+  return <BloodGasEntry key={round} {...props} onSaved={setSaved} />;
+}
+
+function BloodGasEntry({
+  patientId,
+  context,
+  pressureUnit,
+  timeZone,
+  onSaved,
+}: {
+  patientId: number;
+  context: BedsideContext;
+  pressureUnit: PressureUnit;
+  timeZone: string;
+  onSaved: (saved: Saved) => void;
+}) {
+  const id = useId();
+  const idempotencyKey = useIdempotencyKey();
+  const hydrated = useHydrated();
+  const [notice, setNotice] = useState<FormNotice | null>(null);
+  const initialDevice: Device = context.settings?.device ?? context.order?.device ?? "room_air";
+  const resolver = useMemo<Resolver<BloodGasFormInput, unknown, BloodGasFormOutput>>(
+    () => zodResolver(bloodGasFormSchema),
+    [],
+  );
+  const {
+    register,
+    control,
+    handleSubmit,
+    setError,
+    setValue,
+    formState: { errors, isSubmitting },
+  } = useForm<BloodGasFormInput, unknown, BloodGasFormOutput>({
+    resolver,
+    defaultValues: {
+      sampleType: "arterial",
+      sampledAt: toZonedLocalInput(new Date(), timeZone),
+      pressureUnit,
+      hemoglobinUnit: "g/dL",
+      device: initialDevice,
+      ...prefill(initialDevice, context),
+    },
+  });
+  // Shown by the server-rendered page too, before the form takes over.
+  const initial: Partial<Record<string, number>> = prefill(initialDevice, context);
+  const [device, typedFlow, typedUnit, sampleType, typedHbUnit] = useWatch({
+    control,
+    name: ["device", "flow", "pressureUnit", "sampleType", "hemoglobinUnit"],
+  });
+  const chosen: Device = DEVICES.find((d) => d === device) ?? initialDevice;
+  const profile = DEVICE_PROFILES[chosen];
+  const unit: PressureUnit = PRESSURE_UNITS.find((u) => u === typedUnit) ?? pressureUnit;
+  const venous = sampleType === "venous";
+  const po2 = venous ? "PvO2" : "PaO2";
+  const pco2 = venous ? "PvCO2" : "PaCO2";
+
+  const onSubmit = handleSubmit(async (values) => {
+    setNotice(null);
+    const sampledAt = fromZonedLocalInput(values.sampledAt, timeZone);
+    if (!sampledAt) {
+      setError("sampledAt", { type: "client", message: "Time sampled must be a date and time." });
+      return;
+    }
+    const sent = bloodGasPayload(values, { patientId, sampledAt, idempotencyKey });
+    let result: Awaited<ReturnType<typeof recordBloodGasAction>>;
+    try {
+      result = await recordBloodGasAction(sent);
+    } catch {
+      setNotice({
+        kind: "error",
+        text: "Tidemark could not be reached; nothing was saved. Check the connection and try again — your values are kept.",
+      });
+      return;
+    }
+    if (!result.ok) {
+      if (result.status === 401) {
+        setNotice({
+          kind: "error",
+          text: "Your session has ended. Sign in again in another tab, then save; your values are kept here.",
+        });
+        return;
+      }
+      const unplaced = placeServerErrors(
+        result.fieldErrors,
+        (path) => FIELDS.find((f) => f === path),
+        setError,
+      );
+      setNotice({
+        kind: "error",
+        text:
+          Object.keys(result.fieldErrors ?? {}).length > unplaced.length
+            ? `${result.message} See the message beside each field (the server states pressures in mmHg and haemoglobin in g/dL); nothing you typed was lost.`
+            : result.message,
+        details: unplaced,
+      });
+      return;
+    }
+    onSaved({ view: result.data, sent });
+  });
+
+  type NumberField =
+    | "ph"
+    | "pao2"
+    | "paco2"
+    | "hco3"
+    | "baseExcess"
+    | "sao2"
+    | "hemoglobin"
+    | "flow"
+    | "fio2"
+    | "peep";
+  const numberInput = (name: NumberField, describedBy: string | undefined, invalid: boolean) => (
+    <input
+      id={`${id}-${name}`}
+      type="text"
+      inputMode="decimal"
+      autoComplete="off"
+      className={`${inputClasses} tabular`}
+      aria-invalid={invalid}
+      aria-describedby={describedBy}
+      defaultValue={textDefault(initial[name])}
+      {...register(name, { setValueAs: toNumber })}
+    />
+  );
+  const hbRange = hemoglobinRangeIn(HEMOGLOBIN_UNITS.find((u) => u === typedHbUnit) ?? "g/dL");
+
+  return (
+    <form
+      onSubmit={onSubmit}
+      noValidate
+      aria-label="Enter blood gas"
+      data-ready={hydrated ? "true" : undefined}
+      className="rounded-card border border-border bg-surface p-4 shadow-card"
+    >
+      <fieldset disabled={!hydrated} className="min-w-0 space-y-4">
+        <div className="grid grid-cols-2 gap-x-3 sm:grid-cols-4">
+          <fieldset
+            className="col-span-2"
+            aria-describedby={errors.sampleType ? `${id}-sampleType-error` : undefined}
+          >
+            <legend className="text-sm font-medium">Sample type</legend>
+            <div className="mt-1 flex flex-wrap gap-4 py-1.5">
+              <label className="flex items-center gap-2 text-sm">
+                <input
+                  type="radio"
+                  value="arterial"
+                  defaultChecked
+                  className="size-4 accent-accent"
+                  {...register("sampleType")}
+                />
+                Arterial (ABG)
+              </label>
+              <label className="flex items-center gap-2 text-sm">
+                <input
+                  type="radio"
+                  value="venous"
+                  className="size-4 accent-accent"
+                  {...register("sampleType")}
+                />
+                Venous (VBG)
+              </label>
+            </div>
+            <p
+              id={`${id}-sampleType-error`}
+              className="min-h-4 text-xs font-medium text-below"
+              aria-live="polite"
+            >
+              {errors.sampleType?.message ?? ""}
+            </p>
+          </fieldset>
+          <Field
+            id={`${id}-sampledAt`}
+            label="Time sampled"
+            hint={timeZoneNote(timeZone)}
+            error={errors.sampledAt?.message}
+          >
+            {(d, invalid) => (
+              <input
+                id={`${id}-sampledAt`}
+                type="datetime-local"
+                className={`${inputClasses} tabular`}
+                aria-invalid={invalid}
+                aria-describedby={d}
+                {...register("sampledAt")}
+              />
+            )}
+          </Field>
+          <Field
+            id={`${id}-pressureUnit`}
+            label="Pressures in"
+            error={errors.pressureUnit?.message}
+          >
+            {(d, invalid) => (
+              <select
+                id={`${id}-pressureUnit`}
+                className={inputClasses}
+                aria-invalid={invalid}
+                aria-describedby={d}
+                defaultValue={pressureUnit}
+                {...register("pressureUnit")}
+              >
+                {PRESSURE_UNITS.map((u) => (
+                  <option key={u} value={u}>
+                    {u}
+                  </option>
+                ))}
+              </select>
+            )}
+          </Field>
+        </div>
+
+        <fieldset className="grid grid-cols-2 gap-x-3 sm:grid-cols-4">
+          <legend className="mb-1 text-sm font-semibold">Result</legend>
+          <Field id={`${id}-ph`} label="pH" hint="Optional" error={errors.ph?.message}>
+            {(d, invalid) => numberInput("ph", d, invalid)}
+          </Field>
+          <Field id={`${id}-pao2`} label={`${po2} (${unit})`} error={errors.pao2?.message}>
+            {(d, invalid) => numberInput("pao2", d, invalid)}
+          </Field>
+          <Field id={`${id}-paco2`} label={`${pco2} (${unit})`} error={errors.paco2?.message}>
+            {(d, invalid) => numberInput("paco2", d, invalid)}
+          </Field>
+          <Field
+            id={`${id}-hco3`}
+            label="HCO3 (mmol/L)"
+            hint="Optional"
+            error={errors.hco3?.message}
+          >
+            {(d, invalid) => numberInput("hco3", d, invalid)}
+          </Field>
+          <Field
+            id={`${id}-baseExcess`}
+            label="Base excess (mmol/L)"
+            hint="Optional"
+            error={errors.baseExcess?.message}
+          >
+            {(d, invalid) => numberInput("baseExcess", d, invalid)}
+          </Field>
+          <Field
+            id={`${id}-sao2`}
+            label="SaO2 (%)"
+            hint="Co-oximetry; optional"
+            error={errors.sao2?.message}
+          >
+            {(d, invalid) => numberInput("sao2", d, invalid)}
+          </Field>
+          <Field
+            id={`${id}-hemoglobin`}
+            label="Haemoglobin"
+            hint={`Optional; ${hbRange.min}–${hbRange.max} ${hbRange.unit}`}
+            error={errors.hemoglobin?.message}
+          >
+            {(d, invalid) => numberInput("hemoglobin", d, invalid)}
+          </Field>
+          <Field
+            id={`${id}-hemoglobinUnit`}
+            label="Haemoglobin unit"
+            error={errors.hemoglobinUnit?.message}
+          >
+            {(d, invalid) => (
+              <select
+                id={`${id}-hemoglobinUnit`}
+                className={inputClasses}
+                aria-invalid={invalid}
+                aria-describedby={d}
+                {...register("hemoglobinUnit")}
+              >
+                {HEMOGLOBIN_UNITS.map((u) => (
+                  <option key={u} value={u}>
+                    {u}
+                  </option>
+                ))}
+              </select>
+            )}
+          </Field>
+        </fieldset>
+
+        <fieldset className="grid grid-cols-2 gap-x-3 sm:grid-cols-4">
+          <legend className="mb-1 text-sm font-semibold">Support at sampling</legend>
+          <div className="col-span-2 sm:col-span-1">
+            <Field
+              id={`${id}-device`}
+              label="Device"
+              hint={
+                context.settings
+                  ? `Applied now: ${DEVICE_PROFILES[context.settings.device].label}.`
+                  : undefined
+              }
+              error={errors.device?.message}
+            >
+              {(d, invalid) => (
+                <select
+                  id={`${id}-device`}
+                  className={inputClasses}
+                  aria-invalid={invalid}
+                  aria-describedby={d}
+                  defaultValue={initialDevice}
+                  {...register("device", {
+                    onChange: (e: { target: { value: string } }) => {
+                      const next = DEVICES.find((x) => x === e.target.value);
+                      if (!next) return;
+                      const values = prefill(next, context);
+                      setValue("flow", values.flow);
+                      setValue("fio2", values.fio2);
+                      setValue("peep", values.peep);
+                    },
+                  })}
+                >
+                  <DeviceOptions />
+                </select>
+              )}
+            </Field>
+          </div>
+          {profile.uses.flow ? (
+            <Field
+              id={`${id}-flow`}
+              label="Flow (L/min)"
+              hint={flowHint(chosen)}
+              error={errors.flow?.message}
+            >
+              {(d, invalid) => numberInput("flow", d, invalid)}
+            </Field>
+          ) : null}
+          {profile.uses.fio2 === "set" ? (
+            <Field
+              id={`${id}-fio2`}
+              label="FiO2"
+              hint="A fraction: 0.40 for 40 %."
+              error={errors.fio2?.message}
+            >
+              {(d, invalid) => numberInput("fio2", d, invalid)}
+            </Field>
+          ) : (
+            <div>
+              <p className="text-sm font-medium">
+                {profile.uses.fio2 === "estimated" ? "FiO2 (estimated)" : "FiO2"}
+              </p>
+              <p
+                className="tabular mt-1 rounded-md border border-dashed border-border-strong px-2.5 py-1.5 text-base"
+                data-testid="estimated-fio2"
+              >
+                {describeDeviceFio2(chosen, asNumber(typedFlow))}
+              </p>
+              <p className="text-xs text-ink-muted">
+                {profile.uses.fio2 === "estimated"
+                  ? "Stored as an estimate from the flow; indices inherit its uncertainty."
+                  : "Room air is FiO2 0.21."}
+              </p>
+              <p className="min-h-4 text-xs font-medium text-below" aria-live="polite">
+                {errors.fio2?.message ?? ""}
+              </p>
+            </div>
+          )}
+          {profile.uses.peep ? (
+            <Field id={`${id}-peep`} label="PEEP (cmH2O)" error={errors.peep?.message}>
+              {(d, invalid) => numberInput("peep", d, invalid)}
+            </Field>
+          ) : null}
+        </fieldset>
+        {context.settings ? (
+          <p className="text-xs text-ink-muted">
+            Prefilled from the applied settings (FiO2 {formatFio2Value(context.settings.fio2)}
+            {context.settings.fio2Estimated ? ", estimated" : ""}); change them if the sample was
+            taken on other settings.
+          </p>
+        ) : null}
+
+        <div className="flex flex-wrap items-center gap-3">
+          <Button type="submit" disabled={isSubmitting}>
+            {isSubmitting ? "Saving…" : "Save blood gas"}
+          </Button>
+          <Link href={`/patients/${patientId}`} className={buttonClasses("ghost")}>
+            Cancel
+          </Link>
+        </div>
+        <FormStatus notice={notice} />
+      </fieldset>
+    </form>
+  );
+}
