@@ -31,7 +31,6 @@ import type { BloodGasView } from "@/lib/blood-gases/service";
 import {
   type BloodGasInput as EngineInput,
   type PressureUnit,
-  type RespiratorySupport,
   toGramsPerDecilitre,
   toMmHg,
 } from "@/lib/oxygen";
@@ -42,7 +41,7 @@ import {
   pressureRangeIn,
   rangeMessage,
 } from "@/lib/oxygenation/schema";
-import { DEVICE_PROFILES, DEVICES, type Device } from "@/lib/orders/devices";
+import { DEVICE_PROFILES, DEVICES, RESPIRATORY_SUPPORT, type Device } from "@/lib/orders/devices";
 import type { BedsideContext } from "@/lib/patients/bedside";
 import { BloodGasResult } from "./BloodGasResult";
 
@@ -184,18 +183,6 @@ export function bloodGasPayload(
   };
 }
 
-// The same support categories the server assesses with (lib/blood-gases/service.ts).
-const SUPPORT: Record<Device, RespiratorySupport> = {
-  room_air: "none",
-  nasal_cannula: "conventional",
-  simple_mask: "conventional",
-  venturi_mask: "conventional",
-  reservoir_mask: "conventional",
-  hfnc: "hfnc",
-  niv: "niv",
-  invasive: "invasive",
-};
-
 /** The engine input the stored indices were computed from, for the oxygenation panel. */
 export function engineInputOf(view: BloodGasView, sent: BloodGasPayload): EngineInput {
   return {
@@ -203,7 +190,7 @@ export function engineInputOf(view: BloodGasView, sent: BloodGasPayload): Engine
     pao2: view.pao2,
     paco2: view.paco2,
     barometricPressure: view.barometricPressure,
-    support: SUPPORT[view.device],
+    support: RESPIRATORY_SUPPORT[view.device],
     ...(typeof sent.hemoglobin === "number" ? { hemoglobin: sent.hemoglobin } : {}),
     ...(typeof sent.sao2 === "number" ? { sao2: sent.sao2 / 100 } : {}),
     ...(view.peep !== null ? { peep: view.peep } : {}),

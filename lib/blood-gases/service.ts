@@ -4,13 +4,12 @@ import { assertRole } from "../auth/actor-queries";
 import { ValidationError } from "../errors";
 import { once } from "../idempotency";
 import { appendLedger } from "../ledger/service";
-import type { Device } from "../orders/devices";
+import { RESPIRATORY_SUPPORT, type Device } from "../orders/devices";
 import {
   assessBloodGas,
   barometricPressureAtAltitude,
   ENGINE_VERSION,
   type BloodGasAssessment,
-  type RespiratorySupport,
 } from "../oxygen";
 import { findOpenAdmission } from "../patients/access";
 import { resolveFio2 } from "../readings/service";
@@ -32,17 +31,6 @@ export type BloodGasView = {
   /** Computed on save for arterial samples; a venous PO2 says nothing about oxygenation. */
   assessment: BloodGasAssessment | null;
   engineVersion: string;
-};
-
-const SUPPORT: Record<Device, RespiratorySupport> = {
-  room_air: "none",
-  nasal_cannula: "conventional",
-  simple_mask: "conventional",
-  venturi_mask: "conventional",
-  reservoir_mask: "conventional",
-  hfnc: "hfnc",
-  niv: "niv",
-  invasive: "invasive",
 };
 
 /** Records a blood gas and stores its computed indices with the engine version. */
@@ -73,7 +61,7 @@ export async function recordBloodGas(
           pao2: input.pao2,
           paco2: input.paco2,
           barometricPressure,
-          support: SUPPORT[input.device],
+          support: RESPIRATORY_SUPPORT[input.device],
           ...(input.hemoglobin !== undefined ? { hemoglobin: input.hemoglobin } : {}),
           ...(input.sao2 !== undefined ? { sao2: input.sao2 / 100 } : {}),
           ...(input.peep !== undefined ? { peep: input.peep } : {}),

@@ -1,3 +1,5 @@
+import type { RespiratorySupport } from "../oxygen";
+
 /** Oxygen delivery devices an order can prescribe (DESIGN.md §2, "Order"). */
 export const DEVICES = [
   "room_air",
@@ -120,3 +122,15 @@ export const TARGET_BAND_PRESETS = [
 
 export const SIGNATURE_MEANING =
   "I am the prescriber of this oxygen order and I have reviewed it for this patient.";
+
+/** The kind of respiratory support each device is, as the ARDS definitions classify it. */
+export const RESPIRATORY_SUPPORT: Record<Device, RespiratorySupport> = {
+  room_air: "none",
+  nasal_cannula: "conventional",
+  simple_mask: "conventional",
+  venturi_mask: "conventional",
+  reservoir_mask: "conventional",
+  hfnc: "hfnc",
+  niv: "niv",
+  invasive: "invasive",
+};
