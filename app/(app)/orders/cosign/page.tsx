@@ -1,0 +1,108 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { formatDuration, formatOrderTime } from "@/components/orders/OrderFacts";
+import { EmptyState } from "@/components/ui/EmptyState";
+import { StatusBadge } from "@/components/ui/StatusBadge";
+import { pageActor } from "@/lib/auth/page-guard";
+import { db } from "@/lib/db";
+import { DEVICE_PROFILES } from "@/lib/orders/devices";
+import { listCosignQueue } from "@/lib/orders/queries";
+import { listUnits } from "@/lib/units/queries";
+
+export const metadata: Metadata = { title: "Co-sign queue" };
+
+const MODE_WORDS = { verbal: "Verbal", telephone: "Telephone", written: "Written" } as const;
+
+/** Verbal and telephone orders in the physician's units waiting for a co-signature, oldest first. */
+export default async function CosignQueuePage() {
+  const actor = await pageActor("physician");
+  const [queue, units] = await Promise.all([
+    listCosignQueue(db(), actor.unitIds),
+    listUnits(db(), actor.unitIds),
+  ]);
+  const unitById = new Map(units.map((u) => [u.id, u]));
+  const now = new Date();
+
+  return (
+    <div className="space-y-4">
+      <div>
+        <h1 className="text-2xl font-semibold tracking-tight">Co-sign queue</h1>
+        <p className="text-sm text-ink-muted">
+          Verbal and telephone orders entered by nurses and therapists on your units. Each is in
+          effect, marked &ldquo;Awaiting co-sign&rdquo;, until a physician co-signs it. Oldest first.
+        </p>
+      </div>
+      {queue.length === 0 ? (
+        <EmptyState title="Nothing to co-sign">
+          No verbal or telephone order on your units is waiting for a co-signature.
+        </EmptyState>
+      ) : (
+        <div className="overflow-x-auto rounded-card border border-border bg-surface shadow-card">
+          <table className="w-full text-left text-sm" data-testid="cosign-queue">
+            <caption className="sr-only">
+              {queue.length} order{queue.length === 1 ? "" : "s"} awaiting co-signature, oldest first
+            </caption>
+            <thead className="border-b border-border bg-surface-muted text-xs uppercase tracking-wide text-ink-muted">
+              <tr>
+                <th scope="col" className="px-3 py-2">Bed</th>
+                <th scope="col" className="px-3 py-2">Patient</th>
+                <th scope="col" className="px-3 py-2">Device</th>
+                <th scope="col" className="px-3 py-2">SpO2 band</th>
+                <th scope="col" className="px-3 py-2">Entered by</th>
+                <th scope="col" className="px-3 py-2">Entered</th>
+                <th scope="col" className="px-3 py-2">Waiting</th>
+                <th scope="col" className="px-3 py-2">
+                  <span className="sr-only">Open</span>
+                </th>
+              </tr>
+            </thead>
+            <tbody>
+              {queue.map((o) => {
+                const unit = unitById.get(o.unitId);
+                return (
+                  <tr key={o.id} className="border-b border-border last:border-0" data-testid="cosign-row">
+                    <td className="px-3 py-2 font-medium tabular">
+                      {o.bedLabel}
+                      {unit ? <span className="ml-1 text-xs text-ink-muted">{unit.code}</span> : null}
+                    </td>
+                    <th scope="row" className="px-3 py-2 font-medium">
+                      {o.patientName}
+                    </th>
+                    <td className="px-3 py-2">{DEVICE_PROFILES[o.device].label}</td>
+                    <td className="px-3 py-2 tabular">
+                      {o.spo2Band.lower}–{o.spo2Band.upper} %
+                    </td>
+                    <td className="px-3 py-2">
+                      {o.enteredBy.name}
+                      <span className="block text-xs text-ink-muted">
+                        {MODE_WORDS[o.entryMode]} from {o.prescriber.name}
+                      </span>
+                    </td>
+                    <td className="px-3 py-2 tabular">
+                      {formatOrderTime(o.createdAt, unit?.timeZone ?? "UTC")}
+                    </td>
+                    <td className="whitespace-nowrap px-3 py-2">
+                      <StatusBadge
+                        status="overdue"
+                        label={formatDuration(now.getTime() - Date.parse(o.createdAt))}
+                      />
+                    </td>
+                    <td className="px-3 py-2 text-right">
+                      <Link
+                        href={`/orders/${o.id}`}
+                        className="whitespace-nowrap font-medium text-accent underline-offset-2 hover:underline"
+                        aria-label={`Review and co-sign order #${o.id} for ${o.patientName}`}
+                      >
+                        Review and co-sign
+                      </Link>
+                    </td>
+                  </tr>
+                );
+              })}
+            </tbody>
+          </table>
+        </div>
+      )}
+    </div>
+  );
+}
