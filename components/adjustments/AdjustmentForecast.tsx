@@ -9,7 +9,7 @@ import {
   ModelSwatch,
 } from "@/components/oxygenation/ForecastChart";
 import { formatNumber, formatPressureNumber } from "@/components/oxygenation/format";
-import { formatFio2Value, formatUnitTime } from "@/components/readings/BedsideFormParts";
+import { formatFio2Value, formatUnitTime } from "@/components/bedside/BedsideFormParts";
 import { IconInfo, IconWarning } from "@/components/ui/icons";
 import {
   ASSUMED_HEMOGLOBIN,

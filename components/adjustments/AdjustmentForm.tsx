@@ -18,14 +18,13 @@ import {
   FormStatus,
   fromZonedLocalInput,
   localDateTimeSchema,
-  placeServerErrors,
-  textDefault,
-  timeZoneNote,
-  toNumber,
+  NumberField,
+  refusalNotice,
   toZonedLocalInput,
+  UnitTimeField,
   useHydrated,
   useIdempotencyKey,
-} from "@/components/readings/BedsideFormParts";
+} from "@/components/bedside/BedsideFormParts";
 import { Button, buttonClasses } from "@/components/ui/Button";
 import { Caution } from "@/components/ui/Caution";
 import { EmptyState } from "@/components/ui/EmptyState";
@@ -276,15 +275,7 @@ function AdjustmentFormBody({
     () => zodResolver(adjustmentFormSchema(device, settings)),
     [device, settings],
   );
-  const {
-    register,
-    control,
-    handleSubmit,
-    setError,
-    setValue,
-    setFocus,
-    formState: { errors, isSubmitting },
-  } = useForm<FormInput, unknown, FormOutput>({
+  const form = useForm<FormInput, unknown, FormOutput>({
     resolver,
     defaultValues: {
       toFio2: uses.fio2 === "set" ? settings.fio2 : undefined,
@@ -295,6 +286,15 @@ function AdjustmentFormBody({
       appliedAt: toZonedLocalInput(new Date(), timeZone),
     },
   });
+  const {
+    register,
+    control,
+    handleSubmit,
+    setError,
+    setValue,
+    setFocus,
+    formState: { errors, isSubmitting },
+  } = form;
   // Shown by the server-rendered page too, before the form takes over.
   const initial = { toFio2: settings.fio2, toPeep: settings.peep, toFlow: settings.flow };
 
@@ -375,26 +375,12 @@ function AdjustmentFormBody({
         setConflict(result.message);
         return;
       }
-      if (result.status === 401) {
-        setNotice({
-          kind: "error",
-          text: "Your session has ended. Sign in again in another tab, then record the change; your values are kept here.",
-        });
-        return;
-      }
-      const unplaced = placeServerErrors(
-        result.fieldErrors,
-        (path) => FIELDS.find((f) => f === path),
-        setError,
+      setNotice(
+        refusalNotice(result, FIELDS, setError, {
+          sessionEnded:
+            "Your session has ended. Sign in again in another tab, then record the change; your values are kept here.",
+        }),
       );
-      setNotice({
-        kind: "error",
-        text:
-          Object.keys(result.fieldErrors ?? {}).length > unplaced.length
-            ? `${result.message} See the message beside each field; nothing you typed was lost.`
-            : result.message,
-        details: unplaced,
-      });
       return;
     }
     setSaved(true);
@@ -414,31 +400,24 @@ function AdjustmentFormBody({
     });
   };
 
-  const numberInput = (
-    name: "toFio2" | "toPeep" | "toFlow",
-    describedBy: string | undefined,
-    invalid: boolean,
-  ) => (
-    <input
-      id={`${id}-${name}`}
-      type="text"
-      inputMode="decimal"
-      autoComplete="off"
-      className={`${inputClasses} tabular`}
-      aria-invalid={invalid}
-      aria-describedby={
-        [describedBy, warnings[name] ? `${id}-${name}-warning` : undefined]
-          .filter(Boolean)
-          .join(" ") || undefined
-      }
-      defaultValue={textDefault(initial[name])}
-      {...register(name, { setValueAs: toNumber })}
-    />
-  );
   const warning = (name: "toFio2" | "toPeep" | "toFlow") =>
     warnings[name] ? (
       <FieldWarning id={`${id}-${name}-warning`}>{warnings[name]}</FieldWarning>
     ) : null;
+  const settingField = (name: "toFio2" | "toPeep" | "toFlow", label: string, hint?: string) => (
+    <div className="col-span-2 sm:col-span-1">
+      <NumberField
+        form={form}
+        id={id}
+        name={name}
+        label={label}
+        hint={hint}
+        defaultValue={initial[name] ?? undefined}
+        describedBy={warnings[name] ? `${id}-${name}-warning` : undefined}
+      />
+      {warning(name)}
+    </div>
+  );
 
   return (
     <div className="space-y-4">
@@ -463,35 +442,11 @@ function AdjustmentFormBody({
             New settings on {profile.label}
           </h2>
           <div className="grid grid-cols-2 gap-x-3">
-            {uses.fio2 === "set" ? (
-              <div className="col-span-2 sm:col-span-1">
-                <Field
-                  id={`${id}-toFio2`}
-                  label="New FiO2"
-                  hint="A fraction: 0.40 for 40 %."
-                  error={errors.toFio2?.message}
-                >
-                  {(d, invalid) => numberInput("toFio2", d, invalid)}
-                </Field>
-                {warning("toFio2")}
-              </div>
-            ) : null}
-            {uses.flow ? (
-              <div className="col-span-2 sm:col-span-1">
-                <Field id={`${id}-toFlow`} label="New flow (L/min)" error={errors.toFlow?.message}>
-                  {(d, invalid) => numberInput("toFlow", d, invalid)}
-                </Field>
-                {warning("toFlow")}
-              </div>
-            ) : null}
-            {uses.peep ? (
-              <div className="col-span-2 sm:col-span-1">
-                <Field id={`${id}-toPeep`} label="New PEEP (cmH2O)" error={errors.toPeep?.message}>
-                  {(d, invalid) => numberInput("toPeep", d, invalid)}
-                </Field>
-                {warning("toPeep")}
-              </div>
-            ) : null}
+            {uses.fio2 === "set"
+              ? settingField("toFio2", "New FiO2", "A fraction: 0.40 for 40 %.")
+              : null}
+            {uses.flow ? settingField("toFlow", "New flow (L/min)") : null}
+            {uses.peep ? settingField("toPeep", "New PEEP (cmH2O)") : null}
             {uses.fio2 !== "set" ? (
               <div className="col-span-2 sm:col-span-1">
                 <p id={`${id}-estimate-label`} className="text-sm font-medium">
@@ -543,23 +498,13 @@ function AdjustmentFormBody({
               </select>
             )}
           </Field>
-          <Field
-            id={`${id}-appliedAt`}
+          <UnitTimeField
+            form={form}
+            id={id}
+            name="appliedAt"
             label="Time applied"
-            hint={timeZoneNote(timeZone)}
-            error={errors.appliedAt?.message}
-          >
-            {(d, invalid) => (
-              <input
-                id={`${id}-appliedAt`}
-                type="datetime-local"
-                className={`${inputClasses} tabular`}
-                aria-invalid={invalid}
-                aria-describedby={d}
-                {...register("appliedAt")}
-              />
-            )}
-          </Field>
+            timeZone={timeZone}
+          />
           <Field
             id={`${id}-rationale`}
             label="Rationale"

@@ -1,6 +1,6 @@
 import type { ReactNode } from "react";
 import { formatPressureNumber } from "@/components/oxygenation/format";
-import { formatFio2Value, formatUnitTime } from "@/components/readings/BedsideFormParts";
+import { formatFio2Value, formatUnitTime } from "@/components/bedside/BedsideFormParts";
 import { StatusBadge, type Status } from "@/components/ui/StatusBadge";
 import type { PressureUnit } from "@/lib/oxygen";
 import { DEVICE_PROFILES } from "@/lib/orders/devices";

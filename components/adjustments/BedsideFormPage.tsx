@@ -8,11 +8,10 @@ import { db } from "@/lib/db";
 import { NotFoundError } from "@/lib/errors";
 import { getBedsideContext, type BedsideContext } from "@/lib/patients/bedside";
 import { getPatientForActor, type ChartPatient } from "@/lib/patients/queries";
-import { listUnits } from "@/lib/units/queries";
 
 // Server-side frame of the three bedside form pages (adjustment, reading,
-// blood gas): the patient with a 404 for other units, the bedside context, the
-// unit's time zone, and the heading.
+// blood gas): the patient with a 404 for other units, the bedside context (with
+// the unit's time zone), and the heading. Reads go through lib/ only.
 
 const paramsSchema = z.object({ patientId: z.coerce.number().int().positive() });
 
@@ -32,12 +31,12 @@ export async function loadBedsidePage(
   if (!parsed.success) notFound();
   let data: BedsidePageData;
   try {
-    const patient = await getPatientForActor(db(), actor, parsed.data.patientId);
-    const [context, units] = await Promise.all([
-      getBedsideContext(db(), actor, patient.id),
-      listUnits(db(), [patient.admission.unit.id]),
+    // Both answer NotFoundError alike for another unit's patient.
+    const [patient, context] = await Promise.all([
+      getPatientForActor(db(), actor, parsed.data.patientId),
+      getBedsideContext(db(), actor, parsed.data.patientId),
     ]);
-    data = { patient, context, timeZone: units[0]?.timeZone ?? "UTC" };
+    data = { patient, context, timeZone: context.admission.timeZone };
   } catch (error) {
     if (error instanceof NotFoundError) notFound();
     throw error;

@@ -1,5 +1,5 @@
 import { formatPressureNumber } from "@/components/oxygenation/format";
-import { formatFio2Value } from "@/components/readings/BedsideFormParts";
+import { formatFio2Value } from "@/components/bedside/BedsideFormParts";
 import { Button } from "@/components/ui/Button";
 import { IconAbove, IconBelow, IconEscalated, IconInBand } from "@/components/ui/icons";
 import {

@@ -7,24 +7,21 @@ import { useForm, useWatch, type Resolver } from "react-hook-form";
 import { z } from "zod";
 import { recordBloodGasAction } from "@/app/(app)/patients/[patientId]/actions";
 import {
-  describeDeviceFio2,
-  DeviceOptions,
-  flowHint,
   formatFio2Value,
   type FormNotice,
   FormStatus,
   fromZonedLocalInput,
   localDateTimeSchema,
-  placeServerErrors,
-  textDefault,
-  timeZoneNote,
-  toNumber,
+  NumberField,
+  refusalNotice,
   toZonedLocalInput,
+  UnitTimeField,
   useHydrated,
   useIdempotencyKey,
-} from "@/components/readings/BedsideFormParts";
+} from "@/components/bedside/BedsideFormParts";
+import { DeviceSettingsFields, devicePrefill } from "@/components/bedside/DeviceSettingsFields";
 import { Button, buttonClasses } from "@/components/ui/Button";
-import { Field, inputClasses } from "@/components/ui/Field";
+import { SelectField } from "@/components/ui/SelectField";
 import type { BloodGasInput as BloodGasPayload } from "@/lib/blood-gases/schema";
 import { bloodGasSchema } from "@/lib/blood-gases/schema";
 import type { BloodGasView } from "@/lib/blood-gases/service";
@@ -198,22 +195,6 @@ export function engineInputOf(view: BloodGasView, sent: BloodGasPayload): Engine
   };
 }
 
-const asNumber = (v: unknown): number | undefined => (typeof v === "number" ? v : undefined);
-
-function prefill(
-  device: Device,
-  context: BedsideContext,
-): { flow?: number; fio2?: number; peep?: number } {
-  const { settings } = context;
-  const uses = DEVICE_PROFILES[device].uses;
-  if (!settings || settings.device !== device) return {};
-  return {
-    ...(uses.flow && settings.flow !== null ? { flow: settings.flow } : {}),
-    ...(uses.fio2 === "set" ? { fio2: settings.fio2 } : {}),
-    ...(uses.peep && settings.peep !== null ? { peep: settings.peep } : {}),
-  };
-}
-
 type Saved = { view: BloodGasView; sent: BloodGasPayload };
 
 /**
@@ -268,14 +249,7 @@ function BloodGasEntry({
     () => zodResolver(bloodGasFormSchema),
     [],
   );
-  const {
-    register,
-    control,
-    handleSubmit,
-    setError,
-    setValue,
-    formState: { errors, isSubmitting },
-  } = useForm<BloodGasFormInput, unknown, BloodGasFormOutput>({
+  const form = useForm<BloodGasFormInput, unknown, BloodGasFormOutput>({
     resolver,
     defaultValues: {
       sampleType: "arterial",
@@ -283,17 +257,20 @@ function BloodGasEntry({
       pressureUnit,
       hemoglobinUnit: "g/dL",
       device: initialDevice,
-      ...prefill(initialDevice, context),
+      ...devicePrefill(initialDevice, context.settings, { withPeep: true }),
     },
   });
-  // Shown by the server-rendered page too, before the form takes over.
-  const initial: Partial<Record<string, number>> = prefill(initialDevice, context);
-  const [device, typedFlow, typedUnit, sampleType, typedHbUnit] = useWatch({
+  const {
+    register,
     control,
-    name: ["device", "flow", "pressureUnit", "sampleType", "hemoglobinUnit"],
+    handleSubmit,
+    setError,
+    formState: { errors, isSubmitting },
+  } = form;
+  const [typedUnit, sampleType, typedHbUnit] = useWatch({
+    control,
+    name: ["pressureUnit", "sampleType", "hemoglobinUnit"],
   });
-  const chosen: Device = DEVICES.find((d) => d === device) ?? initialDevice;
-  const profile = DEVICE_PROFILES[chosen];
   const unit: PressureUnit = PRESSURE_UNITS.find((u) => u === typedUnit) ?? pressureUnit;
   const venous = sampleType === "venous";
   const po2 = venous ? "PvO2" : "PaO2";
@@ -318,55 +295,19 @@ function BloodGasEntry({
       return;
     }
     if (!result.ok) {
-      if (result.status === 401) {
-        setNotice({
-          kind: "error",
-          text: "Your session has ended. Sign in again in another tab, then save; your values are kept here.",
-        });
-        return;
-      }
-      const unplaced = placeServerErrors(
-        result.fieldErrors,
-        (path) => FIELDS.find((f) => f === path),
-        setError,
+      setNotice(
+        refusalNotice(result, FIELDS, setError, {
+          sessionEnded:
+            "Your session has ended. Sign in again in another tab, then save; your values are kept here.",
+          besideFields:
+            "See the message beside each field (the server states pressures in mmHg and haemoglobin in g/dL); nothing you typed was lost.",
+        }),
       );
-      setNotice({
-        kind: "error",
-        text:
-          Object.keys(result.fieldErrors ?? {}).length > unplaced.length
-            ? `${result.message} See the message beside each field (the server states pressures in mmHg and haemoglobin in g/dL); nothing you typed was lost.`
-            : result.message,
-        details: unplaced,
-      });
       return;
     }
     onSaved({ view: result.data, sent });
   });
 
-  type NumberField =
-    | "ph"
-    | "pao2"
-    | "paco2"
-    | "hco3"
-    | "baseExcess"
-    | "sao2"
-    | "hemoglobin"
-    | "flow"
-    | "fio2"
-    | "peep";
-  const numberInput = (name: NumberField, describedBy: string | undefined, invalid: boolean) => (
-    <input
-      id={`${id}-${name}`}
-      type="text"
-      inputMode="decimal"
-      autoComplete="off"
-      className={`${inputClasses} tabular`}
-      aria-invalid={invalid}
-      aria-describedby={describedBy}
-      defaultValue={textDefault(initial[name])}
-      {...register(name, { setValueAs: toNumber })}
-    />
-  );
   const hbRange = hemoglobinRangeIn(HEMOGLOBIN_UNITS.find((u) => u === typedHbUnit) ?? "g/dL");
 
   return (
@@ -413,195 +354,69 @@ function BloodGasEntry({
               {errors.sampleType?.message ?? ""}
             </p>
           </fieldset>
-          <Field
-            id={`${id}-sampledAt`}
+          <UnitTimeField
+            form={form}
+            id={id}
+            name="sampledAt"
             label="Time sampled"
-            hint={timeZoneNote(timeZone)}
-            error={errors.sampledAt?.message}
-          >
-            {(d, invalid) => (
-              <input
-                id={`${id}-sampledAt`}
-                type="datetime-local"
-                className={`${inputClasses} tabular`}
-                aria-invalid={invalid}
-                aria-describedby={d}
-                {...register("sampledAt")}
-              />
-            )}
-          </Field>
-          <Field
-            id={`${id}-pressureUnit`}
+            timeZone={timeZone}
+          />
+          <SelectField
+            form={form}
+            id={id}
+            name="pressureUnit"
             label="Pressures in"
-            error={errors.pressureUnit?.message}
-          >
-            {(d, invalid) => (
-              <select
-                id={`${id}-pressureUnit`}
-                className={inputClasses}
-                aria-invalid={invalid}
-                aria-describedby={d}
-                defaultValue={pressureUnit}
-                {...register("pressureUnit")}
-              >
-                {PRESSURE_UNITS.map((u) => (
-                  <option key={u} value={u}>
-                    {u}
-                  </option>
-                ))}
-              </select>
-            )}
-          </Field>
+            options={PRESSURE_UNITS}
+            defaultValue={pressureUnit}
+          />
         </div>
 
         <fieldset className="grid grid-cols-2 gap-x-3 sm:grid-cols-4">
           <legend className="mb-1 text-sm font-semibold">Result</legend>
-          <Field id={`${id}-ph`} label="pH" hint="Optional" error={errors.ph?.message}>
-            {(d, invalid) => numberInput("ph", d, invalid)}
-          </Field>
-          <Field id={`${id}-pao2`} label={`${po2} (${unit})`} error={errors.pao2?.message}>
-            {(d, invalid) => numberInput("pao2", d, invalid)}
-          </Field>
-          <Field id={`${id}-paco2`} label={`${pco2} (${unit})`} error={errors.paco2?.message}>
-            {(d, invalid) => numberInput("paco2", d, invalid)}
-          </Field>
-          <Field
-            id={`${id}-hco3`}
-            label="HCO3 (mmol/L)"
-            hint="Optional"
-            error={errors.hco3?.message}
-          >
-            {(d, invalid) => numberInput("hco3", d, invalid)}
-          </Field>
-          <Field
-            id={`${id}-baseExcess`}
+          <NumberField form={form} id={id} name="ph" label="pH" hint="Optional" />
+          <NumberField form={form} id={id} name="pao2" label={`${po2} (${unit})`} />
+          <NumberField form={form} id={id} name="paco2" label={`${pco2} (${unit})`} />
+          <NumberField form={form} id={id} name="hco3" label="HCO3 (mmol/L)" hint="Optional" />
+          <NumberField
+            form={form}
+            id={id}
+            name="baseExcess"
             label="Base excess (mmol/L)"
             hint="Optional"
-            error={errors.baseExcess?.message}
-          >
-            {(d, invalid) => numberInput("baseExcess", d, invalid)}
-          </Field>
-          <Field
-            id={`${id}-sao2`}
+          />
+          <NumberField
+            form={form}
+            id={id}
+            name="sao2"
             label="SaO2 (%)"
             hint="Co-oximetry; optional"
-            error={errors.sao2?.message}
-          >
-            {(d, invalid) => numberInput("sao2", d, invalid)}
-          </Field>
-          <Field
-            id={`${id}-hemoglobin`}
+          />
+          <NumberField
+            form={form}
+            id={id}
+            name="hemoglobin"
             label="Haemoglobin"
             hint={`Optional; ${hbRange.min}–${hbRange.max} ${hbRange.unit}`}
-            error={errors.hemoglobin?.message}
-          >
-            {(d, invalid) => numberInput("hemoglobin", d, invalid)}
-          </Field>
-          <Field
-            id={`${id}-hemoglobinUnit`}
+          />
+          <SelectField
+            form={form}
+            id={id}
+            name="hemoglobinUnit"
             label="Haemoglobin unit"
-            error={errors.hemoglobinUnit?.message}
-          >
-            {(d, invalid) => (
-              <select
-                id={`${id}-hemoglobinUnit`}
-                className={inputClasses}
-                aria-invalid={invalid}
-                aria-describedby={d}
-                {...register("hemoglobinUnit")}
-              >
-                {HEMOGLOBIN_UNITS.map((u) => (
-                  <option key={u} value={u}>
-                    {u}
-                  </option>
-                ))}
-              </select>
-            )}
-          </Field>
+            options={HEMOGLOBIN_UNITS}
+          />
         </fieldset>
 
-        <fieldset className="grid grid-cols-2 gap-x-3 sm:grid-cols-4">
-          <legend className="mb-1 text-sm font-semibold">Support at sampling</legend>
-          <div className="col-span-2 sm:col-span-1">
-            <Field
-              id={`${id}-device`}
-              label="Device"
-              hint={
-                context.settings
-                  ? `Applied now: ${DEVICE_PROFILES[context.settings.device].label}.`
-                  : undefined
-              }
-              error={errors.device?.message}
-            >
-              {(d, invalid) => (
-                <select
-                  id={`${id}-device`}
-                  className={inputClasses}
-                  aria-invalid={invalid}
-                  aria-describedby={d}
-                  defaultValue={initialDevice}
-                  {...register("device", {
-                    onChange: (e: { target: { value: string } }) => {
-                      const next = DEVICES.find((x) => x === e.target.value);
-                      if (!next) return;
-                      const values = prefill(next, context);
-                      setValue("flow", values.flow);
-                      setValue("fio2", values.fio2);
-                      setValue("peep", values.peep);
-                    },
-                  })}
-                >
-                  <DeviceOptions />
-                </select>
-              )}
-            </Field>
-          </div>
-          {profile.uses.flow ? (
-            <Field
-              id={`${id}-flow`}
-              label="Flow (L/min)"
-              hint={flowHint(chosen)}
-              error={errors.flow?.message}
-            >
-              {(d, invalid) => numberInput("flow", d, invalid)}
-            </Field>
-          ) : null}
-          {profile.uses.fio2 === "set" ? (
-            <Field
-              id={`${id}-fio2`}
-              label="FiO2"
-              hint="A fraction: 0.40 for 40 %."
-              error={errors.fio2?.message}
-            >
-              {(d, invalid) => numberInput("fio2", d, invalid)}
-            </Field>
-          ) : (
-            <div>
-              <p className="text-sm font-medium">
-                {profile.uses.fio2 === "estimated" ? "FiO2 (estimated)" : "FiO2"}
-              </p>
-              <p
-                className="tabular mt-1 rounded-md border border-dashed border-border-strong px-2.5 py-1.5 text-base"
-                data-testid="estimated-fio2"
-              >
-                {describeDeviceFio2(chosen, asNumber(typedFlow))}
-              </p>
-              <p className="text-xs text-ink-muted">
-                {profile.uses.fio2 === "estimated"
-                  ? "Stored as an estimate from the flow; indices inherit its uncertainty."
-                  : "Room air is FiO2 0.21."}
-              </p>
-              <p className="min-h-4 text-xs font-medium text-below" aria-live="polite">
-                {errors.fio2?.message ?? ""}
-              </p>
-            </div>
-          )}
-          {profile.uses.peep ? (
-            <Field id={`${id}-peep`} label="PEEP (cmH2O)" error={errors.peep?.message}>
-              {(d, invalid) => numberInput("peep", d, invalid)}
-            </Field>
-          ) : null}
-        </fieldset>
+        <DeviceSettingsFields
+          id={id}
+          legend="Support at sampling"
+          names={{ device: "device", flow: "flow", fio2: "fio2", peep: "peep" }}
+          form={form}
+          settings={context.settings}
+          initialDevice={initialDevice}
+          estimateNote="Stored as an estimate from the flow; indices inherit its uncertainty."
+          deviceClassName="col-span-2 sm:col-span-1"
+        />
         {context.settings ? (
           <p className="text-xs text-ink-muted">
             Prefilled from the applied settings (FiO2 {formatFio2Value(context.settings.fio2)}

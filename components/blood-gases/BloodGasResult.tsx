@@ -4,7 +4,7 @@ import Link from "next/link";
 import { useEffect, useRef } from "react";
 import { formatPressureNumber } from "@/components/oxygenation/format";
 import { OxygenationPanel } from "@/components/oxygenation/OxygenationPanel";
-import { formatFio2Value, formatUnitTime } from "@/components/readings/BedsideFormParts";
+import { formatFio2Value, formatUnitTime } from "@/components/bedside/BedsideFormParts";
 import { Button, buttonClasses } from "@/components/ui/Button";
 import { IconCheck } from "@/components/ui/icons";
 import type { BloodGasView } from "@/lib/blood-gases/service";

@@ -16,10 +16,12 @@ import { Button } from "@/components/ui/Button";
 import { Field, inputClasses } from "@/components/ui/Field";
 import { IconWarning } from "@/components/ui/icons";
 import {
+  DEVICE_DEFAULTS,
   DEVICE_PROFILES,
   DEVICES,
   estimateFio2,
   SIGNATURE_MEANING,
+  stepTableFitsDevice,
   TARGET_BAND_PRESETS,
   type Device,
 } from "@/lib/orders/devices";
@@ -68,25 +70,6 @@ type NumericField =
   | "flowMin"
   | "flowMax"
   | "initialFlow";
-
-type Triple = readonly [min: number, max: number, start: number];
-
-/**
- * Limits a prescriber usually starts from for each device (common practice,
- * not a single published source), inside DEVICE_PROFILES' physical ranges.
- * For low-flow devices the FiO2 limits follow the estimate at the flow limits
- * and the starting FiO2 is the estimate at the starting flow.
- */
-export const DEVICE_DEFAULTS: Record<Device, { fio2: Triple; peep?: Triple; flow?: Triple }> = {
-  room_air: { fio2: [0.21, 0.21, 0.21] },
-  nasal_cannula: { fio2: [0.24, 0.37, 0.29], flow: [1, 4, 2] },
-  simple_mask: { fio2: [0.35, 0.55, 0.39], flow: [5, 10, 6] },
-  venturi_mask: { fio2: [0.24, 0.4, 0.28] },
-  reservoir_mask: { fio2: [0.6, 0.9, 0.9], flow: [10, 15, 15] },
-  hfnc: { fio2: [0.3, 0.6, 0.4], flow: [30, 60, 40] },
-  niv: { fio2: [0.3, 0.6, 0.4], peep: [5, 10, 5] },
-  invasive: { fio2: [0.3, 0.8, 0.4], peep: [5, 14, 8] },
-};
 
 const BAND_CHOICES = TARGET_BAND_PRESETS.map((p) => ({
   value: `${p.lower}-${p.upper}`,
@@ -199,8 +182,8 @@ export type BuildContext = {
 
 /**
  * Turns what was typed into the shared schema's input. Errors the schema
- * cannot see (a non-number in an optional field, a kPa value out of range,
- * half a PaO2 band) come back beside their fields.
+ * cannot see (a non-number in an optional field, a kPa value out of range)
+ * come back beside their fields; half a PaO2 band is the schema's to refuse.
  */
 export function buildOrderInput(
   values: ComposerValues,
@@ -231,11 +214,6 @@ export function buildOrderInput(
   };
   const pao2Lower = pao2("pao2Lower", "PaO2 lower bound");
   const pao2Upper = pao2("pao2Upper", "PaO2 upper bound");
-  if ((pao2Lower === undefined) !== (pao2Upper === undefined) && !errors.pao2Lower && !errors.pao2Upper) {
-    // A one-sided band is stored but never shown as a band; ask for both.
-    errors[pao2Lower === undefined ? "pao2Lower" : "pao2Upper"] =
-      "Give both PaO2 bounds, or leave both empty.";
-  }
   const peep = profile?.uses.peep ?? false;
   const flow = profile?.uses.flow ?? false;
   const input: Record<string, unknown> = {
@@ -358,9 +336,7 @@ export type StepTableChoice = { id: number; name: string; kind: "fio2_peep" | "f
 export type PhysicianChoice = { id: number; name: string; onDuty: boolean };
 
 function stepTableFits(kind: StepTableChoice["kind"], device: Device | ""): boolean {
-  if (device === "") return false;
-  const uses = DEVICE_PROFILES[device].uses;
-  return kind === "fio2_peep" ? uses.peep : uses.flow;
+  return device !== "" && stepTableFitsDevice(kind, device);
 }
 
 function newIdempotencyKey(): string {

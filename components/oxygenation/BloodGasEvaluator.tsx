@@ -4,10 +4,11 @@ import { zodResolver } from "@hookform/resolvers/zod";
 import { useId } from "react";
 import { useForm, useWatch } from "react-hook-form";
 import useSWRMutation from "swr/mutation";
+import { NumberField, useHydrated } from "@/components/bedside/BedsideFormParts";
 import { Button } from "@/components/ui/Button";
 import { EmptyState } from "@/components/ui/EmptyState";
-import { Field, inputClasses } from "@/components/ui/Field";
 import { IconWarning } from "@/components/ui/icons";
+import { SelectField } from "@/components/ui/SelectField";
 import type { FieldErrors } from "@/lib/errors";
 import type { PressureUnit } from "@/lib/oxygen";
 import type { AssessResponse } from "@/lib/oxygenation/evaluate";
@@ -49,11 +50,17 @@ function readApiError(body: unknown): { message?: string; fieldErrors?: FieldErr
   const { message, fieldErrors } = error as { message?: unknown; fieldErrors?: unknown };
   return {
     message: typeof message === "string" ? message : undefined,
-    fieldErrors: typeof fieldErrors === "object" && fieldErrors !== null ? (fieldErrors as FieldErrors) : undefined,
+    fieldErrors:
+      typeof fieldErrors === "object" && fieldErrors !== null
+        ? (fieldErrors as FieldErrors)
+        : undefined,
   };
 }
 
-async function postAssessment(url: string, { arg }: { arg: AssessRequest }): Promise<AssessResponse> {
+async function postAssessment(
+  url: string,
+  { arg }: { arg: AssessRequest },
+): Promise<AssessResponse> {
   let response: Response;
   try {
     response = await fetch(url, {
@@ -62,24 +69,27 @@ async function postAssessment(url: string, { arg }: { arg: AssessRequest }): Pro
       body: JSON.stringify(arg),
     });
   } catch {
-    throw new ApiRequestError("Tidemark could not be reached. Check the connection and try again; your values are kept.", 0);
+    throw new ApiRequestError(
+      "Tidemark could not be reached. Check the connection and try again; your values are kept.",
+      0,
+    );
   }
   const body: unknown = await response.json().catch(() => null);
   if (!response.ok) {
     const { message, fieldErrors } = readApiError(body);
     const fallback =
-      response.status === 401 ? "Your session has ended. Sign in again; your values are kept here until you leave." : "The evaluation failed; try again.";
-    throw new ApiRequestError(response.status === 401 ? fallback : (message ?? fallback), response.status, fieldErrors);
+      response.status === 401
+        ? "Your session has ended. Sign in again; your values are kept here until you leave."
+        : "The evaluation failed; try again.";
+    throw new ApiRequestError(
+      response.status === 401 ? fallback : (message ?? fallback),
+      response.status,
+      fieldErrors,
+    );
   }
   return body as AssessResponse;
 }
 
-// Text inputs (no scroll-wheel changes, a decimal comma accepted); empty is "not given".
-function toNumber(value: unknown): number | undefined {
-  if (typeof value === "number") return value;
-  if (typeof value !== "string" || value.trim() === "") return undefined;
-  return Number(value.trim().replace(",", "."));
-}
 const toOptional = (value: unknown): unknown => (value === "" ? undefined : value);
 
 /**
@@ -100,21 +110,20 @@ export function BloodGasEvaluator({
   unitLabel: string;
 }) {
   const id = useId();
-  const {
-    register,
-    control,
-    handleSubmit,
-    setError,
-    formState: { errors },
-  } = useForm<AssessFormValues, unknown, AssessFormOutput>({
+  // Disabled until hydrated: an early Enter would submit natively, putting the values into the URL.
+  const hydrated = useHydrated();
+  const form = useForm<AssessFormValues, unknown, AssessFormOutput>({
     resolver: zodResolver(assessFormSchema),
     defaultValues: { pressureUnit, hemoglobinUnit: "g/dL" },
   });
+  const { control, handleSubmit, setError } = form;
   const typedUnit = useWatch({ control, name: "pressureUnit" }) ?? pressureUnit;
-  const { trigger, data, error, isMutating } = useSWRMutation<AssessResponse, ApiRequestError, string, AssessRequest>(
-    ASSESS_URL,
-    postAssessment,
-  );
+  const { trigger, data, error, isMutating } = useSWRMutation<
+    AssessResponse,
+    ApiRequestError,
+    string,
+    AssessRequest
+  >(ASSESS_URL, postAssessment);
 
   const onSubmit = handleSubmit(async (values) => {
     try {
@@ -130,25 +139,13 @@ export function BloodGasEvaluator({
 
   // Errors with a field sit beside it; the rest (e.g. the unit) are listed here.
   const fieldPaths = error ? Object.keys(error.fieldErrors) : [];
-  const unplaced = error ? Object.entries(error.fieldErrors).filter(([path]) => !formFieldOf(path)) : [];
+  const unplaced = error
+    ? Object.entries(error.fieldErrors).filter(([path]) => !formFieldOf(path))
+    : [];
   const summary =
     error && fieldPaths.some((path) => formFieldOf(path))
       ? "Some values were refused: see the message beside each field. Nothing you typed was lost."
       : error?.message;
-
-  const number = (name: keyof AssessFormValues) => register(name, { setValueAs: toNumber });
-  const numberInput = (name: keyof AssessFormValues, describedBy: string | undefined, invalid: boolean) => (
-    <input
-      id={`${id}-${name}`}
-      type="text"
-      inputMode="decimal"
-      autoComplete="off"
-      className={`${inputClasses} tabular`}
-      aria-invalid={invalid}
-      aria-describedby={describedBy}
-      {...number(name)}
-    />
-  );
 
   return (
     <div className="space-y-4">
@@ -156,136 +153,103 @@ export function BloodGasEvaluator({
         onSubmit={onSubmit}
         noValidate
         aria-describedby={`${id}-form-note`}
-        className="space-y-3 rounded-card border border-border bg-surface p-4 shadow-card"
+        data-ready={hydrated ? "true" : undefined}
+        className="rounded-card border border-border bg-surface p-4 shadow-card"
       >
-        <p id={`${id}-form-note`} className="text-sm text-ink-muted">
-          Type a blood gas to see its indices and a forecast. Nothing typed here is saved. Barometric pressure comes
-          from the altitude of {unitLabel} unless you give one.
-        </p>
-        <fieldset className="grid grid-cols-2 gap-x-3 sm:grid-cols-3 lg:grid-cols-6">
-          <legend className="mb-1 text-sm font-semibold">Blood gas</legend>
-          <Field id={`${id}-pressureUnit`} label="Pressures in" error={errors.pressureUnit?.message}>
-            {(d, invalid) => (
-              <select
-                id={`${id}-pressureUnit`}
-                className={inputClasses}
-                aria-invalid={invalid}
-                aria-describedby={d}
-                {...register("pressureUnit")}
-              >
-                {PRESSURE_UNITS.map((u) => (
-                  <option key={u} value={u}>
-                    {u}
-                  </option>
-                ))}
-              </select>
-            )}
-          </Field>
-          <Field id={`${id}-fio2Percent`} label="FiO2 (%)" error={errors.fio2Percent?.message}>
-            {(d, invalid) => numberInput("fio2Percent", d, invalid)}
-          </Field>
-          <Field id={`${id}-pao2`} label={`PaO2 (${typedUnit})`} error={errors.pao2?.message}>
-            {(d, invalid) => numberInput("pao2", d, invalid)}
-          </Field>
-          <Field id={`${id}-paco2`} label={`PaCO2 (${typedUnit})`} error={errors.paco2?.message}>
-            {(d, invalid) => numberInput("paco2", d, invalid)}
-          </Field>
-          <Field id={`${id}-hemoglobin`} label="Haemoglobin" hint="Optional" error={errors.hemoglobin?.message}>
-            {(d, invalid) => numberInput("hemoglobin", d, invalid)}
-          </Field>
-          <Field id={`${id}-hemoglobinUnit`} label="Haemoglobin unit" error={errors.hemoglobinUnit?.message}>
-            {(d, invalid) => (
-              <select
-                id={`${id}-hemoglobinUnit`}
-                className={inputClasses}
-                aria-invalid={invalid}
-                aria-describedby={d}
-                {...register("hemoglobinUnit")}
-              >
-                {HEMOGLOBIN_UNITS.map((u) => (
-                  <option key={u} value={u}>
-                    {u}
-                  </option>
-                ))}
-              </select>
-            )}
-          </Field>
-        </fieldset>
+        <fieldset disabled={!hydrated} className="min-w-0 space-y-3">
+          <p id={`${id}-form-note`} className="text-sm text-ink-muted">
+            Type a blood gas to see its indices and a forecast. Nothing typed here is saved.
+            Barometric pressure comes from the altitude of {unitLabel} unless you give one.
+          </p>
+          <fieldset className="grid grid-cols-2 gap-x-3 sm:grid-cols-3 lg:grid-cols-6">
+            <legend className="mb-1 text-sm font-semibold">Blood gas</legend>
+            <SelectField
+              form={form}
+              id={id}
+              name="pressureUnit"
+              label="Pressures in"
+              options={PRESSURE_UNITS}
+            />
+            <NumberField form={form} id={id} name="fio2Percent" label="FiO2 (%)" />
+            <NumberField form={form} id={id} name="pao2" label={`PaO2 (${typedUnit})`} />
+            <NumberField form={form} id={id} name="paco2" label={`PaCO2 (${typedUnit})`} />
+            <NumberField
+              form={form}
+              id={id}
+              name="hemoglobin"
+              label="Haemoglobin"
+              hint="Optional"
+            />
+            <SelectField
+              form={form}
+              id={id}
+              name="hemoglobinUnit"
+              label="Haemoglobin unit"
+              options={HEMOGLOBIN_UNITS}
+            />
+          </fieldset>
 
-        <fieldset className="grid grid-cols-2 gap-x-3 sm:grid-cols-3 lg:grid-cols-6">
-          <legend className="mb-1 text-sm font-semibold">Oximetry and support at sampling (optional)</legend>
-          <Field id={`${id}-spo2`} label="SpO2 (%)" error={errors.spo2?.message}>
-            {(d, invalid) => numberInput("spo2", d, invalid)}
-          </Field>
-          <Field id={`${id}-sao2`} label="SaO2 (%)" hint="Co-oximetry" error={errors.sao2?.message}>
-            {(d, invalid) => numberInput("sao2", d, invalid)}
-          </Field>
-          <Field id={`${id}-support`} label="Support" error={errors.support?.message}>
-            {(d, invalid) => (
-              <select
-                id={`${id}-support`}
-                className={inputClasses}
-                aria-invalid={invalid}
-                aria-describedby={d}
-                {...register("support", { setValueAs: toOptional })}
-              >
-                <option value="">Not stated</option>
-                {RESPIRATORY_SUPPORTS.map((s) => (
-                  <option key={s} value={s}>
-                    {SUPPORT_LABELS[s]}
-                  </option>
-                ))}
-              </select>
-            )}
-          </Field>
-          <Field id={`${id}-peep`} label="PEEP/CPAP (cmH2O)" error={errors.peep?.message}>
-            {(d, invalid) => numberInput("peep", d, invalid)}
-          </Field>
-          <Field id={`${id}-flow`} label="HFNC flow (L/min)" error={errors.flow?.message}>
-            {(d, invalid) => numberInput("flow", d, invalid)}
-          </Field>
-          <Field id={`${id}-respiratoryRate`} label="Resp. rate (/min)" error={errors.respiratoryRate?.message}>
-            {(d, invalid) => numberInput("respiratoryRate", d, invalid)}
-          </Field>
-          <Field
-            id={`${id}-meanAirwayPressure`}
-            label="Mean airway pressure (cmH2O)"
-            error={errors.meanAirwayPressure?.message}
-          >
-            {(d, invalid) => numberInput("meanAirwayPressure", d, invalid)}
-          </Field>
-          <Field
-            id={`${id}-barometricPressure`}
-            label={`Barometric pressure (${typedUnit})`}
-            hint="Empty: from the unit's altitude"
-            error={errors.barometricPressure?.message}
-          >
-            {(d, invalid) => numberInput("barometricPressure", d, invalid)}
-          </Field>
-        </fieldset>
+          <fieldset className="grid grid-cols-2 gap-x-3 sm:grid-cols-3 lg:grid-cols-6">
+            <legend className="mb-1 text-sm font-semibold">
+              Oximetry and support at sampling (optional)
+            </legend>
+            <NumberField form={form} id={id} name="spo2" label="SpO2 (%)" />
+            <NumberField form={form} id={id} name="sao2" label="SaO2 (%)" hint="Co-oximetry" />
+            <SelectField
+              form={form}
+              id={id}
+              name="support"
+              label="Support"
+              registerOptions={{ setValueAs: toOptional }}
+              options={RESPIRATORY_SUPPORTS.map((s) => ({ value: s, label: SUPPORT_LABELS[s] }))}
+              emptyLabel="Not stated"
+            />
+            <NumberField form={form} id={id} name="peep" label="PEEP/CPAP (cmH2O)" />
+            <NumberField form={form} id={id} name="flow" label="HFNC flow (L/min)" />
+            <NumberField form={form} id={id} name="respiratoryRate" label="Resp. rate (/min)" />
+            <NumberField
+              form={form}
+              id={id}
+              name="meanAirwayPressure"
+              label="Mean airway pressure (cmH2O)"
+            />
+            <NumberField
+              form={form}
+              id={id}
+              name="barometricPressure"
+              label={`Barometric pressure (${typedUnit})`}
+              hint="Empty: from the unit's altitude"
+            />
+          </fieldset>
 
-        <div className="flex flex-wrap items-center gap-3">
-          <Button type="submit" disabled={isMutating}>
-            {isMutating ? "Evaluating…" : "Evaluate"}
-          </Button>
-          <div role="status" aria-live="polite" className="text-sm">
-            {isMutating ? <span className="text-ink-muted">Evaluating the blood gas…</span> : null}
-            {error ? (
-              <span className="inline-flex items-start gap-1.5 font-medium text-below">
-                <IconWarning className="mt-0.5 shrink-0" />
-                <span>
-                  {summary}
-                  {unplaced.map(([path, messages]) => (
-                    <span key={path} className="block font-normal">
-                      {FIELD_LABELS[path] ?? (path === "_form" ? "Request" : path)}: {messages.join(" ")}
-                    </span>
-                  ))}
+          <div className="flex flex-wrap items-center gap-3">
+            <Button type="submit" disabled={isMutating}>
+              {isMutating ? "Evaluating…" : "Evaluate"}
+            </Button>
+            <div role="status" aria-live="polite" className="text-sm">
+              {isMutating ? (
+                <span className="text-ink-muted">Evaluating the blood gas…</span>
+              ) : null}
+              {error ? (
+                <span className="inline-flex items-start gap-1.5 font-medium text-below">
+                  <IconWarning className="mt-0.5 shrink-0" />
+                  <span>
+                    {summary}
+                    {unplaced.map(([path, messages]) => (
+                      <span key={path} className="block font-normal">
+                        {FIELD_LABELS[path] ?? (path === "_form" ? "Request" : path)}:{" "}
+                        {messages.join(" ")}
+                      </span>
+                    ))}
+                  </span>
                 </span>
-              </span>
-            ) : null}
-            {data && !error && !isMutating ? <span className="text-in-band">Evaluated; the results are below.</span> : null}
+              ) : null}
+              {data && !error && !isMutating ? (
+                <span className="text-in-band">Evaluated; the results are below.</span>
+              ) : null}
+            </div>
           </div>
-        </div>
+        </fieldset>
       </form>
 
       <section aria-label="Evaluation" aria-busy={isMutating} className="space-y-3">
@@ -298,7 +262,11 @@ export function BloodGasEvaluator({
                   {formatPressureNumber(data.barometricPressure.value, pressureUnit)} {pressureUnit}
                 </span>
               </p>
-              <BasisDisclosure basis={data.barometricPressure.basis} pressureUnit={pressureUnit} className="" />
+              <BasisDisclosure
+                basis={data.barometricPressure.basis}
+                pressureUnit={pressureUnit}
+                className=""
+              />
               <p>Engine {data.engineVersion}</p>
             </div>
             <div className="mt-3">
@@ -321,8 +289,9 @@ export function BloodGasEvaluator({
           </div>
         ) : (
           <EmptyState title="No blood gases recorded yet">
-            Recording blood gases against this Chart comes with oxygen orders. Until then, type one above to see its
-            indices, the ARDS oxygenation criterion and a forecast for a proposed FiO2, each with its basis.
+            Recording blood gases against this Chart comes with oxygen orders. Until then, type one
+            above to see its indices, the ARDS oxygenation criterion and a forecast for a proposed
+            FiO2, each with its basis.
           </EmptyState>
         )}
       </section>

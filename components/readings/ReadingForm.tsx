@@ -8,30 +8,26 @@ import { useForm, useWatch, type Resolver } from "react-hook-form";
 import type { z } from "zod";
 import { chartReadingAction } from "@/app/(app)/patients/[patientId]/actions";
 import { spo2Status } from "@/components/adjustments/BedsideContextCards";
-import { Button, buttonClasses } from "@/components/ui/Button";
-import { Field, inputClasses } from "@/components/ui/Field";
-import { StatusBadge } from "@/components/ui/StatusBadge";
-import { DEVICE_PROFILES, DEVICES, type Device } from "@/lib/orders/devices";
-import type { BedsideContext } from "@/lib/patients/bedside";
-import { readingSchema } from "@/lib/readings/schema";
 import {
-  describeDeviceFio2,
-  DeviceOptions,
   estimateFromFlow,
-  flowHint,
   formatFio2Value,
   type FormNotice,
   FormStatus,
   fromZonedLocalInput,
   localDateTimeSchema,
-  placeServerErrors,
-  textDefault,
-  timeZoneNote,
-  toNumber,
+  NumberField,
+  refusalNotice,
   toZonedLocalInput,
+  UnitTimeField,
   useHydrated,
   useIdempotencyKey,
-} from "./BedsideFormParts";
+} from "@/components/bedside/BedsideFormParts";
+import { DeviceSettingsFields, devicePrefill } from "@/components/bedside/DeviceSettingsFields";
+import { Button, buttonClasses } from "@/components/ui/Button";
+import { StatusBadge } from "@/components/ui/StatusBadge";
+import { DEVICE_PROFILES, DEVICES, type Device } from "@/lib/orders/devices";
+import type { BedsideContext } from "@/lib/patients/bedside";
+import { readingSchema } from "@/lib/readings/schema";
 
 /**
  * The reading form's schema: the shared readingSchema's fields and messages,
@@ -87,17 +83,6 @@ const FIELDS: readonly FieldName[] = [
 
 const asNumber = (v: unknown): number | undefined => (typeof v === "number" ? v : undefined);
 
-/** What the device's settings start as: the applied settings when the device is the one in use. */
-function prefill(device: Device, context: BedsideContext): { flow?: number; fio2?: number } {
-  const { settings } = context;
-  const uses = DEVICE_PROFILES[device].uses;
-  if (!settings || settings.device !== device) return {};
-  return {
-    ...(uses.flow && settings.flow !== null ? { flow: settings.flow } : {}),
-    ...(uses.fio2 === "set" ? { fio2: settings.fio2 } : {}),
-  };
-}
-
 /**
  * Chart one reading: SpO2, respiratory and pulse rate, the device and the
  * oxygen in use (prefilled from the applied settings), and the time taken.
@@ -122,23 +107,20 @@ export function ReadingForm({
     () => zodResolver(readingFormSchema),
     [],
   );
-  const {
-    register,
-    control,
-    handleSubmit,
-    setError,
-    setValue,
-    formState: { errors, isSubmitting },
-  } = useForm<FormInput, unknown, FormOutput>({
+  const form = useForm<FormInput, unknown, FormOutput>({
     resolver,
     defaultValues: {
       device: initialDevice,
-      ...prefill(initialDevice, context),
+      ...devicePrefill(initialDevice, context.settings, { withPeep: false }),
       takenAt: toZonedLocalInput(new Date(), timeZone),
     },
   });
-  // Shown by the server-rendered page too, before the form takes over.
-  const initial: Partial<Record<string, number>> = prefill(initialDevice, context);
+  const {
+    control,
+    handleSubmit,
+    setError,
+    formState: { isSubmitting },
+  } = form;
   const [device, typedFlow, typedSpo2, typedFio2] = useWatch({
     control,
     name: ["device", "flow", "spo2", "fio2"],
@@ -182,26 +164,12 @@ export function ReadingForm({
       return;
     }
     if (!result.ok) {
-      if (result.status === 401) {
-        setNotice({
-          kind: "error",
-          text: "Your session has ended. Sign in again in another tab, then chart the reading; your values are kept here.",
-        });
-        return;
-      }
-      const unplaced = placeServerErrors(
-        result.fieldErrors,
-        (path) => FIELDS.find((f) => f === path),
-        setError,
+      setNotice(
+        refusalNotice(result, FIELDS, setError, {
+          sessionEnded:
+            "Your session has ended. Sign in again in another tab, then chart the reading; your values are kept here.",
+        }),
       );
-      setNotice({
-        kind: "error",
-        text:
-          Object.keys(result.fieldErrors ?? {}).length > unplaced.length
-            ? `${result.message} See the message beside each field; nothing you typed was lost.`
-            : result.message,
-        details: unplaced,
-      });
       return;
     }
     setSaved(true);
@@ -211,25 +179,6 @@ export function ReadingForm({
     });
     router.push(`/patients/${patientId}`);
   });
-
-  const numberInput = (
-    name: "spo2" | "respiratoryRate" | "pulseRate" | "flow" | "fio2",
-    describedBy: string | undefined,
-    invalid: boolean,
-    mode: "decimal" | "numeric" = "decimal",
-  ) => (
-    <input
-      id={`${id}-${name}`}
-      type="text"
-      inputMode={mode}
-      autoComplete="off"
-      className={`${inputClasses} tabular`}
-      aria-invalid={invalid}
-      aria-describedby={describedBy}
-      defaultValue={textDefault(initial[name])}
-      {...register(name, { setValueAs: toNumber })}
-    />
-  );
 
   return (
     <form
@@ -256,9 +205,7 @@ export function ReadingForm({
         <fieldset className="grid grid-cols-2 gap-x-3 sm:grid-cols-4">
           <legend className="mb-1 text-sm font-semibold">Observation</legend>
           <div>
-            <Field id={`${id}-spo2`} label="SpO2 (%)" error={errors.spo2?.message}>
-              {(d, invalid) => numberInput("spo2", d, invalid)}
-            </Field>
+            <NumberField form={form} id={id} name="spo2" label="SpO2 (%)" />
             {context.order &&
             spo2 !== undefined &&
             Number.isFinite(spo2) &&
@@ -271,116 +218,39 @@ export function ReadingForm({
               </span>
             ) : null}
           </div>
-          <Field
-            id={`${id}-respiratoryRate`}
+          <NumberField
+            form={form}
+            id={id}
+            name="respiratoryRate"
             label="Respiratory rate (/min)"
-            error={errors.respiratoryRate?.message}
-          >
-            {(d, invalid) => numberInput("respiratoryRate", d, invalid, "numeric")}
-          </Field>
-          <Field
-            id={`${id}-pulseRate`}
+            inputMode="numeric"
+          />
+          <NumberField
+            form={form}
+            id={id}
+            name="pulseRate"
             label="Pulse rate (/min)"
             hint="Optional"
-            error={errors.pulseRate?.message}
-          >
-            {(d, invalid) => numberInput("pulseRate", d, invalid, "numeric")}
-          </Field>
-          <Field
-            id={`${id}-takenAt`}
+            inputMode="numeric"
+          />
+          <UnitTimeField
+            form={form}
+            id={id}
+            name="takenAt"
             label="Time taken"
-            hint={timeZoneNote(timeZone)}
-            error={errors.takenAt?.message}
-          >
-            {(d, invalid) => (
-              <input
-                id={`${id}-takenAt`}
-                type="datetime-local"
-                className={`${inputClasses} tabular`}
-                aria-invalid={invalid}
-                aria-describedby={d}
-                {...register("takenAt")}
-              />
-            )}
-          </Field>
+            timeZone={timeZone}
+          />
         </fieldset>
 
-        <fieldset className="grid grid-cols-2 gap-x-3 sm:grid-cols-4">
-          <legend className="mb-1 text-sm font-semibold">Oxygen in use</legend>
-          <div className="col-span-2">
-            <Field
-              id={`${id}-device`}
-              label="Device"
-              hint={
-                context.settings
-                  ? `Applied now: ${DEVICE_PROFILES[context.settings.device].label}.`
-                  : undefined
-              }
-              error={errors.device?.message}
-            >
-              {(d, invalid) => (
-                <select
-                  id={`${id}-device`}
-                  className={inputClasses}
-                  aria-invalid={invalid}
-                  aria-describedby={d}
-                  defaultValue={initialDevice}
-                  {...register("device", {
-                    onChange: (e: { target: { value: string } }) => {
-                      const next = DEVICES.find((x) => x === e.target.value);
-                      if (!next) return;
-                      const values = prefill(next, context);
-                      setValue("flow", values.flow);
-                      setValue("fio2", values.fio2);
-                    },
-                  })}
-                >
-                  <DeviceOptions />
-                </select>
-              )}
-            </Field>
-          </div>
-          {profile.uses.flow ? (
-            <Field
-              id={`${id}-flow`}
-              label="Flow (L/min)"
-              hint={flowHint(chosen)}
-              error={errors.flow?.message}
-            >
-              {(d, invalid) => numberInput("flow", d, invalid)}
-            </Field>
-          ) : null}
-          {profile.uses.fio2 === "set" ? (
-            <Field
-              id={`${id}-fio2`}
-              label="FiO2"
-              hint="A fraction: 0.40 for 40 %."
-              error={errors.fio2?.message}
-            >
-              {(d, invalid) => numberInput("fio2", d, invalid)}
-            </Field>
-          ) : (
-            <div>
-              <p className="text-sm font-medium">
-                {profile.uses.fio2 === "estimated" ? "FiO2 (estimated)" : "FiO2"}
-              </p>
-              <p
-                className="tabular mt-1 rounded-md border border-dashed border-border-strong px-2.5 py-1.5 text-base"
-                data-testid="estimated-fio2"
-              >
-                {describeDeviceFio2(chosen, asNumber(typedFlow))}
-              </p>
-              <p className="text-xs text-ink-muted">
-                {profile.uses.fio2 === "estimated"
-                  ? "Charted as an estimate from the flow."
-                  : "Room air is FiO2 0.21."}
-              </p>
-              <p className="min-h-4 text-xs font-medium text-below" aria-live="polite">
-                {errors.fio2?.message ?? ""}
-              </p>
-            </div>
-          )}
-        </fieldset>
+        <DeviceSettingsFields
+          id={id}
+          legend="Oxygen in use"
+          names={{ device: "device", flow: "flow", fio2: "fio2" }}
+          form={form}
+          settings={context.settings}
+          initialDevice={initialDevice}
+          estimateNote="Charted as an estimate from the flow."
+        />
 
         <div className="flex flex-wrap items-center gap-3">
           <Button type="submit" disabled={isSubmitting || saved}>

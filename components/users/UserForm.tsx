@@ -5,6 +5,7 @@ import { useRouter } from "next/navigation";
 import { useState } from "react";
 import { Controller, useForm, type Resolver } from "react-hook-form";
 import { createUserAction, updateUserAction } from "@/app/(app)/admin/users/actions";
+import { useHydrated } from "@/components/bedside/BedsideFormParts";
 import { Button } from "@/components/ui/Button";
 import { Field, inputClasses } from "@/components/ui/Field";
 import { ROLE_LABELS, ROLES } from "@/lib/auth/roles";
@@ -25,6 +26,8 @@ const FIELDS = ["email", "name", "role", "unitIds", "pressureUnit", "rationale",
 /** Create or edit an account. Server refusals land beside the fields; typed values stay. */
 export function UserForm({ mode, units, user }: Props) {
   const router = useRouter();
+  // Disabled until hydrated: an early Enter would submit natively, putting the values into the URL.
+  const hydrated = useHydrated();
   const [formError, setFormError] = useState<string | null>(null);
   const [saved, setSaved] = useState<string | null>(null);
   const schema = mode === "create" ? userCreateSchema : userUpdateSchema.omit({ id: true, version: true });
@@ -73,97 +76,104 @@ export function UserForm({ mode, units, user }: Props) {
   });
 
   return (
-    <form onSubmit={onSubmit} noValidate className="space-y-4 rounded-card border border-border bg-surface p-5 shadow-card">
-      <div className="grid gap-x-4 sm:grid-cols-2">
-        <Field id="name" label="Full name" error={errors.name?.message}>
-          {(d, invalid) => <input id="name" className={inputClasses} aria-invalid={invalid} aria-describedby={d} {...register("name")} />}
-        </Field>
-        <Field id="email" label="E-mail (sign-in)" error={errors.email?.message}>
-          {(d, invalid) => (
-            <input id="email" type="email" autoComplete="off" className={inputClasses} aria-invalid={invalid} aria-describedby={d} {...register("email")} />
-          )}
-        </Field>
-        <Field id="role" label="Role" error={errors.role?.message}>
-          {(d, invalid) => (
-            <select id="role" className={inputClasses} aria-invalid={invalid} aria-describedby={d} {...register("role")}>
-              {ROLES.map((r) => (
-                <option key={r} value={r}>
-                  {ROLE_LABELS[r]}
-                </option>
-              ))}
-            </select>
-          )}
-        </Field>
-        <Field id="pressureUnit" label="Pressures shown in" error={errors.pressureUnit?.message}>
-          {(d, invalid) => (
-            <select id="pressureUnit" className={inputClasses} aria-invalid={invalid} aria-describedby={d} {...register("pressureUnit")}>
-              <option value="mmHg">mmHg</option>
-              <option value="kPa">kPa</option>
-            </select>
-          )}
-        </Field>
-      </div>
+    <form
+      onSubmit={onSubmit}
+      noValidate
+      data-ready={hydrated ? "true" : undefined}
+      className="rounded-card border border-border bg-surface p-5 shadow-card"
+    >
+      <fieldset disabled={!hydrated} className="min-w-0 space-y-4">
+        <div className="grid gap-x-4 sm:grid-cols-2">
+          <Field id="name" label="Full name" error={errors.name?.message}>
+            {(d, invalid) => <input id="name" className={inputClasses} aria-invalid={invalid} aria-describedby={d} {...register("name")} />}
+          </Field>
+          <Field id="email" label="E-mail (sign-in)" error={errors.email?.message}>
+            {(d, invalid) => (
+              <input id="email" type="email" autoComplete="off" className={inputClasses} aria-invalid={invalid} aria-describedby={d} {...register("email")} />
+            )}
+          </Field>
+          <Field id="role" label="Role" error={errors.role?.message}>
+            {(d, invalid) => (
+              <select id="role" className={inputClasses} aria-invalid={invalid} aria-describedby={d} {...register("role")}>
+                {ROLES.map((r) => (
+                  <option key={r} value={r}>
+                    {ROLE_LABELS[r]}
+                  </option>
+                ))}
+              </select>
+            )}
+          </Field>
+          <Field id="pressureUnit" label="Pressures shown in" error={errors.pressureUnit?.message}>
+            {(d, invalid) => (
+              <select id="pressureUnit" className={inputClasses} aria-invalid={invalid} aria-describedby={d} {...register("pressureUnit")}>
+                <option value="mmHg">mmHg</option>
+                <option value="kPa">kPa</option>
+              </select>
+            )}
+          </Field>
+        </div>
 
-      <Controller
-        control={control}
-        name="unitIds"
-        render={({ field }) => (
-          <fieldset aria-describedby={errors.unitIds ? "unitIds-error" : undefined}>
-            <legend className="text-sm font-medium">Units</legend>
-            <div className="mt-1 flex flex-wrap gap-4">
-              {units.map((u) => (
-                <label key={u.id} className="flex items-center gap-2 text-sm">
-                  <input
-                    type="checkbox"
-                    className="size-4 accent-accent"
-                    checked={field.value.includes(u.id)}
-                    onChange={(e) =>
-                      field.onChange(
-                        e.target.checked ? [...field.value, u.id] : field.value.filter((id) => id !== u.id),
-                      )
-                    }
-                    onBlur={field.onBlur}
-                  />
-                  {u.label}
-                </label>
-              ))}
-            </div>
-            <p id="unitIds-error" className="min-h-4 text-xs font-medium text-below" aria-live="polite">
-              {errors.unitIds?.message ?? ""}
-            </p>
-          </fieldset>
-        )}
-      />
-
-      <div className="grid gap-x-4 sm:grid-cols-2">
-        <Field
-          id="password"
-          label={mode === "create" ? "Initial password" : "New password"}
-          hint={
-            mode === "create"
-              ? `At least ${PASSWORD_MIN} characters; share it with the person privately.`
-              : "Leave empty to keep the current password."
-          }
-          error={errors.password?.message}
-        >
-          {(d, invalid) => (
-            <input id="password" type="password" autoComplete="new-password" className={inputClasses} aria-invalid={invalid} aria-describedby={d} {...register("password")} />
+        <Controller
+          control={control}
+          name="unitIds"
+          render={({ field }) => (
+            <fieldset aria-describedby={errors.unitIds ? "unitIds-error" : undefined}>
+              <legend className="text-sm font-medium">Units</legend>
+              <div className="mt-1 flex flex-wrap gap-4">
+                {units.map((u) => (
+                  <label key={u.id} className="flex items-center gap-2 text-sm">
+                    <input
+                      type="checkbox"
+                      className="size-4 accent-accent"
+                      checked={field.value.includes(u.id)}
+                      onChange={(e) =>
+                        field.onChange(
+                          e.target.checked ? [...field.value, u.id] : field.value.filter((id) => id !== u.id),
+                        )
+                      }
+                      onBlur={field.onBlur}
+                    />
+                    {u.label}
+                  </label>
+                ))}
+              </div>
+              <p id="unitIds-error" className="min-h-4 text-xs font-medium text-below" aria-live="polite">
+                {errors.unitIds?.message ?? ""}
+              </p>
+            </fieldset>
           )}
-        </Field>
-        <Field id="rationale" label="Reason for the change (optional)" hint="Recorded in the ledger." error={errors.rationale?.message}>
-          {(d, invalid) => <input id="rationale" className={inputClasses} aria-invalid={invalid} aria-describedby={d} {...register("rationale")} />}
-        </Field>
-      </div>
+        />
 
-      <div className="flex flex-wrap items-center gap-3">
-        <Button type="submit" disabled={isSubmitting || (mode === "edit" && !isDirty)}>
-          {isSubmitting ? "Saving…" : mode === "create" ? "Create user" : "Save changes"}
-        </Button>
-        <p role="status" aria-live="polite" className="text-sm">
-          {formError ? <span className="font-medium text-below">{formError}</span> : null}
-          {saved ? <span className="text-in-band">{saved}</span> : null}
-        </p>
-      </div>
+        <div className="grid gap-x-4 sm:grid-cols-2">
+          <Field
+            id="password"
+            label={mode === "create" ? "Initial password" : "New password"}
+            hint={
+              mode === "create"
+                ? `At least ${PASSWORD_MIN} characters; share it with the person privately.`
+                : "Leave empty to keep the current password."
+            }
+            error={errors.password?.message}
+          >
+            {(d, invalid) => (
+              <input id="password" type="password" autoComplete="new-password" className={inputClasses} aria-invalid={invalid} aria-describedby={d} {...register("password")} />
+            )}
+          </Field>
+          <Field id="rationale" label="Reason for the change (optional)" hint="Recorded in the ledger." error={errors.rationale?.message}>
+            {(d, invalid) => <input id="rationale" className={inputClasses} aria-invalid={invalid} aria-describedby={d} {...register("rationale")} />}
+          </Field>
+        </div>
+
+        <div className="flex flex-wrap items-center gap-3">
+          <Button type="submit" disabled={isSubmitting || (mode === "edit" && !isDirty)}>
+            {isSubmitting ? "Saving…" : mode === "create" ? "Create user" : "Save changes"}
+          </Button>
+          <p role="status" aria-live="polite" className="text-sm">
+            {formError ? <span className="font-medium text-below">{formError}</span> : null}
+            {saved ? <span className="text-in-band">{saved}</span> : null}
+          </p>
+        </div>
+      </fieldset>
     </form>
   );
 }

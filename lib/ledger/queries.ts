@@ -1,7 +1,7 @@
 import type { Knex } from "knex";
 import { z } from "zod";
 import type { Actor } from "../auth/actor";
-import { LEDGER_ACTIONS } from "./actions";
+import { LEDGER_ACTIONS, type LedgerEntityType } from "./actions";
 
 export const ledgerFilterSchema = z.object({
   patientId: z.coerce.number().int().positive().optional(),
@@ -123,6 +123,23 @@ export async function listLedger(
     entries: page,
     nextBefore: rows.length > filter.limit ? page[page.length - 1]!.id : null,
   };
+}
+
+/**
+ * Every ledger row about one record (an order, a user…), oldest first, within
+ * the actor's units like `listLedger`: another unit's rows are not returned.
+ */
+export async function listLedgerForEntity(
+  knex: Knex,
+  actor: Actor,
+  entityType: LedgerEntityType,
+  entityId: string | number,
+): Promise<LedgerEntryView[]> {
+  const rows = (await scoped(knex, actor, {})
+    .where({ "l.entity_type": entityType, "l.entity_id": String(entityId) })
+    .orderBy("l.id")
+    .select(COLUMNS)) as Row[];
+  return rows.map(toView);
 }
 
 function csvCell(value: string | number | null): string {

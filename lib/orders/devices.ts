@@ -1,4 +1,5 @@
 import type { RespiratorySupport } from "../oxygen";
+import type { StepTableView } from "../step-tables/queries";
 
 /** Oxygen delivery devices an order can prescribe (DESIGN.md §2, "Order"). */
 export const DEVICES = [
@@ -85,6 +86,53 @@ export const DEVICE_PROFILES: Record<Device, DeviceProfile> = {
     peep: { min: 0, max: 30 },
   },
 };
+
+/** A limit pair and the starting value inside it: [minimum, maximum, start]. */
+export type LimitTriple = readonly [min: number, max: number, start: number];
+
+export type DeviceDefaults = { fio2: LimitTriple; peep?: LimitTriple; flow?: LimitTriple };
+
+/**
+ * Limits a prescriber usually starts from for each device, inside
+ * DEVICE_PROFILES' physical ranges. The values are common practice, not a
+ * single published source. For low-flow devices the FiO2 limits follow the
+ * estimate at the flow limits and the starting FiO2 is the estimate at the
+ * starting flow (estimateFio2).
+ */
+export const DEVICE_DEFAULTS: Record<Device, DeviceDefaults> = {
+  room_air: { fio2: [0.21, 0.21, 0.21] },
+  nasal_cannula: { fio2: [0.24, 0.37, 0.29], flow: [1, 4, 2] },
+  simple_mask: { fio2: [0.35, 0.55, 0.39], flow: [5, 10, 6] },
+  venturi_mask: { fio2: [0.24, 0.4, 0.28] },
+  reservoir_mask: { fio2: [0.6, 0.9, 0.9], flow: [10, 15, 15] },
+  hfnc: { fio2: [0.3, 0.6, 0.4], flow: [30, 60, 40] },
+  niv: { fio2: [0.3, 0.6, 0.4], peep: [5, 10, 5] },
+  invasive: { fio2: [0.3, 0.8, 0.4], peep: [5, 14, 8] },
+};
+
+/**
+ * Whether a step table can guide a device: FiO2/PEEP tables only where the
+ * device has a PEEP setting, flow/FiO2 tables only where it has a flow setting.
+ */
+export function stepTableFitsDevice(kind: StepTableView["kind"], device: Device): boolean {
+  const uses = DEVICE_PROFILES[device].uses;
+  switch (kind) {
+    case "fio2_peep":
+      return uses.peep;
+    case "flow_fio2":
+      return uses.flow;
+  }
+}
+
+/** Why a step table does not fit a device, in words (the refusal on `stepTableId`). */
+export function stepTableMismatchMessage(
+  table: { name: string; kind: StepTableView["kind"] },
+  device: Device,
+): string {
+  const steps = table.kind === "fio2_peep" ? "FiO2 and PEEP" : "flow and FiO2";
+  const missing = table.kind === "fio2_peep" ? "PEEP" : "flow";
+  return `${table.name} steps ${steps}, but ${DEVICE_PROFILES[device].label} has no ${missing} setting. Choose a table that fits the device, or none.`;
+}
 
 /**
  * Estimated FiO2 for a low-flow device at a given flow. Rules of thumb of the

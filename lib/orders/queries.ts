@@ -27,12 +27,20 @@ export type OrderView = {
   entryMode: "written" | "verbal" | "telephone";
   enteredBy: { id: number; name: string };
   prescriber: { id: number; name: string };
+  /** Read back to the prescriber (verbal and telephone orders). */
+  readBackConfirmed: boolean;
+  signedBy: { id: number; name: string } | null;
   signedAt: string | null;
   signatureMeaning: string | null;
   cosignedBy: { id: number; name: string } | null;
   cosignedAt: string | null;
+  discontinuedBy: { id: number; name: string } | null;
   discontinuedAt: string | null;
   discontinueReason: string | null;
+  /** The order that replaced this one, and when it was entered. */
+  supersededBy: { id: number; at: string } | null;
+  /** The order this one replaced, if any. */
+  replacedOrderId: number | null;
   version: number;
   createdAt: string;
 };
@@ -61,23 +69,35 @@ export type OrderRow = {
   reassess_minutes: number;
   rationale: string;
   entry_mode: "written" | "verbal" | "telephone";
+  read_back_confirmed: number;
   entered_by: number;
   entered_by_name: string;
   prescriber_id: number;
   prescriber_name: string;
+  signed_by: number | null;
+  signed_by_name: string | null;
   signed_at: Date | null;
   signature_meaning: string | null;
   cosigned_by: number | null;
   cosigned_by_name: string | null;
   cosigned_at: Date | null;
+  discontinued_by: number | null;
+  discontinued_by_name: string | null;
   discontinued_at: Date | null;
   discontinue_reason: string | null;
+  superseded_by_order_id: number | null;
+  superseded_at: Date | null;
+  replaced_order_id: number | null;
   version: number;
   created_at: Date;
+  updated_at: Date;
 };
 
 const iso = (d: Date | null) => (d ? d.toISOString() : null);
+const person = (id: number | null, name: string | null) =>
+  id !== null ? { id, name: name ?? "" } : null;
 
+/** An order row from `orderQuery` as the views and the ledger show it. */
 export function toOrderView(r: OrderRow): OrderView {
   return {
     id: r.id,
@@ -106,19 +126,34 @@ export function toOrderView(r: OrderRow): OrderView {
     entryMode: r.entry_mode,
     enteredBy: { id: r.entered_by, name: r.entered_by_name },
     prescriber: { id: r.prescriber_id, name: r.prescriber_name },
+    readBackConfirmed: Boolean(r.read_back_confirmed),
+    signedBy: person(r.signed_by, r.signed_by_name),
     signedAt: iso(r.signed_at),
     signatureMeaning: r.signature_meaning,
-    cosignedBy:
-      r.cosigned_by !== null ? { id: r.cosigned_by, name: r.cosigned_by_name ?? "" } : null,
+    cosignedBy: person(r.cosigned_by, r.cosigned_by_name),
     cosignedAt: iso(r.cosigned_at),
+    discontinuedBy: person(r.discontinued_by, r.discontinued_by_name),
     discontinuedAt: iso(r.discontinued_at),
     discontinueReason: r.discontinue_reason,
+    supersededBy:
+      r.superseded_by_order_id !== null
+        ? {
+            id: r.superseded_by_order_id,
+            // superseded_by_order_id has no foreign key: without that row, when this one last changed.
+            at: (r.superseded_at ?? r.updated_at).toISOString(),
+          }
+        : null,
+    replacedOrderId: r.replaced_order_id,
     version: r.version,
     createdAt: r.created_at.toISOString(),
   };
 }
 
-/** Orders joined with the names the views show; `asOf` reads the system-versioned history. */
+/**
+ * Orders joined with the names the views show, the order that replaced each
+ * and the one each replaced; `asOf` reads the system-versioned history of the
+ * order itself (names and the linked orders are read as they are now).
+ */
 export function orderQuery(knex: Knex, asOf?: Date): Knex.QueryBuilder {
   const from = asOf
     ? knex.raw("orders FOR SYSTEM_TIME AS OF TIMESTAMP ? AS o", [asOf])
@@ -127,12 +162,22 @@ export function orderQuery(knex: Knex, asOf?: Date): Knex.QueryBuilder {
     .from(from)
     .join("users as eb", "eb.id", "o.entered_by")
     .join("users as pr", "pr.id", "o.prescriber_id")
+    .leftJoin("users as sb", "sb.id", "o.signed_by")
     .leftJoin("users as cs", "cs.id", "o.cosigned_by")
+    .leftJoin("users as dc", "dc.id", "o.discontinued_by")
+    .leftJoin("orders as nx", "nx.id", "o.superseded_by_order_id")
     .select(
       "o.*",
       "eb.name as entered_by_name",
       "pr.name as prescriber_name",
+      "sb.name as signed_by_name",
       "cs.name as cosigned_by_name",
+      "dc.name as discontinued_by_name",
+      "nx.created_at as superseded_at",
+      // Same patient first, so the patient index narrows the search.
+      knex.raw(
+        "(SELECT MIN(r.id) FROM orders AS r WHERE r.patient_id = o.patient_id AND r.superseded_by_order_id = o.id) AS replaced_order_id",
+      ),
     );
 }
 
@@ -143,6 +188,7 @@ export async function getCurrentOrder(knex: Knex, patientId: number): Promise<Or
   return row ? toOrderView(row) : null;
 }
 
+/** One order, as it stands now or as it stood at `asOf`; null when there is none (then). */
 export async function getOrder(
   knex: Knex,
   orderId: number,
@@ -152,29 +198,45 @@ export async function getOrder(
   return row ? toOrderView(row) : null;
 }
 
+/** An order in the co-sign queue, with where it lies and the unit's clock. */
+export type CosignQueueEntry = OrderView & {
+  bedLabel: string;
+  patientName: string;
+  unitCode: string;
+  /** The unit's time zone: the queue shows times on it. */
+  timeZone: string;
+};
+
 /** Verbal and telephone orders in the caller's units still waiting for a physician's co-signature. */
 export async function listCosignQueue(
   knex: Knex,
   unitIds: readonly number[],
-): Promise<(OrderView & { bedLabel: string; patientName: string })[]> {
+): Promise<CosignQueueEntry[]> {
   if (unitIds.length === 0) return [];
   const rows = (await orderQuery(knex)
     .join("admissions as a", "a.id", "o.admission_id")
     .join("beds as b", "b.id", "a.bed_id")
     .join("patients as p", "p.id", "o.patient_id")
+    .join("units as un", "un.id", "o.unit_id")
     .where("o.status", "awaiting_cosign")
     .whereIn("o.unit_id", unitIds)
     .orderBy("o.created_at")
     .select(
       "b.label as bed_label",
       knex.raw("CONCAT(p.given_name, ' ', p.family_name) AS patient_name"),
+      "un.code as unit_code",
+      "un.time_zone",
     )) as (OrderRow & {
     bed_label: string;
     patient_name: string;
+    unit_code: string;
+    time_zone: string;
   })[];
   return rows.map((r) => ({
     ...toOrderView(r),
     bedLabel: r.bed_label,
     patientName: r.patient_name,
+    unitCode: r.unit_code,
+    timeZone: r.time_zone,
   }));
 }

@@ -77,14 +77,19 @@ export const orderFieldsSchema = z.object({
 
 type OrderFields = z.infer<typeof orderFieldsSchema>;
 
-/** Cross-field rules: band order, limits that fit the device, start inside limits. */
+/** A PaO2 band is both bounds or none: a one-sided band is never shown as a band. */
+export const PAO2_BAND_INCOMPLETE = "Give both PaO2 bounds, or leave both empty.";
+
+/** Cross-field rules: band order and completeness, limits that fit the device, start inside limits. */
 function checkOrder(o: OrderFields, ctx: z.RefinementCtx): void {
   const issue = (path: string, message: string) =>
     ctx.addIssue({ code: "custom", path: [path], message });
   const profile = DEVICE_PROFILES[o.device];
   if (o.spo2Lower >= o.spo2Upper)
     issue("spo2Upper", "SpO2 upper bound must be above the lower bound.");
-  if (o.pao2Lower !== undefined && o.pao2Upper !== undefined && o.pao2Lower >= o.pao2Upper) {
+  if ((o.pao2Lower === undefined) !== (o.pao2Upper === undefined)) {
+    issue(o.pao2Lower === undefined ? "pao2Lower" : "pao2Upper", PAO2_BAND_INCOMPLETE);
+  } else if (o.pao2Lower !== undefined && o.pao2Upper !== undefined && o.pao2Lower >= o.pao2Upper) {
     issue("pao2Upper", "PaO2 upper bound must be above the lower bound.");
   }
   if (o.fio2Min > o.fio2Max) issue("fio2Max", "FiO2 maximum must not be below the minimum.");

@@ -8,7 +8,13 @@ import { appendLedger } from "../ledger/service";
 import { duplicateIndex, isLockConflict } from "../db-errors";
 import { findOpenAdmission, type OpenAdmission } from "../patients/access";
 import { parseInput } from "../validation";
-import { DEVICE_PROFILES, estimateFio2, SIGNATURE_MEANING } from "./devices";
+import {
+  DEVICE_PROFILES,
+  estimateFio2,
+  SIGNATURE_MEANING,
+  stepTableFitsDevice,
+  stepTableMismatchMessage,
+} from "./devices";
 import { getCurrentOrder, getOrder, type OrderView } from "./queries";
 import {
   cosignSchema,
@@ -74,10 +80,16 @@ export async function writeOrder(
       .andWhere((q) => {
         void q.whereNull("unit_id").orWhere("unit_id", admission.unitId);
       })
-      .first("id")) as { id: number } | undefined;
+      .first("id", "name", "kind")) as
+      { id: number; name: string; kind: "fio2_peep" | "flow_fio2" } | undefined;
     if (!table)
       throw new ValidationError("Some fields need attention.", {
         stepTableId: ["Choose a step table from this unit's library."],
+      });
+    // The composer offers only fitting tables; the API must refuse the rest too.
+    if (!stepTableFitsDevice(table.kind, input.device))
+      throw new ValidationError("Some fields need attention.", {
+        stepTableId: [stepTableMismatchMessage(table, input.device)],
       });
   }
 

@@ -8,6 +8,8 @@ export type OpenAdmission = {
   bedId: number;
   unitId: number;
   altitudeM: number;
+  /** The unit's time zone: times are typed and shown on its clock. */
+  timeZone: string;
 };
 
 /**
@@ -30,6 +32,7 @@ export async function findOpenAdmission(
       "b.id as bed_id",
       "u.id as unit_id",
       "u.altitude_m",
+      "u.time_zone",
     )) as
     | {
         admission_id: number;
@@ -37,6 +40,7 @@ export async function findOpenAdmission(
         bed_id: number;
         unit_id: number;
         altitude_m: number;
+        time_zone: string;
       }
     | undefined;
   if (!row || !actor.unitIds.includes(row.unit_id)) {
@@ -48,5 +52,6 @@ export async function findOpenAdmission(
     bedId: row.bed_id,
     unitId: row.unit_id,
     altitudeM: row.altitude_m,
+    timeZone: row.time_zone,
   };
 }

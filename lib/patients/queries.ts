@@ -86,3 +86,65 @@ export async function getPatientForActor(knex: Knex, actor: Actor, patientId: nu
     },
   };
 }
+
+/** The patient of one admission, open or closed, as an order's heading names them. */
+export type AdmissionPatient = {
+  patientId: number;
+  mrn: string;
+  familyName: string;
+  givenName: string;
+  bed: { id: number; label: string };
+  unit: { id: number; code: string };
+  dischargedAt: Date | null;
+};
+
+/**
+ * Who lay where during one admission, discharged or not, for an actor of the
+ * bed's unit. Another unit's admission is the same NotFoundError as none.
+ */
+export async function getAdmissionPatient(
+  knex: Knex,
+  actor: Actor,
+  admissionId: number,
+): Promise<AdmissionPatient> {
+  if (actor.unitIds.length === 0) throw new NotFoundError();
+  const row = (await knex("admissions as a")
+    .join("patients as p", "p.id", "a.patient_id")
+    .join("beds as b", "b.id", "a.bed_id")
+    .join("units as u", "u.id", "b.unit_id")
+    .where("a.id", admissionId)
+    .whereIn("u.id", actor.unitIds)
+    .first(
+      "p.id as patient_id",
+      "p.mrn",
+      "p.family_name",
+      "p.given_name",
+      "b.id as bed_id",
+      "b.label as bed_label",
+      "u.id as unit_id",
+      "u.code as unit_code",
+      "a.discharged_at",
+    )) as
+    | {
+        patient_id: number;
+        mrn: string;
+        family_name: string;
+        given_name: string;
+        bed_id: number;
+        bed_label: string;
+        unit_id: number;
+        unit_code: string;
+        discharged_at: Date | null;
+      }
+    | undefined;
+  if (!row) throw new NotFoundError();
+  return {
+    patientId: row.patient_id,
+    mrn: row.mrn,
+    familyName: row.family_name,
+    givenName: row.given_name,
+    bed: { id: row.bed_id, label: row.bed_label },
+    unit: { id: row.unit_id, code: row.unit_code },
+    dischargedAt: row.discharged_at,
+  };
+}

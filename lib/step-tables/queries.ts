@@ -90,6 +90,7 @@ export async function listStepTables(
   }));
 }
 
+/** One step table with its rows, active or not; undefined when there is none. */
 export async function getStepTable(knex: Knex, id: number): Promise<StepTableView | undefined> {
   const row = (await knex("step_tables").where({ id }).first("unit_id")) as
     { unit_id: number | null } | undefined;
@@ -98,4 +99,12 @@ export async function getStepTable(knex: Knex, id: number): Promise<StepTableVie
     includeInactive: true,
   });
   return all.find((t) => t.id === id);
+}
+
+/** A step table's name, as an order shows it; null for no table or one that does not exist. */
+export async function getStepTableName(knex: Knex, id: number | null): Promise<string | null> {
+  if (id === null) return null;
+  const row = (await knex("step_tables").where({ id }).first("name")) as
+    { name: string } | undefined;
+  return row?.name ?? null;
 }

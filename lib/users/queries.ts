@@ -75,3 +75,39 @@ function toSummary(u: UserRow, units: UserSummary["units"]): UserSummary {
     units,
   };
 }
+
+/** A physician who can give a verbal or telephone order for a bed. */
+export type UnitPhysician = {
+  id: number;
+  name: string;
+  /** On duty for the bed at the moment asked about. */
+  onDuty: boolean;
+};
+
+/**
+ * The unit's active physicians by name, the one on duty for the bed at `now`
+ * first: the prescribers a nurse or therapist may enter a verbal order from.
+ */
+export async function listUnitPhysicians(
+  knex: Knex,
+  unitId: number,
+  bedId: number,
+  now: Date,
+): Promise<UnitPhysician[]> {
+  const [rows, duty] = await Promise.all([
+    knex("users as u")
+      .join("user_units as uu", "uu.user_id", "u.id")
+      .where({ "u.role": "physician", "u.active": true, "uu.unit_id": unitId })
+      .orderBy("u.name")
+      .select("u.id", "u.name") as Promise<{ id: number; name: string }[]>,
+    knex("care_assignments")
+      .where({ bed_id: bedId, duty: "physician" })
+      .andWhere("starts_at", "<=", now)
+      .andWhere("ends_at", ">", now)
+      .pluck("user_id") as Promise<number[]>,
+  ]);
+  // A stable sort keeps the names in order within each group.
+  return rows
+    .map((r) => ({ id: r.id, name: r.name, onDuty: duty.includes(r.id) }))
+    .sort((a, b) => Number(b.onDuty) - Number(a.onDuty));
+}

@@ -65,11 +65,13 @@ describe("admin manages users", () => {
   });
 
   it("deactivates a user with a reason; the user can no longer sign in", async () => {
-    const email = `leaver-${Date.now()}@test.kestrel.example`;
+    const stamp = Date.now();
+    const email = `leaver-${stamp}@test.kestrel.example`;
+    const name = `Leopold Leaver ${stamp}`;
     const api = await Session.signIn("kofi.marchetti@kestrel.example");
     const created = await api.json("/api/v1/users", "POST", {
       email,
-      name: "Leopold Leaver",
+      name,
       role: "reviewer",
       unitIds: [1],
       pressureUnit: "mmHg",
@@ -83,7 +85,7 @@ describe("admin manages users", () => {
       await signInThroughForm(page, "wren.achterberg@kestrel.example");
       await page.waitForURL(`${BASE_URL}/board`);
       await page.goto(`${BASE_URL}/admin/users`);
-      await page.getByRole("link", { name: "Leopold Leaver" }).click();
+      await page.getByRole("link", { name }).click();
       await page.getByRole("button", { name: "Deactivate…" }).click();
       const dialog = page.getByRole("dialog");
       await dialog.getByRole("button", { name: "Deactivate" }).click();

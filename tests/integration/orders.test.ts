@@ -1,11 +1,14 @@
 import { afterAll, describe, expect, it } from "vitest";
 import { closeDb } from "@/lib/db";
 import { ConflictError, ForbiddenError, NotFoundError, ValidationError } from "@/lib/errors";
+import { listLedgerForEntity } from "@/lib/ledger/queries";
 import { verifyLedger } from "@/lib/ledger/verify";
+import { stepTableMismatchMessage } from "@/lib/orders/devices";
 import { getBedsideContext } from "@/lib/patients/bedside";
 import { getOrder } from "@/lib/orders/queries";
-import type { OrderInput } from "@/lib/orders/schema";
+import { PAO2_BAND_INCOMPLETE, type OrderInput } from "@/lib/orders/schema";
 import { cosignOrder, discontinueOrder, writeOrder } from "@/lib/orders/service";
+import { createStepTable } from "@/lib/step-tables/service";
 import { actorByEmail, admitTestPatient, appDb, SEEDED } from "../helpers/db";
 
 afterAll(async () => {
@@ -33,6 +36,29 @@ function ventilatorOrder(patientId: number, over: Partial<OrderInput> = {}): Ord
     supersedesOrderId: null,
     ...over,
   } as OrderInput;
+}
+
+function hfncOrder(patientId: number, over: Partial<OrderInput> = {}): OrderInput {
+  return ventilatorOrder(patientId, {
+    device: "hfnc",
+    fio2Max: 0.6,
+    peepMin: undefined,
+    peepMax: undefined,
+    initialPeep: undefined,
+    flowMin: 30,
+    flowMax: 60,
+    initialFlow: 40,
+    initialFio2: 0.4,
+    ...over,
+  });
+}
+
+async function stepTableByCode(code: string) {
+  return (await appDb()("step_tables").where({ code }).first("id", "name", "kind")) as {
+    id: number;
+    name: string;
+    kind: "fio2_peep" | "flow_fio2";
+  };
 }
 
 async function ledgerFor(entityType: string, id: number) {
@@ -101,6 +127,102 @@ describe("orders", () => {
     );
     expect(error.fieldErrors?.peepMin?.[0]).toMatch(/no PEEP setting/);
     expect(error.fieldErrors?.flowMin?.[0]).toMatch(/required/);
+  });
+
+  it("refuses a PaO2 band with one bound, on the missing bound, and writes nothing", async () => {
+    const { patientId } = await admitTestPatient();
+    const physician = await actorByEmail(SEEDED.physician);
+    await expect(
+      writeOrder(appDb(), physician, ventilatorOrder(patientId, { pao2Lower: 60 })),
+    ).rejects.toMatchObject({ fieldErrors: { pao2Upper: [PAO2_BAND_INCOMPLETE] } });
+    await expect(
+      writeOrder(appDb(), physician, ventilatorOrder(patientId, { pao2Upper: 80 })),
+    ).rejects.toMatchObject({ fieldErrors: { pao2Lower: [PAO2_BAND_INCOMPLETE] } });
+    expect(await appDb()("orders").where({ patient_id: patientId }).first()).toBeUndefined();
+
+    const order = await writeOrder(
+      appDb(),
+      physician,
+      ventilatorOrder(patientId, { pao2Lower: 60, pao2Upper: 80 }),
+    );
+    expect(order.pao2Band).toEqual({ lower: 60, upper: 80 });
+  });
+
+  it("refuses a step table whose kind does not fit the device, naming the table and the device", async () => {
+    const { patientId, unitId } = await admitTestPatient();
+    const physician = await actorByEmail(SEEDED.physician);
+    const admin = await actorByEmail(SEEDED.admin);
+    // A FiO2/PEEP table for a device without PEEP.
+    const ardsnet = await stepTableByCode("ardsnet-lower-peep");
+    await expect(
+      writeOrder(appDb(), physician, hfncOrder(patientId, { stepTableId: ardsnet.id })),
+    ).rejects.toMatchObject({
+      fieldErrors: { stepTableId: [stepTableMismatchMessage(ardsnet, "hfnc")] },
+    });
+    // A flow/FiO2 table for a device without flow.
+    const ladder = await createStepTable(appDb(), admin, {
+      unitId,
+      name: `HFNC ladder ${patientId}`,
+      kind: "flow_fio2",
+      source: "Unit protocol (invented for tests)",
+      rows: [
+        { fio2Min: 0.3, fio2Max: 0.3, flow: 30 },
+        { fio2Min: 0.4, fio2Max: 0.4, flow: 40 },
+      ],
+      rationale: "unit ladder for a test",
+    });
+    const refusal = (await writeOrder(
+      appDb(),
+      physician,
+      ventilatorOrder(patientId, { stepTableId: ladder.id }),
+    ).catch((e: unknown) => e)) as ValidationError;
+    expect(refusal).toBeInstanceOf(ValidationError);
+    expect(refusal.fieldErrors?.stepTableId).toEqual([
+      stepTableMismatchMessage(ladder, "invasive"),
+    ]);
+    expect(await appDb()("orders").where({ patient_id: patientId }).first()).toBeUndefined();
+
+    // Each kind is accepted where it fits.
+    const first = await writeOrder(
+      appDb(),
+      physician,
+      hfncOrder(patientId, { stepTableId: ladder.id }),
+    );
+    const second = await writeOrder(
+      appDb(),
+      physician,
+      ventilatorOrder(patientId, { stepTableId: ardsnet.id, supersedesOrderId: first.id }),
+    );
+    expect([first.stepTableId, second.stepTableId]).toEqual([ladder.id, ardsnet.id]);
+  });
+
+  it("an order names who signed it, what it replaced and what replaced it; its history stays on its unit", async () => {
+    const { patientId } = await admitTestPatient("RESP");
+    const physician = await actorByEmail(SEEDED.physician);
+    const first = await writeOrder(appDb(), physician, ventilatorOrder(patientId));
+    const second = await writeOrder(
+      appDb(),
+      physician,
+      ventilatorOrder(patientId, { supersedesOrderId: first.id }),
+    );
+    const replaced = await getOrder(appDb(), first.id);
+    expect(replaced).toMatchObject({
+      status: "superseded",
+      signedBy: { id: physician.id, name: physician.name },
+      supersededBy: { id: second.id, at: second.createdAt },
+      replacedOrderId: null,
+      readBackConfirmed: false,
+      discontinuedBy: null,
+    });
+    expect(await getOrder(appDb(), second.id)).toMatchObject({
+      supersededBy: null,
+      replacedOrderId: first.id,
+    });
+
+    const history = await listLedgerForEntity(appDb(), physician, "order", first.id);
+    expect(history.map((e) => e.action)).toEqual(["order.write", "order.supersede"]);
+    const micuOnly = await actorByEmail("tobias.renwick@kestrel.example");
+    expect(await listLedgerForEntity(appDb(), micuOnly, "order", first.id)).toEqual([]);
   });
 
   it("a nurse cannot write a signed order, but can enter a read-back verbal order that waits for co-signature", async () => {

@@ -52,12 +52,17 @@ function order(device: Device, limits: Partial<OrderView["limits"]> = {}): Order
     entryMode: "written",
     enteredBy: { id: 1, name: "Dr Ines Varga" },
     prescriber: { id: 1, name: "Dr Ines Varga" },
+    readBackConfirmed: false,
+    signedBy: { id: 1, name: "Dr Ines Varga" },
     signedAt: "2026-12-01T10:00:00.000Z",
     signatureMeaning: null,
     cosignedBy: null,
     cosignedAt: null,
+    discontinuedBy: null,
     discontinuedAt: null,
     discontinueReason: null,
+    supersededBy: null,
+    replacedOrderId: null,
     version: 1,
     createdAt: "2026-12-01T10:00:00.000Z",
   };
@@ -66,7 +71,14 @@ function order(device: Device, limits: Partial<OrderView["limits"]> = {}): Order
 /** An HFNC patient on FiO2 0.40 and 40 L/min, SpO2 89 %, arterial gas PaO2 62 mmHg at FiO2 0.40. */
 function hfncContext(overrides: Partial<BedsideContext> = {}): BedsideContext {
   return {
-    admission: { admissionId: 4, patientId: PATIENT_ID, bedId: 4, unitId: 1, altitudeM: 0 },
+    admission: {
+      admissionId: 4,
+      patientId: PATIENT_ID,
+      bedId: 4,
+      unitId: 1,
+      altitudeM: 0,
+      timeZone: "UTC",
+    },
     barometricPressure: 760,
     order: order("hfnc"),
     steps: [],

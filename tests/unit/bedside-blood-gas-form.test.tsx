@@ -102,7 +102,14 @@ describe("bloodGasFormSchema", () => {
 
 function context(): BedsideContext {
   return {
-    admission: { admissionId: 6, patientId: PATIENT_ID, bedId: 6, unitId: 1, altitudeM: 0 },
+    admission: {
+      admissionId: 6,
+      patientId: PATIENT_ID,
+      bedId: 6,
+      unitId: 1,
+      altitudeM: 0,
+      timeZone: "UTC",
+    },
     barometricPressure: 760,
     order: null,
     steps: [],

@@ -1,7 +1,7 @@
 import { fireEvent, render, screen, waitFor } from "@testing-library/react";
 import { beforeEach, describe, expect, it, vi } from "vitest";
 import type { chartReadingAction } from "@/app/(app)/patients/[patientId]/actions";
-import { fromZonedLocalInput, toZonedLocalInput } from "@/components/readings/BedsideFormParts";
+import { fromZonedLocalInput, toZonedLocalInput } from "@/components/bedside/BedsideFormParts";
 import { ReadingForm } from "@/components/readings/ReadingForm";
 import type { BedsideContext } from "@/lib/patients/bedside";
 import type { ReadingView } from "@/lib/readings/service";
@@ -23,7 +23,14 @@ const PATIENT_ID = 5;
 
 function context(): BedsideContext {
   return {
-    admission: { admissionId: 5, patientId: PATIENT_ID, bedId: 5, unitId: 1, altitudeM: 0 },
+    admission: {
+      admissionId: 5,
+      patientId: PATIENT_ID,
+      bedId: 5,
+      unitId: 1,
+      altitudeM: 0,
+      timeZone: "UTC",
+    },
     barometricPressure: 760,
     order: null,
     steps: [],

@@ -17,7 +17,11 @@ import { inputClasses } from "@/components/ui/Field";
 import { IconInfo } from "@/components/ui/icons";
 import { pageActor } from "@/lib/auth/page-guard";
 import { db } from "@/lib/db";
+import { NotFoundError } from "@/lib/errors";
+import { listLedgerForEntity } from "@/lib/ledger/queries";
 import { getOrder, type OrderView } from "@/lib/orders/queries";
+import { getAdmissionPatient } from "@/lib/patients/queries";
+import { getStepTableName } from "@/lib/step-tables/queries";
 import { listUnits } from "@/lib/units/queries";
 
 export const metadata: Metadata = { title: "Order" };
@@ -72,59 +76,6 @@ function toWallText(date: Date, timeZone: string): string {
   return new Date(wallClockMs(date, timeZone)).toISOString().slice(0, 19);
 }
 
-// ---------------------------------------------------------------------------
-// Reads for the page (all scoped: the order's unit is checked first)
-// ---------------------------------------------------------------------------
-
-type OrderExtras = {
-  signedByName: string | null;
-  discontinuedByName: string | null;
-  supersededBy: { id: number; at: Date } | null;
-  replaced: number | null;
-  readBackConfirmed: boolean;
-  updatedAt: Date;
-};
-
-async function loadExtras(orderId: number): Promise<OrderExtras> {
-  const knex = db();
-  const row = (await knex("orders as o")
-    .leftJoin("users as sb", "sb.id", "o.signed_by")
-    .leftJoin("users as dc", "dc.id", "o.discontinued_by")
-    .leftJoin("orders as nx", "nx.id", "o.superseded_by_order_id")
-    .where("o.id", orderId)
-    .first(
-      "sb.name as signed_by_name",
-      "dc.name as discontinued_by_name",
-      "o.superseded_by_order_id",
-      "nx.created_at as superseded_at",
-      "o.read_back_confirmed",
-      "o.updated_at",
-    )) as {
-    signed_by_name: string | null;
-    discontinued_by_name: string | null;
-    superseded_by_order_id: number | null;
-    superseded_at: Date | null;
-    read_back_confirmed: number;
-    updated_at: Date;
-  };
-  const replaced = (await knex("orders").where({ superseded_by_order_id: orderId }).first("id")) as
-    | { id: number }
-    | undefined;
-  return {
-    signedByName: row.signed_by_name,
-    discontinuedByName: row.discontinued_by_name,
-    supersededBy:
-      row.superseded_by_order_id !== null
-        ? { id: row.superseded_by_order_id, at: row.superseded_at ?? row.updated_at }
-        : null,
-    replaced: replaced?.id ?? null,
-    readBackConfirmed: Boolean(row.read_back_confirmed),
-    updatedAt: row.updated_at,
-  };
-}
-
-type HistoryEvent = { id: number; action: string; at: Date; actorName: string | null; actorRole: string; rationale: string | null };
-
 const ACTION_WORDS: Record<string, string> = {
   "order.write": "Written and signed",
   "order.verbal": "Entered as a verbal or telephone order",
@@ -132,52 +83,6 @@ const ACTION_WORDS: Record<string, string> = {
   "order.supersede": "Superseded",
   "order.discontinue": "Discontinued",
 };
-
-async function loadHistory(orderId: number): Promise<HistoryEvent[]> {
-  const rows = (await db()("ledger_entries as l")
-    .leftJoin("users as u", "u.id", "l.actor_user_id")
-    .where({ "l.entity_type": "order", "l.entity_id": String(orderId) })
-    .orderBy("l.id")
-    .select("l.id", "l.action", "l.occurred_at", "u.name as actor_name", "l.actor_role", "l.rationale")) as {
-    id: number;
-    action: string;
-    occurred_at: Date;
-    actor_name: string | null;
-    actor_role: string;
-    rationale: string | null;
-  }[];
-  return rows.map((r) => ({
-    id: Number(r.id),
-    action: r.action,
-    at: r.occurred_at,
-    actorName: r.actor_name,
-    actorRole: r.actor_role,
-    rationale: r.rationale,
-  }));
-}
-
-async function loadPatientLine(order: OrderView) {
-  const row = (await db()("patients as p")
-    .join("admissions as a", "a.patient_id", "p.id")
-    .join("beds as b", "b.id", "a.bed_id")
-    .join("units as u", "u.id", "b.unit_id")
-    .where({ "p.id": order.patientId, "a.id": order.admissionId })
-    .first("p.given_name", "p.family_name", "p.mrn", "b.label as bed_label", "u.code as unit_code", "a.discharged_at")) as {
-    given_name: string;
-    family_name: string;
-    mrn: string;
-    bed_label: string;
-    unit_code: string;
-    discharged_at: Date | null;
-  };
-  return row;
-}
-
-async function stepTableName(id: number | null): Promise<string | null> {
-  if (id === null) return null;
-  const row = (await db()("step_tables").where({ id }).first("name")) as { name: string } | undefined;
-  return row?.name ?? null;
-}
 
 // ---------------------------------------------------------------------------
 
@@ -207,11 +112,13 @@ export default async function OrderPage({
   // Another unit's order answers 404, like one that does not exist.
   if (!order || !actor.unitIds.includes(order.unitId)) notFound();
 
-  const [extras, history, patient, tableName, units] = await Promise.all([
-    loadExtras(order.id),
-    loadHistory(order.id),
-    loadPatientLine(order),
-    stepTableName(order.stepTableId),
+  const [history, patient, tableName, units] = await Promise.all([
+    listLedgerForEntity(db(), actor, "order", order.id),
+    getAdmissionPatient(db(), actor, order.admissionId).catch((error: unknown) => {
+      if (error instanceof NotFoundError) notFound();
+      throw error;
+    }),
+    getStepTableName(db(), order.stepTableId),
     listUnits(db(), [order.unitId]),
   ]);
   const timeZone = units[0]?.timeZone ?? "UTC";
@@ -223,17 +130,19 @@ export default async function OrderPage({
   const asOf = asOfText ? parseAsOf(asOfText, timeZone) : null;
   const asOfError = asOfText && !asOf ? "Enter a date and time, for example 2026-12-01 14:30:00." : null;
   const past = asOf ? await getOrder(db(), order.id, asOf) : null;
-  const pastTableName = past && past.stepTableId !== order.stepTableId ? await stepTableName(past.stepTableId) : tableName;
+  const pastTableName =
+    past && past.stepTableId !== order.stepTableId ? await getStepTableName(db(), past.stepTableId) : tableName;
 
   const physician = actor.role === "physician";
   const inEffect = order.status === "active" || order.status === "awaiting_cosign";
-  const patientName = `${patient.given_name} ${patient.family_name}`;
+  const patientName = `${patient.givenName} ${patient.familyName}`;
 
   // A moment just after each recorded event, but before the next one.
   const moments = history.map((event, i) => {
     const next = history[i + 1];
-    const after = new Date(event.at.getTime() + 1000);
-    const at = next && next.at.getTime() - 1 < after.getTime() ? new Date(next.at.getTime() - 1) : after;
+    const after = Date.parse(event.occurredAt) + 1000;
+    const nextAt = next ? Date.parse(next.occurredAt) : null;
+    const at = new Date(nextAt !== null && nextAt - 1 < after ? nextAt - 1 : after);
     return { event, at };
   });
 
@@ -247,13 +156,13 @@ export default async function OrderPage({
             <OrderStatusBadge status={order.status} />
           </div>
           <p className="text-sm text-ink-muted">
-            {patientName} · Bed <span className="font-medium text-ink">{patient.bed_label}</span> ·{" "}
-            {patient.unit_code} · MRN <span className="tabular">{patient.mrn}</span>
-            {patient.discharged_at ? " · discharged" : ""}
+            {patientName} · Bed <span className="font-medium text-ink">{patient.bed.label}</span> ·{" "}
+            {patient.unit.code} · MRN <span className="tabular">{patient.mrn}</span>
+            {patient.dischargedAt ? " · discharged" : ""}
           </p>
         </div>
         <div className="flex flex-wrap gap-2">
-          {patient.discharged_at ? null : (
+          {patient.dischargedAt ? null : (
             <Link href={`/patients/${order.patientId}`} className={buttonClasses("secondary")}>
               Back to the Chart
             </Link>
@@ -266,7 +175,7 @@ export default async function OrderPage({
         </div>
       </header>
 
-      <StateBanner order={order} extras={extras} time={time} now={now} />
+      <StateBanner order={order} time={time} now={now} />
 
       <div className="grid items-start gap-5 lg:grid-cols-[minmax(0,1fr)_22rem]">
         <div className="min-w-0 space-y-5">
@@ -362,7 +271,7 @@ export default async function OrderPage({
           <Card title="Signature" id="order-signature">
             <dl className="grid grid-cols-[auto_1fr] gap-x-3 gap-y-1 text-sm">
               <dt className="text-ink-muted">Signed by</dt>
-              <dd>{extras.signedByName ?? <span className="text-ink-muted">Not yet signed</span>}</dd>
+              <dd>{order.signedBy?.name ?? <span className="text-ink-muted">Not yet signed</span>}</dd>
               <dt className="text-ink-muted">Signed at</dt>
               <dd className="tabular">{order.signedAt ? time(order.signedAt) : "—"}</dd>
               <dt className="text-ink-muted">Meaning</dt>
@@ -383,7 +292,7 @@ export default async function OrderPage({
               ) : (
                 <>
                   <dt className="text-ink-muted">Read back</dt>
-                  <dd>{extras.readBackConfirmed ? `Yes, to ${order.prescriber.name}` : "Not recorded"}</dd>
+                  <dd>{order.readBackConfirmed ? `Yes, to ${order.prescriber.name}` : "Not recorded"}</dd>
                   <dt className="text-ink-muted">Co-sign</dt>
                   <dd>
                     {order.cosignedBy && order.cosignedAt ? (
@@ -411,8 +320,8 @@ export default async function OrderPage({
                   <li key={event.id} className="border-l-2 border-border pl-3">
                     <p className="font-medium">{ACTION_WORDS[event.action] ?? event.action}</p>
                     <p className="text-ink-muted">
-                      <span className="tabular">{time(event.at)}</span> · {event.actorName ?? "Unknown"} (
-                      {event.actorRole})
+                      <span className="tabular">{time(event.occurredAt)}</span> · {event.actor.name ?? "Unknown"} (
+                      {event.actor.role})
                     </p>
                     {event.rationale ? <p className="break-words">{event.rationale}</p> : null}
                     <Link
@@ -435,12 +344,10 @@ export default async function OrderPage({
 /** What became of the order, in one sentence, by word and icon. */
 function StateBanner({
   order,
-  extras,
   time,
   now,
 }: {
   order: OrderView;
-  extras: OrderExtras;
   time: (d: string | Date) => string;
   now: Date;
 }) {
@@ -460,9 +367,9 @@ function StateBanner({
         <p className={`${box} border-border bg-surface`} data-testid="order-state">
           <OrderStatusBadge status={order.status} />
           In effect since {time(order.cosignedAt ?? order.createdAt)}.
-          {extras.replaced ? (
-            <Link href={`/orders/${extras.replaced}`} className="text-accent underline-offset-2 hover:underline">
-              Replaced order #{extras.replaced}
+          {order.replacedOrderId ? (
+            <Link href={`/orders/${order.replacedOrderId}`} className="text-accent underline-offset-2 hover:underline">
+              Replaced order #{order.replacedOrderId}
             </Link>
           ) : null}
         </p>
@@ -472,16 +379,16 @@ function StateBanner({
         <p className={`${box} border-border bg-surface-muted`} data-testid="order-state">
           <OrderStatusBadge status={order.status} />
           No longer in effect:
-          {extras.supersededBy ? (
+          {order.supersededBy ? (
             <>
               {" "}replaced by{" "}
               <Link
-                href={`/orders/${extras.supersededBy.id}`}
+                href={`/orders/${order.supersededBy.id}`}
                 className="text-accent underline-offset-2 hover:underline"
               >
-                order #{extras.supersededBy.id}
+                order #{order.supersededBy.id}
               </Link>{" "}
-              at {time(extras.supersededBy.at)}.
+              at {time(order.supersededBy.at)}.
             </>
           ) : (
             " replaced by a newer order."
@@ -492,7 +399,7 @@ function StateBanner({
       return (
         <p className={`${box} border-border bg-surface-muted`} data-testid="order-state">
           <OrderStatusBadge status={order.status} />
-          Discontinued by {extras.discontinuedByName ?? "a physician"}
+          Discontinued by {order.discontinuedBy?.name ?? "a physician"}
           {order.discontinuedAt ? ` at ${time(order.discontinuedAt)}` : ""}: {order.discontinueReason}
         </p>
       );

@@ -7,7 +7,6 @@ import { pageActor } from "@/lib/auth/page-guard";
 import { db } from "@/lib/db";
 import { DEVICE_PROFILES } from "@/lib/orders/devices";
 import { listCosignQueue } from "@/lib/orders/queries";
-import { listUnits } from "@/lib/units/queries";
 
 export const metadata: Metadata = { title: "Co-sign queue" };
 
@@ -16,11 +15,7 @@ const MODE_WORDS = { verbal: "Verbal", telephone: "Telephone", written: "Written
 /** Verbal and telephone orders in the physician's units waiting for a co-signature, oldest first. */
 export default async function CosignQueuePage() {
   const actor = await pageActor("physician");
-  const [queue, units] = await Promise.all([
-    listCosignQueue(db(), actor.unitIds),
-    listUnits(db(), actor.unitIds),
-  ]);
-  const unitById = new Map(units.map((u) => [u.id, u]));
+  const queue = await listCosignQueue(db(), actor.unitIds);
   const now = new Date();
 
   return (
@@ -57,48 +52,45 @@ export default async function CosignQueuePage() {
               </tr>
             </thead>
             <tbody>
-              {queue.map((o) => {
-                const unit = unitById.get(o.unitId);
-                return (
-                  <tr key={o.id} className="border-b border-border last:border-0" data-testid="cosign-row">
-                    <td className="px-3 py-2 font-medium tabular">
-                      {o.bedLabel}
-                      {unit ? <span className="ml-1 text-xs text-ink-muted">{unit.code}</span> : null}
-                    </td>
-                    <th scope="row" className="px-3 py-2 font-medium">
-                      {o.patientName}
-                    </th>
-                    <td className="px-3 py-2">{DEVICE_PROFILES[o.device].label}</td>
-                    <td className="px-3 py-2 tabular">
-                      {o.spo2Band.lower}–{o.spo2Band.upper} %
-                    </td>
-                    <td className="px-3 py-2">
-                      {o.enteredBy.name}
-                      <span className="block text-xs text-ink-muted">
-                        {MODE_WORDS[o.entryMode]} from {o.prescriber.name}
-                      </span>
-                    </td>
-                    <td className="px-3 py-2 tabular">
-                      {formatOrderTime(o.createdAt, unit?.timeZone ?? "UTC")}
-                    </td>
-                    <td className="whitespace-nowrap px-3 py-2">
-                      <StatusBadge
-                        status="overdue"
-                        label={formatDuration(now.getTime() - Date.parse(o.createdAt))}
-                      />
-                    </td>
-                    <td className="px-3 py-2 text-right">
-                      <Link
-                        href={`/orders/${o.id}`}
-                        className="whitespace-nowrap font-medium text-accent underline-offset-2 hover:underline"
-                        aria-label={`Review and co-sign order #${o.id} for ${o.patientName}`}
-                      >
-                        Review and co-sign
-                      </Link>
-                    </td>
-                  </tr>
-                );
-              })}
+              {queue.map((o) => (
+                <tr key={o.id} className="border-b border-border last:border-0" data-testid="cosign-row">
+                  <td className="px-3 py-2 font-medium tabular">
+                    {o.bedLabel}
+                    <span className="ml-1 text-xs text-ink-muted">{o.unitCode}</span>
+                  </td>
+                  <th scope="row" className="px-3 py-2 font-medium">
+                    {o.patientName}
+                  </th>
+                  <td className="px-3 py-2">{DEVICE_PROFILES[o.device].label}</td>
+                  <td className="px-3 py-2 tabular">
+                    {o.spo2Band.lower}–{o.spo2Band.upper} %
+                  </td>
+                  <td className="px-3 py-2">
+                    {o.enteredBy.name}
+                    <span className="block text-xs text-ink-muted">
+                      {MODE_WORDS[o.entryMode]} from {o.prescriber.name}
+                    </span>
+                  </td>
+                  <td className="px-3 py-2 tabular">
+                    {formatOrderTime(o.createdAt, o.timeZone)}
+                  </td>
+                  <td className="whitespace-nowrap px-3 py-2">
+                    <StatusBadge
+                      status="overdue"
+                      label={formatDuration(now.getTime() - Date.parse(o.createdAt))}
+                    />
+                  </td>
+                  <td className="px-3 py-2 text-right">
+                    <Link
+                      href={`/orders/${o.id}`}
+                      className="whitespace-nowrap font-medium text-accent underline-offset-2 hover:underline"
+                      aria-label={`Review and co-sign order #${o.id} for ${o.patientName}`}
+                    >
+                      Review and co-sign
+                    </Link>
+                  </td>
+                </tr>
+              ))}
             </tbody>
           </table>
         </div>

@@ -3,6 +3,8 @@ import Link from "next/link";
 import { notFound } from "next/navigation";
 import { z } from "zod";
 import { BedsideSummary } from "@/components/bedside/BedsideSummary";
+import { Timeline } from "@/components/chart/Timeline";
+import { TrendChart } from "@/components/chart/TrendChart";
 import { BloodGasEvaluator } from "@/components/oxygenation/BloodGasEvaluator";
 import { buttonClasses } from "@/components/ui/Button";
 import { pageActor } from "@/lib/auth/page-guard";
@@ -73,6 +75,14 @@ export default async function ChartPage({ params }: { params: Promise<{ patientI
       </header>
 
       <BedsideSummary actor={actor} context={bedside} now={now} />
+
+      <TrendChart
+        patientId={patient.id}
+        pressureUnit={actor.pressureUnit}
+        admittedAt={patient.admission.admittedAt.toISOString()}
+      />
+
+      <Timeline patientId={patient.id} pressureUnit={actor.pressureUnit} />
 
       <section aria-labelledby="evaluate-heading" className="space-y-3">
         <h2 id="evaluate-heading" className="text-lg font-semibold">

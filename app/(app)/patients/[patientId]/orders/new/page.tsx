@@ -2,18 +2,16 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { z } from "zod";
-import {
-  OrderComposer,
-  type PhysicianChoice,
-  type StepTableChoice,
-} from "@/components/orders/OrderComposer";
+import { OrderComposer } from "@/components/orders/OrderComposer";
 import { buttonClasses } from "@/components/ui/Button";
 import { pageActor } from "@/lib/auth/page-guard";
 import { db } from "@/lib/db";
 import { NotFoundError } from "@/lib/errors";
 import { getCurrentOrder } from "@/lib/orders/queries";
 import { type ChartPatient, getPatientForActor } from "@/lib/patients/queries";
+import { getStepTableName, listStepTables } from "@/lib/step-tables/queries";
 import { listUnits } from "@/lib/units/queries";
+import { listUnitPhysicians } from "@/lib/users/queries";
 
 export const metadata: Metadata = { title: "Order" };
 
@@ -27,43 +25,6 @@ async function loadPatient(...args: Parameters<typeof getPatientForActor>): Prom
     if (error instanceof NotFoundError) notFound();
     throw error;
   }
-}
-
-/** The step-table library for a unit: the built-in published tables and the unit's own, active. */
-async function listStepTables(unitId: number): Promise<StepTableChoice[]> {
-  const rows = (await db()("step_tables")
-    .where({ active: true })
-    .andWhere((q) => {
-      void q.whereNull("unit_id").orWhere("unit_id", unitId);
-    })
-    .orderByRaw("unit_id IS NULL DESC, name")
-    .select("id", "unit_id", "name", "kind")) as {
-    id: number;
-    unit_id: number | null;
-    name: string;
-    kind: "fio2_peep" | "flow_fio2";
-  }[];
-  return rows.map((r) => ({ id: r.id, name: r.name, kind: r.kind, unitOwn: r.unit_id !== null }));
-}
-
-/** The unit's active physicians, the one on duty for the bed marked, for the verbal-order prescriber. */
-async function listPhysicians(unitId: number, bedId: number, now: Date): Promise<PhysicianChoice[]> {
-  const knex = db();
-  const [rows, duty] = await Promise.all([
-    knex("users as u")
-      .join("user_units as uu", "uu.user_id", "u.id")
-      .where({ "u.role": "physician", "u.active": true, "uu.unit_id": unitId })
-      .orderBy("u.name")
-      .select("u.id", "u.name") as Promise<{ id: number; name: string }[]>,
-    knex("care_assignments")
-      .where({ bed_id: bedId, duty: "physician" })
-      .andWhere("starts_at", "<=", now)
-      .andWhere("ends_at", ">", now)
-      .pluck("user_id") as Promise<number[]>,
-  ]);
-  return rows
-    .map((r) => ({ id: r.id, name: r.name, onDuty: duty.includes(r.id) }))
-    .sort((a, b) => Number(b.onDuty) - Number(a.onDuty));
 }
 
 /** The order composer: a physician writes and signs; a nurse or therapist enters a verbal order. */
@@ -80,16 +41,11 @@ export default async function NewOrderPage({
   const physician = actor.role === "physician";
   const [currentOrder, stepTables, physicians, units] = await Promise.all([
     getCurrentOrder(db(), patient.id),
-    listStepTables(unit.id),
-    physician ? Promise.resolve([]) : listPhysicians(unit.id, bed.id, new Date()),
+    listStepTables(db(), [unit.id]),
+    physician ? Promise.resolve([]) : listUnitPhysicians(db(), unit.id, bed.id, new Date()),
     listUnits(db(), [unit.id]),
   ]);
-  const currentStepTableName =
-    currentOrder?.stepTableId != null
-      ? (((await db()("step_tables").where({ id: currentOrder.stepTableId }).first("name")) as
-          | { name: string }
-          | undefined)?.name ?? null)
-      : null;
+  const currentStepTableName = await getStepTableName(db(), currentOrder?.stepTableId ?? null);
   const name = `${patient.givenName} ${patient.familyName}`;
 
   return (
@@ -118,7 +74,12 @@ export default async function NewOrderPage({
         timeZone={units[0]?.timeZone ?? "UTC"}
         currentOrder={currentOrder}
         currentStepTableName={currentStepTableName}
-        stepTables={stepTables}
+        stepTables={stepTables.map((t) => ({
+          id: t.id,
+          name: t.name,
+          kind: t.kind,
+          unitOwn: t.unitId !== null,
+        }))}
         physicians={physicians}
       />
     </div>

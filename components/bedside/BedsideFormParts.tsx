@@ -1,13 +1,16 @@
 "use client";
 
 import { useState, useSyncExternalStore, type ReactNode } from "react";
+import type { FieldValues, Path, UseFormRegisterReturn, UseFormReturn } from "react-hook-form";
 import { z } from "zod";
+import { Field, inputClasses } from "@/components/ui/Field";
 import { IconCheck, IconWarning } from "@/components/ui/icons";
 import type { FieldErrors } from "@/lib/errors";
 import { DEVICE_PROFILES, DEVICES, estimateFio2, type Device } from "@/lib/orders/devices";
 
-// Pieces the three bedside forms (adjustment, reading, blood gas) share: number
-// parsing, the unit's wall-clock time, the idempotency key, and the status line.
+// Pieces the bedside forms (adjustment, reading, blood gas) and the blood-gas
+// evaluator share: number inputs, the unit's wall-clock time, the idempotency
+// key, the hydration guard, refusals and the status line.
 
 /**
  * Text inputs (no scroll-wheel changes, a decimal comma accepted); empty is
@@ -39,6 +42,41 @@ export function useHydrated(): boolean {
 export const textDefault = (value: unknown): string | undefined =>
   typeof value === "number" && Number.isFinite(value) ? String(value) : undefined;
 
+/**
+ * A number typed as text: no scroll-wheel changes, a decimal comma accepted.
+ * Register it with `setValueAs: toNumber`.
+ */
+function NumberInput({
+  id,
+  registration,
+  describedBy,
+  invalid,
+  defaultValue,
+  inputMode = "decimal",
+}: {
+  id: string;
+  registration: UseFormRegisterReturn;
+  describedBy: string | undefined;
+  invalid: boolean;
+  /** Shown by the server-rendered page before the form takes over. */
+  defaultValue?: number;
+  inputMode?: "decimal" | "numeric";
+}) {
+  return (
+    <input
+      id={id}
+      type="text"
+      inputMode={inputMode}
+      autoComplete="off"
+      className={`${inputClasses} tabular`}
+      aria-invalid={invalid}
+      aria-describedby={describedBy}
+      defaultValue={textDefault(defaultValue)}
+      {...registration}
+    />
+  );
+}
+
 /** One key per form mount: a retried or double-clicked submit is recorded once. */
 export function useIdempotencyKey(): string {
   const [key] = useState(newIdempotencyKey);
@@ -50,6 +88,49 @@ export function newIdempotencyKey(): string {
   // randomUUID needs a secure context; getRandomValues does not.
   const bytes = crypto.getRandomValues(new Uint8Array(16));
   return Array.from(bytes, (b) => b.toString(16).padStart(2, "0")).join("");
+}
+
+/**
+ * A labelled number field of a form (Field around NumberInput), with the id
+ * `${id}-${name}`, its error from the form, and `toNumber` as its parser.
+ */
+export function NumberField<T extends FieldValues>({
+  form,
+  id,
+  name,
+  label,
+  hint,
+  defaultValue,
+  inputMode,
+  describedBy,
+}: {
+  form: Pick<UseFormReturn<T>, "register" | "getFieldState" | "formState">;
+  /** The form's useId prefix. */
+  id: string;
+  name: Path<T>;
+  label: string;
+  hint?: string;
+  defaultValue?: number;
+  inputMode?: "decimal" | "numeric";
+  /** More ids that describe the input (a warning), after the hint and error. */
+  describedBy?: string;
+}) {
+  const fieldId = `${id}-${name}`;
+  const error = form.getFieldState(name, form.formState).error?.message;
+  return (
+    <Field id={fieldId} label={label} hint={hint} error={error}>
+      {(d, invalid) => (
+        <NumberInput
+          id={fieldId}
+          registration={form.register(name, { setValueAs: toNumber })}
+          describedBy={[d, describedBy].filter(Boolean).join(" ") || undefined}
+          invalid={invalid}
+          defaultValue={defaultValue}
+          inputMode={inputMode}
+        />
+      )}
+    </Field>
+  );
 }
 
 const LOCAL_PATTERN = /^(\d{4})-(\d{2})-(\d{2})T(\d{2}):(\d{2})$/;
@@ -108,6 +189,39 @@ export function timeZoneNote(timeZone: string): string {
   return timeZone === "UTC" ? "Unit time (UTC)" : `Unit time (${timeZone})`;
 }
 
+/** A date and time typed on the unit's clock, with the zone named beside it; id `${id}-${name}`. */
+export function UnitTimeField<T extends FieldValues>({
+  form,
+  id,
+  name,
+  label,
+  timeZone,
+}: {
+  form: Pick<UseFormReturn<T>, "register" | "getFieldState" | "formState">;
+  /** The form's useId prefix. */
+  id: string;
+  name: Path<T>;
+  label: string;
+  timeZone: string;
+}) {
+  const fieldId = `${id}-${name}`;
+  const error = form.getFieldState(name, form.formState).error?.message;
+  return (
+    <Field id={fieldId} label={label} hint={timeZoneNote(timeZone)} error={error}>
+      {(d, invalid) => (
+        <input
+          id={fieldId}
+          type="datetime-local"
+          className={`${inputClasses} tabular`}
+          aria-invalid={invalid}
+          aria-describedby={d}
+          {...form.register(name)}
+        />
+      )}
+    </Field>
+  );
+}
+
 /**
  * Hands each server field error to the form field it belongs to; returns the
  * ones no field shows, so the summary can list them.
@@ -127,6 +241,39 @@ export function placeServerErrors<F extends string>(
 }
 
 export type FormNotice = { kind: "error" | "success" | "info"; text: string; details?: string[] };
+
+/**
+ * The notice for a save the server refused: an ended session, or the message
+ * with its field errors placed beside their fields and the rest listed.
+ */
+export function refusalNotice<F extends string>(
+  refusal: { status: number; message: string; fieldErrors?: FieldErrors },
+  fields: readonly F[],
+  setError: (field: F, error: { type: string; message: string }) => void,
+  words: {
+    /** What to do when the session has ended, and that the values are kept. */
+    sessionEnded: string;
+    /** Appended to the message when some errors sit beside their fields. */
+    besideFields?: string;
+  },
+): FormNotice {
+  if (refusal.status === 401) return { kind: "error", text: words.sessionEnded };
+  const unplaced = placeServerErrors(
+    refusal.fieldErrors,
+    (path) => fields.find((f) => f === path),
+    setError,
+  );
+  const besideFields =
+    words.besideFields ?? "See the message beside each field; nothing you typed was lost.";
+  return {
+    kind: "error",
+    text:
+      Object.keys(refusal.fieldErrors ?? {}).length > unplaced.length
+        ? `${refusal.message} ${besideFields}`
+        : refusal.message,
+    details: unplaced,
+  };
+}
 
 /** The form's status line: a refusal, a conflict or a success, read out when it changes. */
 export function FormStatus({
