@@ -1,5 +1,13 @@
 import type { Knex } from "knex";
+import { DEVICE_PROFILES, type Device } from "../orders/devices";
 import { ageInYears, initialsOf } from "../patients/display";
+import { readingWindow, type WindowReading } from "./reading-window";
+import {
+  classifySpo2,
+  MAX_CARRY_FORWARD_MS,
+  timeInBandOfSeries,
+  type BandPeriod,
+} from "../time-in-band";
 
 export type BoardRow = {
   bedId: number;
@@ -13,6 +21,32 @@ export type BoardRow = {
   admittedAt: string;
   nurse: string | null;
   therapist: string | null;
+  /** What is applied at the bedside now (bedside settings, else the order's device). */
+  device: Device | null;
+  deviceLabel: string | null;
+  fio2: number | null;
+  fio2Estimated: boolean;
+  /** PEEP for devices that use it, flow for those that use flow; null otherwise. */
+  peepCmH2o: number | null;
+  flowLMin: number | null;
+  /** The order in effect (active or awaiting co-sign), if any. */
+  order: {
+    id: number;
+    status: "active" | "awaiting_cosign";
+    lower: number;
+    upper: number;
+    reassessMinutes: number;
+  } | null;
+  latestSpo2: { pct: number; fio2: number; takenAt: string } | null;
+  /** The latest SpO2 against the band in effect; null without a reading or an order. */
+  spo2Status: "in-band" | "below" | "above" | null;
+  /** Share of the last 24 h below / in / above the band, and unknown (lib/time-in-band). */
+  timeInBand24h: { below: number; inBand: number; above: number; unknown: number };
+  latestPf: { ratio: number; fio2Estimated: boolean; sampledAt: string } | null;
+  lastReassessedAt: string | null;
+  minutesSinceReassessment: number | null;
+  overdue: boolean;
+  // Open alerts: alerts do not exist yet (a later issue); the Board shows "—".
 };
 
 export type BoardUnit = {
@@ -22,6 +56,22 @@ export type BoardUnit = {
   totalBeds: number;
   occupiedBeds: number;
 };
+
+/** What GET /api/v1/board answers and the Board page renders first. */
+export type BoardData = { units: BoardUnit[]; beds: BoardRow[]; now: string };
+
+/** The Board for the given units (the caller's, already checked), at `now`. */
+export async function loadBoard(
+  knex: Knex,
+  unitIds: readonly number[],
+  now: Date = new Date(),
+): Promise<BoardData> {
+  const [units, beds] = await Promise.all([
+    summariseUnits(knex, unitIds),
+    listOccupiedBeds(knex, unitIds, now),
+  ]);
+  return { units, beds, now: now.toISOString() };
+}
 
 /**
  * The occupied beds of the given units with who is looking after each bed this
@@ -51,6 +101,7 @@ export async function listOccupiedBeds(
       "p.birth_date",
       "p.sex",
       "a.admitted_at",
+      "a.id as admission_id",
     )) as {
     bed_id: number;
     bed_label: string;
@@ -62,19 +113,28 @@ export async function listOccupiedBeds(
     birth_date: Date;
     sex: "female" | "male";
     admitted_at: Date;
+    admission_id: number;
   }[];
   const bedIds = rows.map((r) => r.bed_id);
-  const carers = bedIds.length
-    ? ((await knex("care_assignments as c")
-        .join("users as s", "s.id", "c.user_id")
-        .whereIn("c.bed_id", bedIds)
-        .where("c.starts_at", "<=", now)
-        .where("c.ends_at", ">", now)
-        .select("c.bed_id", "c.duty", "s.name")) as { bed_id: number; duty: string; name: string }[])
-    : [];
+  const admissionIds = rows.map((r) => r.admission_id);
+  const patientIds = rows.map((r) => r.patient_id);
+  const [carers, clinical] = await Promise.all([
+    bedIds.length
+      ? (knex("care_assignments as c")
+          .join("users as s", "s.id", "c.user_id")
+          .whereIn("c.bed_id", bedIds)
+          .where("c.starts_at", "<=", now)
+          .where("c.ends_at", ">", now)
+          .select("c.bed_id", "c.duty", "s.name") as Promise<
+          { bed_id: number; duty: string; name: string }[]
+        >)
+      : Promise.resolve([]),
+    loadClinical(knex, admissionIds, patientIds, now),
+  ]);
   const carer = (bedId: number, duty: string) =>
     carers.find((c) => c.bed_id === bedId && c.duty === duty)?.name ?? null;
   return rows.map((r) => ({
+    ...clinical(r.admission_id, r.patient_id),
     bedId: r.bed_id,
     bedLabel: r.bed_label,
     unitId: r.unit_id,
@@ -87,6 +147,225 @@ export async function listOccupiedBeds(
     nurse: carer(r.bed_id, "nurse"),
     therapist: carer(r.bed_id, "therapist"),
   }));
+}
+
+const DAY_MS = 24 * 60 * 60 * 1000;
+
+type Clinical = Omit<
+  BoardRow,
+  | "bedId"
+  | "bedLabel"
+  | "unitId"
+  | "unitCode"
+  | "patientId"
+  | "patientInitials"
+  | "patientAge"
+  | "sex"
+  | "admittedAt"
+  | "nurse"
+  | "therapist"
+>;
+
+/**
+ * Everything clinical the Board shows for a set of admissions, in a fixed
+ * number of queries (no per-bed round trips): bedside settings, the orders in
+ * effect during the last 24 h, the readings of the last 24 h (plus the carry-in
+ * window), the latest reading and the latest arterial P/F.
+ */
+async function loadClinical(
+  knex: Knex,
+  admissionIds: readonly number[],
+  patientIds: readonly number[],
+  now: Date,
+): Promise<(admissionId: number, patientId: number) => Clinical> {
+  const from = new Date(now.getTime() - DAY_MS);
+  const carryFrom = new Date(from.getTime() - MAX_CARRY_FORWARD_MS);
+  const none = () => [] as never[];
+  const [settings, orders, readings, latest, gases] =
+    admissionIds.length === 0
+      ? [none(), none(), new Map<number, WindowReading[]>(), none(), none()]
+      : await Promise.all([
+          knex("bedside_settings")
+            .whereIn("admission_id", admissionIds)
+            .select(
+              "admission_id",
+              "device",
+              "fio2",
+              "fio2_estimated",
+              "peep_cmh2o",
+              "flow_l_min",
+              "last_reassessed_at",
+            ) as Promise<
+            {
+              admission_id: number;
+              device: Device;
+              fio2: number;
+              fio2_estimated: number;
+              peep_cmh2o: number | null;
+              flow_l_min: number | null;
+              last_reassessed_at: Date;
+            }[]
+          >,
+          knex("orders")
+            .whereIn("admission_id", admissionIds)
+            .whereNot("status", "draft")
+            .where("created_at", "<=", now)
+            .where((q) => {
+              void q
+                .whereIn("status", ["active", "awaiting_cosign"])
+                .orWhere(knex.raw("COALESCE(discontinued_at, updated_at)"), ">", from);
+            })
+            .select(
+              "id",
+              "admission_id",
+              "status",
+              "device",
+              "spo2_lower_pct",
+              "spo2_upper_pct",
+              "reassess_minutes",
+              "created_at",
+              knex.raw("COALESCE(discontinued_at, updated_at) AS ended_at"),
+            ) as Promise<
+            {
+              id: number;
+              admission_id: number;
+              status: "active" | "awaiting_cosign" | "superseded" | "discontinued";
+              device: Device;
+              spo2_lower_pct: number;
+              spo2_upper_pct: number;
+              reassess_minutes: number;
+              created_at: Date;
+              ended_at: Date;
+            }[]
+          >,
+          readingWindow(
+            knex,
+            admissionIds.map((admissionId, i) => ({ admissionId, patientId: patientIds[i]! })),
+            carryFrom,
+            now,
+          ),
+          knex
+            .raw(
+              `SELECT r.admission_id, r.taken_at, r.spo2_pct, r.fio2
+                 FROM readings r
+                 JOIN (SELECT patient_id, MAX(taken_at) AS m FROM readings
+                        WHERE patient_id IN (${patientIds.map(() => "?").join(",")}) AND taken_at <= ?
+                        GROUP BY patient_id) x ON x.patient_id = r.patient_id AND x.m = r.taken_at`,
+              [...patientIds, now],
+            )
+            .then(
+              ([r]: [{ admission_id: number; taken_at: Date; spo2_pct: number; fio2: number }[]]) =>
+                r,
+            ),
+          knex
+            .raw(
+              `SELECT g.admission_id, g.sampled_at, g.pf_ratio, g.fio2_estimated
+                 FROM blood_gases g
+                 JOIN (SELECT patient_id, MAX(sampled_at) AS m FROM blood_gases
+                        WHERE patient_id IN (${patientIds.map(() => "?").join(",")})
+                          AND sample_type = 'arterial' AND pf_ratio IS NOT NULL AND sampled_at <= ?
+                        GROUP BY patient_id) x ON x.patient_id = g.patient_id AND x.m = g.sampled_at
+                WHERE g.sample_type = 'arterial' AND g.pf_ratio IS NOT NULL`,
+              [...patientIds, now],
+            )
+            .then(
+              ([r]: [
+                {
+                  admission_id: number;
+                  sampled_at: Date;
+                  pf_ratio: number;
+                  fio2_estimated: number;
+                }[],
+              ]) => r,
+            ),
+        ]);
+
+  const settingsBy = new Map(settings.map((s) => [s.admission_id, s]));
+  const ordersBy = groupBy(orders, (o) => o.admission_id);
+  const latestBy = new Map(latest.map((r) => [r.admission_id, r]));
+  const gasBy = new Map(gases.map((g) => [g.admission_id, g]));
+
+  return (admissionId) => {
+    const s = settingsBy.get(admissionId);
+    const history = ordersBy.get(admissionId) ?? [];
+    const current = history.find((o) => o.status === "active" || o.status === "awaiting_cosign");
+    const bands: BandPeriod[] = history.map((o) => ({
+      from: o.created_at,
+      to: o.status === "active" || o.status === "awaiting_cosign" ? null : o.ended_at,
+      lower: o.spo2_lower_pct,
+      upper: o.spo2_upper_pct,
+    }));
+    const tib = timeInBandOfSeries({
+      from: from.getTime(),
+      to: now.getTime(),
+      bands,
+      series: readings.get(admissionId) ?? [],
+    });
+    const last = latestBy.get(admissionId);
+    const gas = gasBy.get(admissionId);
+    const device = s?.device ?? current?.device ?? null;
+    const uses = device ? DEVICE_PROFILES[device].uses : null;
+    const minutes = s
+      ? Math.max(0, Math.floor((now.getTime() - s.last_reassessed_at.getTime()) / 60_000))
+      : null;
+    const spo2Status =
+      last && current
+        ? ({ below: "below", inBand: "in-band", above: "above" } as const)[
+            classifySpo2(last.spo2_pct, last.fio2, {
+              lower: current.spo2_lower_pct,
+              upper: current.spo2_upper_pct,
+            })
+          ]
+        : null;
+    return {
+      device,
+      deviceLabel: device ? DEVICE_PROFILES[device].label : null,
+      fio2: s?.fio2 ?? null,
+      fio2Estimated: Boolean(s?.fio2_estimated),
+      peepCmH2o: uses?.peep ? (s?.peep_cmh2o ?? null) : null,
+      flowLMin: uses?.flow ? (s?.flow_l_min ?? null) : null,
+      order: current
+        ? {
+            id: current.id,
+            status: current.status as "active" | "awaiting_cosign",
+            lower: current.spo2_lower_pct,
+            upper: current.spo2_upper_pct,
+            reassessMinutes: current.reassess_minutes,
+          }
+        : null,
+      latestSpo2: last
+        ? { pct: last.spo2_pct, fio2: last.fio2, takenAt: last.taken_at.toISOString() }
+        : null,
+      spo2Status,
+      timeInBand24h: {
+        below: tib.below,
+        inBand: tib.inBand,
+        above: tib.above,
+        unknown: tib.unknown,
+      },
+      latestPf: gas
+        ? {
+            ratio: gas.pf_ratio,
+            fio2Estimated: Boolean(gas.fio2_estimated),
+            sampledAt: gas.sampled_at.toISOString(),
+          }
+        : null,
+      lastReassessedAt: s ? s.last_reassessed_at.toISOString() : null,
+      minutesSinceReassessment: minutes,
+      overdue: current !== undefined && minutes !== null && minutes > current.reassess_minutes,
+    };
+  };
+}
+
+function groupBy<T, K>(items: readonly T[], key: (item: T) => K): Map<K, T[]> {
+  const map = new Map<K, T[]>();
+  for (const item of items) {
+    const k = key(item);
+    const list = map.get(k);
+    if (list) list.push(item);
+    else map.set(k, [item]);
+  }
+  return map;
 }
 
 /** Bed counts per unit, for the Board's header line and empty states. */

@@ -3,7 +3,7 @@ import { assertUnitAccess } from "@/lib/auth/actor-queries";
 import { listOccupiedBeds, summariseUnits } from "@/lib/board/queries";
 import { closeDb } from "@/lib/db";
 import { NotFoundError } from "@/lib/errors";
-import { actorByEmail, appDb, SEEDED } from "../helpers/db";
+import { actorByEmail, admitTestPatient, appDb, SEEDED } from "../helpers/db";
 
 afterAll(async () => {
   await closeDb();
@@ -69,5 +69,165 @@ describe("Board", () => {
         admitted_at: new Date(),
       }),
     ).rejects.toMatchObject({ code: "ER_DUP_ENTRY" });
+  });
+
+  it("shows the 24 h time in band from the order history, matching a hand-computed fixture", async () => {
+    const knex = appDb();
+    const physician = await actorByEmail(SEEDED.physician);
+    const { patientId, unitId, bedId } = await admitTestPatient("MICU");
+    const admission = (await knex("admissions").where({ patient_id: patientId }).first("id")) as {
+      id: number;
+    };
+    const now = new Date(Math.floor(Date.now() / 60_000) * 60_000);
+    const h = (hours: number) => new Date(now.getTime() - hours * 3600_000);
+    const order = (status: string, lower: number, upper: number, created: Date, updated: Date) => ({
+      patient_id: patientId,
+      admission_id: admission.id,
+      unit_id: unitId,
+      status,
+      device: "nasal_cannula",
+      spo2_lower_pct: lower,
+      spo2_upper_pct: upper,
+      fio2_min: 0.21,
+      fio2_max: 0.45,
+      initial_fio2: 0.28,
+      initial_flow_l_min: 2,
+      reassess_minutes: 240,
+      rationale: "Board fixture",
+      entry_mode: "written",
+      entered_by: physician.id,
+      prescriber_id: physician.id,
+      created_at: created,
+      updated_at: updated,
+    });
+    // Order A 92–96 % from −30 h, superseded at −12 h by order B 88–92 %, still active.
+    await knex("orders").insert(order("superseded", 92, 96, h(30), h(12)));
+    await knex("orders").insert(order("active", 88, 92, h(12), h(12)));
+    const reading = (hoursAgo: number, spo2: number, fio2: number) => ({
+      patient_id: patientId,
+      admission_id: admission.id,
+      taken_at: h(hoursAgo),
+      spo2_pct: spo2,
+      fio2,
+      device: "nasal_cannula",
+      source: "manual",
+    });
+    await knex("readings").insert([
+      reading(26, 90, 0.4), // holds to −22 h (4 h carry-forward): −24…−22 under A, below → below 2 h
+      // −22…−20 nothing holds → unknown 2 h
+      reading(20, 94, 0.4), // to −16 h (carry limit): in band 4 h; −16…−14 unknown 2 h
+      reading(14, 98, 0.4), // to −10 h: −14…−12 above A, −12…−10 above B → above 4 h
+      reading(10, 97, 0.21), // to −8 h: above B but on room air → in band 2 h
+      reading(8, 87, 0.3), // to −4 h: below B → below 4 h
+      reading(4, 90, 0.3), // to now: in band 4 h
+    ]);
+    // Totals over 24 h: below 2 + 4 = 6 h, in band 4 + 2 + 4 = 10 h, above 4 h, unknown 2 + 2 = 4 h.
+    await knex("bedside_settings").insert({
+      admission_id: admission.id,
+      patient_id: patientId,
+      device: "nasal_cannula",
+      fio2: 0.28,
+      fio2_estimated: true,
+      flow_l_min: 2,
+      updated_at: h(5),
+      last_reassessed_at: h(5), // 300 min ago, order says every 240 min → overdue
+    });
+    await knex("blood_gases").insert({
+      patient_id: patientId,
+      admission_id: admission.id,
+      sampled_at: h(6),
+      sample_type: "arterial",
+      pao2_mmhg: 63,
+      paco2_mmhg: 40,
+      device: "nasal_cannula",
+      fio2: 0.3,
+      fio2_estimated: true,
+      barometric_pressure_mmhg: 760,
+      pf_ratio: 210,
+      indices_json: "{}",
+      engine_version: "test",
+      recorded_by: physician.id,
+    });
+
+    const rows = await listOccupiedBeds(knex, [unitId], now);
+    const row = rows.find((r) => r.bedId === bedId);
+    expect(row).toBeDefined();
+    expect(row!.timeInBand24h.below).toBeCloseTo(6 / 24, 9);
+    expect(row!.timeInBand24h.inBand).toBeCloseTo(10 / 24, 9);
+    expect(row!.timeInBand24h.above).toBeCloseTo(4 / 24, 9);
+    expect(row!.timeInBand24h.unknown).toBeCloseTo(4 / 24, 9);
+    expect(row!.order).toMatchObject({ status: "active", lower: 88, upper: 92 });
+    expect(row!.latestSpo2).toMatchObject({ pct: 90 });
+    expect(row!.spo2Status).toBe("in-band");
+    expect(row!.latestPf).toMatchObject({ ratio: 210, fio2Estimated: true });
+    expect(row!).toMatchObject({
+      device: "nasal_cannula",
+      fio2: 0.28,
+      fio2Estimated: true,
+      flowLMin: 2,
+      peepCmH2o: null,
+      minutesSinceReassessment: 300,
+      overdue: true,
+    });
+  });
+
+  it("shows a bed without an order or readings as unknown, not as in band", async () => {
+    const { unitId, bedId } = await admitTestPatient("RESP");
+    const rows = await listOccupiedBeds(appDb(), [unitId]);
+    const row = rows.find((r) => r.bedId === bedId)!;
+    expect(row.order).toBeNull();
+    expect(row.spo2Status).toBeNull();
+    expect(row.timeInBand24h).toEqual({ below: 0, inBand: 0, above: 0, unknown: 1 });
+    expect(row.overdue).toBe(false);
+  });
+
+  it("picks up a reading charted after the Board was first loaded, as a cold load would", async () => {
+    const knex = appDb();
+    const physician = await actorByEmail(SEEDED.physician);
+    const { patientId, unitId, bedId } = await admitTestPatient("MICU");
+    const admission = (await knex("admissions").where({ patient_id: patientId }).first("id")) as {
+      id: number;
+    };
+    const now = () => new Date();
+    await knex("orders").insert({
+      patient_id: patientId,
+      admission_id: admission.id,
+      unit_id: unitId,
+      status: "active",
+      device: "venturi_mask",
+      spo2_lower_pct: 92,
+      spo2_upper_pct: 96,
+      fio2_min: 0.24,
+      fio2_max: 0.6,
+      initial_fio2: 0.35,
+      reassess_minutes: 60,
+      rationale: "Board refresh fixture",
+      entry_mode: "written",
+      entered_by: physician.id,
+      prescriber_id: physician.id,
+      created_at: new Date(Date.now() - 3 * 3600_000),
+    });
+    const reading = (minutesAgo: number, spo2: number) => ({
+      patient_id: patientId,
+      admission_id: admission.id,
+      taken_at: new Date(Date.now() - minutesAgo * 60_000),
+      spo2_pct: spo2,
+      fio2: 0.35,
+      device: "venturi_mask",
+      source: "monitor",
+    });
+    await knex("readings").insert(reading(120, 94));
+    const first = (await listOccupiedBeds(knex, [unitId], now())).find((r) => r.bedId === bedId)!;
+    expect(first.spo2Status).toBe("in-band");
+
+    await knex("readings").insert(reading(30, 89));
+    const warm = (await listOccupiedBeds(knex, [unitId], now())).find((r) => r.bedId === bedId)!;
+    expect(warm.latestSpo2?.pct).toBe(89);
+    expect(warm.spo2Status).toBe("below");
+    globalThis.tidemarkReadingWindow = undefined; // force a cold load
+    const cold = (await listOccupiedBeds(knex, [unitId], now())).find((r) => r.bedId === bedId)!;
+    expect(warm.timeInBand24h.below).toBeGreaterThan(0);
+    expect(warm.timeInBand24h.below).toBeCloseTo(cold.timeInBand24h.below, 4);
+    expect(warm.timeInBand24h.inBand).toBeCloseTo(cold.timeInBand24h.inBand, 4);
   });
 });
