@@ -1,6 +1,7 @@
 /**
  * Board read benchmark: 60 occupied beds, each with an order history and 7 days
- * of minute-by-minute readings (~600k rows). Measures GET latency (p50/p95) over
+ * of minute-by-minute readings (~600k rows), plus the Chart trend API for 72 h of
+ * one bed. Measures GET latency (p50/p95) over
  * loopback HTTP of (a) a tiny node:http server calling `loadBoard` — the same lib
  * function GET /api/v1/board uses, including the 24 h time in band — and (b) a
  * bare node:http server that sends the same SQL statements straight to mysql2
@@ -14,6 +15,7 @@ import type { AddressInfo } from "node:net";
 import knex, { type Knex } from "knex";
 import mysql from "mysql2/promise";
 import { loadBoard } from "../../lib/board/queries";
+import { getTrend } from "../../lib/patients/trend";
 import { connectionConfig } from "../../lib/db";
 
 const DB = "tidemark_bench_board";
@@ -276,6 +278,28 @@ async function main() {
   console.log(
     `Board overhead over the bare SQL: p50 +${(a.p50 - b.p50).toFixed(1)} ms, p95 +${(a.p95 - b.p95).toFixed(1)} ms; target p95 ≤ 50 ms: ${a.p95 <= 50 ? "met" : "NOT met"}`,
   );
+
+  // The Chart's trend for the last 72 h of one bed (4,320 minute readings,
+  // downsampled for the chart), through the same lib function as its route.
+  const [[first]] = (await app.raw(
+    "SELECT patient_id FROM admissions WHERE discharged_at IS NULL ORDER BY id LIMIT 1",
+  )) as [[{ patient_id: number }]];
+  const actor = {
+    id: 1,
+    email: "bench-physician@bench.example",
+    name: "Bench Physician",
+    role: "physician" as const,
+    unitIds,
+    pressureUnit: "mmHg" as const,
+  };
+  const trend = await serve(() =>
+    getTrend(app, actor, first.patient_id, {
+      from: new Date(Date.now() - 72 * 3600_000),
+      to: new Date(),
+    }),
+  );
+  await measure("Chart trend, 72 h (getTrend via node:http)", trend.url);
+  await trend.close();
 
   agent.destroy();
   await lib.close();
