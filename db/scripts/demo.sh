@@ -8,7 +8,7 @@ PORT="${PORT:-3000}"
 export TIDEMARK_DEMO=1
 export NEXTAUTH_URL="${NEXTAUTH_URL:-http://localhost:$PORT}"
 
-prepare
+prepare || { echo "Preparation failed; see the messages above." >&2; exit 1; }
 
 say "Migrating and seeding the demo database"
 knex_cli migrate:latest

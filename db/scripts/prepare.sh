@@ -54,8 +54,9 @@ build_is_stale() {
     -newer .next/BUILD_ID -type f -print -quit 2>/dev/null)" ]
 }
 
+# Each step is checked explicitly: callers run this under `||`, where set -e is off.
 prepare() {
-  ensure_node_modules
-  ensure_mariadb
-  if [ "${1:-}" = "--browser" ]; then ensure_chromium; fi
+  ensure_node_modules || return 1
+  ensure_mariadb || return 1
+  if [ "${1:-}" = "--browser" ]; then ensure_chromium || return 1; fi
 }
