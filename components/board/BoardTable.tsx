@@ -3,6 +3,14 @@ import { StatusBadge } from "@/components/ui/StatusBadge";
 import { IconSort } from "@/components/ui/icons";
 import type { BoardRow } from "@/lib/board/queries";
 import type { SortKey, SortState } from "./board-sort";
+import { MMHG_PER_KPA, type PressureUnit } from "@/lib/oxygen";
+
+/** P/F carries the unit of PaO2: shown in the user's pressure unit like every pressure. */
+function formatPf(ratioMmHg: number, unit: PressureUnit): string {
+  return unit === "kPa"
+    ? `${(ratioMmHg / MMHG_PER_KPA).toFixed(1)} kPa`
+    : `${Math.round(ratioMmHg)} mmHg`;
+}
 
 const pct = (share: number) => `${Math.round(share * 100)} %`;
 
@@ -78,11 +86,13 @@ export function BoardTable({
   caption,
   sort,
   onSort,
+  pressureUnit,
 }: {
   rows: BoardRow[];
   caption: string;
   sort: SortState;
   onSort: (key: SortKey) => void;
+  pressureUnit: PressureUnit;
 }) {
   const header = { sort, onSort };
   return (
@@ -192,7 +202,7 @@ export function BoardTable({
               <td className="tabular px-2 py-1.5 whitespace-nowrap">
                 {r.latestPf ? (
                   <>
-                    {Math.round(r.latestPf.ratio)} mmHg
+                    {formatPf(r.latestPf.ratio, pressureUnit)}
                     {r.latestPf.fio2Estimated ? (
                       <span className="block text-xs text-ink-muted">estimated FiO2</span>
                     ) : null}

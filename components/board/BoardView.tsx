@@ -6,6 +6,7 @@ import { EmptyState } from "@/components/ui/EmptyState";
 import { IconWarning } from "@/components/ui/icons";
 import type { BoardData } from "@/lib/board/queries";
 import { BoardTable } from "./BoardTable";
+import type { PressureUnit } from "@/lib/oxygen";
 import {
   matchesStatus,
   sortRows,
@@ -41,7 +42,15 @@ function timeOf(iso: string): string {
  * here, so a refresh keeps the chosen order and rows only move when a sorted
  * value changes.
  */
-export function BoardView({ initial, apiUrl }: { initial: BoardData; apiUrl: string }) {
+export function BoardView({
+  initial,
+  apiUrl,
+  pressureUnit,
+}: {
+  initial: BoardData;
+  apiUrl: string;
+  pressureUnit: PressureUnit;
+}) {
   const { data, error, isValidating } = useSWR<BoardData, Error>(apiUrl, fetchBoard, {
     fallbackData: initial,
     refreshInterval: BOARD_REFRESH_MS,
@@ -167,6 +176,7 @@ export function BoardView({ initial, apiUrl }: { initial: BoardData; apiUrl: str
                 caption={`Occupied beds, ${unit.unitName}`}
                 sort={sort}
                 onSort={onSort}
+                pressureUnit={pressureUnit}
               />
             )}
           </section>

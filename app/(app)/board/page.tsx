@@ -29,7 +29,7 @@ export default async function BoardPage() {
             .join(" · ")}
         </p>
       </div>
-      <BoardView key={apiUrl} initial={board} apiUrl={apiUrl} />
+      <BoardView key={apiUrl} initial={board} apiUrl={apiUrl} pressureUnit={actor.pressureUnit} />
       <Caution compact />
     </div>
   );

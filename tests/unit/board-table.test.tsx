@@ -1,0 +1,61 @@
+import { render, screen } from "@testing-library/react";
+import { describe, expect, it } from "vitest";
+import { BoardTable } from "@/components/board/BoardTable";
+import type { BoardRow } from "@/lib/board/queries";
+
+const row: BoardRow = {
+  bedId: 1,
+  bedLabel: "I01",
+  unitId: 1,
+  unitCode: "MICU",
+  patientId: 1,
+  patientInitials: "A.Q.",
+  patientAge: 70,
+  sex: "female",
+  admittedAt: "2026-12-01T00:00:00.000Z",
+  nurse: null,
+  therapist: null,
+  device: "invasive",
+  deviceLabel: "Invasive ventilation",
+  fio2: 0.5,
+  fio2Estimated: false,
+  peepCmH2o: 10,
+  flowLMin: null,
+  order: { id: 1, status: "active", lower: 88, upper: 95, reassessMinutes: 60 },
+  latestSpo2: { pct: 91, fio2: 0.5, takenAt: "2026-12-01T10:00:00.000Z" },
+  spo2Status: "in-band",
+  timeInBand24h: { below: 0, inBand: 1, above: 0, unknown: 0 },
+  latestPf: { ratio: 150, fio2Estimated: false, sampledAt: "2026-12-01T09:00:00.000Z" },
+  lastReassessedAt: "2026-12-01T10:00:00.000Z",
+  minutesSinceReassessment: 10,
+  overdue: false,
+};
+
+const sort = { key: "bed", direction: "asc" } as const;
+
+describe("Board table", () => {
+  it("shows P/F in the user's pressure unit (1 kPa = 7.50062 mmHg)", () => {
+    const { unmount } = render(
+      <BoardTable
+        rows={[row]}
+        caption="beds"
+        sort={sort}
+        onSort={() => undefined}
+        pressureUnit="mmHg"
+      />,
+    );
+    expect(screen.getByText("150 mmHg")).toBeTruthy();
+    unmount();
+    render(
+      <BoardTable
+        rows={[row]}
+        caption="beds"
+        sort={sort}
+        onSort={() => undefined}
+        pressureUnit="kPa"
+      />,
+    );
+    // 150 / 7.50062 = 19.998… → 20.0 kPa
+    expect(screen.getByText("20.0 kPa")).toBeTruthy();
+  });
+});
