@@ -5,6 +5,7 @@ import useSWR from "swr";
 import { EmptyState } from "@/components/ui/EmptyState";
 import { IconWarning } from "@/components/ui/icons";
 import type { BoardData } from "@/lib/board/queries";
+import { getApiJson } from "@/components/ui/api-json";
 import { BoardTable } from "./BoardTable";
 import type { PressureUnit } from "@/lib/oxygen";
 import {
@@ -19,18 +20,7 @@ import {
 /** How often the Board refreshes itself, besides on focus. */
 export const BOARD_REFRESH_MS = 30_000;
 
-async function fetchBoard(url: string): Promise<BoardData> {
-  const response = await fetch(url, { headers: { Accept: "application/json" }, cache: "no-store" });
-  if (!response.ok) {
-    const body = (await response.json().catch(() => null)) as {
-      error?: { message?: string };
-    } | null;
-    throw new Error(
-      body?.error?.message ?? `The Board could not be refreshed (HTTP ${response.status}).`,
-    );
-  }
-  return (await response.json()) as BoardData;
-}
+const fetchBoard = (url: string) => getApiJson<BoardData>(url, "the Board");
 
 function timeOf(iso: string): string {
   return new Date(iso).toLocaleTimeString([], { hour: "2-digit", minute: "2-digit" });

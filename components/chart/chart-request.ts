@@ -1,49 +1,11 @@
-/** A refusal or failure of the Chart's JSON API, in words a person can act on. */
-export class ChartRequestError extends Error {
-  constructor(
-    message: string,
-    readonly status: number,
-  ) {
-    super(message);
-    this.name = "ChartRequestError";
-  }
-}
+import { ApiRequestError, getApiJson } from "@/components/ui/api-json";
 
-function apiMessage(body: unknown): string | undefined {
-  if (typeof body !== "object" || body === null || !("error" in body)) return undefined;
-  const error = (body as { error: unknown }).error;
-  if (typeof error !== "object" || error === null || !("message" in error)) return undefined;
-  const { message } = error as { message: unknown };
-  return typeof message === "string" ? message : undefined;
-}
+/** The Chart's name for the shared API error. */
+export { ApiRequestError as ChartRequestError };
 
-/** GETs JSON from /api/v1 for SWR; every failure becomes a ChartRequestError. */
-export async function getChartJson<T>(url: string): Promise<T> {
-  let response: Response;
-  try {
-    response = await fetch(url, { headers: { accept: "application/json" }, cache: "no-store" });
-  } catch {
-    throw new ChartRequestError(
-      "Tidemark could not be reached. Check the connection and try again.",
-      0,
-    );
-  }
-  const body: unknown = await response.json().catch(() => null);
-  if (!response.ok) {
-    if (response.status === 401) {
-      throw new ChartRequestError("Your session has ended. Sign in again to read the Chart.", 401);
-    }
-    throw new ChartRequestError(
-      apiMessage(body) ?? `The server could not answer (status ${response.status}). Try again.`,
-      response.status,
-    );
-  }
-  if (body === null)
-    throw new ChartRequestError(
-      "The server's answer could not be read. Try again.",
-      response.status,
-    );
-  return body as T;
+/** GETs JSON from /api/v1 for the Chart's SWR hooks. */
+export function getChartJson<T>(url: string): Promise<T> {
+  return getApiJson<T>(url, "the Chart");
 }
 
 /** A time on the unit's clock: "Tue 08:15" (24-hour), with the date when asked. */

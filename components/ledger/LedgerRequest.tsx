@@ -1,50 +1,9 @@
-/** A refusal or failure of the JSON API, in words a person can act on. */
-export class LedgerRequestError extends Error {
-  constructor(
-    message: string,
-    readonly status: number,
-  ) {
-    super(message);
-    this.name = "LedgerRequestError";
-  }
-}
+import { ApiRequestError, getApiJson } from "@/components/ui/api-json";
 
-function apiMessage(body: unknown): string | undefined {
-  if (typeof body !== "object" || body === null || !("error" in body)) return undefined;
-  const error = (body as { error: unknown }).error;
-  if (typeof error !== "object" || error === null || !("message" in error)) return undefined;
-  const { message } = error as { message: unknown };
-  return typeof message === "string" ? message : undefined;
-}
+/** The ledger's name for the shared API error. */
+export { ApiRequestError as LedgerRequestError };
 
-/** GETs JSON from /api/v1 for SWR; every failure becomes a LedgerRequestError. */
-export async function getLedgerJson<T>(url: string): Promise<T> {
-  let response: Response;
-  try {
-    response = await fetch(url, { headers: { accept: "application/json" }, cache: "no-store" });
-  } catch {
-    throw new LedgerRequestError(
-      "Tidemark could not be reached. Check the connection and try again.",
-      0,
-    );
-  }
-  const body: unknown = await response.json().catch(() => null);
-  if (!response.ok) {
-    if (response.status === 401) {
-      throw new LedgerRequestError(
-        "Your session has ended. Sign in again to read the ledger.",
-        401,
-      );
-    }
-    throw new LedgerRequestError(
-      apiMessage(body) ?? `The server could not answer (status ${response.status}). Try again.`,
-      response.status,
-    );
-  }
-  if (body === null)
-    throw new LedgerRequestError(
-      "The server's answer could not be read. Try again.",
-      response.status,
-    );
-  return body as T;
+/** GETs JSON from /api/v1 for the ledger's SWR hooks. */
+export function getLedgerJson<T>(url: string): Promise<T> {
+  return getApiJson<T>(url, "the ledger");
 }
