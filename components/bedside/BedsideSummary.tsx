@@ -5,6 +5,7 @@ import { EmptyState } from "@/components/ui/EmptyState";
 import { StatusBadge, type Status } from "@/components/ui/StatusBadge";
 import type { Actor } from "@/lib/auth/actor";
 import { DEVICE_PROFILES } from "@/lib/orders/devices";
+import { formatPfRatio, formatPressure } from "@/lib/oxygen";
 import type { BedsideContext } from "@/lib/patients/bedside";
 
 function minutesSince(iso: string, now: Date): number {
@@ -187,7 +188,10 @@ export function BedsideSummary({
               <dd className="tabular">
                 {latestBloodGas ? (
                   <>
-                    PaO2 {fmt(latestBloodGas.pao2)} mmHg, P/F {fmt(latestBloodGas.pfRatio)}
+                    PaO2 {formatPressure(latestBloodGas.pao2, actor.pressureUnit)}
+                    {latestBloodGas.pfRatio !== null
+                      ? `, P/F ${formatPfRatio(latestBloodGas.pfRatio, actor.pressureUnit)}`
+                      : ""}
                     {latestBloodGas.fio2Estimated ? (
                       <span className="ml-1 text-xs text-ink-muted">(estimated FiO2)</span>
                     ) : null}

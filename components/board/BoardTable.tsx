@@ -3,14 +3,7 @@ import { StatusBadge } from "@/components/ui/StatusBadge";
 import { IconSort } from "@/components/ui/icons";
 import type { BoardRow } from "@/lib/board/queries";
 import type { SortKey, SortState } from "./board-sort";
-import { MMHG_PER_KPA, type PressureUnit } from "@/lib/oxygen";
-
-/** P/F carries the unit of PaO2: shown in the user's pressure unit like every pressure. */
-function formatPf(ratioMmHg: number, unit: PressureUnit): string {
-  return unit === "kPa"
-    ? `${(ratioMmHg / MMHG_PER_KPA).toFixed(1)} kPa`
-    : `${Math.round(ratioMmHg)} mmHg`;
-}
+import { formatPfRatio, type PressureUnit } from "@/lib/oxygen";
 
 const pct = (share: number) => `${Math.round(share * 100)} %`;
 
@@ -202,7 +195,7 @@ export function BoardTable({
               <td className="tabular px-2 py-1.5 whitespace-nowrap">
                 {r.latestPf ? (
                   <>
-                    {formatPf(r.latestPf.ratio, pressureUnit)}
+                    {formatPfRatio(r.latestPf.ratio, pressureUnit)}
                     {r.latestPf.fio2Estimated ? (
                       <span className="block text-xs text-ink-muted">estimated FiO2</span>
                     ) : null}

@@ -1,12 +1,12 @@
 "use client";
 
+import { LoadError } from "@/components/ui/LoadError";
 import { useState } from "react";
 import useSWRInfinite from "swr/infinite";
 import { formatPressureNumber } from "@/components/oxygenation/format";
 import { Button } from "@/components/ui/Button";
 import { EmptyState } from "@/components/ui/EmptyState";
-import { IconWarning } from "@/components/ui/icons";
-import type { PressureUnit } from "@/lib/oxygen/units";
+import { formatPfRatio, type PressureUnit } from "@/lib/oxygen/units";
 import type { TimelineItem, TimelineKind, TimelinePage } from "@/lib/patients/timeline";
 import { type ChartRequestError, formatUnitTime, getChartJson } from "./chart-request";
 
@@ -41,25 +41,9 @@ export function pressureText(item: TimelineItem, unit: PressureUnit): string | n
   const parts = [`PaO2 ${formatPressureNumber(v.pao2MmHg, unit)} ${unit}`];
   if (v.paco2MmHg !== undefined)
     parts.push(`PaCO2 ${formatPressureNumber(v.paco2MmHg, unit)} ${unit}`);
-  if (v.pfRatio !== undefined && v.pfRatio !== null) parts.push(`P/F ${Math.round(v.pfRatio)}`);
+  if (v.pfRatio !== undefined && v.pfRatio !== null)
+    parts.push(`P/F ${formatPfRatio(v.pfRatio, unit)}`);
   return parts.join(", ");
-}
-
-function LoadError({ error, onRetry }: { error: ChartRequestError; onRetry: () => void }) {
-  return (
-    <div
-      role="alert"
-      className="flex flex-wrap items-center gap-3 rounded-card border border-below/40 bg-below-soft px-4 py-3 text-below"
-    >
-      <IconWarning className="shrink-0 text-lg" />
-      <p className="min-w-0 flex-1 text-sm font-medium">
-        The timeline could not be loaded: {error.message}
-      </p>
-      <Button variant="secondary" onClick={onRetry}>
-        Try again
-      </Button>
-    </div>
-  );
 }
 
 export function TimelineLoading() {
@@ -216,7 +200,7 @@ export function Timeline({
           Tick at least one kind of entry above.
         </EmptyState>
       ) : error && items.length === 0 ? (
-        <LoadError error={error} onRetry={() => void mutate()} />
+        <LoadError what="the timeline" message={error.message} onRetry={() => void mutate()} />
       ) : isLoading || data === undefined ? (
         <TimelineLoading />
       ) : items.length === 0 ? (
@@ -241,7 +225,13 @@ export function Timeline({
                 : ""}
               . Times are on the unit&apos;s clock ({timeZone}).
             </p>
-            {error ? <LoadError error={error} onRetry={() => void mutate()} /> : null}
+            {error ? (
+              <LoadError
+                what="the timeline"
+                message={error.message}
+                onRetry={() => void mutate()}
+              />
+            ) : null}
             {lastPage?.nextCursor ? (
               <Button
                 variant="secondary"

@@ -1,5 +1,6 @@
 "use client";
 
+import { LoadError } from "@/components/ui/LoadError";
 import {
   type KeyboardEvent,
   type PointerEvent,
@@ -10,10 +11,8 @@ import {
 } from "react";
 import useSWR from "swr";
 import { formatPressureNumber, niceAxis, pressureIn } from "@/components/oxygenation/format";
-import { Button } from "@/components/ui/Button";
 import { EmptyState } from "@/components/ui/EmptyState";
-import { IconWarning } from "@/components/ui/icons";
-import type { PressureUnit } from "@/lib/oxygen/units";
+import { formatPfRatio, type PressureUnit } from "@/lib/oxygen/units";
 import type { Trend, TrendBand, TrendSettingsStep } from "@/lib/patients/trend";
 import {
   type ChartRequestError,
@@ -86,7 +85,7 @@ export function trendDetails(trend: Trend, t: number, pressureUnit: PressureUnit
   if (gas) {
     lines.push(
       `Arterial gas at ${formatUnitTime(gas.at, trend.timeZone)}: PaO2 ${formatPressureNumber(gas.pao2MmHg, pressureUnit)} ${pressureUnit}` +
-        (gas.pfRatio === null ? "" : `, P/F ${Math.round(gas.pfRatio)}`),
+        (gas.pfRatio === null ? "" : `, P/F ${formatPfRatio(gas.pfRatio, pressureUnit)}`),
     );
   }
   return lines;
@@ -454,7 +453,7 @@ export function TrendPlot({ trend, pressureUnit }: { trend: Trend; pressureUnit:
               </text>
             ))}
             {axisLabel(`PaO2 (${unit})`, GASES.top, GASES.height, "left")}
-            {axisLabel("P/F", GASES.top, GASES.height, "right")}
+            {axisLabel("P/F (mmHg)", GASES.top, GASES.height, "right")}
             {trend.gases.map((g) => (
               <g key={g.at}>
                 <circle
@@ -664,7 +663,7 @@ function TrendTable({ trend, pressureUnit }: { trend: Trend; pressureUnit: Press
     ...trend.gases.map((g) => ({
       at: g.at,
       what: "Arterial gas",
-      value: `PaO2 ${formatPressureNumber(g.pao2MmHg, pressureUnit)} ${pressureUnit}${g.pfRatio === null ? "" : `, P/F ${Math.round(g.pfRatio)}`}`,
+      value: `PaO2 ${formatPressureNumber(g.pao2MmHg, pressureUnit)} ${pressureUnit}${g.pfRatio === null ? "" : `, P/F ${formatPfRatio(g.pfRatio, pressureUnit)}`}`,
     })),
   ].sort((a, b) => Date.parse(a.at) - Date.parse(b.at));
   return (
@@ -792,18 +791,7 @@ export function TrendChart({
       </div>
       <div className="rounded-card border border-border bg-surface p-3 shadow-card sm:p-4">
         {error && !data ? (
-          <div
-            role="alert"
-            className="flex flex-wrap items-center gap-3 rounded-md border border-below/40 bg-below-soft px-4 py-3 text-below"
-          >
-            <IconWarning className="shrink-0 text-lg" />
-            <p className="min-w-0 flex-1 text-sm font-medium">
-              The trend could not be loaded: {error.message}
-            </p>
-            <Button variant="secondary" onClick={() => void mutate()}>
-              Try again
-            </Button>
-          </div>
+          <LoadError what="the trend" message={error.message} onRetry={() => void mutate()} />
         ) : isLoading || !data ? (
           <TrendLoading />
         ) : empty ? (

@@ -1,5 +1,6 @@
 "use client";
 
+import { LoadError } from "@/components/ui/LoadError";
 import { usePathname, useRouter, useSearchParams } from "next/navigation";
 import { useMemo } from "react";
 import useSWRInfinite from "swr/infinite";
@@ -31,23 +32,6 @@ export function LedgerLoading() {
       {Array.from({ length: 6 }, (_, i) => (
         <div key={i} className="h-11 animate-pulse rounded bg-surface-muted" />
       ))}
-    </div>
-  );
-}
-
-function LoadError({ error, onRetry }: { error: LedgerRequestError; onRetry: () => void }) {
-  return (
-    <div
-      role="alert"
-      className="flex flex-wrap items-center gap-3 rounded-card border border-below/40 bg-below-soft px-4 py-3 text-below"
-    >
-      <IconWarning className="shrink-0 text-lg" />
-      <p className="min-w-0 flex-1 text-sm font-medium">
-        The ledger could not be loaded: {error.message}
-      </p>
-      <Button variant="secondary" onClick={onRetry}>
-        Try again
-      </Button>
     </div>
   );
 }
@@ -141,7 +125,7 @@ export function LedgerView({
           </span>
         </p>
       ) : error && entries.length === 0 ? (
-        <LoadError error={error} onRetry={() => void mutate()} />
+        <LoadError what="the ledger" message={error.message} onRetry={() => void mutate()} />
       ) : isLoading || data === undefined ? (
         <LedgerLoading />
       ) : entries.length === 0 ? (
@@ -161,7 +145,9 @@ export function LedgerView({
               {entries.length === 1 ? "row" : "rows"}, newest first
               {lastPage?.nextBefore === null ? " — the oldest row is shown" : ""}.
             </p>
-            {error ? <LoadError error={error} onRetry={() => void mutate()} /> : null}
+            {error ? (
+              <LoadError what="the ledger" message={error.message} onRetry={() => void mutate()} />
+            ) : null}
             {lastPage?.nextBefore ? (
               <Button
                 variant="secondary"

@@ -96,3 +96,15 @@ export async function verifyLedger(knex: Knex, batchSize = 2000): Promise<Ledger
   }
   return { ok: true, checked, firstBroken: null };
 }
+
+/** The unit a patient chain belongs to (the patient's latest admission); null for other chains. */
+export async function chainUnitId(knex: Knex, chainKey: string): Promise<number | null> {
+  const patientId = /^patient:(\d+)$/.exec(chainKey)?.[1];
+  if (!patientId) return null;
+  const row = (await knex("admissions as a")
+    .join("beds as b", "b.id", "a.bed_id")
+    .where("a.patient_id", Number(patientId))
+    .orderBy("a.admitted_at", "desc")
+    .first("b.unit_id")) as { unit_id: number } | undefined;
+  return row?.unit_id ?? null;
+}

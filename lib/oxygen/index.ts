@@ -16,6 +16,7 @@ export {
   toGramsPerDecilitre,
   fromGramsPerDecilitre,
   formatPressure,
+  formatPfRatio,
   type PressureUnit,
   type HemoglobinUnit,
 } from "./units";

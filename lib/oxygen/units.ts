@@ -47,9 +47,22 @@ export function toGramsPerDecilitre(value: number, unit: HemoglobinUnit): number
 }
 
 /** A haemoglobin concentration in g/dL converted to `unit`. */
-export function fromGramsPerDecilitre(valueGramsPerDecilitre: number, unit: HemoglobinUnit): number {
+export function fromGramsPerDecilitre(
+  valueGramsPerDecilitre: number,
+  unit: HemoglobinUnit,
+): number {
   checkRange("value", valueGramsPerDecilitre, RANGES.hemoglobinGramsPerDecilitre);
   return valueGramsPerDecilitre * hemoglobinFactor[unit];
+}
+
+/**
+ * P/F ratio carries the unit of PaO2 (FiO2 is a fraction): "129 mmHg" or "17.2 kPa".
+ * Not range-checked like a pressure, since ratios run above any PaO2.
+ */
+export function formatPfRatio(ratioMmHg: number, unit: PressureUnit): string {
+  return unit === "kPa"
+    ? `${(ratioMmHg / MMHG_PER_KPA).toFixed(1)} kPa`
+    : `${Math.round(ratioMmHg)} mmHg`;
 }
 
 /**

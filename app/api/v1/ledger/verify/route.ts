@@ -2,7 +2,7 @@ import { NextResponse } from "next/server";
 import { requireRole } from "@/lib/auth/guard";
 import { db } from "@/lib/db";
 import { handleRoute } from "@/lib/http";
-import { verifyLedger } from "@/lib/ledger/verify";
+import { chainUnitId, verifyLedger } from "@/lib/ledger/verify";
 
 /**
  * Walks every hash chain: `{ ok, checked, firstBroken }`. Admins and reviewers
@@ -15,15 +15,8 @@ export function GET() {
     const broken = result.firstBroken;
     if (!broken || actor.role === "admin" || actor.role === "reviewer")
       return NextResponse.json(result);
-    const patientId = /^patient:(\d+)$/.exec(broken.chainKey)?.[1];
-    const unit = patientId
-      ? ((await db()("admissions as a")
-          .join("beds as b", "b.id", "a.bed_id")
-          .where("a.patient_id", Number(patientId))
-          .orderBy("a.admitted_at", "desc")
-          .first("b.unit_id")) as { unit_id: number } | undefined)
-      : undefined;
-    const visible = unit !== undefined && actor.unitIds.includes(unit.unit_id);
+    const unitId = await chainUnitId(db(), broken.chainKey);
+    const visible = unitId !== null && actor.unitIds.includes(unitId);
     return NextResponse.json(
       visible
         ? result
