@@ -48,8 +48,8 @@ afterEach(() => {
 
 describe("Timeline", () => {
   it("shows blood-gas pressures in the user's unit", () => {
-    expect(pressureText(gas, "kPa")).toBe("PaO2 8.0 kPa, PaCO2 6.0 kPa, P/F 120");
-    expect(pressureText(gas, "mmHg")).toBe("PaO2 60 mmHg, PaCO2 45 mmHg, P/F 120");
+    expect(pressureText(gas, "kPa")).toBe("PaO2 8.0 kPa, PaCO2 6.0 kPa, P/F 16.0 kPa");
+    expect(pressureText(gas, "mmHg")).toBe("PaO2 60 mmHg, PaCO2 45 mmHg, P/F 120 mmHg");
     expect(pressureText(reading, "kPa")).toBeNull();
   });
 

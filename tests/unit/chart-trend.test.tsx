@@ -58,7 +58,7 @@ describe("trend details", () => {
       "SpO2 88 % (below band) at Wed 08:00",
       "Target band 92–96 %",
       "FiO2 0.50, PEEP 10 cmH2O",
-      "Arterial gas at Wed 08:30: PaO2 8.0 kPa, P/F 120",
+      "Arterial gas at Wed 08:30: PaO2 8.0 kPa, P/F 16.0 kPa",
     ]);
     // The same reading is in band once the second order's band applies.
     expect(trendDetails(trend, Date.parse("2026-03-04T09:30:00.000Z"), "mmHg")[2]).toBe(
@@ -83,7 +83,7 @@ describe("TrendPlot", () => {
     const table = screen.getByTestId("trend-table");
     const rows = within(table).getAllByRole("row");
     expect(rows).toHaveLength(1 + 2 + 3 + 2 + 1);
-    expect(table.textContent).toContain("PaO2 8.0 kPa, P/F 120");
+    expect(table.textContent).toContain("PaO2 8.0 kPa, P/F 16.0 kPa");
     expect(table.textContent).toContain("Adjustment");
   });
 
