@@ -1,0 +1,113 @@
+import { ALERT_KIND_LABELS, ESCALATION_LABELS, type AlertKind } from "./kinds";
+
+/**
+ * Alert e-mail content. Pure. Carries the minimum necessary — unit, bed, what
+ * was missed and when, and a link — and never the patient's name or record
+ * number: e-mail leaves the hospital's systems and lands on phones.
+ */
+export type AlertEmailInput = {
+  alertId: number;
+  kind: AlertKind;
+  grade: "routine" | "urgent";
+  purpose: "notify" | "escalate" | "urgent";
+  escalationLevel: number;
+  unitCode: string;
+  unitName: string;
+  bedLabel: string;
+  timeZone: string;
+  startedAt: Date;
+  band: { lower: number; upper: number } | null;
+  spo2: number | null;
+  /** For limits reached: which limits are at the order's maximum. */
+  limitsAtMax?: string[];
+  /** For reassessment overdue: minutes past due. */
+  overdueMinutes?: number;
+  baseUrl: string;
+};
+
+export type AlertEmail = { subject: string; text: string; html: string };
+
+function escapeHtml(s: string): string {
+  return s
+    .replace(/&/g, "&amp;")
+    .replace(/</g, "&lt;")
+    .replace(/>/g, "&gt;")
+    .replace(/"/g, "&quot;");
+}
+
+function when(at: Date, timeZone: string): string {
+  const local = new Intl.DateTimeFormat("en-GB", {
+    timeZone,
+    day: "2-digit",
+    month: "short",
+    hour: "2-digit",
+    minute: "2-digit",
+    hourCycle: "h23",
+  }).format(at);
+  return `${local} (${timeZone})`;
+}
+
+/** What was missed, in one line. */
+export function describeAlert(input: Pick<AlertEmailInput, "kind" | "band" | "spo2" | "limitsAtMax" | "overdueMinutes">): string {
+  const band = input.band ? `target ${input.band.lower}–${input.band.upper} %` : "no target band";
+  switch (input.kind) {
+    case "below_band":
+      return `SpO2 ${input.spo2 ?? "?"} %, below the ${band}.`;
+    case "above_band":
+      return `SpO2 ${input.spo2 ?? "?"} % on supplemental oxygen, above the ${band}.`;
+    case "limits_exhausted":
+      return `SpO2 below the ${band} with ${(input.limitsAtMax ?? []).join(", ") || "a limit"} at the order's maximum: a new order is needed to go further.`;
+    case "reassessment_overdue":
+      return `Reassessment is ${input.overdueMinutes ?? "?"} min past the interval the order sets.`;
+  }
+}
+
+export function composeAlertEmail(input: AlertEmailInput): AlertEmail {
+  const where = `${input.unitCode} bed ${input.bedLabel}`;
+  const urgent = input.grade === "urgent";
+  const prefix =
+    input.purpose === "escalate"
+      ? "Escalated: "
+      : input.purpose === "urgent"
+        ? "Now urgent: "
+        : urgent
+          ? "Urgent: "
+          : "";
+  const subject = `${prefix}${ALERT_KIND_LABELS[input.kind]} — ${where}`;
+  const link = `${input.baseUrl.replace(/\/$/, "")}/alerts?alert=${input.alertId}`;
+  const lines = [
+    `${ALERT_KIND_LABELS[input.kind]}${urgent ? " (urgent)" : ""}`,
+    `Where: ${input.unitName} (${input.unitCode}), bed ${input.bedLabel}`,
+    `What: ${describeAlert(input)}`,
+    `Since: ${when(input.startedAt, input.timeZone)}`,
+    `You are receiving this as the ${ESCALATION_LABELS[input.escalationLevel] ?? "care team"}${
+      input.purpose === "escalate" ? " because it was not acknowledged in time" : ""
+    }.`,
+    "",
+    `Open and acknowledge: ${link}`,
+    "",
+    "Decision support only: local protocols and the licensed clinicians at the bedside decide.",
+  ];
+  const html = `<!doctype html><html><body style="font-family:sans-serif">
+<p><strong>${escapeHtml(lines[0]!)}</strong></p>
+<ul>
+<li>${escapeHtml(lines[1]!)}</li>
+<li>${escapeHtml(lines[2]!)}</li>
+<li>${escapeHtml(lines[3]!)}</li>
+</ul>
+<p>${escapeHtml(lines[4]!)}</p>
+<p><a href="${escapeHtml(link)}">Open and acknowledge in Tidemark</a></p>
+<p style="color:#555">${escapeHtml(lines[8]!)}</p>
+</body></html>`;
+  return { subject, text: lines.join("\n"), html };
+}
+
+/** Stable per alert, purpose and recipient: a retry sends the same Message-ID. */
+export function alertMessageId(alertId: number, purpose: string, userId: number, domain: string): string {
+  return `<alert-${alertId}.${purpose}.${userId}@${domain}>`;
+}
+
+/** Retry delay after `attempts` failed sends: 30 s doubling, capped at 15 min. */
+export function retryDelayMs(attempts: number): number {
+  return Math.min(30_000 * 2 ** Math.max(0, attempts - 1), 15 * 60_000);
+}

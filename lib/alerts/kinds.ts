@@ -1,0 +1,36 @@
+/** The alert vocabulary (DESIGN.md §2 "Alert"), shared by the service, API and screens. */
+export const ALERT_KINDS = [
+  "below_band",
+  "above_band",
+  "limits_exhausted",
+  "reassessment_overdue",
+] as const;
+export type AlertKind = (typeof ALERT_KINDS)[number];
+
+export const ALERT_KIND_LABELS: Record<AlertKind, string> = {
+  below_band: "SpO2 below target",
+  above_band: "SpO2 above target on oxygen",
+  limits_exhausted: "Order limits reached",
+  reassessment_overdue: "Reassessment overdue",
+};
+
+export const ALERT_STATES = ["opened", "notified", "acknowledged", "escalated", "resolved"] as const;
+export type AlertState = (typeof ALERT_STATES)[number];
+
+export const ALERT_STATE_LABELS: Record<AlertState, string> = {
+  opened: "Opened",
+  notified: "Notified",
+  acknowledged: "Acknowledged",
+  escalated: "Escalated",
+  resolved: "Resolved",
+};
+
+/** Who each escalation level reaches. */
+export const ESCALATION_DUTIES = ["nurse", "therapist", "physician"] as const;
+export type EscalationDuty = (typeof ESCALATION_DUTIES)[number];
+
+export const ESCALATION_LABELS: Record<number, string> = {
+  0: "assigned nurse",
+  1: "assigned therapist",
+  2: "responsible physician",
+};

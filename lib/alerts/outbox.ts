@@ -1,0 +1,291 @@
+import type { Knex } from "knex";
+import { getEnv } from "../env";
+import { appendLedger } from "../ledger/service";
+import { alertMessageId, composeAlertEmail, retryDelayMs } from "./email";
+import { ESCALATION_DUTIES, type AlertKind } from "./kinds";
+
+type Recipient = { id: number; email: string; name: string };
+
+/**
+ * Who an escalation level reaches now: the shift's care-team assignment for
+ * the bed (nurse, therapist, physician); for the physician level, the order's
+ * prescriber when no physician is assigned.
+ */
+export async function recipientsFor(
+  trx: Knex.Transaction | Knex,
+  alert: { bedId: number; orderId: number | null },
+  level: number,
+  now: Date,
+): Promise<Recipient[]> {
+  const duty = ESCALATION_DUTIES[Math.min(level, 2)]!;
+  const assigned = (await trx("care_assignments as c")
+    .join("users as u", "u.id", "c.user_id")
+    .where({ "c.bed_id": alert.bedId, "c.duty": duty, "u.active": true })
+    .where("c.starts_at", "<=", now)
+    .where("c.ends_at", ">", now)
+    .distinct("u.id", "u.email", "u.name")) as Recipient[];
+  if (assigned.length || duty !== "physician" || alert.orderId === null) return assigned;
+  return (await trx("orders as o")
+    .join("users as u", "u.id", "o.prescriber_id")
+    .where({ "o.id": alert.orderId, "u.active": true })
+    .select("u.id", "u.email", "u.name")) as Recipient[];
+}
+
+type AlertMailContext = {
+  id: number;
+  kind: AlertKind;
+  grade: "routine" | "urgent";
+  bed_id: number;
+  order_id: number | null;
+  started_at: Date;
+  band_lower_pct: number | null;
+  band_upper_pct: number | null;
+  worst_spo2_pct: string | null;
+  trigger_spo2_pct: string | null;
+  detail_json: string;
+  unit_code: string;
+  unit_name: string;
+  time_zone: string;
+  bed_label: string;
+};
+
+function mailDomain(from: string): string {
+  return /@([A-Za-z0-9.-]+)/.exec(from)?.[1] ?? "tidemark.invalid";
+}
+
+/**
+ * Writes the e-mails for one alert step into the outbox, inside the caller's
+ * transaction. One row per alert, purpose and recipient — a repeated step
+ * never queues the same mail twice. Users who turned e-mail off for this kind
+ * still see the alert in the app.
+ */
+export async function queueAlertMail(
+  trx: Knex.Transaction,
+  alertId: number,
+  level: number,
+  purpose: string,
+  now: Date,
+): Promise<{ recipients: number[]; mailed: number[]; optedOut: number[] }> {
+  const a = (await trx("alerts as a")
+    .join("units as u", "u.id", "a.unit_id")
+    .join("beds as b", "b.id", "a.bed_id")
+    .where("a.id", alertId)
+    .first(
+      "a.id",
+      "a.kind",
+      "a.grade",
+      "a.bed_id",
+      "a.order_id",
+      "a.started_at",
+      "a.band_lower_pct",
+      "a.band_upper_pct",
+      "a.worst_spo2_pct",
+      "a.trigger_spo2_pct",
+      "a.detail_json",
+      "u.code as unit_code",
+      "u.name as unit_name",
+      "u.time_zone",
+      "b.label as bed_label",
+    )) as AlertMailContext;
+  const recipients = await recipientsFor(trx, { bedId: a.bed_id, orderId: a.order_id }, level, now);
+  if (!recipients.length) return { recipients: [], mailed: [], optedOut: [] };
+  const optedOut = (await trx("alert_email_preferences")
+    .whereIn(
+      "user_id",
+      recipients.map((r) => r.id),
+    )
+    .where({ kind: a.kind, email: false })
+    .pluck("user_id")) as number[];
+  const env = getEnv();
+  const detail = JSON.parse(a.detail_json) as { limitsAtMax?: string[]; overdueMinutes?: number };
+  const spo2 = a.worst_spo2_pct ?? a.trigger_spo2_pct;
+  const mail = composeAlertEmail({
+    alertId: a.id,
+    kind: a.kind,
+    grade: a.grade,
+    purpose: purpose.startsWith("escalate") ? "escalate" : purpose === "urgent" ? "urgent" : "notify",
+    escalationLevel: level,
+    unitCode: a.unit_code,
+    unitName: a.unit_name,
+    bedLabel: a.bed_label,
+    timeZone: a.time_zone,
+    startedAt: new Date(a.started_at),
+    band:
+      a.band_lower_pct !== null && a.band_upper_pct !== null
+        ? { lower: a.band_lower_pct, upper: a.band_upper_pct }
+        : null,
+    spo2: spo2 === null ? null : Number(spo2),
+    limitsAtMax: detail.limitsAtMax,
+    overdueMinutes: detail.overdueMinutes,
+    baseUrl: env.NEXTAUTH_URL,
+  });
+  const mailed = recipients.filter((r) => !optedOut.includes(r.id));
+  if (mailed.length) {
+    await trx("mail_outbox")
+      .insert(
+        mailed.map((r) => ({
+          alert_id: a.id,
+          purpose,
+          recipient_user_id: r.id,
+          to_address: r.email,
+          subject: mail.subject,
+          text_body: mail.text,
+          html_body: mail.html,
+          message_id: alertMessageId(a.id, purpose, r.id, mailDomain(env.SMTP_FROM)),
+          state: "pending",
+          next_attempt_at: now,
+          created_at: now,
+        })),
+      )
+      .onConflict()
+      .ignore();
+  }
+  return {
+    recipients: recipients.map((r) => r.id),
+    mailed: mailed.map((r) => r.id),
+    optedOut,
+  };
+}
+
+/** What the worker needs of a nodemailer transport. */
+export type MailSender = {
+  sendMail(message: {
+    from: string;
+    to: string;
+    subject: string;
+    text: string;
+    html: string;
+    messageId: string;
+    headers?: Record<string, string>;
+  }): Promise<{ response?: string }>;
+};
+
+type OutboxRow = {
+  id: number;
+  alert_id: number | null;
+  purpose: string;
+  recipient_user_id: number;
+  to_address: string;
+  subject: string;
+  text_body: string;
+  html_body: string;
+  message_id: string;
+  attempts: number;
+};
+
+/**
+ * Delivers due outbox mail. Each row is claimed first (so two workers never
+ * send one row at once), sent, and only then marked sent — with the alert's
+ * "notified" step and its ledger row — in one transaction. A failed send is
+ * retried later with backoff; nothing is dropped.
+ */
+export async function deliverOutbox(
+  knex: Knex,
+  sender: MailSender,
+  now: Date = new Date(),
+  opts: { limit?: number; from?: string; claimMs?: number } = {},
+): Promise<{ sent: number; failed: number }> {
+  const from = opts.from ?? getEnv().SMTP_FROM;
+  const claimMs = opts.claimMs ?? 120_000;
+  const due = (await knex("mail_outbox")
+    .where({ state: "pending" })
+    .where("next_attempt_at", "<=", now)
+    .where((q) => q.whereNull("claimed_until").orWhere("claimed_until", "<", now))
+    .orderBy("id")
+    .limit(opts.limit ?? 50)
+    .select(
+      "id",
+      "alert_id",
+      "purpose",
+      "recipient_user_id",
+      "to_address",
+      "subject",
+      "text_body",
+      "html_body",
+      "message_id",
+      "attempts",
+    )) as OutboxRow[];
+  let sent = 0;
+  let failed = 0;
+  for (const row of due) {
+    const claimed = await knex("mail_outbox")
+      .where({ id: row.id, state: "pending" })
+      .where((q) => q.whereNull("claimed_until").orWhere("claimed_until", "<", now))
+      .update({ claimed_until: new Date(now.getTime() + claimMs) });
+    if (!claimed) continue;
+    let response: string;
+    try {
+      const info = await sender.sendMail({
+        from,
+        to: row.to_address,
+        subject: row.subject,
+        text: row.text_body,
+        html: row.html_body,
+        messageId: row.message_id,
+        headers: row.alert_id ? { "X-Tidemark-Alert": String(row.alert_id) } : {},
+      });
+      response = (info.response ?? "accepted").slice(0, 300);
+    } catch (error) {
+      failed++;
+      const attempts = row.attempts + 1;
+      await knex("mail_outbox")
+        .where({ id: row.id })
+        .update({
+          attempts,
+          next_attempt_at: new Date(now.getTime() + retryDelayMs(attempts)),
+          last_error: error instanceof Error ? error.message.slice(0, 1000) : String(error),
+          claimed_until: null,
+        });
+      continue;
+    }
+    await knex.transaction(async (trx) => {
+      await trx("mail_outbox")
+        .where({ id: row.id })
+        .update({
+          state: "sent",
+          sent_at: now,
+          attempts: row.attempts + 1,
+          relay_response: response,
+          claimed_until: null,
+        });
+      if (row.alert_id === null) return;
+      const alert = (await trx("alerts")
+        .where({ id: row.alert_id })
+        .forUpdate()
+        .first("id", "state", "patient_id", "unit_id", "version")) as {
+        id: number;
+        state: string;
+        patient_id: number;
+        unit_id: number;
+        version: number;
+      };
+      const firstNotice = row.purpose === "notify" && alert.state === "opened";
+      if (firstNotice)
+        await trx("alerts")
+          .where({ id: alert.id })
+          .update({ state: "notified", notified_at: now, version: alert.version + 1 });
+      await appendLedger(
+        trx,
+        { id: null, role: "system" },
+        {
+          action: "alert.notify",
+          entityType: "alert",
+          entityId: alert.id,
+          patientId: alert.patient_id,
+          unitId: alert.unit_id,
+          before: firstNotice ? { state: "opened" } : undefined,
+          after: {
+            ...(firstNotice ? { state: "notified" } : {}),
+            purpose: row.purpose,
+            recipientUserId: row.recipient_user_id,
+            messageId: row.message_id,
+            attempts: row.attempts + 1,
+          },
+        },
+        now,
+      );
+    });
+    sent++;
+  }
+  return { sent, failed };
+}

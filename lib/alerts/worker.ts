@@ -1,0 +1,61 @@
+import type { Knex } from "knex";
+import { alertConfig, type AlertConfig } from "./config";
+import { deliverOutbox, type MailSender } from "./outbox";
+import { escalateDueAlerts, openOverdueReassessments } from "./service";
+
+export type WorkerPass = { escalated: number; overdueOpened: number; sent: number; failed: number };
+
+/**
+ * One pass of the background work alerts need besides the writes that raise
+ * them: escalate what nobody acknowledged, open overdue reassessments, deliver
+ * the outbox. Time-driven, so the tests call it with their own clock.
+ */
+export async function runAlertWork(
+  knex: Knex,
+  sender: MailSender,
+  now: Date = new Date(),
+  cfg: AlertConfig = alertConfig(),
+): Promise<WorkerPass> {
+  const escalated = await escalateDueAlerts(knex, now, cfg);
+  const overdueOpened = await openOverdueReassessments(knex, now, cfg);
+  const { sent, failed } = await deliverOutbox(knex, sender, now);
+  return { escalated, overdueOpened, sent, failed };
+}
+
+/**
+ * Runs {@link runAlertWork} every `intervalMs` until stopped. A failing pass
+ * (database restarting, say) is logged and retried on the next tick; passes
+ * never overlap.
+ */
+export function startAlertWorker(
+  knex: Knex,
+  sender: MailSender,
+  opts: { intervalMs?: number; log?: (line: string) => void } = {},
+): { stop(): Promise<void> } {
+  const intervalMs = opts.intervalMs ?? 5000;
+  const log = opts.log ?? ((line: string) => console.log(line));
+  let stopped = false;
+  let timer: NodeJS.Timeout | undefined;
+  let running: Promise<void> = Promise.resolve();
+  const tick = () => {
+    running = runAlertWork(knex, sender)
+      .then((pass) => {
+        if (pass.escalated || pass.overdueOpened || pass.sent || pass.failed)
+          log(
+            `[alerts] escalated ${pass.escalated}, overdue opened ${pass.overdueOpened}, mail sent ${pass.sent}, failed ${pass.failed} (will retry)`,
+          );
+      })
+      .catch((error: unknown) => log(`[alerts] pass failed: ${error instanceof Error ? error.message : String(error)}`))
+      .finally(() => {
+        if (!stopped) timer = setTimeout(tick, intervalMs);
+      });
+  };
+  tick();
+  return {
+    async stop() {
+      stopped = true;
+      if (timer) clearTimeout(timer);
+      await running;
+    },
+  };
+}
