@@ -31,11 +31,28 @@ const envSchema = z
     TIDEMARK_DEMO: z.enum(["0", "1"]).default("0"),
     SIGNIN_MAX_FAILURES: z.coerce.number().int().min(1).max(100).default(5),
     SIGNIN_WINDOW_MINUTES: z.coerce.number().int().min(1).max(1440).default(15),
+    /** Alerts: how long a monitor series must stay out of band / back in band, escalation delay, urgent grade. */
+    ALERT_SUSTAIN_SECONDS: z.coerce.number().int().min(0).max(3600).default(60),
+    ALERT_RESOLVE_SECONDS: z.coerce.number().int().min(0).max(86400).default(300),
+    ALERT_ESCALATE_MINUTES: z.coerce.number().int().min(1).max(1440).default(10),
+    ALERT_URGENT_BELOW_PCT: z.coerce.number().int().min(50).max(100).default(85),
+    ALERT_URGENT_MARGIN_PCT: z.coerce.number().int().min(1).max(30).default(5),
     SMTP_HOST: z.string().default("127.0.0.1"),
     SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(2525),
     SMTP_FROM: z
       .string()
       .default("Tidemark <tidemark@kestrel.example>"),
+    /** "1": TLS from the first byte (port 465); "0": plain, upgraded with STARTTLS off loopback. */
+    SMTP_SECURE: z.enum(["0", "1"]).default("0"),
+    /** Relay credentials; empty or unset means no authentication (the local fake takes none). */
+    SMTP_USER: z.string().optional(),
+    SMTP_PASS: z.string().optional(),
+    /** HTTP port of the local fake inbox's readable page (`npm run mail:inbox`, the demo). */
+    MAIL_INBOX_PORT: z.coerce.number().int().min(1).max(65535).default(2580),
+  })
+  .refine((e) => !e.SMTP_USER || !!e.SMTP_PASS, {
+    path: ["SMTP_PASS"],
+    message: "set SMTP_PASS together with SMTP_USER",
   })
   .refine(
     (e) =>

@@ -1,6 +1,7 @@
 import { cookies } from "next/headers";
 import type { ReactNode } from "react";
 import { AppHeader } from "@/components/shell/AppHeader";
+import { alertSummary } from "@/lib/alerts/queries";
 import { pageActor } from "@/lib/auth/page-guard";
 import { db } from "@/lib/db";
 import { parseTheme, THEME_COOKIE } from "@/lib/preferences/theme";
@@ -10,7 +11,7 @@ import { listUnits } from "@/lib/units/queries";
 export default async function AppLayout({ children }: { children: ReactNode }) {
   const actor = await pageActor();
   const jar = await cookies();
-  const units = await listUnits(db(), actor.unitIds);
+  const [units, alerts] = await Promise.all([listUnits(db(), actor.unitIds), alertSummary(db(), actor)]);
   const { choice } = resolveUnitChoice(jar.get(UNIT_COOKIE)?.value, actor.unitIds);
   return (
     <div className="flex min-h-screen flex-col">
@@ -25,6 +26,7 @@ export default async function AppLayout({ children }: { children: ReactNode }) {
         units={units.map((u) => ({ id: u.id, code: u.code, name: u.name }))}
         unitChoice={String(choice)}
         theme={parseTheme(jar.get(THEME_COOKIE)?.value)}
+        alertSummary={alerts}
       />
       <main id="main" className="mx-auto w-full max-w-7xl flex-1 px-4 py-5">
         {children}

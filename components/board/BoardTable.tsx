@@ -1,4 +1,5 @@
 import Link from "next/link";
+import { AlertCountBadge } from "@/components/alerts/AlertCountBadge";
 import { StatusBadge } from "@/components/ui/StatusBadge";
 import { IconSort } from "@/components/ui/icons";
 import type { BoardRow } from "@/lib/board/queries";
@@ -104,7 +105,6 @@ export function BoardTable({
             <SortHeader label="SpO2" sortKey="spo2" {...header} />
             <SortHeader label="24 h in band" sortKey="timeInBand" {...header} />
             <SortHeader label="P/F" sortKey="pf" {...header} />
-            {/* Alerts arrive with a later issue; the column is kept so the layout does not shift. */}
             <th scope="col" className="px-2 py-1.5 font-semibold">
               Alerts
             </th>
@@ -204,8 +204,8 @@ export function BoardTable({
                   <span className="text-ink-muted">—</span>
                 )}
               </td>
-              <td className="px-2 py-1.5 text-ink-muted">
-                <span aria-label="No alerts (alerts are not available yet)">—</span>
+              <td className="px-2 py-1.5 whitespace-nowrap">
+                <AlertCountBadge alerts={r.alerts} patientId={r.patientId} />
               </td>
               <td className="px-2 py-1.5 whitespace-nowrap">
                 {r.minutesSinceReassessment === null ? (

@@ -20,6 +20,18 @@ const ACTION_LABELS: Record<LedgerAction, string> & Record<string, string | unde
   "step_table.update": "Step table changed",
   "step_table.deactivate": "Step table withdrawn",
   "step_table.reactivate": "Step table restored",
+  "alert.open": "Alert opened",
+  "alert.upgrade": "Alert now urgent",
+  "alert.notify": "Alert e-mail delivered",
+  "alert.escalate": "Alert escalated",
+  "alert.acknowledge": "Alert acknowledged",
+  "alert.resolve": "Alert resolved",
+  "user.alert_email_preferences": "Alert e-mail choices changed",
+  "import.blood_gas_csv": "Blood gas file imported",
+  "import.hl7": "HL7 results imported",
+  "import.monitor_csv": "Monitor file imported",
+  "api_token.create": "API token created",
+  "api_token.revoke": "API token revoked",
 };
 
 const ENTITY_LABELS: Record<LedgerEntityType, string> & Record<string, string | undefined> = {
@@ -33,6 +45,9 @@ const ENTITY_LABELS: Record<LedgerEntityType, string> & Record<string, string | 
   reading: "Reading",
   blood_gas: "Blood gas",
   step_table: "Step table",
+  alert: "Alert",
+  import: "Import",
+  api_token: "API token",
 };
 
 /** The human label of a ledger action code ("order.write" → "Order written and signed"). */
@@ -45,5 +60,7 @@ export function entityLabel(type: string): string {
 }
 
 export function roleLabel(role: string): string {
+  if (role === "system") return "Tidemark (automatic)";
+  if (role === "interface") return "Interface (API token)";
   return isRole(role) ? ROLE_LABELS[role] : role;
 }

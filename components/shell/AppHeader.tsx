@@ -2,6 +2,8 @@ import Link from "next/link";
 import { IconMark } from "@/components/ui/icons";
 import { ROLE_LABELS, type Role } from "@/lib/auth/roles";
 import type { ThemeChoice } from "@/lib/preferences/theme";
+import type { AlertSummary } from "@/lib/alerts/queries";
+import { AlertBell } from "./AlertBell";
 import { NavLinks } from "./NavLinks";
 import { SignOutButton } from "./SignOutButton";
 import { ThemeSwitcher } from "./ThemeSwitcher";
@@ -25,20 +27,27 @@ export function AppHeader({
   units,
   unitChoice,
   theme,
+  alertSummary,
 }: {
   user: { name: string; role: Role };
   units: { id: number; code: string; name: string }[];
   unitChoice: string;
   theme: ThemeChoice;
+  alertSummary: AlertSummary;
 }) {
   return (
     <header className="border-b border-border bg-surface">
       <div className="mx-auto flex max-w-7xl flex-wrap items-center gap-x-5 gap-y-2 px-4 py-2">
-        <Link href="/board" className="flex items-center gap-1.5 text-accent" aria-label="Tidemark, go to the Board">
+        <Link
+          href="/board"
+          className="flex items-center gap-1.5 text-accent"
+          aria-label="Tidemark, go to the Board"
+        >
           <IconMark className="text-2xl" />
           <span className="text-lg font-semibold tracking-tight text-ink">Tidemark</span>
         </Link>
         <NavLinks items={navFor(user.role)} />
+        <AlertBell initial={alertSummary} />
         <div className="ml-auto flex flex-wrap items-center gap-3">
           <UnitSwitcher units={units} value={unitChoice} />
           <ThemeSwitcher value={theme} />

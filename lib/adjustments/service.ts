@@ -3,6 +3,7 @@ import type { Actor } from "../auth/actor";
 import { assertRole } from "../auth/actor-queries";
 import { ConflictError, ForbiddenError, ValidationError } from "../errors";
 import { once } from "../idempotency";
+import { afterSettingsChanged } from "../alerts/service";
 import { appendLedger } from "../ledger/service";
 import { DEVICE_PROFILES, estimateFio2 } from "../orders/devices";
 import type { OrderView } from "../orders/queries";
@@ -226,6 +227,7 @@ export async function recordAdjustment(
       },
       now,
     );
+    await afterSettingsChanged(trx, actor, context.admission, input.appliedAt, now);
     return view;
   });
 }

@@ -80,20 +80,37 @@ export const IDLE_WATCH: WatchState = {
 };
 
 export type WatchEvent =
-  | { type: "open"; direction: Direction; startedAt: number; at: number; grade: Grade; spo2: number }
+  | {
+      type: "open";
+      direction: Direction;
+      startedAt: number;
+      at: number;
+      grade: Grade;
+      spo2: number;
+    }
   | { type: "upgrade"; at: number; spo2: number }
   | { type: "resolve"; at: number; direction: Direction; worst: number };
 
 /** Which side of the band a reading is on, or null when it is in band. */
-export function classifyReading(r: Pick<DetectReading, "spo2" | "fio2" | "flow">, band: Band): Direction | null {
+export function classifyReading(
+  r: Pick<DetectReading, "spo2" | "fio2" | "flow">,
+  band: Band,
+): Direction | null {
   if (r.spo2 < band.lower) return "below";
   if (r.spo2 > band.upper && (r.fio2 > 0.21 || (r.flow ?? 0) > 0)) return "above";
   return null;
 }
 
-export function gradeOf(spo2: number, direction: Direction, band: Band, opts: DetectionOptions): Grade {
+export function gradeOf(
+  spo2: number,
+  direction: Direction,
+  band: Band,
+  opts: DetectionOptions,
+): Grade {
   if (direction !== "below") return "routine";
-  return spo2 < opts.urgentBelowPct || band.lower - spo2 >= opts.urgentMarginPct ? "urgent" : "routine";
+  return spo2 < opts.urgentBelowPct || band.lower - spo2 >= opts.urgentMarginPct
+    ? "urgent"
+    : "routine";
 }
 
 /**

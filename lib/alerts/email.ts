@@ -48,7 +48,9 @@ function when(at: Date, timeZone: string): string {
 }
 
 /** What was missed, in one line. */
-export function describeAlert(input: Pick<AlertEmailInput, "kind" | "band" | "spo2" | "limitsAtMax" | "overdueMinutes">): string {
+export function describeAlert(
+  input: Pick<AlertEmailInput, "kind" | "band" | "spo2" | "limitsAtMax" | "overdueMinutes">,
+): string {
   const band = input.band ? `target ${input.band.lower}–${input.band.upper} %` : "no target band";
   switch (input.kind) {
     case "below_band":
@@ -103,7 +105,12 @@ export function composeAlertEmail(input: AlertEmailInput): AlertEmail {
 }
 
 /** Stable per alert, purpose and recipient: a retry sends the same Message-ID. */
-export function alertMessageId(alertId: number, purpose: string, userId: number, domain: string): string {
+export function alertMessageId(
+  alertId: number,
+  purpose: string,
+  userId: number,
+  domain: string,
+): string {
   return `<alert-${alertId}.${purpose}.${userId}@${domain}>`;
 }
 

@@ -14,7 +14,13 @@ export const ALERT_KIND_LABELS: Record<AlertKind, string> = {
   reassessment_overdue: "Reassessment overdue",
 };
 
-export const ALERT_STATES = ["opened", "notified", "acknowledged", "escalated", "resolved"] as const;
+export const ALERT_STATES = [
+  "opened",
+  "notified",
+  "acknowledged",
+  "escalated",
+  "resolved",
+] as const;
 export type AlertState = (typeof ALERT_STATES)[number];
 
 export const ALERT_STATE_LABELS: Record<AlertState, string> = {

@@ -103,7 +103,11 @@ export async function queueAlertMail(
     alertId: a.id,
     kind: a.kind,
     grade: a.grade,
-    purpose: purpose.startsWith("escalate") ? "escalate" : purpose === "urgent" ? "urgent" : "notify",
+    purpose: purpose.startsWith("escalate")
+      ? "escalate"
+      : purpose === "urgent"
+        ? "urgent"
+        : "notify",
     escalationLevel: level,
     unitCode: a.unit_code,
     unitName: a.unit_name,
@@ -190,7 +194,9 @@ export async function deliverOutbox(
   const due = (await knex("mail_outbox")
     .where({ state: "pending" })
     .where("next_attempt_at", "<=", now)
-    .where((q) => q.whereNull("claimed_until").orWhere("claimed_until", "<", now))
+    .where((q) => {
+      void q.whereNull("claimed_until").orWhere("claimed_until", "<", now);
+    })
     .orderBy("id")
     .limit(opts.limit ?? 50)
     .select(
@@ -210,7 +216,9 @@ export async function deliverOutbox(
   for (const row of due) {
     const claimed = await knex("mail_outbox")
       .where({ id: row.id, state: "pending" })
-      .where((q) => q.whereNull("claimed_until").orWhere("claimed_until", "<", now))
+      .where((q) => {
+        void q.whereNull("claimed_until").orWhere("claimed_until", "<", now);
+      })
       .update({ claimed_until: new Date(now.getTime() + claimMs) });
     if (!claimed) continue;
     let response: string;

@@ -172,7 +172,11 @@ export async function alertSummary(knex: Knex, actor: Actor): Promise<AlertSumma
       knex.raw("COUNT(*) AS open_count"),
       knex.raw("SUM(state IN ('opened','notified','escalated')) AS unack_count"),
       knex.raw("SUM(grade = 'urgent') AS urgent_count"),
-    )) as { open_count: number | string; unack_count: number | string | null; urgent_count: number | string | null };
+    )) as {
+    open_count: number | string;
+    unack_count: number | string | null;
+    urgent_count: number | string | null;
+  };
   return {
     open: Number(row.open_count),
     unacknowledged: Number(row.unack_count ?? 0),
@@ -215,7 +219,9 @@ export async function openAlertsByAdmission(
 
 /** The user's e-mail choices; a kind with no row is e-mailed. */
 export async function getEmailPreferences(knex: Knex, userId: number): Promise<EmailPreferences> {
-  const rows = (await knex("alert_email_preferences").where({ user_id: userId }).select("kind", "email")) as {
+  const rows = (await knex("alert_email_preferences")
+    .where({ user_id: userId })
+    .select("kind", "email")) as {
     kind: AlertKind;
     email: number | boolean;
   }[];
@@ -243,7 +249,13 @@ export async function setEmailPreferences(
     await appendLedger(
       trx,
       actor,
-      { action: "user.alert_email_preferences", entityType: "user", entityId: actor.id, before, after: prefs },
+      {
+        action: "user.alert_email_preferences",
+        entityType: "user",
+        entityId: actor.id,
+        before,
+        after: prefs,
+      },
       now,
     );
     return prefs;

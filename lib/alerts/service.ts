@@ -64,12 +64,20 @@ type OpenAlertRow = {
 
 const num = (v: string | number | null): number | null => (v === null ? null : Number(v));
 
-async function currentOrder(trx: Knex.Transaction, patientId: number): Promise<OrderLimits | undefined> {
+async function currentOrder(
+  trx: Knex.Transaction,
+  patientId: number,
+): Promise<OrderLimits | undefined> {
   return (await trx("orders")
     .where({ current_patient_id: patientId })
-    .first("id", "spo2_lower_pct", "spo2_upper_pct", "fio2_max", "peep_max_cmh2o", "flow_max_l_min")) as
-    | OrderLimits
-    | undefined;
+    .first(
+      "id",
+      "spo2_lower_pct",
+      "spo2_upper_pct",
+      "fio2_max",
+      "peep_max_cmh2o",
+      "flow_max_l_min",
+    )) as OrderLimits | undefined;
 }
 
 async function openAlertOf(
@@ -80,11 +88,16 @@ async function openAlertOf(
   return (await trx("alerts")
     .where({ open_admission_id: admissionId, kind })
     .forUpdate()
-    .first("id", "kind", "grade", "state", "escalation_level", "version")) as OpenAlertRow | undefined;
+    .first("id", "kind", "grade", "state", "escalation_level", "version")) as
+    OpenAlertRow | undefined;
 }
 
 /** Locks the admission's detection state (creating it), so writers on one patient queue here. */
-async function lockWatch(trx: Knex.Transaction, admissionId: number, now: Date): Promise<WatchState> {
+async function lockWatch(
+  trx: Knex.Transaction,
+  admissionId: number,
+  now: Date,
+): Promise<WatchState> {
   await trx.raw(
     "INSERT INTO alert_watches (admission_id, state_json, updated_at) VALUES (?, ?, ?) ON DUPLICATE KEY UPDATE admission_id = admission_id",
     [admissionId, JSON.stringify(IDLE_WATCH), now],
@@ -199,7 +212,11 @@ async function closeAlert(
       patientId: admission.patientId,
       unitId: admission.unitId,
       before: { state: alert.state },
-      after: { state: "resolved", resolvedAt: at.toISOString(), by: actor.id === null ? "detection" : "clinician" },
+      after: {
+        state: "resolved",
+        resolvedAt: at.toISOString(),
+        by: actor.id === null ? "detection" : "clinician",
+      },
       rationale: reason,
     },
     now,
@@ -243,8 +260,17 @@ async function checkLimits(
     | undefined;
   if (!s) return;
   const atMax = exhaustedLimits(
-    { fio2: Number(s.fio2), fio2Estimated: Boolean(s.fio2_estimated), peep: num(s.peep_cmh2o), flow: num(s.flow_l_min) },
-    { fio2Max: Number(order.fio2_max), peepMax: num(order.peep_max_cmh2o), flowMax: num(order.flow_max_l_min) },
+    {
+      fio2: Number(s.fio2),
+      fio2Estimated: Boolean(s.fio2_estimated),
+      peep: num(s.peep_cmh2o),
+      flow: num(s.flow_l_min),
+    },
+    {
+      fio2Max: Number(order.fio2_max),
+      peepMax: num(order.peep_max_cmh2o),
+      flowMax: num(order.flow_max_l_min),
+    },
   );
   if (!atMax.length) return;
   await openAlert(
@@ -311,7 +337,12 @@ async function applyEvent(
         patientId: admission.patientId,
         unitId: admission.unitId,
         before: { grade: open.grade },
-        after: { grade: "urgent", spo2: e.spo2, at: new Date(e.at).toISOString(), mailQueuedFor: mail.mailed },
+        after: {
+          grade: "urgent",
+          spo2: e.spo2,
+          at: new Date(e.at).toISOString(),
+          mailQueuedFor: mail.mailed,
+        },
       },
       now,
     );
@@ -320,10 +351,26 @@ async function applyEvent(
     const open = await openAlertOf(trx, admission.admissionId, kind);
     if (open) {
       await trx("alerts").where({ id: open.id }).update({ worst_spo2_pct: e.worst });
-      await closeAlert(trx, actor, admission, open, "Back in the target band.", new Date(e.at), now);
+      await closeAlert(
+        trx,
+        actor,
+        admission,
+        open,
+        "Back in the target band.",
+        new Date(e.at),
+        now,
+      );
     }
     if (e.direction === "below")
-      await resolveOpen(trx, actor, admission, "limits_exhausted", "SpO2 back in the target band.", new Date(e.at), now);
+      await resolveOpen(
+        trx,
+        actor,
+        admission,
+        "limits_exhausted",
+        "SpO2 back in the target band.",
+        new Date(e.at),
+        now,
+      );
   }
 }
 
@@ -344,7 +391,15 @@ export async function afterReadingsCharted(
   const manual = readings.filter((r) => r.source === "manual");
   if (manual.length) {
     const latest = new Date(Math.max(...manual.map((r) => r.takenAt.getTime())));
-    await resolveOpen(trx, actor, admission, "reassessment_overdue", "Reassessed: a reading was charted.", latest, now);
+    await resolveOpen(
+      trx,
+      actor,
+      admission,
+      "reassessment_overdue",
+      "Reassessed: a reading was charted.",
+      latest,
+      now,
+    );
   }
   const order = await currentOrder(trx, admission.patientId);
   // No order in effect: there is no band to miss.
@@ -385,7 +440,15 @@ export async function afterSettingsChanged(
   now: Date,
   cfg: AlertConfig = alertConfig(),
 ): Promise<void> {
-  await resolveOpen(trx, actor, admission, "reassessment_overdue", "Reassessed: settings were adjusted.", appliedAt, now);
+  await resolveOpen(
+    trx,
+    actor,
+    admission,
+    "reassessment_overdue",
+    "Reassessed: settings were adjusted.",
+    appliedAt,
+    now,
+  );
   const order = await currentOrder(trx, admission.patientId);
   if (!order) return;
   const state = await lockWatch(trx, admission.admissionId, now);
@@ -404,13 +467,37 @@ export async function afterOrderChanged(
   now: Date,
   cfg: AlertConfig = alertConfig(),
 ): Promise<void> {
-  await resolveOpen(trx, actor, admission, "limits_exhausted", "A new order was written.", now, now);
-  await resolveOpen(trx, actor, admission, "reassessment_overdue", "A new order was written.", now, now);
+  await resolveOpen(
+    trx,
+    actor,
+    admission,
+    "limits_exhausted",
+    "A new order was written.",
+    now,
+    now,
+  );
+  await resolveOpen(
+    trx,
+    actor,
+    admission,
+    "reassessment_overdue",
+    "A new order was written.",
+    now,
+    now,
+  );
   const order = await currentOrder(trx, admission.patientId);
   const state = await lockWatch(trx, admission.admissionId, now);
   if (!order) {
     for (const kind of ["below_band", "above_band"] as const)
-      await resolveOpen(trx, actor, admission, kind, "The order was discontinued: no target band.", now, now);
+      await resolveOpen(
+        trx,
+        actor,
+        admission,
+        kind,
+        "The order was discontinued: no target band.",
+        now,
+        now,
+      );
     await saveWatch(trx, admission.admissionId, { ...IDLE_WATCH, lastT: state.lastT }, now);
     return;
   }
@@ -445,7 +532,8 @@ async function lockAlertForActor(
       "a.acknowledged_at",
       "u.name as acknowledged_by_name",
     )) as AlertForUpdate | undefined;
-  if (!row || !actor.unitIds.includes(row.unit_id)) throw new NotFoundError("No alert with that id on your units.");
+  if (!row || !actor.unitIds.includes(row.unit_id))
+    throw new NotFoundError("No alert with that id on your units.");
   return row;
 }
 
@@ -508,8 +596,18 @@ export async function resolveAlert(
   return knex.transaction(async (trx) => {
     const alert = await lockAlertForActor(trx, actor, input.alertId);
     if (alert.state === "resolved") throw new ConflictError("This alert is already resolved.");
-    const admission = (await trx("alerts").where({ id: alert.id }).first("admission_id")) as { admission_id: number };
-    await closeAlert(trx, actor, { patientId: alert.patient_id, unitId: alert.unit_id }, alert, input.reason, now, now);
+    const admission = (await trx("alerts").where({ id: alert.id }).first("admission_id")) as {
+      admission_id: number;
+    };
+    await closeAlert(
+      trx,
+      actor,
+      { patientId: alert.patient_id, unitId: alert.unit_id },
+      alert,
+      input.reason,
+      now,
+      now,
+    );
     // An excursion closed by hand starts detection afresh: the next reading out of band opens a new one.
     if (alert.kind === "below_band" || alert.kind === "above_band") {
       const state = await lockWatch(trx, admission.admission_id, now);
@@ -541,7 +639,15 @@ export async function escalateDueAlerts(
       const a = (await trx("alerts")
         .where({ id })
         .forUpdate()
-        .first("id", "state", "escalation_level", "next_escalation_at", "patient_id", "unit_id", "version")) as
+        .first(
+          "id",
+          "state",
+          "escalation_level",
+          "next_escalation_at",
+          "patient_id",
+          "unit_id",
+          "version",
+        )) as
         | (OpenAlertRow & { next_escalation_at: Date | null; patient_id: number; unit_id: number })
         | undefined;
       if (!a || a.state === "acknowledged" || a.state === "resolved") return;
@@ -567,7 +673,12 @@ export async function escalateDueAlerts(
           patientId: a.patient_id,
           unitId: a.unit_id,
           before: { state: a.state, escalationLevel: a.escalation_level },
-          after: { state: "escalated", escalationLevel: level, mailQueuedFor: mail.mailed, notAssigned: mail.recipients.length === 0 },
+          after: {
+            state: "escalated",
+            escalationLevel: level,
+            mailQueuedFor: mail.mailed,
+            notAssigned: mail.recipients.length === 0,
+          },
           rationale: `Not acknowledged within ${Math.round(cfg.escalateAfterMs / 60_000)} min.`,
         },
         now,
@@ -617,15 +728,27 @@ export async function openOverdueReassessments(
     const last = new Date(r.last_reassessed_at).getTime();
     const overdue = reassessmentOverdueMinutes(last, r.reassess_minutes, now.getTime());
     if (overdue === null) continue;
-    const admission = { admissionId: r.admission_id, patientId: r.patient_id, unitId: r.unit_id, bedId: r.bed_id };
+    const admission = {
+      admissionId: r.admission_id,
+      patientId: r.patient_id,
+      unitId: r.unit_id,
+      bedId: r.bed_id,
+    };
     await knex.transaction(async (trx) => {
       // Re-checked under the lock: a reading may have landed meanwhile.
       await lockWatch(trx, r.admission_id, now);
       if (await openAlertOf(trx, r.admission_id, "reassessment_overdue")) return;
-      const s = (await trx("bedside_settings").where({ admission_id: r.admission_id }).first("last_reassessed_at")) as
-        | { last_reassessed_at: Date }
-        | undefined;
-      if (!s || reassessmentOverdueMinutes(new Date(s.last_reassessed_at).getTime(), r.reassess_minutes, now.getTime()) === null)
+      const s = (await trx("bedside_settings")
+        .where({ admission_id: r.admission_id })
+        .first("last_reassessed_at")) as { last_reassessed_at: Date } | undefined;
+      if (
+        !s ||
+        reassessmentOverdueMinutes(
+          new Date(s.last_reassessed_at).getTime(),
+          r.reassess_minutes,
+          now.getTime(),
+        ) === null
+      )
         return;
       await openAlert(
         trx,
@@ -639,7 +762,11 @@ export async function openOverdueReassessments(
           band: null,
           spo2: null,
           level: 0,
-          detail: { reassessMinutes: r.reassess_minutes, lastReassessedAt: new Date(last).toISOString(), overdueMinutes: overdue },
+          detail: {
+            reassessMinutes: r.reassess_minutes,
+            lastReassessedAt: new Date(last).toISOString(),
+            overdueMinutes: overdue,
+          },
         },
         now,
         cfg,

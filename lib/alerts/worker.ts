@@ -45,7 +45,9 @@ export function startAlertWorker(
             `[alerts] escalated ${pass.escalated}, overdue opened ${pass.overdueOpened}, mail sent ${pass.sent}, failed ${pass.failed} (will retry)`,
           );
       })
-      .catch((error: unknown) => log(`[alerts] pass failed: ${error instanceof Error ? error.message : String(error)}`))
+      .catch((error: unknown) =>
+        log(`[alerts] pass failed: ${error instanceof Error ? error.message : String(error)}`),
+      )
       .finally(() => {
         if (!stopped) timer = setTimeout(tick, intervalMs);
       });

@@ -1,4 +1,5 @@
 import type { Knex } from "knex";
+import { openAlertsByAdmission, type AdmissionAlerts } from "../alerts/queries";
 import { DEVICE_PROFILES, type Device } from "../orders/devices";
 import { ageInYears, initialsOf } from "../patients/display";
 import { readingWindow, type WindowReading } from "./reading-window";
@@ -46,7 +47,8 @@ export type BoardRow = {
   lastReassessedAt: string | null;
   minutesSinceReassessment: number | null;
   overdue: boolean;
-  // Open alerts: alerts do not exist yet (a later issue); the Board shows "—".
+  /** Unresolved alerts of the admission, null when there are none. */
+  alerts: AdmissionAlerts | null;
 };
 
 export type BoardUnit = {
@@ -118,7 +120,7 @@ export async function listOccupiedBeds(
   const bedIds = rows.map((r) => r.bed_id);
   const admissionIds = rows.map((r) => r.admission_id);
   const patientIds = rows.map((r) => r.patient_id);
-  const [carers, clinical] = await Promise.all([
+  const [carers, clinical, alerts] = await Promise.all([
     bedIds.length
       ? (knex("care_assignments as c")
           .join("users as s", "s.id", "c.user_id")
@@ -130,6 +132,7 @@ export async function listOccupiedBeds(
         >)
       : Promise.resolve([]),
     loadClinical(knex, admissionIds, patientIds, now),
+    openAlertsByAdmission(knex, admissionIds),
   ]);
   const carer = (bedId: number, duty: string) =>
     carers.find((c) => c.bed_id === bedId && c.duty === duty)?.name ?? null;
@@ -146,6 +149,7 @@ export async function listOccupiedBeds(
     admittedAt: r.admitted_at.toISOString(),
     nurse: carer(r.bed_id, "nurse"),
     therapist: carer(r.bed_id, "therapist"),
+    alerts: alerts.get(r.admission_id) ?? null,
   }));
 }
 
@@ -164,6 +168,7 @@ type Clinical = Omit<
   | "admittedAt"
   | "nurse"
   | "therapist"
+  | "alerts"
 >;
 
 /**

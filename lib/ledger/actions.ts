@@ -16,6 +16,18 @@ export const LEDGER_ACTIONS = [
   "step_table.update",
   "step_table.deactivate",
   "step_table.reactivate",
+  "import.blood_gas_csv",
+  "import.hl7",
+  "import.monitor_csv",
+  "api_token.create",
+  "api_token.revoke",
+  "alert.open",
+  "alert.upgrade",
+  "alert.notify",
+  "alert.escalate",
+  "alert.acknowledge",
+  "alert.resolve",
+  "user.alert_email_preferences",
 ] as const;
 
 export type LedgerAction = (typeof LEDGER_ACTIONS)[number];
@@ -31,5 +43,8 @@ export const LEDGER_ENTITY_TYPES = [
   "reading",
   "blood_gas",
   "step_table",
+  "import",
+  "api_token",
+  "alert",
 ] as const;
 export type LedgerEntityType = (typeof LEDGER_ENTITY_TYPES)[number];

@@ -15,6 +15,15 @@ export type LedgerInput = {
   rationale?: string | null;
 };
 
+/**
+ * Who wrote a ledger row: a signed-in user, or — for work no person did at that
+ * moment — the system (alert sweeps, mail delivery) or an interface engine's
+ * API token. The latter two have no user id.
+ */
+export type LedgerActor =
+  | Pick<Actor, "id" | "role">
+  | { id: null; role: "system" | "interface" };
+
 export type LedgerRow = {
   id: number;
   chainKey: string;
@@ -34,7 +43,7 @@ export function chainKeyFor(input: Pick<LedgerInput, "patientId">): string {
  */
 export async function appendLedger(
   trx: Knex.Transaction,
-  actor: Pick<Actor, "id" | "role">,
+  actor: LedgerActor,
   input: LedgerInput,
   now: Date = new Date(),
 ): Promise<LedgerRow> {

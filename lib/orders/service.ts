@@ -4,6 +4,7 @@ import { assertRole } from "../auth/actor-queries";
 import { confirmPassword } from "../auth/reauth";
 import { ConflictError, NotFoundError, ValidationError } from "../errors";
 import { once } from "../idempotency";
+import { afterOrderChanged } from "../alerts/service";
 import { appendLedger } from "../ledger/service";
 import { duplicateIndex, isLockConflict } from "../db-errors";
 import { findOpenAdmission, type OpenAdmission } from "../patients/access";
@@ -201,6 +202,7 @@ async function writeOrderInTransaction(
     },
     now,
   );
+  await afterOrderChanged(trx, actor, admission, now);
   return order;
 }
 
@@ -347,6 +349,13 @@ export async function discontinueOrder(
         after,
         rationale: input.reason,
       },
+      now,
+    );
+    const bed = (await trx("admissions").where({ id: before.admissionId }).first("bed_id")) as { bed_id: number };
+    await afterOrderChanged(
+      trx,
+      actor,
+      { admissionId: before.admissionId, patientId: before.patientId, unitId: before.unitId, bedId: bed.bed_id },
       now,
     );
     return after;

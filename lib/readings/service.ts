@@ -3,6 +3,7 @@ import type { Actor } from "../auth/actor";
 import { assertRole } from "../auth/actor-queries";
 import { ValidationError } from "../errors";
 import { once } from "../idempotency";
+import { afterReadingsCharted } from "../alerts/service";
 import { appendLedger } from "../ledger/service";
 import { DEVICE_PROFILES, estimateFio2, type Device } from "../orders/devices";
 import { findOpenAdmission } from "../patients/access";
@@ -108,6 +109,13 @@ export async function chartReading(
         unitId: admission.unitId,
         after: view,
       },
+      now,
+    );
+    await afterReadingsCharted(
+      trx,
+      actor,
+      admission,
+      [{ takenAt: input.takenAt, spo2: input.spo2, fio2, flow: input.flow ?? null, source: "manual" }],
       now,
     );
     return view;

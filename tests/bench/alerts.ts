@@ -12,10 +12,10 @@ const SECONDS = 7 * 24 * 3600;
 const ROUNDS = 7;
 
 let seed = 7;
-const random = () => ((seed = (seed * 1664525 + 1013904223) >>> 0) / 2 ** 32);
+const random = () => (seed = (seed * 1664525 + 1013904223) >>> 0) / 2 ** 32;
 
 function series(): DetectReading[] {
-  const out: DetectReading[] = new Array(SECONDS);
+  const out: DetectReading[] = [];
   const start = Date.UTC(2026, 10, 20);
   let base = 94;
   let dipLeft = 0;
@@ -31,7 +31,7 @@ function series(): DetectReading[] {
     const dip = dipLeft > 0 ? dipDepth : 0;
     if (dipLeft > 0) dipLeft--;
     const spo2 = Math.round(base - dip + (random() - 0.5) * 2);
-    out[i] = { t: start + i * 1000, spo2, fio2: 0.4, flow: null, source: "monitor" };
+    out.push({ t: start + i * 1000, spo2, fio2: 0.4, flow: null, source: "monitor" });
   }
   return out;
 }

@@ -119,9 +119,16 @@ describe("an excursion charted at the bedside", () => {
     await chartLow(patientId, 88, t0);
 
     const [alert] = await openAlertsOf(patientId);
-    expect(alert).toMatchObject({ kind: "below_band", grade: "routine", state: "opened", triggerSpo2: 88 });
+    expect(alert).toMatchObject({
+      kind: "below_band",
+      grade: "routine",
+      state: "opened",
+      triggerSpo2: 88,
+    });
     expect(alert!.band).toEqual({ lower: 92, upper: 96 });
-    const queued = await appDb()("mail_outbox").where({ alert_id: alert!.id }).select("recipient_user_id", "state");
+    const queued = await appDb()("mail_outbox")
+      .where({ alert_id: alert!.id })
+      .select("recipient_user_id", "state");
     expect(queued).toEqual([{ recipient_user_id: nurse.id, state: "pending" }]);
 
     const pass = await runAlertWork(appDb(), sender(), new Date(t0.getTime() + 1000), cfg);
@@ -135,7 +142,9 @@ describe("an excursion charted at the bedside", () => {
     expect(mail.text).toContain("SpO2 88 %");
     expect(mail.html).toContain("/alerts?alert=");
     // The minimum necessary: never the patient's name or record number.
-    const patient = (await appDb()("patients").where({ id: patientId }).first("mrn", "family_name", "given_name")) as {
+    const patient = (await appDb()("patients")
+      .where({ id: patientId })
+      .first("mrn", "family_name", "given_name")) as {
       mrn: string;
       family_name: string;
       given_name: string;
@@ -158,15 +167,28 @@ describe("an excursion charted at the bedside", () => {
     await chartLow(patientId, 89, t0);
     const [alert] = await openAlertsOf(patientId);
     await runAlertWork(appDb(), sender(), new Date(t0.getTime() + 1000), cfg);
-    await acknowledgeAlert(appDb(), nurse, { alertId: alert!.id, note: "Suctioned, repositioned" }, new Date(t0.getTime() + 2 * MIN));
+    await acknowledgeAlert(
+      appDb(),
+      nurse,
+      { alertId: alert!.id, note: "Suctioned, repositioned" },
+      new Date(t0.getTime() + 2 * MIN),
+    );
 
     await runAlertWork(appDb(), sender(), new Date(t0.getTime() + 11 * MIN), cfg);
     await runAlertWork(appDb(), sender(), new Date(t0.getTime() + 25 * MIN), cfg);
     expect(mailsFor(alert!.id).map((m) => m.to[0])).toEqual([nurse.email]);
     const [after] = await openAlertsOf(patientId);
-    expect(after).toMatchObject({ state: "acknowledged", escalationLevel: 0, nextEscalationAt: null });
+    expect(after).toMatchObject({
+      state: "acknowledged",
+      escalationLevel: 0,
+      nextEscalationAt: null,
+    });
     expect(after!.acknowledged).toMatchObject({ by: nurse.name, note: "Suctioned, repositioned" });
-    expect(await ledgerActions(alert!.id)).toEqual(["alert.open", "alert.notify", "alert.acknowledge"]);
+    expect(await ledgerActions(alert!.id)).toEqual([
+      "alert.open",
+      "alert.notify",
+      "alert.acknowledge",
+    ]);
   });
 
   it("escalates to the therapist, then the physician, on schedule when nobody acknowledges", async () => {
@@ -184,7 +206,11 @@ describe("an excursion charted at the bedside", () => {
     await at(19 * MIN);
     expect(mailsFor(alert!.id)).toHaveLength(2);
     await at(20 * MIN + 2000);
-    expect(mailsFor(alert!.id).map((m) => m.to[0])).toEqual([nurse.email, therapist.email, physician.email]);
+    expect(mailsFor(alert!.id).map((m) => m.to[0])).toEqual([
+      nurse.email,
+      therapist.email,
+      physician.email,
+    ]);
     expect(mailsFor(alert!.id)[2]!.subject).toMatch(/^Escalated: /);
     // The physician is the last level: nothing further.
     await at(60 * MIN);
@@ -210,8 +236,15 @@ describe("an excursion charted at the bedside", () => {
     expect(alert).toMatchObject({ grade: "urgent", worstSpo2: 84 });
     await chartLow(patientId, 94, new Date(t0 + 2 * MIN));
     expect(await openAlertsOf(patientId)).toEqual([]);
-    expect(await ledgerActions(alert!.id)).toEqual(["alert.open", "alert.upgrade", "alert.resolve"]);
-    const outbox = (await appDb()("mail_outbox").where({ alert_id: alert!.id }).orderBy("id").pluck("purpose")) as string[];
+    expect(await ledgerActions(alert!.id)).toEqual([
+      "alert.open",
+      "alert.upgrade",
+      "alert.resolve",
+    ]);
+    const outbox = (await appDb()("mail_outbox")
+      .where({ alert_id: alert!.id })
+      .orderBy("id")
+      .pluck("purpose")) as string[];
     expect(outbox).toEqual(["notify", "urgent"]);
   });
 });
@@ -225,10 +258,15 @@ describe("mail down", () => {
       const t0 = new Date();
       await chartLow(a.patientId, 88, t0);
       await chartLow(b.patientId, 87, t0);
-      const ids = [(await openAlertsOf(a.patientId))[0]!.id, (await openAlertsOf(b.patientId))[0]!.id];
+      const ids = [
+        (await openAlertsOf(a.patientId))[0]!.id,
+        (await openAlertsOf(b.patientId))[0]!.id,
+      ];
       const down = await runAlertWork(appDb(), sender(), new Date(t0.getTime() + 1000), cfg);
       expect(down.failed).toBeGreaterThanOrEqual(2);
-      const rows = (await appDb()("mail_outbox").whereIn("alert_id", ids).select("state", "attempts", "last_error")) as {
+      const rows = (await appDb()("mail_outbox")
+        .whereIn("alert_id", ids)
+        .select("state", "attempts", "last_error")) as {
         state: string;
         attempts: number;
         last_error: string | null;
@@ -239,7 +277,10 @@ describe("mail down", () => {
       ]);
       expect(rows.every((r) => r.last_error)).toBe(true);
       // Alerts stay in the app, unnotified, while mail is down.
-      for (const id of ids) expect((await appDb()("alerts").where({ id }).first("state")).state).toBe("opened");
+      for (const id of ids)
+        expect(
+          ((await appDb()("alerts").where({ id }).first("state")) as { state: string }).state,
+        ).toBe("opened");
 
       inbox = await startFakeInbox({ smtpPort, httpPort: null });
       // Not yet due: the first retry waits 30 s.
@@ -250,8 +291,12 @@ describe("mail down", () => {
       for (const id of ids) {
         const mails = mailsFor(id);
         expect(mails).toHaveLength(1);
-        expect(new Set(inbox.messages().map((m) => m.messageId)).size).toBe(inbox.messages().length);
-        expect((await appDb()("alerts").where({ id }).first("state")).state).toBe("notified");
+        expect(new Set(inbox.messages().map((m) => m.messageId)).size).toBe(
+          inbox.messages().length,
+        );
+        expect(
+          ((await appDb()("alerts").where({ id }).first("state")) as { state: string }).state,
+        ).toBe("notified");
       }
     } finally {
       if (!inbox) inbox = await startFakeInbox({ smtpPort, httpPort: null });
@@ -262,26 +307,58 @@ describe("mail down", () => {
 describe("monitor series", () => {
   it("opens only when a dip is sustained for the configured time", async () => {
     const { patientId, unitId, bedId } = await assignedPatient();
-    const admission = (await appDb()("admissions").where({ patient_id: patientId }).first("id")) as { id: number };
+    const admission = (await appDb()("admissions")
+      .where({ patient_id: patientId })
+      .first("id")) as { id: number };
     const ctx = { admissionId: admission.id, patientId, unitId, bedId };
     const start = Date.now() - 30 * MIN;
     const series = (from: number, values: number[]) =>
-      values.map((spo2, i) => ({ takenAt: new Date(from + i * 1000), spo2, fio2: 0.4, flow: 40, source: "monitor" as const }));
+      values.map((spo2, i) => ({
+        takenAt: new Date(from + i * 1000),
+        spo2,
+        fio2: 0.4,
+        flow: 40,
+        source: "monitor" as const,
+      }));
 
     await appDb().transaction((trx) =>
-      afterReadingsCharted(trx, SYSTEM_ACTOR, ctx, series(start, [95, ...Array<number>(30).fill(85), 95]), new Date(), cfg),
+      afterReadingsCharted(
+        trx,
+        SYSTEM_ACTOR,
+        ctx,
+        series(start, [95, ...Array<number>(30).fill(85), 95]),
+        new Date(),
+        cfg,
+      ),
     );
     expect(await openAlertsOf(patientId)).toEqual([]);
     // Batches continue where the last left off: 40 s now + 30 s next = sustained.
     await appDb().transaction((trx) =>
-      afterReadingsCharted(trx, SYSTEM_ACTOR, ctx, series(start + 60_000, Array<number>(40).fill(89)), new Date(), cfg),
+      afterReadingsCharted(
+        trx,
+        SYSTEM_ACTOR,
+        ctx,
+        series(start + 60_000, Array<number>(40).fill(89)),
+        new Date(),
+        cfg,
+      ),
     );
     expect(await openAlertsOf(patientId)).toEqual([]);
     await appDb().transaction((trx) =>
-      afterReadingsCharted(trx, SYSTEM_ACTOR, ctx, series(start + 100_000, Array<number>(30).fill(89)), new Date(), cfg),
+      afterReadingsCharted(
+        trx,
+        SYSTEM_ACTOR,
+        ctx,
+        series(start + 100_000, Array<number>(30).fill(89)),
+        new Date(),
+        cfg,
+      ),
     );
     const [alert] = await openAlertsOf(patientId);
-    expect(alert).toMatchObject({ kind: "below_band", startedAt: new Date(start + 60_000).toISOString() });
+    expect(alert).toMatchObject({
+      kind: "below_band",
+      startedAt: new Date(start + 60_000).toISOString(),
+    });
   });
 });
 
@@ -292,8 +369,14 @@ describe("limits, reassessment and closing by hand", () => {
     const open = await openAlertsOf(patientId);
     expect(open.map((a) => a.kind).sort()).toEqual(["below_band", "limits_exhausted"]);
     const limits = open.find((a) => a.kind === "limits_exhausted")!;
-    expect(limits).toMatchObject({ escalationLevel: 2, nextEscalationAt: null, detail: { limitsAtMax: ["fio2"] } });
-    const to = (await appDb()("mail_outbox").where({ alert_id: limits.id }).pluck("recipient_user_id")) as number[];
+    expect(limits).toMatchObject({
+      escalationLevel: 2,
+      nextEscalationAt: null,
+      detail: { limitsAtMax: ["fio2"] },
+    });
+    const to = (await appDb()("mail_outbox")
+      .where({ alert_id: limits.id })
+      .pluck("recipient_user_id")) as number[];
     expect(to).toEqual([physician.id]);
 
     // A new order with room to titrate answers it.
@@ -312,7 +395,11 @@ describe("limits, reassessment and closing by hand", () => {
       initialFlow: 50,
       reassessMinutes: 30,
       rationale: "More room to titrate",
-      supersedesOrderId: (await appDb()("orders").where({ current_patient_id: patientId }).first("id")).id,
+      supersedesOrderId: (
+        (await appDb()("orders").where({ current_patient_id: patientId }).first("id")) as {
+          id: number;
+        }
+      ).id,
     } as OrderInput);
     expect((await openAlertsOf(patientId)).map((a) => a.kind)).toEqual(["below_band"]);
   });
@@ -335,19 +422,29 @@ describe("limits, reassessment and closing by hand", () => {
     await chartLow(patientId, 88);
     const [alert] = await openAlertsOf(patientId);
     const reviewer = await actorByEmail(SEEDED.reviewer);
-    await expect(acknowledgeAlert(appDb(), reviewer, { alertId: alert!.id })).rejects.toMatchObject({ status: 403 });
+    await expect(acknowledgeAlert(appDb(), reviewer, { alertId: alert!.id })).rejects.toMatchObject(
+      { status: 403 },
+    );
     await acknowledgeAlert(appDb(), therapist, { alertId: alert!.id });
     await expect(acknowledgeAlert(appDb(), nurse, { alertId: alert!.id })).rejects.toMatchObject({
       status: 409,
-      message: expect.stringContaining(`Already acknowledged by ${therapist.name}`),
+      message: expect.stringContaining(`Already acknowledged by ${therapist.name}`) as unknown,
     });
-    await expect(resolveAlert(appDb(), nurse, { alertId: alert!.id, reason: "" })).rejects.toMatchObject({
+    await expect(
+      resolveAlert(appDb(), nurse, { alertId: alert!.id, reason: "" }),
+    ).rejects.toMatchObject({
       status: 400,
-      fieldErrors: { reason: [expect.stringContaining("at least 3 characters")] },
+      fieldErrors: { reason: [expect.stringContaining("at least 3 characters") as unknown] },
     });
-    await resolveAlert(appDb(), nurse, { alertId: alert!.id, reason: "Probe off the finger, rechecked 95 %" });
+    await resolveAlert(appDb(), nurse, {
+      alertId: alert!.id,
+      reason: "Probe off the finger, rechecked 95 %",
+    });
     const [closed] = await listAlerts(appDb(), nurse, { patientId, status: "resolved" });
-    expect(closed!.resolved).toMatchObject({ by: nurse.name, reason: "Probe off the finger, rechecked 95 %" });
+    expect(closed!.resolved).toMatchObject({
+      by: nurse.name,
+      reason: "Probe off the finger, rechecked 95 %",
+    });
   });
 
   it("does not e-mail a user who turned e-mail off for that kind, and still shows the alert", async () => {
@@ -358,7 +455,9 @@ describe("limits, reassessment and closing by hand", () => {
       await chartLow(patientId, 88);
       const [alert] = await openAlertsOf(patientId);
       expect(alert!.kind).toBe("below_band");
-      expect(await appDb()("mail_outbox").where({ alert_id: alert!.id }).count({ n: "*" })).toEqual([{ n: 0 }]);
+      expect(await appDb()("mail_outbox").where({ alert_id: alert!.id }).count({ n: "*" })).toEqual(
+        [{ n: 0 }],
+      );
     } finally {
       await setEmailPreferences(appDb(), nurse, before);
     }

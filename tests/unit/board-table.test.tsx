@@ -29,6 +29,7 @@ const row: BoardRow = {
   lastReassessedAt: "2026-12-01T10:00:00.000Z",
   minutesSinceReassessment: 10,
   overdue: false,
+  alerts: null,
 };
 
 const sort = { key: "bed", direction: "asc" } as const;
@@ -57,5 +58,25 @@ describe("Board table", () => {
     );
     // 150 / 7.50062 = 19.998… → 20.0 kPa
     expect(screen.getByText("20.0 kPa")).toBeTruthy();
+  });
+
+  it("shows a patient's open alerts in words, linked to the alerts page", () => {
+    render(
+      <BoardTable
+        rows={[
+          row,
+          { ...row, bedId: 2, patientId: 7, alerts: { open: 2, unacknowledged: 1, urgent: true, kinds: ["below_band", "limits_exhausted"] } },
+        ]}
+        caption="beds"
+        sort={sort}
+        onSort={() => undefined}
+        pressureUnit="mmHg"
+      />,
+    );
+    expect(screen.getByLabelText("No open alerts")).toBeTruthy();
+    const badge = screen.getByTestId("alert-count");
+    expect(badge.textContent).toContain("1 to acknowledge · urgent");
+    expect(badge.getAttribute("href")).toBe("/alerts?patientId=7");
+    expect(badge.getAttribute("title")).toBe("SpO2 below target; Order limits reached");
   });
 });

@@ -15,7 +15,13 @@ const band = { lower: 92, upper: 96 };
 const T0 = Date.UTC(2026, 11, 1, 8, 0, 0);
 
 function monitor(values: number[], fio2 = 0.4, stepMs = 1000, start = T0): DetectReading[] {
-  return values.map((spo2, i) => ({ t: start + i * stepMs, spo2, fio2, flow: null, source: "monitor" }));
+  return values.map((spo2, i) => ({
+    t: start + i * stepMs,
+    spo2,
+    fio2,
+    flow: null,
+    source: "monitor",
+  }));
 }
 
 describe("classifyReading", () => {
@@ -87,7 +93,9 @@ describe("detectExcursions: monitor series", () => {
   });
 
   it("above the band counts only while on oxygen", () => {
-    expect(detectExcursions(monitor(Array<number>(120).fill(99), 0.21), band).excursions).toEqual([]);
+    expect(detectExcursions(monitor(Array<number>(120).fill(99), 0.21), band).excursions).toEqual(
+      [],
+    );
     const onO2 = detectExcursions(monitor(Array<number>(120).fill(99), 0.35), band).excursions;
     expect(onO2.map((e) => e.direction)).toEqual(["above"]);
   });
@@ -101,7 +109,13 @@ describe("detectExcursions: monitor series", () => {
 });
 
 describe("detectExcursions: manual readings", () => {
-  const manual = (t: number, spo2: number): DetectReading => ({ t, spo2, fio2: 0.4, flow: null, source: "manual" });
+  const manual = (t: number, spo2: number): DetectReading => ({
+    t,
+    spo2,
+    fio2: 0.4,
+    flow: null,
+    source: "manual",
+  });
 
   it("opens on one charted value and resolves on the next in band", () => {
     const { excursions } = detectExcursions([manual(T0, 89), manual(T0 + 3600_000, 94)], band);
@@ -127,14 +141,24 @@ describe("detectExcursions: manual readings", () => {
 describe("exhaustedLimits", () => {
   const limits = { fio2Max: 0.6, peepMax: 10, flowMax: null };
   it("names each limit at its maximum", () => {
-    expect(exhaustedLimits({ fio2: 0.6, fio2Estimated: false, peep: 8, flow: null }, limits)).toEqual(["fio2"]);
-    expect(exhaustedLimits({ fio2: 0.5, fio2Estimated: false, peep: 10, flow: null }, limits)).toEqual(["peep"]);
-    expect(exhaustedLimits({ fio2: 0.5, fio2Estimated: false, peep: 8, flow: null }, limits)).toEqual([]);
+    expect(
+      exhaustedLimits({ fio2: 0.6, fio2Estimated: false, peep: 8, flow: null }, limits),
+    ).toEqual(["fio2"]);
+    expect(
+      exhaustedLimits({ fio2: 0.5, fio2Estimated: false, peep: 10, flow: null }, limits),
+    ).toEqual(["peep"]);
+    expect(
+      exhaustedLimits({ fio2: 0.5, fio2Estimated: false, peep: 8, flow: null }, limits),
+    ).toEqual([]);
   });
   it("judges a low-flow device by its flow, not its estimated FiO2", () => {
     const lowFlow = { fio2Max: 0.4, peepMax: null, flowMax: 6 };
-    expect(exhaustedLimits({ fio2: 0.44, fio2Estimated: true, peep: null, flow: 4 }, lowFlow)).toEqual([]);
-    expect(exhaustedLimits({ fio2: 0.44, fio2Estimated: true, peep: null, flow: 6 }, lowFlow)).toEqual(["flow"]);
+    expect(
+      exhaustedLimits({ fio2: 0.44, fio2Estimated: true, peep: null, flow: 4 }, lowFlow),
+    ).toEqual([]);
+    expect(
+      exhaustedLimits({ fio2: 0.44, fio2Estimated: true, peep: null, flow: 6 }, lowFlow),
+    ).toEqual(["flow"]);
   });
 });
 

@@ -1,5 +1,10 @@
 import { describe, expect, it } from "vitest";
-import { alertMessageId, composeAlertEmail, retryDelayMs, type AlertEmailInput } from "@/lib/alerts/email";
+import {
+  alertMessageId,
+  composeAlertEmail,
+  retryDelayMs,
+  type AlertEmailInput,
+} from "@/lib/alerts/email";
 
 const input: AlertEmailInput = {
   alertId: 41,
@@ -38,24 +43,37 @@ describe("composeAlertEmail", () => {
   });
 
   it("names the escalation in the subject and body", () => {
-    const esc = composeAlertEmail({ ...input, grade: "routine", purpose: "escalate", escalationLevel: 1 });
+    const esc = composeAlertEmail({
+      ...input,
+      grade: "routine",
+      purpose: "escalate",
+      escalationLevel: 1,
+    });
     expect(esc.subject).toBe("Escalated: SpO2 below target — MICU bed 7");
     expect(esc.text).toContain("assigned therapist because it was not acknowledged in time");
   });
 
   it("describes limits reached and overdue reassessment", () => {
-    expect(composeAlertEmail({ ...input, kind: "limits_exhausted", limitsAtMax: ["fio2"] }).text).toContain(
-      "fio2 at the order's maximum",
-    );
     expect(
-      composeAlertEmail({ ...input, kind: "reassessment_overdue", band: null, spo2: null, overdueMinutes: 12 }).text,
+      composeAlertEmail({ ...input, kind: "limits_exhausted", limitsAtMax: ["fio2"] }).text,
+    ).toContain("fio2 at the order's maximum");
+    expect(
+      composeAlertEmail({
+        ...input,
+        kind: "reassessment_overdue",
+        band: null,
+        spo2: null,
+        overdueMinutes: 12,
+      }).text,
     ).toContain("12 min past");
   });
 });
 
 describe("alertMessageId and retryDelayMs", () => {
   it("gives one Message-ID per alert, purpose and recipient", () => {
-    expect(alertMessageId(41, "notify", 3, "kestrel.example")).toBe("<alert-41.notify.3@kestrel.example>");
+    expect(alertMessageId(41, "notify", 3, "kestrel.example")).toBe(
+      "<alert-41.notify.3@kestrel.example>",
+    );
     expect(alertMessageId(41, "notify", 3, "x")).toBe(alertMessageId(41, "notify", 3, "x"));
     expect(alertMessageId(41, "escalate-1", 3, "x")).not.toBe(alertMessageId(41, "notify", 3, "x"));
   });

@@ -2,12 +2,15 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { z } from "zod";
+import { AlertList } from "@/components/alerts/AlertList";
 import { BedsideSummary } from "@/components/bedside/BedsideSummary";
 import { Timeline } from "@/components/chart/Timeline";
 import { TrendChart } from "@/components/chart/TrendChart";
 import { BloodGasEvaluator } from "@/components/oxygenation/BloodGasEvaluator";
 import { buttonClasses } from "@/components/ui/Button";
+import { listAlerts } from "@/lib/alerts/queries";
 import { pageActor } from "@/lib/auth/page-guard";
+import { CLINICAL_ROLES } from "@/lib/auth/roles";
 import { db } from "@/lib/db";
 import { NotFoundError } from "@/lib/errors";
 import { getBedsideContext } from "@/lib/patients/bedside";
@@ -40,7 +43,10 @@ export default async function ChartPage({ params }: { params: Promise<{ patientI
   if (!parsed.success) notFound();
   const patient = await loadPatient(db(), actor, parsed.data.patientId);
   const now = new Date();
-  const bedside = await getBedsideContext(db(), actor, patient.id);
+  const [bedside, alerts] = await Promise.all([
+    getBedsideContext(db(), actor, patient.id),
+    listAlerts(db(), actor, { patientId: patient.id, status: "open" }),
+  ]);
   const age = ageInYears(patient.birthDate, now);
   const { bed, unit } = patient.admission;
   const facts: [string, string][] = [
@@ -69,10 +75,32 @@ export default async function ChartPage({ params }: { params: Promise<{ patientI
             ))}
           </dl>
         </div>
-        <Link href="/board" className={buttonClasses("secondary")}>
-          Back to the Board
-        </Link>
+        <div className="flex flex-wrap gap-2">
+          {/* A file download from the API, not a page: a plain link, not next/link. */}
+          <a
+            href={`/api/v1/patients/${patient.id}/fhir?download=1`}
+            download
+            className={buttonClasses("secondary")}
+          >
+            Export (FHIR R4)
+          </a>
+          <Link href="/board" className={buttonClasses("secondary")}>
+            Back to the Board
+          </Link>
+        </div>
       </header>
+
+      <section aria-labelledby="alerts-heading" className="space-y-2">
+        <h2 id="alerts-heading" className="text-lg font-semibold">
+          Open alerts
+        </h2>
+        <AlertList
+          initial={alerts}
+          apiUrl={`/api/v1/alerts?status=open&patientId=${patient.id}`}
+          canAct={CLINICAL_ROLES.includes(actor.role)}
+          compactEmpty="No open alerts for this patient."
+        />
+      </section>
 
       <BedsideSummary actor={actor} context={bedside} now={now} />
 

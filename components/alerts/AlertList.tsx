@@ -1,0 +1,190 @@
+"use client";
+
+import Link from "next/link";
+import { useEffect } from "react";
+import useSWR from "swr";
+import { getApiJson } from "@/components/ui/api-json";
+import { EmptyState } from "@/components/ui/EmptyState";
+import { LoadError } from "@/components/ui/LoadError";
+import { StatusBadge, type Status } from "@/components/ui/StatusBadge";
+import { describeAlert } from "@/lib/alerts/email";
+import { ALERT_KIND_LABELS, ALERT_STATE_LABELS, ESCALATION_LABELS } from "@/lib/alerts/kinds";
+import type { AlertView } from "@/lib/alerts/queries";
+import { AlertActions } from "./AlertActions";
+
+export const ALERT_LIST_REFRESH_MS = 15_000;
+
+function at(iso: string, timeZone: string): string {
+  return new Intl.DateTimeFormat("en-GB", {
+    timeZone,
+    day: "2-digit",
+    month: "short",
+    hour: "2-digit",
+    minute: "2-digit",
+    hourCycle: "h23",
+  }).format(new Date(iso));
+}
+
+function statusOf(a: AlertView): { status: Status; label: string } {
+  if (a.state === "resolved") return { status: "in-band", label: "Resolved" };
+  if (a.state === "acknowledged") return { status: "neutral", label: "Acknowledged" };
+  if (a.kind === "reassessment_overdue")
+    return { status: "overdue", label: ALERT_STATE_LABELS[a.state] };
+  if (a.state === "escalated")
+    return {
+      status: "escalated",
+      label: `Escalated to the ${ESCALATION_LABELS[a.escalationLevel]}`,
+    };
+  return {
+    status: a.kind === "above_band" ? "above" : "below",
+    label: ALERT_STATE_LABELS[a.state],
+  };
+}
+
+/**
+ * The alerts of the user's units, refreshed every 15 s. Each card says what
+ * was missed, since when, who has been told, and offers acknowledge / close to
+ * the bedside roles.
+ */
+export function AlertList({
+  initial,
+  apiUrl,
+  canAct,
+  focusId,
+  compactEmpty,
+}: {
+  initial: AlertView[];
+  apiUrl: string;
+  canAct: boolean;
+  focusId?: number;
+  /** A one-line empty state (the Chart) instead of the full one. */
+  compactEmpty?: string;
+}) {
+  const { data, error, mutate, isValidating } = useSWR<{ alerts: AlertView[] }, Error>(
+    apiUrl,
+    (url: string) => getApiJson<{ alerts: AlertView[] }>(url, "the alerts"),
+    {
+      fallbackData: { alerts: initial },
+      refreshInterval: ALERT_LIST_REFRESH_MS,
+      revalidateOnMount: false,
+      keepPreviousData: true,
+    },
+  );
+  const alerts = data?.alerts ?? initial;
+  // Arriving from an e-mail link: bring that alert into view once.
+  useEffect(() => {
+    if (focusId) document.getElementById(`alert-${focusId}`)?.scrollIntoView({ block: "center" });
+  }, [focusId]);
+
+  return (
+    <div className="space-y-3">
+      {error ? (
+        <LoadError what="the alerts" message={error.message} onRetry={() => void mutate()} />
+      ) : null}
+      <p className="sr-only" aria-live="polite">
+        {isValidating ? "Refreshing alerts" : `${alerts.length} alerts shown`}
+      </p>
+      {alerts.length === 0 && compactEmpty ? (
+        <p className="text-sm text-ink-muted">{compactEmpty}</p>
+      ) : alerts.length === 0 ? (
+        <EmptyState title="No alerts match">
+          Nothing to act on for these filters. Alerts open when SpO2 leaves the target band, when
+          the order&apos;s limits are reached, or when a reassessment is overdue.
+        </EmptyState>
+      ) : (
+        <ul className="space-y-3">
+          {alerts.map((a) => {
+            const s = statusOf(a);
+            const tz = a.unit.timeZone;
+            return (
+              <li
+                key={a.id}
+                id={`alert-${a.id}`}
+                data-testid="alert-card"
+                className={`rounded-card border bg-surface p-4 shadow-card ${
+                  focusId === a.id ? "border-accent" : "border-border"
+                }`}
+              >
+                <div className="flex flex-wrap items-baseline gap-x-3 gap-y-1">
+                  <h2 className="text-base font-semibold">
+                    {ALERT_KIND_LABELS[a.kind]}
+                    {a.grade === "urgent" ? (
+                      <span className="ml-2 text-below">· urgent</span>
+                    ) : null}
+                  </h2>
+                  <StatusBadge status={s.status} label={s.label} />
+                  <span className="text-sm text-ink-muted">
+                    {a.unit.code} bed {a.bed.label} ·{" "}
+                    <Link
+                      href={`/patients/${a.patient.id}`}
+                      className="text-accent underline underline-offset-2"
+                    >
+                      {a.patient.name}
+                    </Link>{" "}
+                    <span className="tabular">({a.patient.mrn})</span>
+                  </span>
+                </div>
+                <p className="mt-1 text-sm">
+                  {describeAlert({
+                    kind: a.kind,
+                    band: a.band,
+                    spo2: a.worstSpo2 ?? a.triggerSpo2,
+                    limitsAtMax: a.detail.limitsAtMax as string[] | undefined,
+                    overdueMinutes: a.detail.overdueMinutes as number | undefined,
+                  })}
+                </p>
+                <dl className="mt-2 grid grid-cols-[auto_1fr] gap-x-3 gap-y-0.5 text-xs text-ink-muted sm:grid-cols-[auto_1fr_auto_1fr]">
+                  <dt>Since</dt>
+                  <dd className="tabular">
+                    {at(a.startedAt, tz)} ({tz})
+                  </dd>
+                  <dt>Opened</dt>
+                  <dd className="tabular">{at(a.openedAt, tz)}</dd>
+                  <dt>Told</dt>
+                  <dd>
+                    {a.notifiedAt
+                      ? `${ESCALATION_LABELS[a.escalationLevel]} (e-mail ${at(a.notifiedAt, tz)})`
+                      : `${ESCALATION_LABELS[a.escalationLevel]} — e-mail not yet delivered`}
+                  </dd>
+                  {a.nextEscalationAt ? (
+                    <>
+                      <dt>Escalates</dt>
+                      <dd className="tabular">
+                        at {at(a.nextEscalationAt, tz)} unless acknowledged
+                      </dd>
+                    </>
+                  ) : null}
+                  {a.acknowledged ? (
+                    <>
+                      <dt>Acknowledged</dt>
+                      <dd>
+                        {a.acknowledged.by}, {at(a.acknowledged.at, tz)}
+                        {a.acknowledged.note ? ` — “${a.acknowledged.note}”` : ""}
+                      </dd>
+                    </>
+                  ) : null}
+                  {a.resolved ? (
+                    <>
+                      <dt>Resolved</dt>
+                      <dd>
+                        {at(a.resolved.at, tz)} — {a.resolved.by ?? "by detection"}
+                        {a.resolved.reason ? `: ${a.resolved.reason}` : ""}
+                      </dd>
+                    </>
+                  ) : null}
+                </dl>
+                {canAct && a.state !== "resolved" ? (
+                  <AlertActions
+                    alertId={a.id}
+                    canAcknowledge={a.state !== "acknowledged"}
+                    onDone={() => void mutate()}
+                  />
+                ) : null}
+              </li>
+            );
+          })}
+        </ul>
+      )}
+    </div>
+  );
+}
