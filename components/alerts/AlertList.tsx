@@ -8,7 +8,12 @@ import { EmptyState } from "@/components/ui/EmptyState";
 import { LoadError } from "@/components/ui/LoadError";
 import { StatusBadge, type Status } from "@/components/ui/StatusBadge";
 import { describeAlert } from "@/lib/alerts/email";
-import { ALERT_KIND_LABELS, ALERT_STATE_LABELS, ESCALATION_LABELS } from "@/lib/alerts/kinds";
+import {
+  ALERT_KIND_LABELS,
+  ALERT_STATE_LABELS,
+  ESCALATION_DUTIES,
+  ESCALATION_LABELS,
+} from "@/lib/alerts/kinds";
 import type { AlertView } from "@/lib/alerts/queries";
 import { AlertActions } from "./AlertActions";
 
@@ -142,9 +147,11 @@ export function AlertList({
                   <dd className="tabular">{at(a.openedAt, tz)}</dd>
                   <dt>Told</dt>
                   <dd>
-                    {a.notifiedAt
-                      ? `${ESCALATION_LABELS[a.escalationLevel]} (e-mail ${at(a.notifiedAt, tz)})`
-                      : `${ESCALATION_LABELS[a.escalationLevel]} — e-mail not yet delivered`}
+                    {a.detail.unassignedLevel === a.escalationLevel
+                      ? `no ${ESCALATION_DUTIES[a.escalationLevel]} assigned to this bed on this shift${a.nextEscalationAt ? " — it escalates unless acknowledged" : ""}`
+                      : a.notifiedAt
+                        ? `${ESCALATION_LABELS[a.escalationLevel]} (e-mail ${at(a.notifiedAt, tz)})`
+                        : `${ESCALATION_LABELS[a.escalationLevel]} — e-mail not yet delivered`}
                   </dd>
                   {a.nextEscalationAt ? (
                     <>

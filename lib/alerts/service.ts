@@ -156,6 +156,7 @@ async function openAlert(
   });
   const alertId = Number(id);
   const mail = await queueAlertMail(trx, alertId, spec.level, "notify", now);
+  await noteUnassigned(trx, alertId, spec.level, mail.recipients.length === 0);
   await appendLedger(
     trx,
     actor,
@@ -181,6 +182,27 @@ async function openAlert(
     now,
   );
   return alertId;
+}
+
+/**
+ * Records on the alert whether anyone holds the duty this level reaches, so
+ * the screens can say "no nurse assigned" instead of "e-mail not yet delivered".
+ */
+async function noteUnassigned(
+  trx: Knex.Transaction,
+  alertId: number,
+  level: number,
+  unassigned: boolean,
+) {
+  const row = (await trx("alerts").where({ id: alertId }).first("detail_json")) as {
+    detail_json: string;
+  };
+  const detail = JSON.parse(row.detail_json) as Record<string, unknown>;
+  await trx("alerts")
+    .where({ id: alertId })
+    .update({
+      detail_json: JSON.stringify({ ...detail, unassignedLevel: unassigned ? level : null }),
+    });
 }
 
 async function closeAlert(
@@ -663,6 +685,7 @@ export async function escalateDueAlerts(
           version: a.version + 1,
         });
       const mail = await queueAlertMail(trx, id, level, `escalate-${level}`, now);
+      await noteUnassigned(trx, id, level, mail.recipients.length === 0);
       await appendLedger(
         trx,
         SYSTEM_ACTOR,

@@ -447,6 +447,20 @@ describe("limits, reassessment and closing by hand", () => {
     });
   });
 
+  it("says when nobody holds the duty, and escalates anyway", async () => {
+    const { patientId, bedId } = await assignedPatient();
+    await appDb()("care_assignments").where({ bed_id: bedId, duty: "nurse" }).delete();
+    const t0 = new Date();
+    await chartLow(patientId, 89, t0);
+    const [alert] = await openAlertsOf(patientId);
+    expect(alert!.detail.unassignedLevel).toBe(0);
+    expect(await appDb()("mail_outbox").where({ alert_id: alert!.id }).count({ n: "*" })).toEqual([{ n: 0 }]);
+    await runAlertWork(appDb(), sender(), new Date(t0.getTime() + 10 * MIN + 1000), cfg);
+    expect(mailsFor(alert!.id).map((m) => m.to[0])).toEqual([therapist.email]);
+    const [after] = await openAlertsOf(patientId);
+    expect(after).toMatchObject({ escalationLevel: 1, detail: { unassignedLevel: null } });
+  });
+
   it("does not e-mail a user who turned e-mail off for that kind, and still shows the alert", async () => {
     const before = await getEmailPreferences(appDb(), nurse.id);
     await setEmailPreferences(appDb(), nurse, { ...before, below_band: false });
