@@ -53,7 +53,13 @@ describe("ledger words", () => {
     expect(actionLabel("order.archive")).toBe("order.archive");
     expect(entityLabel("blood_gas")).toBe("Blood gas");
     expect(roleLabel("therapist")).toBe("Respiratory therapist");
-    expect(roleLabel("system")).toBe("system");
+    expect(roleLabel("auditor")).toBe("auditor");
+  });
+
+  it("names the writers that are not people: the system and interface tokens", () => {
+    expect(roleLabel("system")).toBe("Tidemark (automatic)");
+    expect(roleLabel("interface")).toBe("Interface (API token)");
+    expect(actionLabel("alert.escalate")).toBe("Alert escalated");
   });
 
   it("says whether the chain is intact, or where and why it breaks", () => {
