@@ -15,9 +15,11 @@ function navFor(role: Role): NavItem[] {
   const items: NavItem[] = [{ href: "/board", label: "Board" }];
   if (role === "physician") items.push({ href: "/orders/cosign", label: "Co-sign" });
   items.push({ href: "/ledger", label: "Ledger" });
+  if (role === "therapist" || role === "admin") items.push({ href: "/imports", label: "Uploads" });
   if (role === "admin") {
     items.push({ href: "/admin/users", label: "Users" });
     items.push({ href: "/admin/step-tables", label: "Step tables" });
+    items.push({ href: "/admin/api-tokens", label: "API tokens" });
   }
   return items;
 }

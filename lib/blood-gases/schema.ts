@@ -8,11 +8,31 @@ const optional = (schema: z.ZodNumber) =>
     schema.optional(),
   );
 
-const between = (label: string, min: number, max: number, unit: string) =>
-  z
+/**
+ * The accepted range of each blood gas value, in the unit it is stored in.
+ * Shared by the form, the server and the file imports (lib/imports).
+ */
+export const BLOOD_GAS_RANGES = {
+  ph: { label: "pH", min: 6.5, max: 8, unit: "" },
+  pao2: { label: "PaO2", min: 10, max: 700, unit: "mmHg" },
+  paco2: { label: "PaCO2", min: 10, max: 150, unit: "mmHg" },
+  hco3: { label: "HCO3", min: 2, max: 60, unit: "mmol/L" },
+  baseExcess: { label: "Base excess", min: -30, max: 30, unit: "mmol/L" },
+  sao2: { label: "SaO2", min: 40, max: 100, unit: "%" },
+  hemoglobin: { label: "Haemoglobin", min: 3, max: 25, unit: "g/dL" },
+  flow: { label: "Flow", min: 0.5, max: 70, unit: "L/min" },
+  fio2: { label: "FiO2", min: 0.21, max: 1, unit: "" },
+  peep: { label: "PEEP", min: 0, max: 30, unit: "cmH2O" },
+} as const;
+export type BloodGasRangeKey = keyof typeof BLOOD_GAS_RANGES;
+
+const between = (key: BloodGasRangeKey) => {
+  const { label, min, max, unit } = BLOOD_GAS_RANGES[key];
+  return z
     .number({ error: `${label} must be a number between ${min} and ${max} ${unit}.` })
     .min(min, `${label} must be between ${min} and ${max} ${unit}.`)
     .max(max, `${label} must be between ${min} and ${max} ${unit}.`);
+};
 
 /**
  * One blood gas, pressures in mmHg and haemoglobin in g/dL (the form converts
@@ -22,17 +42,17 @@ export const bloodGasSchema = z.object({
   patientId: z.number().int().positive(),
   sampledAt: z.coerce.date({ error: "Time sampled must be a date and time." }),
   sampleType: z.enum(["arterial", "venous"], { error: "Sample type must be arterial or venous." }),
-  ph: optional(between("pH", 6.5, 8, "")),
-  pao2: between("PaO2", 10, 700, "mmHg"),
-  paco2: between("PaCO2", 10, 150, "mmHg"),
-  hco3: optional(between("HCO3", 2, 60, "mmol/L")),
-  baseExcess: optional(between("Base excess", -30, 30, "mmol/L")),
-  sao2: optional(between("SaO2", 40, 100, "%")),
-  hemoglobin: optional(between("Haemoglobin", 3, 25, "g/dL")),
+  ph: optional(between("ph")),
+  pao2: between("pao2"),
+  paco2: between("paco2"),
+  hco3: optional(between("hco3")),
+  baseExcess: optional(between("baseExcess")),
+  sao2: optional(between("sao2")),
+  hemoglobin: optional(between("hemoglobin")),
   device: z.enum(DEVICES, { error: "Choose the device in use at sampling." }),
-  flow: optional(between("Flow", 0.5, 70, "L/min")),
-  fio2: optional(between("FiO2", 0.21, 1, "")),
-  peep: optional(between("PEEP", 0, 30, "cmH2O")),
+  flow: optional(between("flow")),
+  fio2: optional(between("fio2")),
+  peep: optional(between("peep")),
   idempotencyKey: idempotencyKeySchema,
 });
 export type BloodGasInput = z.input<typeof bloodGasSchema>;

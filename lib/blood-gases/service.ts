@@ -11,7 +11,7 @@ import {
   ENGINE_VERSION,
   type BloodGasAssessment,
 } from "../oxygen";
-import { findOpenAdmission } from "../patients/access";
+import { findOpenAdmission, type OpenAdmission } from "../patients/access";
 import { resolveFio2 } from "../readings/service";
 import { parseInput } from "../validation";
 import { bloodGasSchema, type BloodGasInput } from "./schema";
@@ -33,6 +33,112 @@ export type BloodGasView = {
   engineVersion: string;
 };
 
+/** One blood gas as stored: pressures in mmHg, haemoglobin in g/dL, saturations in %. */
+export type BloodGasValues = {
+  patientId: number;
+  sampledAt: Date;
+  sampleType: "arterial" | "venous";
+  ph?: number | undefined;
+  pao2: number;
+  paco2: number;
+  hco3?: number | undefined;
+  baseExcess?: number | undefined;
+  sao2?: number | undefined;
+  hemoglobin?: number | undefined;
+  device: Device;
+  flow?: number | undefined;
+  fio2?: number | undefined;
+  peep?: number | undefined;
+};
+
+/** What the engine makes of a blood gas before it is stored. */
+export type EvaluatedBloodGas = {
+  fio2: number;
+  fio2Estimated: boolean;
+  barometricPressure: number;
+  assessment: BloodGasAssessment | null;
+};
+
+/**
+ * Resolves the FiO2 in use and computes the oxygenation indices of an arterial
+ * sample at the unit's altitude. The one engine path for typed and imported
+ * gases; throws ValidationError / OxygenInputError naming the field.
+ */
+export function evaluateBloodGas(values: BloodGasValues, altitudeM: number): EvaluatedBloodGas {
+  const { fio2, estimated } = resolveFio2(values.device, values.flow, values.fio2);
+  const barometricPressure = Math.round(barometricPressureAtAltitude(altitudeM) * 10) / 10;
+  const assessment =
+    values.sampleType === "arterial"
+      ? assessBloodGas({
+          fio2,
+          pao2: values.pao2,
+          paco2: values.paco2,
+          barometricPressure,
+          support: RESPIRATORY_SUPPORT[values.device],
+          ...(values.hemoglobin !== undefined ? { hemoglobin: values.hemoglobin } : {}),
+          ...(values.sao2 !== undefined ? { sao2: values.sao2 / 100 } : {}),
+          ...(values.peep !== undefined ? { peep: values.peep } : {}),
+          ...(values.flow !== undefined && values.device === "hfnc" ? { flow: values.flow } : {}),
+        })
+      : null;
+  return { fio2, fio2Estimated: estimated, barometricPressure, assessment };
+}
+
+/**
+ * Inserts one evaluated blood gas inside the caller's transaction. The caller
+ * writes the ledger row (one per gas when typed, one per import otherwise).
+ */
+export async function insertBloodGas(
+  trx: Knex.Transaction,
+  admission: Pick<OpenAdmission, "admissionId">,
+  values: BloodGasValues,
+  evaluated: EvaluatedBloodGas,
+  provenance: { recordedBy: number | null; importId: number | null },
+): Promise<BloodGasView> {
+  const { fio2, fio2Estimated, barometricPressure, assessment } = evaluated;
+  const round1 = (v: number | undefined) => (v === undefined ? null : Math.round(v * 10) / 10);
+  const [id] = await trx("blood_gases").insert({
+    patient_id: values.patientId,
+    admission_id: admission.admissionId,
+    sampled_at: values.sampledAt,
+    sample_type: values.sampleType,
+    ph: values.ph ?? null,
+    pao2_mmhg: values.pao2,
+    paco2_mmhg: values.paco2,
+    hco3_mmol_l: values.hco3 ?? null,
+    base_excess_mmol_l: values.baseExcess ?? null,
+    sao2_pct: values.sao2 ?? null,
+    hb_g_dl: values.hemoglobin ?? null,
+    device: values.device,
+    fio2,
+    fio2_estimated: fio2Estimated,
+    peep_cmh2o: values.peep ?? null,
+    barometric_pressure_mmhg: barometricPressure,
+    pf_ratio: round1(assessment?.indices.pfRatio.value),
+    aa_gradient_mmhg: round1(assessment?.indices.alveolarArterialGradient.value),
+    cao2_ml_dl: round1(assessment?.indices.oxygenContent?.total.value),
+    indices_json: JSON.stringify(assessment),
+    engine_version: ENGINE_VERSION,
+    recorded_by: provenance.recordedBy,
+    import_id: provenance.importId,
+  });
+  return {
+    id: Number(id),
+    patientId: values.patientId,
+    sampledAt: values.sampledAt.toISOString(),
+    sampleType: values.sampleType,
+    pao2: values.pao2,
+    paco2: values.paco2,
+    fio2,
+    fio2Estimated,
+    peep: values.peep ?? null,
+    device: values.device,
+    barometricPressure,
+    assessment,
+    engineVersion: ENGINE_VERSION,
+  };
+}
+
 /** Records a blood gas and stores its computed indices with the engine version. */
 export async function recordBloodGas(
   knex: Knex,
@@ -51,64 +157,13 @@ export async function recordBloodGas(
     });
   }
   const admission = await findOpenAdmission(knex, actor, input.patientId);
-  const { fio2, estimated } = resolveFio2(input.device, input.flow, input.fio2);
-  const barometricPressure =
-    Math.round(barometricPressureAtAltitude(admission.altitudeM) * 10) / 10;
-  const assessment =
-    input.sampleType === "arterial"
-      ? assessBloodGas({
-          fio2,
-          pao2: input.pao2,
-          paco2: input.paco2,
-          barometricPressure,
-          support: RESPIRATORY_SUPPORT[input.device],
-          ...(input.hemoglobin !== undefined ? { hemoglobin: input.hemoglobin } : {}),
-          ...(input.sao2 !== undefined ? { sao2: input.sao2 / 100 } : {}),
-          ...(input.peep !== undefined ? { peep: input.peep } : {}),
-          ...(input.flow !== undefined && input.device === "hfnc" ? { flow: input.flow } : {}),
-        })
-      : null;
+  const evaluated = evaluateBloodGas(input, admission.altitudeM);
   return once(knex, actor.id, input.idempotencyKey, "blood_gas.record", async (trx) => {
-    const round1 = (v: number | undefined) => (v === undefined ? null : Math.round(v * 10) / 10);
-    const [id] = await trx("blood_gases").insert({
-      patient_id: input.patientId,
-      admission_id: admission.admissionId,
-      sampled_at: input.sampledAt,
-      sample_type: input.sampleType,
-      ph: input.ph ?? null,
-      pao2_mmhg: input.pao2,
-      paco2_mmhg: input.paco2,
-      hco3_mmol_l: input.hco3 ?? null,
-      base_excess_mmol_l: input.baseExcess ?? null,
-      sao2_pct: input.sao2 ?? null,
-      hb_g_dl: input.hemoglobin ?? null,
-      device: input.device,
-      fio2,
-      fio2_estimated: estimated,
-      peep_cmh2o: input.peep ?? null,
-      barometric_pressure_mmhg: barometricPressure,
-      pf_ratio: round1(assessment?.indices.pfRatio.value),
-      aa_gradient_mmhg: round1(assessment?.indices.alveolarArterialGradient.value),
-      cao2_ml_dl: round1(assessment?.indices.oxygenContent?.total.value),
-      indices_json: JSON.stringify(assessment),
-      engine_version: ENGINE_VERSION,
-      recorded_by: actor.id,
+    const view = await insertBloodGas(trx, admission, input, evaluated, {
+      recordedBy: actor.id,
+      importId: null,
     });
-    const view: BloodGasView = {
-      id: Number(id),
-      patientId: input.patientId,
-      sampledAt: input.sampledAt.toISOString(),
-      sampleType: input.sampleType,
-      pao2: input.pao2,
-      paco2: input.paco2,
-      fio2,
-      fio2Estimated: estimated,
-      peep: input.peep ?? null,
-      device: input.device,
-      barometricPressure,
-      assessment,
-      engineVersion: ENGINE_VERSION,
-    };
+    const { assessment } = view;
     await appendLedger(
       trx,
       actor,

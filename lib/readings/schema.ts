@@ -8,6 +8,12 @@ const optional = (schema: z.ZodNumber) =>
     schema.optional(),
   );
 
+/** Accepted ranges of a reading's numbers; shared with the monitor imports (lib/imports). */
+export const READING_RANGES = {
+  spo2: { label: "SpO2", min: 50, max: 100, unit: "%" },
+  pulseRate: { label: "Pulse rate", min: 20, max: 250, unit: "/min" },
+} as const;
+
 /** One charted observation: SpO2 with the device and oxygen in use. */
 export const readingSchema = z.object({
   patientId: z.number().int().positive(),

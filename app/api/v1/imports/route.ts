@@ -1,0 +1,59 @@
+import { NextResponse } from "next/server";
+import { requireRole } from "@/lib/auth/guard";
+import { db } from "@/lib/db";
+import { DomainError } from "@/lib/errors";
+import { handleRoute } from "@/lib/http";
+import { listImports } from "@/lib/imports/queries";
+import { IMPORT_ROLES, MAX_IMPORT_BYTES, uploadForPreview } from "@/lib/imports/service";
+
+/** The latest imports of the caller's units. */
+export function GET() {
+  return handleRoute(async () => {
+    const actor = await requireRole(...IMPORT_ROLES);
+    return NextResponse.json({ imports: await listImports(db(), actor) });
+  });
+}
+
+const field = (form: FormData, name: string) => {
+  const v = form.get(name);
+  return typeof v === "string" ? v : undefined;
+};
+
+/**
+ * Upload for preview (multipart: file, kind, unitId, delimiter, mrn, bed).
+ * The file is stored and checked; nothing is imported until it is confirmed.
+ */
+export function POST(request: Request) {
+  return handleRoute(async () => {
+    const actor = await requireRole(...IMPORT_ROLES);
+    const declared = Number(request.headers.get("content-length") ?? "0");
+    if (declared > MAX_IMPORT_BYTES.monitor_csv + 64 * 1024) {
+      throw new DomainError(`The upload is larger than ${MAX_IMPORT_BYTES.monitor_csv / 1024 / 1024} MB.`, 413);
+    }
+    let form: FormData;
+    try {
+      form = await request.formData();
+    } catch {
+      throw new DomainError("Send the file as multipart/form-data.", 400);
+    }
+    const file = form.get("file");
+    if (!(file instanceof Blob)) {
+      throw new DomainError("Choose a file to upload.", 400, { file: ["Choose a file to upload."] });
+    }
+    const content = Buffer.from(await file.arrayBuffer());
+    const preview = await uploadForPreview(
+      db(),
+      actor,
+      {
+        kind: field(form, "kind") as "hl7",
+        unitId: field(form, "unitId") as unknown as number,
+        fileName: file instanceof File ? file.name : "upload",
+        delimiter: (field(form, "delimiter") ?? ",") as ",",
+        mrn: field(form, "mrn") || undefined,
+        bed: field(form, "bed") || undefined,
+      },
+      content,
+    );
+    return NextResponse.json({ import: preview }, { status: preview.alreadyImported ? 200 : 201 });
+  });
+}

@@ -1,0 +1,141 @@
+"use client";
+
+import { zodResolver } from "@hookform/resolvers/zod";
+import { useRouter } from "next/navigation";
+import { useState } from "react";
+import { Controller, useForm, type Resolver } from "react-hook-form";
+import { createApiTokenAction } from "@/app/(app)/admin/api-tokens/actions";
+import { useHydrated } from "@/components/bedside/BedsideFormParts";
+import { Button } from "@/components/ui/Button";
+import { Field, inputClasses } from "@/components/ui/Field";
+import { apiTokenCreateSchema, type ApiTokenScope } from "@/lib/api-tokens/schema";
+
+type Values = { name: string; scope: ApiTokenScope; unitIds: number[] };
+const FIELDS = ["name", "scope", "unitIds"] as const;
+
+/** Create a token; the secret is shown once, with a way to copy it. */
+export function ApiTokenForm({ units }: { units: { id: number; label: string }[] }) {
+  const router = useRouter();
+  const hydrated = useHydrated();
+  const [formError, setFormError] = useState<string | null>(null);
+  const [created, setCreated] = useState<{ name: string; token: string } | null>(null);
+  const [copied, setCopied] = useState(false);
+  const {
+    register,
+    control,
+    handleSubmit,
+    setError,
+    reset,
+    formState: { errors, isSubmitting },
+  } = useForm<Values>({
+    resolver: zodResolver(apiTokenCreateSchema) as unknown as Resolver<Values>,
+    defaultValues: { name: "", scope: "write", unitIds: [] },
+  });
+
+  const onSubmit = handleSubmit(async (values) => {
+    setFormError(null);
+    setCopied(false);
+    const result = await createApiTokenAction(values);
+    if (!result.ok) {
+      setFormError(result.message);
+      for (const [path, messages] of Object.entries(result.fieldErrors ?? {})) {
+        const field = FIELDS.find((f) => f === path);
+        if (field) setError(field, { type: "server", message: messages.join(" ") });
+      }
+      return;
+    }
+    setCreated({ name: result.data.summary.name, token: result.data.token });
+    reset();
+    router.refresh();
+  });
+
+  return (
+    <div className="space-y-3">
+      {created ? (
+        <div role="alert" className="space-y-2 rounded-card border border-in-band/50 bg-in-band-soft p-4">
+          <p className="text-sm font-medium">
+            Token “{created.name}” created. Copy it now: it is shown only this once and cannot be recovered.
+          </p>
+          <div className="flex flex-wrap items-center gap-2">
+            <code className="break-all rounded bg-surface px-2 py-1 font-mono text-sm" data-testid="new-token">
+              {created.token}
+            </code>
+            <Button
+              variant="secondary"
+              onClick={() => {
+                void navigator.clipboard?.writeText(created.token).then(() => setCopied(true));
+              }}
+            >
+              {copied ? "Copied" : "Copy"}
+            </Button>
+            <Button variant="ghost" onClick={() => setCreated(null)}>
+              Done, hide it
+            </Button>
+          </div>
+        </div>
+      ) : null}
+      <form
+        onSubmit={onSubmit}
+        noValidate
+        data-ready={hydrated ? "true" : undefined}
+        className="rounded-card border border-border bg-surface p-5 shadow-card"
+        aria-labelledby="new-token-title"
+      >
+        <h2 id="new-token-title" className="mb-3 text-lg font-semibold">
+          New token
+        </h2>
+        <fieldset disabled={!hydrated} className="min-w-0 space-y-3">
+          <div className="grid gap-x-4 sm:grid-cols-2">
+            <Field id="token-name" label="Name" hint="Which interface engine or device uses it." error={errors.name?.message}>
+              {(d, invalid) => <input id="token-name" className={inputClasses} aria-invalid={invalid} aria-describedby={d} {...register("name")} />}
+            </Field>
+            <Field id="token-scope" label="Scope" error={errors.scope?.message}>
+              {(d, invalid) => (
+                <select id="token-scope" className={inputClasses} aria-invalid={invalid} aria-describedby={d} {...register("scope")}>
+                  <option value="write">Write (send imports)</option>
+                  <option value="read">Read only</option>
+                </select>
+              )}
+            </Field>
+          </div>
+          <Controller
+            control={control}
+            name="unitIds"
+            render={({ field }) => (
+              <fieldset aria-describedby={errors.unitIds ? "token-units-error" : undefined}>
+                <legend className="text-sm font-medium">Units</legend>
+                <div className="mt-1 flex flex-wrap gap-4">
+                  {units.map((u) => (
+                    <label key={u.id} className="flex items-center gap-2 text-sm">
+                      <input
+                        type="checkbox"
+                        className="size-4 accent-accent"
+                        checked={field.value.includes(u.id)}
+                        onChange={(e) =>
+                          field.onChange(e.target.checked ? [...field.value, u.id] : field.value.filter((x) => x !== u.id))
+                        }
+                        onBlur={field.onBlur}
+                      />
+                      {u.label}
+                    </label>
+                  ))}
+                </div>
+                <p id="token-units-error" className="min-h-4 text-xs font-medium text-below" aria-live="polite">
+                  {errors.unitIds?.message ?? ""}
+                </p>
+              </fieldset>
+            )}
+          />
+          <div className="flex flex-wrap items-center gap-3">
+            <Button type="submit" disabled={isSubmitting}>
+              {isSubmitting ? "Creating…" : "Create token"}
+            </Button>
+            <p role="status" aria-live="polite" className="text-sm">
+              {formError ? <span className="font-medium text-below">{formError}</span> : null}
+            </p>
+          </div>
+        </fieldset>
+      </form>
+    </div>
+  );
+}

@@ -1,0 +1,30 @@
+import { z } from "zod";
+
+// One schema per write, shared by the admin form and the server.
+
+export const API_TOKEN_SCOPES = ["read", "write"] as const;
+export type ApiTokenScope = (typeof API_TOKEN_SCOPES)[number];
+
+export const apiTokenCreateSchema = z.object({
+  name: z
+    .string()
+    .trim()
+    .min(3, "Name must be 3 to 120 characters.")
+    .max(120, "Name must be 3 to 120 characters."),
+  scope: z.enum(API_TOKEN_SCOPES, { error: "Scope must be read or write." }),
+  unitIds: z
+    .array(z.number().int().positive())
+    .min(1, "Choose at least one unit.")
+    .max(50, "At most 50 units."),
+});
+export type ApiTokenCreateInput = z.input<typeof apiTokenCreateSchema>;
+
+export const apiTokenRevokeSchema = z.object({
+  id: z.number().int().positive(),
+  rationale: z
+    .string()
+    .trim()
+    .min(3, "Give a reason of 3 to 500 characters; it is recorded in the ledger.")
+    .max(500, "Give a reason of 3 to 500 characters; it is recorded in the ledger."),
+});
+export type ApiTokenRevokeInput = z.input<typeof apiTokenRevokeSchema>;
