@@ -28,7 +28,7 @@ const dateOnly = (d: Date): string => d.toISOString().slice(0, 10);
  */
 export async function loadFhirRecord(
   knex: Knex,
-  actor: Actor,
+  actor: Pick<Actor, "unitIds">,
   patientId: number,
   since?: Date,
 ): Promise<FhirPatientRecord> {
@@ -168,7 +168,7 @@ export async function loadFhirRecord(
  */
 export async function exportPatientFhir(
   knex: Knex,
-  actor: Actor,
+  actor: Pick<Actor, "unitIds">,
   patientId: number,
   options: { installation: string; exportedAt?: Date; since?: Date },
 ): Promise<{ bundle: fhir4.Bundle; mrn: string }> {

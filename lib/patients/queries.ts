@@ -25,7 +25,11 @@ export type ChartPatient = {
  * is not admitted, or lies on another unit is the same NotFoundError, so the
  * answer does not reveal which.
  */
-export async function getPatientForActor(knex: Knex, actor: Actor, patientId: number): Promise<ChartPatient> {
+export async function getPatientForActor(
+  knex: Knex,
+  actor: Pick<Actor, "unitIds">,
+  patientId: number,
+): Promise<ChartPatient> {
   if (actor.unitIds.length === 0) throw new NotFoundError();
   const row = (await knex("patients as p")
     .join("admissions as a", "a.patient_id", "p.id")

@@ -3,6 +3,7 @@ import { readFileSync } from "node:fs";
 import { afterAll, describe, expect, it } from "vitest";
 import { POST as postHl7 } from "@/app/api/v1/imports/hl7/route";
 import { POST as postMonitor } from "@/app/api/v1/imports/monitor/route";
+import { GET as getFhir } from "@/app/api/v1/patients/[patientId]/fhir/route";
 import { createApiToken, revokeApiToken } from "@/lib/api-tokens/service";
 import { listApiTokens } from "@/lib/api-tokens/queries";
 import { closeDb } from "@/lib/db";
@@ -185,6 +186,30 @@ describe("API tokens", () => {
     expect(hidden.status).toBe(422);
     expect((await json(hidden)).error?.fieldErrors?.["OBR 1"]).toEqual([`MRN ${p.mrn} is not an admitted patient on RESP.`]);
     expect(await appDb()("blood_gases").where({ patient_id: p.patientId }).first()).toBeUndefined();
+  });
+
+  it("lets a read token export a patient of its units as FHIR, and no other unit's", async () => {
+    const p = await patientOnHfnc();
+    const get = (secret: string) =>
+      getFhir(
+        new Request(`http://127.0.0.1/api/v1/patients/${p.patientId}/fhir`, {
+          headers: { authorization: `Bearer ${secret}` },
+        }),
+        { params: Promise.resolve({ patientId: String(p.patientId) }) },
+      );
+    const { token: reader } = await token("read");
+    const ok = await get(reader);
+    expect(ok.status).toBe(200);
+    expect(ok.headers.get("content-type")).toContain("application/fhir+json");
+    const bundle = (await ok.json()) as { resourceType: string; entry: { resource: { resourceType: string } }[] };
+    expect(bundle.resourceType).toBe("Bundle");
+    expect(bundle.entry.map((e) => e.resource.resourceType)).toContain("ServiceRequest");
+    const { token: respOnly } = await token("read", ["RESP"]);
+    expect((await get(respOnly)).status).toBe(404);
+    const admin = await actorByEmail(SEEDED.admin);
+    const { token: revoked, summary } = await token("read");
+    await revokeApiToken(appDb(), admin, { id: summary.id, rationale: "No longer used" });
+    expect((await get(revoked)).status).toBe(401);
   });
 
   it("streams a monitor CSV body into readings for the MRN and bed in the query, once", async () => {

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { authenticateApiToken } from "@/lib/api-tokens/service";
 import { requireRole } from "@/lib/auth/guard";
 import { db } from "@/lib/db";
 import { getEnv } from "@/lib/env";
@@ -20,14 +21,18 @@ const querySchema = z.object({
 /**
  * The patient's current admission as a FHIR R4 Bundle (application/fhir+json):
  * ?since=<ISO time> limits readings, gases and settings; ?download=1 names the file.
- * Errors keep the API's one JSON error shape.
+ * Signed-in users, or an interface engine with an API token (read or write)
+ * covering the patient's unit. Errors keep the API's one JSON error shape.
  */
 export function GET(request: Request, { params }: { params: Promise<{ patientId: string }> }) {
   return handleRoute(async () => {
-    const actor = await requireRole();
+    const authorization = request.headers.get("authorization");
+    const reader = authorization
+      ? { unitIds: (await authenticateApiToken(db(), authorization, "read")).unitIds }
+      : await requireRole();
     const { patientId } = parseInput(idParam("patientId"), await params) as { patientId: number };
     const query = parseInput(querySchema, Object.fromEntries(new URL(request.url).searchParams));
-    const { bundle, mrn } = await exportPatientFhir(db(), actor, patientId, {
+    const { bundle, mrn } = await exportPatientFhir(db(), reader, patientId, {
       installation: getEnv().NEXTAUTH_URL,
       ...(query.since ? { since: query.since } : {}),
     });
