@@ -15,20 +15,10 @@ import {
   ESCALATION_LABELS,
 } from "@/lib/alerts/kinds";
 import type { AlertView } from "@/lib/alerts/queries";
+import { formatUnitTime as at } from "@/components/bedside/BedsideFormParts";
 import { AlertActions } from "./AlertActions";
 
 export const ALERT_LIST_REFRESH_MS = 15_000;
-
-function at(iso: string, timeZone: string): string {
-  return new Intl.DateTimeFormat("en-GB", {
-    timeZone,
-    day: "2-digit",
-    month: "short",
-    hour: "2-digit",
-    minute: "2-digit",
-    hourCycle: "h23",
-  }).format(new Date(iso));
-}
 
 function statusOf(a: AlertView): { status: Status; label: string } {
   if (a.state === "resolved") return { status: "in-band", label: "Resolved" };
