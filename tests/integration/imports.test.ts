@@ -382,6 +382,39 @@ describe("monitor CSV", () => {
     });
   });
 
+  it("feeds imported monitor readings to alert detection: a 30 s dip pages nobody, a 90 s one opens an alert", async () => {
+    const p = await patientOnHfnc();
+    const therapist = await actorByEmail(SEEDED.therapist);
+    const start = Date.parse("2026-11-20T09:00:00Z");
+    // 1 Hz: 60 s in band, a 30 s dip to 86 %, 60 s in band, then 90 s at 89 %.
+    const values = [
+      ...Array<number>(60).fill(94),
+      ...Array<number>(30).fill(86),
+      ...Array<number>(60).fill(94),
+      ...Array<number>(90).fill(89),
+    ];
+    const csv = ["time,spo2", ...values.map((v, i) => `${new Date(start + i * 1000).toISOString()},${v}`)].join("\n");
+    const preview = await uploadForPreview(
+      appDb(),
+      therapist,
+      upload("monitor_csv", p.unitId, "dips.csv", { mrn: p.mrn, bed: p.bed }),
+      Buffer.from(csv, "utf8"),
+      NOW,
+    );
+    await confirmImport(appDb(), therapist, { importId: preview.id, expectedAccepted: values.length }, NOW);
+    const alerts = (await appDb()("alerts")
+      .where({ patient_id: p.patientId })
+      .select("kind", "state", "started_at", "trigger_spo2_pct")) as Record<string, unknown>[];
+    expect(alerts).toEqual([
+      {
+        kind: "below_band",
+        state: "opened",
+        started_at: new Date(start + 150_000),
+        trigger_spo2_pct: 89,
+      },
+    ]);
+  });
+
   it("lists bad monitor rows — out of range, missing, fraction in %, bad pulse, duplicate time, future — and an overlapping file's stored times as duplicates", async () => {
     const p = await patientOnHfnc();
     const therapist = await actorByEmail(SEEDED.therapist);
