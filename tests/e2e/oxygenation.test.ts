@@ -149,7 +149,7 @@ describe("the Chart's blood-gas evaluation", () => {
     try {
       await signInThroughForm(page, PHYSICIAN);
       await page.waitForURL(`${BASE_URL}/board`);
-      await page.getByTestId("board-row").first().getByRole("link").click();
+      await page.getByTestId("board-row").first().getByRole("link", { name: /open the Chart/ }).click();
       await page.waitForURL(/\/patients\/\d+$/);
       await page.getByRole("heading", { level: 2, name: "Evaluate a blood gas" }).waitFor();
       expect(await page.getByTestId("patient-facts").innerText()).toMatch(/MRN[\s\S]*Bed[\s\S]*Unit/);
