@@ -157,7 +157,7 @@ describe("order, adjustment, reading, ledger", () => {
         expect(text).toContain(adjustmentRationale);
         expect(text).toContain("Reading charted");
         await page.getByRole("button", { name: "Verify chain" }).click();
-        await page.getByText(/Chain intact — \d+ rows checked/).waitFor({ timeout: 30_000 });
+        await page.getByText(/Chain intact — [\d,]+ rows checked/).waitFor({ timeout: 30_000 });
         await page.screenshot({ path: `${ARTIFACTS}/story-ledger-day.png`, fullPage: true });
       });
     },
