@@ -213,13 +213,15 @@ async function closeAlert(
   reason: string,
   at: Date,
   now: Date,
+  /** The clinician closing it by hand; null when detection resolves it (the ledger row names whose write did). */
+  closedBy: number | null = null,
 ): Promise<void> {
   await trx("alerts")
     .where({ id: alert.id })
     .update({
       state: "resolved",
       resolved_at: at,
-      resolved_by: actor.id,
+      resolved_by: closedBy,
       resolve_reason: reason,
       next_escalation_at: null,
       version: alert.version + 1,
@@ -237,7 +239,7 @@ async function closeAlert(
       after: {
         state: "resolved",
         resolvedAt: at.toISOString(),
-        by: actor.id === null ? "detection" : "clinician",
+        by: closedBy === null ? "detection" : "clinician",
       },
       rationale: reason,
     },
@@ -629,6 +631,7 @@ export async function resolveAlert(
       input.reason,
       now,
       now,
+      actor.id,
     );
     // An excursion closed by hand starts detection afresh: the next reading out of band opens a new one.
     if (alert.kind === "below_band" || alert.kind === "above_band") {

@@ -236,6 +236,13 @@ describe("an excursion charted at the bedside", () => {
     expect(alert).toMatchObject({ grade: "urgent", worstSpo2: 84 });
     await chartLow(patientId, 94, new Date(t0 + 2 * MIN));
     expect(await openAlertsOf(patientId)).toEqual([]);
+    const [resolved] = await listAlerts(appDb(), nurse, { patientId, status: "resolved" });
+    // Resolved by detection (the nurse's in-band reading), not closed by her hand.
+    expect(resolved!.resolved).toEqual({
+      at: new Date(t0 + 2 * MIN).toISOString(),
+      by: null,
+      reason: "Back in the target band.",
+    });
     expect(await ledgerActions(alert!.id)).toEqual([
       "alert.open",
       "alert.upgrade",
@@ -454,7 +461,9 @@ describe("limits, reassessment and closing by hand", () => {
     await chartLow(patientId, 89, t0);
     const [alert] = await openAlertsOf(patientId);
     expect(alert!.detail.unassignedLevel).toBe(0);
-    expect(await appDb()("mail_outbox").where({ alert_id: alert!.id }).count({ n: "*" })).toEqual([{ n: 0 }]);
+    expect(await appDb()("mail_outbox").where({ alert_id: alert!.id }).count({ n: "*" })).toEqual([
+      { n: 0 },
+    ]);
     await runAlertWork(appDb(), sender(), new Date(t0.getTime() + 10 * MIN + 1000), cfg);
     expect(mailsFor(alert!.id).map((m) => m.to[0])).toEqual([therapist.email]);
     const [after] = await openAlertsOf(patientId);
