@@ -83,30 +83,33 @@ export function AlertActions({
           onSubmit={onAcknowledge}
           noValidate
           aria-label={`Acknowledge alert ${alertId}`}
-          className="space-y-2"
+          className="flex items-start gap-2"
         >
-          <Field
-            id={`${id}-note`}
-            label="Note (optional)"
-            hint="What you are doing about it; kept in the ledger."
-            error={ack.formState.errors.note?.message}
-          >
-            {(d, invalid) => (
-              <input
-                id={`${id}-note`}
-                className={inputClasses}
-                aria-invalid={invalid}
-                aria-describedby={d}
-                {...ack.register("note")}
-              />
-            )}
-          </Field>
-          <Button type="submit" disabled={ack.formState.isSubmitting}>
+          <div className="min-w-0 flex-1">
+            <Field
+              id={`${id}-note`}
+              label="Note (optional)"
+              hint="What you are doing about it; kept in the ledger."
+              error={ack.formState.errors.note?.message}
+            >
+              {(d, invalid) => (
+                <input
+                  id={`${id}-note`}
+                  className={inputClasses}
+                  aria-invalid={invalid}
+                  aria-describedby={d}
+                  {...ack.register("note")}
+                />
+              )}
+            </Field>
+          </div>
+          {/* Level with the input: the label above it is one line of text-sm. */}
+          <Button type="submit" className="mt-6 shrink-0" disabled={ack.formState.isSubmitting}>
             {ack.formState.isSubmitting ? "Acknowledging…" : "Acknowledge"}
           </Button>
         </form>
       ) : null}
-      <details className="rounded-md border border-border p-2">
+      <details className="self-start rounded-md border border-border p-2">
         <summary className="cursor-pointer text-sm font-medium">Close with a reason…</summary>
         <form
           onSubmit={onClose}

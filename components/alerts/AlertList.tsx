@@ -20,6 +20,18 @@ import { AlertActions } from "./AlertActions";
 
 export const ALERT_LIST_REFRESH_MS = 15_000;
 
+/** Who has been told at the current level, and whether their e-mail went out. */
+function toldText(a: AlertView): string {
+  const level = ESCALATION_LABELS[a.escalationLevel] ?? "care team";
+  if (a.detail.unassignedLevel === a.escalationLevel)
+    return `no ${ESCALATION_DUTIES[a.escalationLevel]} assigned to this bed on this shift${a.nextEscalationAt ? " — it escalates unless acknowledged" : ""}`;
+  // The current level's e-mail went out after the alert reached that level.
+  const since = a.escalatedAt ?? a.openedAt;
+  if (a.lastMailAt && a.lastMailAt >= since)
+    return `${level} (e-mail ${at(a.lastMailAt, a.unit.timeZone)})`;
+  return `${level} — e-mail not yet delivered`;
+}
+
 function statusOf(a: AlertView): { status: Status; label: string } {
   if (a.state === "resolved") return { status: "in-band", label: "Resolved" };
   if (a.state === "acknowledged") return { status: "neutral", label: "Acknowledged" };
@@ -136,13 +148,7 @@ export function AlertList({
                   <dt>Opened</dt>
                   <dd className="tabular">{at(a.openedAt, tz)}</dd>
                   <dt>Told</dt>
-                  <dd>
-                    {a.detail.unassignedLevel === a.escalationLevel
-                      ? `no ${ESCALATION_DUTIES[a.escalationLevel]} assigned to this bed on this shift${a.nextEscalationAt ? " — it escalates unless acknowledged" : ""}`
-                      : a.notifiedAt
-                        ? `${ESCALATION_LABELS[a.escalationLevel]} (e-mail ${at(a.notifiedAt, tz)})`
-                        : `${ESCALATION_LABELS[a.escalationLevel]} — e-mail not yet delivered`}
-                  </dd>
+                  <dd>{toldText(a)}</dd>
                   {a.nextEscalationAt ? (
                     <>
                       <dt>Escalates</dt>

@@ -22,6 +22,8 @@ export type AlertView = {
   openedAt: string;
   notifiedAt: string | null;
   escalatedAt: string | null;
+  /** When the relay last accepted an e-mail about this alert (any level). */
+  lastMailAt: string | null;
   nextEscalationAt: string | null;
   acknowledged: { at: string; by: string; note: string | null } | null;
   resolved: { at: string; by: string | null; reason: string | null } | null;
@@ -52,6 +54,7 @@ type Row = {
   opened_at: Date;
   notified_at: Date | null;
   escalated_at: Date | null;
+  last_mail_at: Date | null;
   next_escalation_at: Date | null;
   acknowledged_at: Date | null;
   acknowledged_by_name: string | null;
@@ -86,6 +89,7 @@ function toView(r: Row): AlertView {
     openedAt: iso(r.opened_at)!,
     notifiedAt: iso(r.notified_at),
     escalatedAt: iso(r.escalated_at),
+    lastMailAt: iso(r.last_mail_at),
     nextEscalationAt: iso(r.next_escalation_at),
     acknowledged: r.acknowledged_at
       ? { at: iso(r.acknowledged_at)!, by: r.acknowledged_by_name ?? "—", note: r.acknowledge_note }
@@ -152,9 +156,20 @@ export async function listAlerts(knex: Knex, actor: Actor, raw: unknown): Promis
   if (f.unitId) q.where("a.unit_id", f.unitId);
   if (f.patientId) q.where("a.patient_id", f.patientId);
   const rows = (await q
+    .select(
+      knex.raw(
+        "(SELECT MAX(m.sent_at) FROM mail_outbox AS m WHERE m.alert_id = a.id AND m.state = 'sent') AS last_mail_at",
+      ),
+    )
+    // What needs someone now comes first: waiting for acknowledgement, urgent,
+    // furthest escalated, the physician-level kinds before the routine ones.
     .orderByRaw("a.state = 'resolved'")
     .orderByRaw("a.state = 'acknowledged'")
     .orderByRaw("a.grade = 'urgent' DESC")
+    .orderBy("a.escalation_level", "desc")
+    .orderByRaw(
+      "FIELD(a.kind, 'limits_exhausted', 'below_band', 'above_band', 'reassessment_overdue')",
+    )
     .orderBy("a.opened_at", "desc")
     .limit(f.limit)
     .select(COLUMNS)) as Row[];

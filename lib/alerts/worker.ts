@@ -42,7 +42,10 @@ export function startAlertWorker(
       .then((pass) => {
         if (pass.escalated || pass.overdueOpened || pass.sent || pass.failed)
           log(
-            `[alerts] escalated ${pass.escalated}, overdue opened ${pass.overdueOpened}, mail sent ${pass.sent}, failed ${pass.failed} (will retry)`,
+            `[alerts] escalated ${pass.escalated}, overdue opened ${pass.overdueOpened}, mail sent ${pass.sent}` +
+              (pass.failed
+                ? `, ${pass.failed} failed (kept in the outbox, retried with backoff)`
+                : ""),
           );
       })
       .catch((error: unknown) =>

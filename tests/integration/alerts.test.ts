@@ -156,6 +156,7 @@ describe("an excursion charted at the bedside", () => {
 
     const [after] = await openAlertsOf(patientId);
     expect(after!.state).toBe("notified");
+    expect(after!.lastMailAt).toBe(new Date(t0.getTime() + 1000).toISOString());
     await runAlertWork(appDb(), sender(), new Date(t0.getTime() + 2000), cfg);
     expect(mailsFor(alert!.id)).toHaveLength(1);
     expect(await ledgerActions(alert!.id)).toEqual(["alert.open", "alert.notify"]);
