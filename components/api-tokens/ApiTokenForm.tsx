@@ -93,7 +93,7 @@ export function ApiTokenForm({ units }: { units: { id: number; label: string }[]
               {(d, invalid) => (
                 <select id="token-scope" className={inputClasses} aria-invalid={invalid} aria-describedby={d} {...register("scope")}>
                   <option value="write">Write (send imports)</option>
-                  <option value="read">Read only</option>
+                  <option value="read">Read only (FHIR export)</option>
                 </select>
               )}
             </Field>
