@@ -1,6 +1,6 @@
 import type { Knex } from "knex";
 import { getEnv } from "../env";
-import { appendLedger } from "../ledger/service";
+import { appendLedger, SYSTEM_ACTOR } from "../ledger/service";
 import { alertMessageId, composeAlertEmail, retryDelayMs } from "./email";
 import { ESCALATION_DUTIES, type AlertKind } from "./kinds";
 
@@ -274,7 +274,7 @@ export async function deliverOutbox(
           .update({ state: "notified", notified_at: now, version: alert.version + 1 });
       await appendLedger(
         trx,
-        { id: null, role: "system" },
+        SYSTEM_ACTOR,
         {
           action: "alert.notify",
           entityType: "alert",

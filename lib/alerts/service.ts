@@ -2,7 +2,7 @@ import type { Knex } from "knex";
 import type { Actor } from "../auth/actor";
 import { assertRole } from "../auth/actor-queries";
 import { ConflictError, NotFoundError } from "../errors";
-import { appendLedger, type LedgerActor } from "../ledger/service";
+import { appendLedger, SYSTEM_ACTOR, type LedgerActor } from "../ledger/service";
 import { parseInput } from "../validation";
 import { alertConfig, type AlertConfig } from "./config";
 import {
@@ -39,8 +39,6 @@ export type AlertAdmission = {
   bedId: number;
 };
 
-/** Sweeps and mail delivery act as the system: no person did them at that moment. */
-export const SYSTEM_ACTOR: LedgerActor = { id: null, role: "system" };
 
 const CLINICAL = ["physician", "therapist", "nurse"] as const;
 

@@ -24,6 +24,9 @@ export type LedgerActor =
   | Pick<Actor, "id" | "role">
   | { id: null; role: "system" | "interface" };
 
+/** Work no person did at that moment: alert sweeps and mail delivery. */
+export const SYSTEM_ACTOR: LedgerActor = { id: null, role: "system" };
+
 export type LedgerRow = {
   id: number;
   chainKey: string;

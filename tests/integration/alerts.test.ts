@@ -3,7 +3,6 @@ import { DEFAULT_DETECTION } from "@/lib/alerts/detect";
 import type { AlertConfig } from "@/lib/alerts/config";
 import { getEmailPreferences, listAlerts, setEmailPreferences } from "@/lib/alerts/queries";
 import {
-  SYSTEM_ACTOR,
   acknowledgeAlert,
   afterReadingsCharted,
   openOverdueReassessments,
@@ -12,6 +11,7 @@ import {
 import { runAlertWork } from "@/lib/alerts/worker";
 import type { Actor } from "@/lib/auth/actor";
 import { closeDb } from "@/lib/db";
+import { SYSTEM_ACTOR } from "@/lib/ledger/service";
 import { startFakeInbox, type FakeInbox } from "@/lib/mail/fake-inbox";
 import { createMailTransport } from "@/lib/mail/transport";
 import type { OrderInput } from "@/lib/orders/schema";
