@@ -151,10 +151,17 @@ export function TrendPlot({ trend, pressureUnit }: { trend: Trend; pressureUnit:
       ...trend.gases.map((g) => pressureIn(g.pao2MmHg, pressureUnit)),
     ),
   );
-  const pfAxis = niceAxis(Math.max(400, ...trend.gases.map((g) => g.pfRatio ?? 0)));
+  // P/F carries PaO2's unit, so its axis follows the user's pressure unit too.
+  const pfAxis = niceAxis(
+    Math.max(
+      pressureIn(400, pressureUnit),
+      ...trend.gases.map((g) => pressureIn(g.pfRatio ?? 0, pressureUnit)),
+    ),
+  );
   const yPao2 = (mmHg: number) =>
     GASES.top + (1 - pressureIn(mmHg, pressureUnit) / pao2Axis.max) * GASES.height;
-  const yPf = (v: number) => GASES.top + (1 - v / pfAxis.max) * GASES.height;
+  const yPf = (mmHg: number) =>
+    GASES.top + (1 - pressureIn(mmHg, pressureUnit) / pfAxis.max) * GASES.height;
 
   const stepHours = TICK_STEPS_H.find((h) => span / (h * HOUR) <= 8) ?? 168;
   const firstTick = Math.ceil(from / (stepHours * HOUR)) * stepHours * HOUR;
@@ -446,14 +453,14 @@ export function TrendPlot({ trend, pressureUnit }: { trend: Trend; pressureUnit:
               <text
                 key={`pf${v}`}
                 x={M.left + PW + 6}
-                y={yPf(v) + 3.5}
+                y={GASES.top + (1 - v / pfAxis.max) * GASES.height + 3.5}
                 className="tabular fill-ink-muted text-[11px]"
               >
-                {v}
+                {Number(v.toFixed(1))}
               </text>
             ))}
             {axisLabel(`PaO2 (${unit})`, GASES.top, GASES.height, "left")}
-            {axisLabel("P/F (mmHg)", GASES.top, GASES.height, "right")}
+            {axisLabel(`P/F (${unit})`, GASES.top, GASES.height, "right")}
             {trend.gases.map((g) => (
               <g key={g.at}>
                 <circle

@@ -87,6 +87,18 @@ describe("TrendPlot", () => {
     expect(table.textContent).toContain("Adjustment");
   });
 
+  it("draws the P/F axis in the user's pressure unit (1 kPa = 7.50062 mmHg)", () => {
+    const { unmount } = render(<TrendPlot trend={trend} pressureUnit="mmHg" />);
+    expect(screen.getByText("P/F (mmHg)")).toBeTruthy();
+    // The axis reaches at least 400 mmHg, rounded to a nice number.
+    expect(screen.getAllByText("400").length).toBeGreaterThan(0);
+    unmount();
+    render(<TrendPlot trend={trend} pressureUnit="kPa" />);
+    expect(screen.getByText("P/F (kPa)")).toBeTruthy();
+    expect(screen.queryByText("P/F (mmHg)")).toBeNull();
+    expect(screen.queryByText("400")).toBeNull();
+  });
+
   it("steps through moments with the arrow keys and announces the details", () => {
     render(<TrendPlot trend={trend} pressureUnit="mmHg" />);
     const plot = screen.getByTestId("trend-plot");
