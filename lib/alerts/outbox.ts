@@ -1,6 +1,6 @@
 import type { Knex } from "knex";
 import { getEnv } from "../env";
-import { appendLedger, SYSTEM_ACTOR } from "../ledger/service";
+import { appendLedger, lockPatientChain, SYSTEM_ACTOR } from "../ledger/service";
 import { alertMessageId, composeAlertEmail, retryDelayMs } from "./email";
 import { ESCALATION_DUTIES, type AlertKind } from "./kinds";
 
@@ -247,6 +247,14 @@ export async function deliverOutbox(
       continue;
     }
     await knex.transaction(async (trx) => {
+      // The patient's chain first, the lock order every clinical write keeps.
+      const owner =
+        row.alert_id === null
+          ? undefined
+          : ((await trx("alerts").where({ id: row.alert_id }).first("patient_id")) as {
+              patient_id: number;
+            });
+      if (owner) await lockPatientChain(trx, owner.patient_id);
       await trx("mail_outbox")
         .where({ id: row.id })
         .update({

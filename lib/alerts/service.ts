@@ -2,7 +2,7 @@ import type { Knex } from "knex";
 import type { Actor } from "../auth/actor";
 import { assertRole } from "../auth/actor-queries";
 import { ConflictError, NotFoundError } from "../errors";
-import { appendLedger, SYSTEM_ACTOR, type LedgerActor } from "../ledger/service";
+import { appendLedger, lockPatientChain, SYSTEM_ACTOR, type LedgerActor } from "../ledger/service";
 import { parseInput } from "../validation";
 import { alertConfig, type AlertConfig } from "./config";
 import {
@@ -38,7 +38,6 @@ export type AlertAdmission = {
   unitId: number;
   bedId: number;
 };
-
 
 const CLINICAL = ["physician", "therapist", "nurse"] as const;
 
@@ -410,6 +409,7 @@ export async function afterReadingsCharted(
   cfg: AlertConfig = alertConfig(),
 ): Promise<void> {
   if (!readings.length) return;
+  await lockPatientChain(trx, admission.patientId);
   const manual = readings.filter((r) => r.source === "manual");
   if (manual.length) {
     const latest = new Date(Math.max(...manual.map((r) => r.takenAt.getTime())));
@@ -462,6 +462,7 @@ export async function afterSettingsChanged(
   now: Date,
   cfg: AlertConfig = alertConfig(),
 ): Promise<void> {
+  await lockPatientChain(trx, admission.patientId);
   await resolveOpen(
     trx,
     actor,
@@ -489,6 +490,7 @@ export async function afterOrderChanged(
   now: Date,
   cfg: AlertConfig = alertConfig(),
 ): Promise<void> {
+  await lockPatientChain(trx, admission.patientId);
   await resolveOpen(
     trx,
     actor,
@@ -538,6 +540,12 @@ async function lockAlertForActor(
   actor: Actor,
   alertId: number,
 ): Promise<AlertForUpdate> {
+  const found = (await trx("alerts").where({ id: alertId }).first("patient_id", "unit_id")) as
+    { patient_id: number; unit_id: number } | undefined;
+  if (!found || !actor.unitIds.includes(found.unit_id))
+    throw new NotFoundError("No alert with that id on your units.");
+  // The patient's chain first, as every clinical write takes it (lib/ledger lockPatientChain).
+  await lockPatientChain(trx, found.patient_id);
   const row = (await trx("alerts as a")
     .leftJoin("users as u", "u.id", "a.acknowledged_by")
     .where("a.id", alertId)
@@ -659,6 +667,10 @@ export async function escalateDueAlerts(
   let moved = 0;
   for (const id of due) {
     await knex.transaction(async (trx) => {
+      const owner = (await trx("alerts").where({ id }).first("patient_id")) as {
+        patient_id: number;
+      };
+      await lockPatientChain(trx, owner.patient_id);
       const a = (await trx("alerts")
         .where({ id })
         .forUpdate()
@@ -759,7 +771,8 @@ export async function openOverdueReassessments(
       bedId: r.bed_id,
     };
     await knex.transaction(async (trx) => {
-      // Re-checked under the lock: a reading may have landed meanwhile.
+      // Re-checked under the locks: a reading may have landed meanwhile.
+      await lockPatientChain(trx, r.patient_id);
       await lockWatch(trx, r.admission_id, now);
       if (await openAlertOf(trx, r.admission_id, "reassessment_overdue")) return;
       const s = (await trx("bedside_settings")

@@ -20,9 +20,7 @@ export type LedgerInput = {
  * moment — the system (alert sweeps, mail delivery) or an interface engine's
  * API token. The latter two have no user id.
  */
-export type LedgerActor =
-  | Pick<Actor, "id" | "role">
-  | { id: null; role: "system" | "interface" };
+export type LedgerActor = Pick<Actor, "id" | "role"> | { id: null; role: "system" | "interface" };
 
 /** Work no person did at that moment: alert sweeps and mail delivery. */
 export const SYSTEM_ACTOR: LedgerActor = { id: null, role: "system" };
@@ -39,6 +37,31 @@ export function chainKeyFor(input: Pick<LedgerInput, "patientId">): string {
   return input.patientId ? `patient:${input.patientId}` : "admin";
 }
 
+async function lockChainHead(
+  trx: Knex.Transaction,
+  chainKey: string,
+): Promise<{ last_seq: number | string; last_hash: string }> {
+  // Creates the head if missing, then takes its row lock.
+  await trx.raw(
+    "INSERT INTO ledger_chains (chain_key, last_seq, last_hash) VALUES (?, 0, ?) ON DUPLICATE KEY UPDATE chain_key = chain_key",
+    [chainKey, GENESIS_HASH],
+  );
+  return (await trx("ledger_chains")
+    .where({ chain_key: chainKey })
+    .forUpdate()
+    .first("last_seq", "last_hash")) as { last_seq: number | string; last_hash: string };
+}
+
+/**
+ * Takes the patient's chain lock up front. Clinical writes take it first (they
+ * append their ledger row before anything else locks), so work that locks
+ * other rows of the same patient and then writes the ledger — alert steps —
+ * calls this first to keep one lock order and never deadlock with them.
+ */
+export async function lockPatientChain(trx: Knex.Transaction, patientId: number): Promise<void> {
+  await lockChainHead(trx, chainKeyFor({ patientId }));
+}
+
 /**
  * Appends one hash-chained ledger row inside the caller's transaction. Only the
  * chain's head row is locked, so writes on different patients do not queue
@@ -51,15 +74,7 @@ export async function appendLedger(
   now: Date = new Date(),
 ): Promise<LedgerRow> {
   const chainKey = chainKeyFor(input);
-  // Creates the head if missing and takes its row lock in one statement.
-  await trx.raw(
-    "INSERT INTO ledger_chains (chain_key, last_seq, last_hash) VALUES (?, 0, ?) ON DUPLICATE KEY UPDATE chain_key = chain_key",
-    [chainKey, GENESIS_HASH],
-  );
-  const head = (await trx("ledger_chains")
-    .where({ chain_key: chainKey })
-    .forUpdate()
-    .first("last_seq", "last_hash")) as { last_seq: number | string; last_hash: string };
+  const head = await lockChainHead(trx, chainKey);
 
   const occurredAt = new Date(Math.floor(now.getTime()));
   const fields = {
