@@ -155,6 +155,7 @@ export async function listAlerts(knex: Knex, actor: Actor, raw: unknown): Promis
   if (f.kind) q.where("a.kind", f.kind);
   if (f.unitId) q.where("a.unit_id", f.unitId);
   if (f.patientId) q.where("a.patient_id", f.patientId);
+  if (f.alertId) q.where("a.id", f.alertId);
   const rows = (await q
     .select(
       knex.raw(

@@ -29,6 +29,8 @@ export const alertFilterSchema = z.object({
   kind: z.enum(ALERT_KINDS).optional(),
   unitId: z.coerce.number().int().positive().optional(),
   patientId: z.coerce.number().int().positive().optional(),
+  /** One alert (the link in an alert e-mail). */
+  alertId: z.coerce.number().int().positive().optional(),
   limit: z.coerce.number().int().min(1).max(200).default(100),
 });
 export type AlertFilter = z.infer<typeof alertFilterSchema>;

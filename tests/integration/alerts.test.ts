@@ -157,6 +157,9 @@ describe("an excursion charted at the bedside", () => {
     const [after] = await openAlertsOf(patientId);
     expect(after!.state).toBe("notified");
     expect(after!.lastMailAt).toBe(new Date(t0.getTime() + 1000).toISOString());
+    // The e-mail's link (?alert=) shows that alert alone, whatever its state.
+    const linked = await listAlerts(appDb(), nurse, { alertId: alert!.id, status: "all" });
+    expect(linked.map((a) => a.id)).toEqual([alert!.id]);
     await runAlertWork(appDb(), sender(), new Date(t0.getTime() + 2000), cfg);
     expect(mailsFor(alert!.id)).toHaveLength(1);
     expect(await ledgerActions(alert!.id)).toEqual(["alert.open", "alert.notify"]);

@@ -39,10 +39,12 @@ export default async function AlertsPage({
     kind: first(raw.kind),
     unitId: first(raw.unitId),
     patientId: first(raw.patientId),
+    alertId: first(raw.alert),
   });
   // A mangled address falls back to the default view rather than an error page.
   const filter = parsed.success ? parsed.data : alertFilterSchema.parse({});
-  const focus = Number(first(raw.alert)) || undefined;
+  // From an alert e-mail: that alert alone, whatever its state now.
+  const focus = filter.alertId;
   if (focus) filter.status = "all";
   const [alerts, units, prefs] = await Promise.all([
     listAlerts(db(), actor, filter),
@@ -53,6 +55,7 @@ export default async function AlertsPage({
   if (filter.kind) query.set("kind", filter.kind);
   if (filter.unitId) query.set("unitId", String(filter.unitId));
   if (filter.patientId) query.set("patientId", String(filter.patientId));
+  if (filter.alertId) query.set("alertId", String(filter.alertId));
   const canAct = CLINICAL_ROLES.includes(actor.role);
 
   return (
@@ -116,7 +119,7 @@ export default async function AlertsPage({
         </button>
         {filter.patientId || focus ? (
           <a href="/alerts" className="text-sm text-accent underline underline-offset-2">
-            Show every patient
+            {focus ? "Show all alerts" : "Show every patient"}
           </a>
         ) : null}
       </form>
