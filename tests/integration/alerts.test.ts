@@ -18,6 +18,7 @@ import type { OrderInput } from "@/lib/orders/schema";
 import { writeOrder } from "@/lib/orders/service";
 import { chartReading } from "@/lib/readings/service";
 import { SEEDED, actorByEmail, admitTestPatient, appDb } from "../helpers/db";
+import { hfncOrder } from "../helpers/orders";
 
 // The real chain: services write the alert and its outbox row in the reading's
 // transaction; the worker pass (with an injected clock, never a sleep) sends
@@ -68,24 +69,15 @@ async function assignedPatient(order: Partial<OrderInput> = {}) {
       ends_at: new Date(now + 12 * 3600_000),
     })),
   );
-  await writeOrder(appDb(), physician, {
-    entryMode: "written",
-    password: "tidemark-demo",
-    patientId: admitted.patientId,
-    device: "hfnc",
-    spo2Lower: 92,
-    spo2Upper: 96,
-    fio2Min: 0.3,
-    fio2Max: 0.6,
-    flowMin: 30,
-    flowMax: 60,
-    initialFio2: 0.4,
-    initialFlow: 40,
-    reassessMinutes: 60,
-    rationale: "Pneumonia, alert tests",
-    supersedesOrderId: null,
-    ...order,
-  } as OrderInput);
+  await writeOrder(
+    appDb(),
+    physician,
+    hfncOrder(admitted.patientId, {
+      reassessMinutes: 60,
+      rationale: "Pneumonia, alert tests",
+      ...order,
+    }),
+  );
   return admitted;
 }
 
@@ -391,27 +383,21 @@ describe("limits, reassessment and closing by hand", () => {
     expect(to).toEqual([physician.id]);
 
     // A new order with room to titrate answers it.
-    await writeOrder(appDb(), physician, {
-      entryMode: "written",
-      password: "tidemark-demo",
-      patientId,
-      device: "hfnc",
-      spo2Lower: 92,
-      spo2Upper: 96,
-      fio2Min: 0.3,
-      fio2Max: 0.8,
-      flowMin: 30,
-      flowMax: 60,
-      initialFio2: 0.6,
-      initialFlow: 50,
-      reassessMinutes: 30,
-      rationale: "More room to titrate",
-      supersedesOrderId: (
-        (await appDb()("orders").where({ current_patient_id: patientId }).first("id")) as {
-          id: number;
-        }
-      ).id,
-    } as OrderInput);
+    await writeOrder(
+      appDb(),
+      physician,
+      hfncOrder(patientId, {
+        fio2Max: 0.8,
+        initialFio2: 0.6,
+        initialFlow: 50,
+        rationale: "More room to titrate",
+        supersedesOrderId: (
+          (await appDb()("orders").where({ current_patient_id: patientId }).first("id")) as {
+            id: number;
+          }
+        ).id,
+      }),
+    );
     expect((await openAlertsOf(patientId)).map((a) => a.kind)).toEqual(["below_band"]);
   });
 

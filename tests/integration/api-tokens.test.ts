@@ -8,9 +8,9 @@ import { createApiToken, revokeApiToken } from "@/lib/api-tokens/service";
 import { listApiTokens } from "@/lib/api-tokens/queries";
 import { closeDb } from "@/lib/db";
 import { ForbiddenError } from "@/lib/errors";
-import type { OrderInput } from "@/lib/orders/schema";
 import { writeOrder } from "@/lib/orders/service";
 import { actorByEmail, admitTestPatient, appDb, SEEDED } from "../helpers/db";
+import { hfncOrder } from "../helpers/orders";
 
 afterAll(async () => {
   await closeDb();
@@ -24,29 +24,21 @@ const stamp = (d: Date) => d.toISOString().replace(/[-:T]/g, "").slice(0, 12);
 async function patientOnHfnc(unit: "MICU" | "RESP" = "MICU") {
   const p = await admitTestPatient(unit);
   const physician = await actorByEmail(SEEDED.physician);
-  await writeOrder(appDb(), physician, {
-    entryMode: "written",
-    password: "tidemark-demo",
-    patientId: p.patientId,
-    device: "hfnc",
-    spo2Lower: 92,
-    spo2Upper: 96,
-    fio2Min: 0.3,
-    fio2Max: 0.6,
-    flowMin: 30,
-    flowMax: 60,
-    initialFio2: 0.45,
-    initialFlow: 40,
-    reassessMinutes: 30,
-    rationale: "API token test",
-    supersedesOrderId: null,
-  } as OrderInput);
+  await writeOrder(
+    appDb(),
+    physician,
+    hfncOrder(p.patientId, { initialFio2: 0.45, rationale: "API token test" }),
+  );
   await appDb()("admissions")
     .where({ patient_id: p.patientId })
     .whereNull("discharged_at")
     .update({ admitted_at: new Date(Date.now() - 6 * 3600_000) });
-  const { mrn } = (await appDb()("patients").where({ id: p.patientId }).first("mrn")) as { mrn: string };
-  const { label } = (await appDb()("beds").where({ id: p.bedId }).first("label")) as { label: string };
+  const { mrn } = (await appDb()("patients").where({ id: p.patientId }).first("mrn")) as {
+    mrn: string;
+  };
+  const { label } = (await appDb()("beds").where({ id: p.bedId }).first("label")) as {
+    label: string;
+  };
   return { ...p, mrn, bed: label };
 }
 
@@ -55,44 +47,70 @@ function hl7(name: string, mrn: string, msgId: string): string {
   return readFileSync(new URL(`../fixtures/imports/${name}`, import.meta.url), "utf8")
     .replaceAll("{{MRN}}", mrn)
     .replaceAll("{{MSGID}}", msgId)
-    .replace(/2026112010(\d{2})/g, (_, mm: string) => stamp(new Date(at.getTime() + Number(mm) * 60_000)))
-    .replace(/2026112008(\d{2})/g, (_, mm: string) => stamp(new Date(at.getTime() + Number(mm) * 60_000)));
+    .replace(/2026112010(\d{2})/g, (_, mm: string) =>
+      stamp(new Date(at.getTime() + Number(mm) * 60_000)),
+    )
+    .replace(/2026112008(\d{2})/g, (_, mm: string) =>
+      stamp(new Date(at.getTime() + Number(mm) * 60_000)),
+    );
 }
 
 async function token(scope: "read" | "write", units: ("MICU" | "RESP")[] = ["MICU"]) {
   const admin = await actorByEmail(SEEDED.admin);
   const unitIds = (await appDb()("units").whereIn("code", units).pluck("id")) as number[];
-  return createApiToken(appDb(), admin, { name: `Engine ${randomUUID().slice(0, 6)}`, scope, unitIds });
+  return createApiToken(appDb(), admin, {
+    name: `Engine ${randomUUID().slice(0, 6)}`,
+    scope,
+    unitIds,
+  });
 }
 
 const request = (path: string, body: string, bearer?: string) =>
   new Request(`http://127.0.0.1${path}`, {
     method: "POST",
-    headers: { "content-type": "text/plain", ...(bearer ? { authorization: `Bearer ${bearer}` } : {}) },
+    headers: {
+      "content-type": "text/plain",
+      ...(bearer ? { authorization: `Bearer ${bearer}` } : {}),
+    },
     body,
   });
 
-type Json = { import?: { id: number; counts: { accepted: number; rejected: number }; status: string }; replayed?: boolean; error?: { message: string; fieldErrors?: Record<string, string[]> } };
+type Json = {
+  import?: { id: number; counts: { accepted: number; rejected: number }; status: string };
+  replayed?: boolean;
+  error?: { message: string; fieldErrors?: Record<string, string[]> };
+};
 const json = async (r: Response) => (await r.json()) as Json;
 
 describe("API tokens", () => {
   it("is created by the admin, shown once, stored only as its SHA-256 with a display prefix, and written to the ledger", async () => {
     const { token: secret, summary } = await token("write");
     expect(secret).toMatch(/^tdm_[A-Za-z0-9_-]{43}$/);
-    const row = (await appDb()("api_tokens").where({ id: summary.id }).first()) as Record<string, unknown>;
+    const row = (await appDb()("api_tokens").where({ id: summary.id }).first()) as Record<
+      string,
+      unknown
+    >;
     expect(row.token_hash).toBe(createHash("sha256").update(secret).digest("hex"));
-    expect(Object.values(row).some((v) => typeof v === "string" && v.includes(secret.slice(12)))).toBe(false);
+    expect(
+      Object.values(row).some((v) => typeof v === "string" && v.includes(secret.slice(12))),
+    ).toBe(false);
     expect(summary.prefix).toBe(secret.slice(0, 12));
     expect(summary.units.map((u) => u.code)).toEqual(["MICU"]);
     const listed = (await listApiTokens(appDb())).find((t) => t.id === summary.id);
     expect(listed).not.toHaveProperty("token");
     const ledger = (await appDb()("ledger_entries")
-      .where({ entity_type: "api_token", entity_id: String(summary.id), action: "api_token.create" })
+      .where({
+        entity_type: "api_token",
+        entity_id: String(summary.id),
+        action: "api_token.create",
+      })
       .orderBy("id", "desc")
       .first("action")) as { action: string } | undefined;
     expect(ledger).toEqual({ action: "api_token.create" });
     const therapist = await actorByEmail(SEEDED.therapist);
-    await expect(createApiToken(appDb(), therapist, { name: "Nope", scope: "write", unitIds: [1] })).rejects.toBeInstanceOf(ForbiddenError);
+    await expect(
+      createApiToken(appDb(), therapist, { name: "Nope", scope: "write", unitIds: [1] }),
+    ).rejects.toBeInstanceOf(ForbiddenError);
   });
 
   it("imports an HL7 message with a write token as the interface, and answers a re-sent message with the first import", async () => {
@@ -103,23 +121,33 @@ describe("API tokens", () => {
     const body = await json(first);
     expect(first.status).toBe(201);
     expect(body.import).toMatchObject({ status: "imported", counts: { accepted: 2, rejected: 0 } });
-    const gas = (await appDb()("blood_gases").where({ patient_id: p.patientId }).first("recorded_by", "import_id")) as {
+    const gas = (await appDb()("blood_gases")
+      .where({ patient_id: p.patientId })
+      .first("recorded_by", "import_id")) as {
       recorded_by: number | null;
       import_id: number;
     };
     expect(gas).toEqual({ recorded_by: null, import_id: body.import!.id });
-    const stored = (await appDb()("imports").where({ id: body.import!.id }).first("api_token_id", "created_by")) as Record<string, unknown>;
+    const stored = (await appDb()("imports")
+      .where({ id: body.import!.id })
+      .first("api_token_id", "created_by")) as Record<string, unknown>;
     expect(stored).toEqual({ api_token_id: summary.id, created_by: null });
     const ledger = (await appDb()("ledger_entries")
       .where({ entity_type: "import", entity_id: String(body.import!.id), patient_id: p.patientId })
       .select("action", "actor_role", "actor_user_id")) as Record<string, unknown>[];
-    expect(ledger).toEqual([{ action: "import.hl7", actor_role: "interface", actor_user_id: null }]);
+    expect(ledger).toEqual([
+      { action: "import.hl7", actor_role: "interface", actor_user_id: null },
+    ]);
 
     const again = await postHl7(request("/api/v1/imports/hl7", message, secret));
     expect(again.status).toBe(200);
     expect(await json(again)).toMatchObject({ replayed: true, import: { id: body.import!.id } });
-    expect(await appDb()("blood_gases").where({ patient_id: p.patientId }).count({ n: "*" }).first()).toEqual({ n: 1 });
-    const used = (await appDb()("api_tokens").where({ id: summary.id }).first("last_used_at")) as { last_used_at: Date | null };
+    expect(
+      await appDb()("blood_gases").where({ patient_id: p.patientId }).count({ n: "*" }).first(),
+    ).toEqual({ n: 1 });
+    const used = (await appDb()("api_tokens").where({ id: summary.id }).first("last_used_at")) as {
+      last_used_at: Date | null;
+    };
     expect(used.last_used_at).not.toBeNull();
   });
 
@@ -134,9 +162,15 @@ describe("API tokens", () => {
     expect(error.message).toBe(
       "2 of 3 rows were rejected; nothing was stored. Fix them, or send ?partial=accept to import the good ones (1).",
     );
-    expect(error.fieldErrors?.["OBR 2"]).toEqual(["PaO2 column is labelled mmHg but 9.1 looks like kPa; check the column's unit."]);
+    expect(error.fieldErrors?.["OBR 2"]).toEqual([
+      "PaO2 column is labelled mmHg but 9.1 looks like kPa; check the column's unit.",
+    ]);
     expect(Object.keys(error.fieldErrors ?? {})).toEqual(["OBR 2", "OBR 3"]);
-    expect(await appDb()("imports").where({ source_message_id: `GASLAB|KESTREL|${msgId}` }).first()).toBeUndefined();
+    expect(
+      await appDb()("imports")
+        .where({ source_message_id: `GASLAB|KESTREL|${msgId}` })
+        .first(),
+    ).toBeUndefined();
     expect(await appDb()("blood_gases").where({ patient_id: p.patientId }).first()).toBeUndefined();
 
     const partial = await postHl7(request("/api/v1/imports/hl7?partial=accept", message, secret));
@@ -148,10 +182,18 @@ describe("API tokens", () => {
     const p = await patientOnHfnc();
     const { token: secret } = await token("write");
     const msgId = `C${randomUUID().slice(0, 12)}`;
-    const response = await postHl7(request("/api/v1/imports/hl7", hl7("hl7-truncated.hl7", p.mrn, msgId), secret));
+    const response = await postHl7(
+      request("/api/v1/imports/hl7", hl7("hl7-truncated.hl7", p.mrn, msgId), secret),
+    );
     expect(response.status).toBe(422);
-    expect((await json(response)).error?.message).toMatch(/^The message is truncated or incomplete: OBX \(segment 6\)/);
-    expect(await appDb()("imports").where({ source_message_id: `GASLAB|KESTREL|${msgId}` }).first()).toBeUndefined();
+    expect((await json(response)).error?.message).toMatch(
+      /^The message is truncated or incomplete: OBX \(segment 6\)/,
+    );
+    expect(
+      await appDb()("imports")
+        .where({ source_message_id: `GASLAB|KESTREL|${msgId}` })
+        .first(),
+    ).toBeUndefined();
   });
 
   it("refuses a missing, unknown or revoked token with 401, a read token with 403, and another unit with 403", async () => {
@@ -159,16 +201,23 @@ describe("API tokens", () => {
     const message = hl7("hl7-valid.hl7", p.mrn, `D${randomUUID().slice(0, 12)}`);
     const none = await postHl7(request("/api/v1/imports/hl7", message));
     expect(none.status).toBe(401);
-    expect((await json(none)).error?.message).toBe("Send an API token as 'Authorization: Bearer tdm_…'.");
+    expect((await json(none)).error?.message).toBe(
+      "Send an API token as 'Authorization: Bearer tdm_…'.",
+    );
     const forged = await postHl7(request("/api/v1/imports/hl7", message, `tdm_${"A".repeat(43)}`));
     expect(forged.status).toBe(401);
 
     const admin = await actorByEmail(SEEDED.admin);
     const { token: revoked, summary } = await token("write");
-    await revokeApiToken(appDb(), admin, { id: summary.id, rationale: "Interface engine replaced" });
+    await revokeApiToken(appDb(), admin, {
+      id: summary.id,
+      rationale: "Interface engine replaced",
+    });
     const refused = await postHl7(request("/api/v1/imports/hl7", message, revoked));
     expect(refused.status).toBe(401);
-    expect((await json(refused)).error?.message).toBe("This API token is not valid or has been revoked.");
+    expect((await json(refused)).error?.message).toBe(
+      "This API token is not valid or has been revoked.",
+    );
 
     const { token: reader } = await token("read");
     const readOnly = await postHl7(request("/api/v1/imports/hl7", message, reader));
@@ -177,14 +226,22 @@ describe("API tokens", () => {
 
     const { token: respOnly } = await token("write", ["RESP"]);
     const otherUnit = await postMonitor(
-      request(`/api/v1/imports/monitor?mrn=${p.mrn}&bed=${p.bed}&unit=MICU`, "time,spo2\n", respOnly),
+      request(
+        `/api/v1/imports/monitor?mrn=${p.mrn}&bed=${p.bed}&unit=MICU`,
+        "time,spo2\n",
+        respOnly,
+      ),
     );
     expect(otherUnit.status).toBe(403);
-    expect((await json(otherUnit)).error?.message).toBe("This API token is not allowed on unit MICU.");
+    expect((await json(otherUnit)).error?.message).toBe(
+      "This API token is not allowed on unit MICU.",
+    );
     // A MICU patient named in a message to a RESP-only token is an unknown patient, row by row.
     const hidden = await postHl7(request("/api/v1/imports/hl7", message, respOnly));
     expect(hidden.status).toBe(422);
-    expect((await json(hidden)).error?.fieldErrors?.["OBR 1"]).toEqual([`MRN ${p.mrn} is not an admitted patient on RESP.`]);
+    expect((await json(hidden)).error?.fieldErrors?.["OBR 1"]).toEqual([
+      `MRN ${p.mrn} is not an admitted patient on RESP.`,
+    ]);
     expect(await appDb()("blood_gases").where({ patient_id: p.patientId }).first()).toBeUndefined();
   });
 
@@ -201,7 +258,10 @@ describe("API tokens", () => {
     const ok = await get(reader);
     expect(ok.status).toBe(200);
     expect(ok.headers.get("content-type")).toContain("application/fhir+json");
-    const bundle = (await ok.json()) as { resourceType: string; entry: { resource: { resourceType: string } }[] };
+    const bundle = (await ok.json()) as {
+      resourceType: string;
+      entry: { resource: { resourceType: string } }[];
+    };
     expect(bundle.resourceType).toBe("Bundle");
     expect(bundle.entry.map((e) => e.resource.resourceType)).toContain("ServiceRequest");
     const { token: respOnly } = await token("read", ["RESP"]);
@@ -217,14 +277,26 @@ describe("API tokens", () => {
     const { token: secret } = await token("write");
     const start = Date.now() - 3600_000;
     const lines = ["time,spo2,pulse_rate"];
-    for (let i = 0; i < 2500; i++) lines.push(`${new Date(start + i * 1000).toISOString()},${90 + (i % 8)},${80 + (i % 5)}`);
+    for (let i = 0; i < 2500; i++)
+      lines.push(`${new Date(start + i * 1000).toISOString()},${90 + (i % 8)},${80 + (i % 5)}`);
     const body = `${lines.join("\n")}\n`;
     const path = `/api/v1/imports/monitor?mrn=${p.mrn}&bed=${p.bed}`;
     const response = await postMonitor(request(path, body, secret));
     expect(response.status).toBe(201);
-    expect((await json(response)).import?.counts).toEqual({ total: 2500, accepted: 2500, rejected: 0 });
+    expect((await json(response)).import?.counts).toEqual({
+      total: 2500,
+      accepted: 2500,
+      rejected: 0,
+    });
     const n = async () =>
-      Number(((await appDb()("readings").where({ patient_id: p.patientId, source: "monitor" }).count({ n: "*" }).first()) as { n: number }).n);
+      Number(
+        (
+          (await appDb()("readings")
+            .where({ patient_id: p.patientId, source: "monitor" })
+            .count({ n: "*" })
+            .first()) as { n: number }
+        ).n,
+      );
     expect(await n()).toBe(2500);
     const again = await postMonitor(request(path, body, secret));
     expect(again.status).toBe(200);

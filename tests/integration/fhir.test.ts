@@ -9,6 +9,7 @@ import type { OrderInput } from "@/lib/orders/schema";
 import { writeOrder } from "@/lib/orders/service";
 import { chartReading } from "@/lib/readings/service";
 import { actorByEmail, admitTestPatient, appDb, SEEDED } from "../helpers/db";
+import { hfncOrder } from "../helpers/orders";
 import { exportProblems, loincCodes, r4SchemaProblems, resourcesOf } from "../helpers/fhir";
 
 afterAll(async () => {
@@ -27,23 +28,7 @@ async function patientWithCare() {
   const first = await writeOrder(
     appDb(),
     physician,
-    {
-      entryMode: "written",
-      password: "tidemark-demo",
-      patientId,
-      device: "hfnc",
-      spo2Lower: 92,
-      spo2Upper: 96,
-      fio2Min: 0.3,
-      fio2Max: 0.6,
-      flowMin: 30,
-      flowMax: 60,
-      initialFio2: 0.4,
-      initialFlow: 40,
-      reassessMinutes: 30,
-      rationale: "Hypoxaemic after aspiration, trial of high flow",
-      supersedesOrderId: null,
-    } as OrderInput,
+    hfncOrder(patientId, { rationale: "Hypoxaemic after aspiration, trial of high flow" }),
     minutesAgo(50),
   );
   const reading = await chartReading(appDb(), nurse, {

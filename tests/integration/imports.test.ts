@@ -4,11 +4,16 @@ import { afterAll, describe, expect, it } from "vitest";
 import { closeDb } from "@/lib/db";
 import { ConflictError, DomainError, ForbiddenError } from "@/lib/errors";
 import { getImportPreview, importReportCsv } from "@/lib/imports/queries";
-import { confirmImport, remapImport, uploadForPreview, type UploadInput } from "@/lib/imports/service";
+import {
+  confirmImport,
+  remapImport,
+  uploadForPreview,
+  type UploadInput,
+} from "@/lib/imports/service";
 import { verifyLedger } from "@/lib/ledger/verify";
-import type { OrderInput } from "@/lib/orders/schema";
 import { writeOrder } from "@/lib/orders/service";
 import { actorByEmail, admitTestPatient, appDb, SEEDED } from "../helpers/db";
+import { hfncOrder } from "../helpers/orders";
 
 afterAll(async () => {
   await closeDb();
@@ -22,26 +27,21 @@ const ADMITTED = new Date("2026-11-19T00:00:00Z");
 async function patientOnHfnc(unit: "MICU" | "RESP" = "MICU") {
   const p = await admitTestPatient(unit);
   const physician = await actorByEmail(SEEDED.physician);
-  await writeOrder(appDb(), physician, {
-    entryMode: "written",
-    password: "tidemark-demo",
-    patientId: p.patientId,
-    device: "hfnc",
-    spo2Lower: 92,
-    spo2Upper: 96,
-    fio2Min: 0.3,
-    fio2Max: 0.6,
-    flowMin: 30,
-    flowMax: 60,
-    initialFio2: 0.45,
-    initialFlow: 40,
-    reassessMinutes: 30,
-    rationale: "Imported results test",
-    supersedesOrderId: null,
-  } as OrderInput);
-  await appDb()("admissions").where({ patient_id: p.patientId }).whereNull("discharged_at").update({ admitted_at: ADMITTED });
-  const { mrn } = (await appDb()("patients").where({ id: p.patientId }).first("mrn")) as { mrn: string };
-  const { label } = (await appDb()("beds").where({ id: p.bedId }).first("label")) as { label: string };
+  await writeOrder(
+    appDb(),
+    physician,
+    hfncOrder(p.patientId, { initialFio2: 0.45, rationale: "Imported results test" }),
+  );
+  await appDb()("admissions")
+    .where({ patient_id: p.patientId })
+    .whereNull("discharged_at")
+    .update({ admitted_at: ADMITTED });
+  const { mrn } = (await appDb()("patients").where({ id: p.patientId }).first("mrn")) as {
+    mrn: string;
+  };
+  const { label } = (await appDb()("beds").where({ id: p.bedId }).first("label")) as {
+    label: string;
+  };
   return { ...p, mrn, bed: label };
 }
 
@@ -59,7 +59,12 @@ async function count(table: string, where: Record<string, unknown>): Promise<num
   return Number(row.n);
 }
 
-function upload(kind: UploadInput["kind"], unitId: number, fileName: string, extra: Partial<UploadInput> = {}) {
+function upload(
+  kind: UploadInput["kind"],
+  unitId: number,
+  fileName: string,
+  extra: Partial<UploadInput> = {},
+) {
   return { kind, unitId, fileName, ...extra } as UploadInput;
 }
 
@@ -69,15 +74,37 @@ describe("blood gas CSV", () => {
     const b = await patientOnHfnc();
     const therapist = await actorByEmail(SEEDED.therapist);
     const file = fixture("blood-gas-valid.csv", { MRN: a.mrn, MRN2: b.mrn });
-    const preview = await uploadForPreview(appDb(), therapist, upload("blood_gas_csv", a.unitId, "gases.csv"), file, NOW);
-    expect(preview).toMatchObject({ status: "previewed", counts: { total: 3, accepted: 3, rejected: 0 } });
-    expect(preview.mapping?.columns).toMatchObject({ mrn: "MRN", pao2: "PaO2 (mmHg)", fio2: "FiO2" });
+    const preview = await uploadForPreview(
+      appDb(),
+      therapist,
+      upload("blood_gas_csv", a.unitId, "gases.csv"),
+      file,
+      NOW,
+    );
+    expect(preview).toMatchObject({
+      status: "previewed",
+      counts: { total: 3, accepted: 3, rejected: 0 },
+    });
+    expect(preview.mapping?.columns).toMatchObject({
+      mrn: "MRN",
+      pao2: "PaO2 (mmHg)",
+      fio2: "FiO2",
+    });
     expect(preview.sample[0]?.summary).toContain("PaO2 68 mmHg");
     // Nothing is written before the confirm.
     expect(await count("blood_gases", { patient_id: a.patientId })).toBe(0);
 
-    const done = await confirmImport(appDb(), therapist, { importId: preview.id, expectedAccepted: 3 }, NOW);
-    expect(done).toMatchObject({ status: "imported", alreadyImported: false, counts: { accepted: 3 } });
+    const done = await confirmImport(
+      appDb(),
+      therapist,
+      { importId: preview.id, expectedAccepted: 3 },
+      NOW,
+    );
+    expect(done).toMatchObject({
+      status: "imported",
+      alreadyImported: false,
+      counts: { accepted: 3 },
+    });
     const gases = (await appDb()("blood_gases")
       .where({ patient_id: a.patientId })
       .orderBy("sampled_at")
@@ -91,16 +118,34 @@ describe("blood gas CSV", () => {
     }[];
     // First row gives FiO2 0.40; the second has none and takes the bedside setting (0.45 on HFNC).
     expect(gases).toEqual([
-      { pao2_mmhg: 68, fio2: 0.4, device: "hfnc", pf_ratio: 170, import_id: preview.id, recorded_by: therapist.id },
-      { pao2_mmhg: 81, fio2: 0.45, device: "hfnc", pf_ratio: 180, import_id: preview.id, recorded_by: therapist.id },
+      {
+        pao2_mmhg: 68,
+        fio2: 0.4,
+        device: "hfnc",
+        pf_ratio: 170,
+        import_id: preview.id,
+        recorded_by: therapist.id,
+      },
+      {
+        pao2_mmhg: 81,
+        fio2: 0.45,
+        device: "hfnc",
+        pf_ratio: 180,
+        import_id: preview.id,
+        recorded_by: therapist.id,
+      },
     ]);
-    const venous = (await appDb()("blood_gases").where({ patient_id: b.patientId }).first("sample_type", "pf_ratio")) as {
+    const venous = (await appDb()("blood_gases")
+      .where({ patient_id: b.patientId })
+      .first("sample_type", "pf_ratio")) as {
       sample_type: string;
       pf_ratio: number | null;
     };
     expect(venous).toEqual({ sample_type: "venous", pf_ratio: null });
 
-    const stored = (await appDb()("imports").where({ id: preview.id }).first("original_content", "content_sha256")) as {
+    const stored = (await appDb()("imports")
+      .where({ id: preview.id })
+      .first("original_content", "content_sha256")) as {
       original_content: Buffer;
       content_sha256: string;
     };
@@ -120,7 +165,9 @@ describe("blood gas CSV", () => {
       ["import.blood_gas_csv", a.patientId, therapist.id],
       ["import.blood_gas_csv", b.patientId, therapist.id],
     ]);
-    expect((JSON.parse(ledger[0]!.after_json) as { bloodGasIds: number[] }).bloodGasIds).toHaveLength(2);
+    expect(
+      (JSON.parse(ledger[0]!.after_json) as { bloodGasIds: number[] }).bloodGasIds,
+    ).toHaveLength(2);
     expect((await verifyLedger(appDb())).ok).toBe(true);
   });
 
@@ -129,7 +176,13 @@ describe("blood gas CSV", () => {
     const therapist = await actorByEmail(SEEDED.therapist);
     const stranger = unknownMrn();
     const file = fixture("blood-gas-bad-rows.csv", { MRN: p.mrn, UNKNOWN: stranger });
-    const preview = await uploadForPreview(appDb(), therapist, upload("blood_gas_csv", p.unitId, "mixed.csv"), file, NOW);
+    const preview = await uploadForPreview(
+      appDb(),
+      therapist,
+      upload("blood_gas_csv", p.unitId, "mixed.csv"),
+      file,
+      NOW,
+    );
     expect(preview.counts).toEqual({ total: 8, accepted: 2, rejected: 6 });
     const byLine = Object.fromEntries(preview.rejected.map((r) => [r.line, r.reasons]));
     expect(byLine[3]).toEqual([
@@ -151,7 +204,11 @@ describe("blood gas CSV", () => {
       { code: "duplicate", message: "Duplicate of line 2: same patient and time sampled." },
     ]);
     expect(byLine[6]).toEqual([
-      { code: "unknown_patient", field: "mrn", message: `MRN ${stranger} is not an admitted patient on MICU.` },
+      {
+        code: "unknown_patient",
+        field: "mrn",
+        message: `MRN ${stranger} is not an admitted patient on MICU.`,
+      },
     ]);
     expect(byLine[7]).toEqual([{ code: "missing", field: "pao2", message: "PaO2 is missing." }]);
     expect(byLine[8]?.[0]).toMatchObject({ code: "time", field: "sampledAt" });
@@ -159,13 +216,21 @@ describe("blood gas CSV", () => {
 
     // Confirm imports the two good rows only; the report keeps every rejected one.
     await confirmImport(appDb(), therapist, { importId: preview.id, expectedAccepted: 2 }, NOW);
-    const times = (await appDb()("blood_gases").where({ patient_id: p.patientId }).orderBy("sampled_at").select("sampled_at")) as {
+    const times = (await appDb()("blood_gases")
+      .where({ patient_id: p.patientId })
+      .orderBy("sampled_at")
+      .select("sampled_at")) as {
       sampled_at: Date;
     }[];
-    expect(times.map((t) => t.sampled_at.toISOString())).toEqual(["2026-11-20T07:00:00.000Z", "2026-11-20T09:30:00.000Z"]);
+    expect(times.map((t) => t.sampled_at.toISOString())).toEqual([
+      "2026-11-20T07:00:00.000Z",
+      "2026-11-20T09:30:00.000Z",
+    ]);
     const { csv, fileName } = await importReportCsv(appDb(), therapist, preview.id);
     expect(fileName).toBe(`import-${preview.id}-mixed-report.csv`);
-    expect(csv).toContain('line 4,4,' + p.mrn + ',range,paco2,PaCO2 200 mmHg is outside 10–150 mmHg.');
+    expect(csv).toContain(
+      "line 4,4," + p.mrn + ",range,paco2,PaCO2 200 mmHg is outside 10–150 mmHg.",
+    );
     expect(csv.split("\r\n").filter((l) => l.startsWith("line "))).toHaveLength(7);
   });
 
@@ -179,7 +244,12 @@ describe("blood gas CSV", () => {
       fixture("blood-gas-kpa.csv", { MRN: p.mrn }),
       NOW,
     );
-    expect(preview.mapping?.units).toMatchObject({ pao2: "kPa", paco2: "kPa", hemoglobin: "g/L", fio2: "%" });
+    expect(preview.mapping?.units).toMatchObject({
+      pao2: "kPa",
+      paco2: "kPa",
+      hemoglobin: "g/L",
+      fio2: "%",
+    });
     await confirmImport(appDb(), therapist, { importId: preview.id, expectedAccepted: 1 }, NOW);
     const gas = (await appDb()("blood_gases")
       .where({ patient_id: p.patientId })
@@ -209,24 +279,42 @@ describe("blood gas CSV", () => {
     expect(remapped.rejected[0]?.reasons[0]?.message).toBe(
       "PaO2 column is labelled mmHg but 10 looks like kPa; check the column's unit.",
     );
-    const incomplete = await remapImport(appDb(), therapist, preview.id, { columns: { mrn: "patient_id" }, units: {} }, NOW);
-    expect(incomplete.mappingErrors?.["columns.pao2"]).toEqual(["Choose the column that holds PaO2."]);
+    const incomplete = await remapImport(
+      appDb(),
+      therapist,
+      preview.id,
+      { columns: { mrn: "patient_id" }, units: {} },
+      NOW,
+    );
+    expect(incomplete.mappingErrors?.["columns.pao2"]).toEqual([
+      "Choose the column that holds PaO2.",
+    ]);
   });
 
   it("refuses a file with the wrong delimiter, saying which one it looks like, and stores nothing", async () => {
     const p = await patientOnHfnc();
     const therapist = await actorByEmail(SEEDED.therapist);
     const file = fixture("blood-gas-semicolon.csv", { MRN: p.mrn });
-    const error = (await uploadForPreview(appDb(), therapist, upload("blood_gas_csv", p.unitId, "semi.csv"), file, NOW).catch(
-      (e: unknown) => e,
-    )) as DomainError;
+    const error = (await uploadForPreview(
+      appDb(),
+      therapist,
+      upload("blood_gas_csv", p.unitId, "semi.csv"),
+      file,
+      NOW,
+    ).catch((e: unknown) => e)) as DomainError;
     expect(error).toBeInstanceOf(DomainError);
     expect(error.status).toBe(422);
     expect(error.message).toMatch(/looks separated by semicolon \(;\), not comma \(,\)/);
     const sha = createHash("sha256").update(file).digest("hex");
     expect(await count("imports", { content_sha256: sha })).toBe(0);
     // With the delimiter chosen, the same file reads.
-    const ok = await uploadForPreview(appDb(), therapist, upload("blood_gas_csv", p.unitId, "semi.csv", { delimiter: ";" }), file, NOW);
+    const ok = await uploadForPreview(
+      appDb(),
+      therapist,
+      upload("blood_gas_csv", p.unitId, "semi.csv", { delimiter: ";" }),
+      file,
+      NOW,
+    );
     expect(ok.counts).toEqual({ total: 1, accepted: 1, rejected: 0 });
   });
 
@@ -235,16 +323,48 @@ describe("blood gas CSV", () => {
     const q = await patientOnHfnc();
     const therapist = await actorByEmail(SEEDED.therapist);
     const file = fixture("blood-gas-valid.csv", { MRN: p.mrn, MRN2: q.mrn });
-    const first = await uploadForPreview(appDb(), therapist, upload("blood_gas_csv", p.unitId, "a.csv"), file, NOW);
+    const first = await uploadForPreview(
+      appDb(),
+      therapist,
+      upload("blood_gas_csv", p.unitId, "a.csv"),
+      file,
+      NOW,
+    );
     await confirmImport(appDb(), therapist, { importId: first.id, expectedAccepted: 3 }, NOW);
-    const ledgerBefore = await count("ledger_entries", { entity_type: "import", entity_id: String(first.id), patient_id: p.patientId });
-    const again = await uploadForPreview(appDb(), therapist, upload("blood_gas_csv", p.unitId, "renamed.csv"), file, NOW);
-    expect(again).toMatchObject({ id: first.id, status: "imported", alreadyImported: true, fileName: "a.csv" });
-    const confirmedAgain = await confirmImport(appDb(), therapist, { importId: first.id, expectedAccepted: 3 }, NOW);
+    const ledgerBefore = await count("ledger_entries", {
+      entity_type: "import",
+      entity_id: String(first.id),
+      patient_id: p.patientId,
+    });
+    const again = await uploadForPreview(
+      appDb(),
+      therapist,
+      upload("blood_gas_csv", p.unitId, "renamed.csv"),
+      file,
+      NOW,
+    );
+    expect(again).toMatchObject({
+      id: first.id,
+      status: "imported",
+      alreadyImported: true,
+      fileName: "a.csv",
+    });
+    const confirmedAgain = await confirmImport(
+      appDb(),
+      therapist,
+      { importId: first.id, expectedAccepted: 3 },
+      NOW,
+    );
     expect(confirmedAgain.alreadyImported).toBe(true);
     expect(await count("blood_gases", { patient_id: p.patientId })).toBe(2);
     expect(ledgerBefore).toBe(1);
-    expect(await count("ledger_entries", { entity_type: "import", entity_id: String(first.id), patient_id: p.patientId })).toBe(ledgerBefore);
+    expect(
+      await count("ledger_entries", {
+        entity_type: "import",
+        entity_id: String(first.id),
+        patient_id: p.patientId,
+      }),
+    ).toBe(ledgerBefore);
   });
 
   it("refuses a stale confirm without writing anything, and refuses roles that do not upload", async () => {
@@ -267,7 +387,13 @@ describe("blood gas CSV", () => {
     expect((await getImportPreview(appDb(), therapist, preview.id)).status).toBe("previewed");
     const nurse = await actorByEmail(SEEDED.nurse);
     await expect(
-      uploadForPreview(appDb(), nurse, upload("blood_gas_csv", p.unitId, "x.csv"), Buffer.from("a"), NOW),
+      uploadForPreview(
+        appDb(),
+        nurse,
+        upload("blood_gas_csv", p.unitId, "x.csv"),
+        Buffer.from("a"),
+        NOW,
+      ),
     ).rejects.toBeInstanceOf(ForbiddenError);
   });
 });
@@ -289,7 +415,16 @@ describe("HL7 v2 ORU^R01", () => {
     await confirmImport(appDb(), therapist, { importId: preview.id, expectedAccepted: 2 }, NOW);
     const gas = (await appDb()("blood_gases")
       .where({ patient_id: p.patientId })
-      .first("pao2_mmhg", "paco2_mmhg", "hb_g_dl", "fio2", "ph", "sao2_pct", "hco3_mmol_l", "base_excess_mmol_l")) as Record<string, number>;
+      .first(
+        "pao2_mmhg",
+        "paco2_mmhg",
+        "hb_g_dl",
+        "fio2",
+        "ph",
+        "sao2_pct",
+        "hco3_mmol_l",
+        "base_excess_mmol_l",
+      )) as Record<string, number>;
     // 9.5 kPa = 71.3 mmHg; 5.6 kPa = 42.0 mmHg; 121 g/L = 12.1 g/dL; FiO2 40 % = 0.40.
     expect(gas).toEqual({
       pao2_mmhg: 71.3,
@@ -303,9 +438,19 @@ describe("HL7 v2 ORU^R01", () => {
     });
     const reading = (await appDb()("readings")
       .where({ patient_id: p.patientId, import_id: preview.id })
-      .first("spo2_pct", "source", "taken_at")) as { spo2_pct: number; source: string; taken_at: Date };
-    expect(reading).toEqual({ spo2_pct: 94, source: "monitor", taken_at: new Date("2026-11-20T08:01:00Z") });
-    const stored = (await appDb()("imports").where({ id: preview.id }).first("source_message_id")) as { source_message_id: string };
+      .first("spo2_pct", "source", "taken_at")) as {
+      spo2_pct: number;
+      source: string;
+      taken_at: Date;
+    };
+    expect(reading).toEqual({
+      spo2_pct: 94,
+      source: "monitor",
+      taken_at: new Date("2026-11-20T08:01:00Z"),
+    });
+    const stored = (await appDb()("imports")
+      .where({ id: preview.id })
+      .first("source_message_id")) as { source_message_id: string };
     expect(stored.source_message_id).toBe(`GASLAB|KESTREL|${msgId}`);
   });
 
@@ -362,14 +507,31 @@ describe("monitor CSV", () => {
       fixture("monitor-valid.csv", {}),
       NOW,
     );
-    expect(preview).toMatchObject({ counts: { total: 6, accepted: 6, rejected: 0 }, monitor: { mrn: p.mrn, bed: p.bed } });
+    expect(preview).toMatchObject({
+      counts: { total: 6, accepted: 6, rejected: 0 },
+      monitor: { mrn: p.mrn, bed: p.bed },
+    });
     await confirmImport(appDb(), therapist, { importId: preview.id, expectedAccepted: 6 }, NOW);
     const rows = (await appDb()("readings")
       .where({ patient_id: p.patientId })
       .orderBy("taken_at")
-      .select("spo2_pct", "pulse_rate_per_min", "device", "fio2", "flow_l_min", "source")) as Record<string, unknown>[];
+      .select(
+        "spo2_pct",
+        "pulse_rate_per_min",
+        "device",
+        "fio2",
+        "flow_l_min",
+        "source",
+      )) as Record<string, unknown>[];
     expect(rows).toHaveLength(6);
-    expect(rows[0]).toEqual({ spo2_pct: 95, pulse_rate_per_min: 88, device: "hfnc", fio2: 0.45, flow_l_min: 40, source: "monitor" });
+    expect(rows[0]).toEqual({
+      spo2_pct: 95,
+      pulse_rate_per_min: 88,
+      device: "hfnc",
+      fio2: 0.45,
+      flow_l_min: 40,
+      source: "monitor",
+    });
     expect(rows[3]?.pulse_rate_per_min).toBeNull();
     const ledger = (await appDb()("ledger_entries")
       .where({ entity_type: "import", entity_id: String(preview.id), patient_id: p.patientId })
@@ -393,7 +555,10 @@ describe("monitor CSV", () => {
       ...Array<number>(60).fill(94),
       ...Array<number>(90).fill(89),
     ];
-    const csv = ["time,spo2", ...values.map((v, i) => `${new Date(start + i * 1000).toISOString()},${v}`)].join("\n");
+    const csv = [
+      "time,spo2",
+      ...values.map((v, i) => `${new Date(start + i * 1000).toISOString()},${v}`),
+    ].join("\n");
     const preview = await uploadForPreview(
       appDb(),
       therapist,
@@ -401,7 +566,12 @@ describe("monitor CSV", () => {
       Buffer.from(csv, "utf8"),
       NOW,
     );
-    await confirmImport(appDb(), therapist, { importId: preview.id, expectedAccepted: values.length }, NOW);
+    await confirmImport(
+      appDb(),
+      therapist,
+      { importId: preview.id, expectedAccepted: values.length },
+      NOW,
+    );
     const alerts = (await appDb()("alerts")
       .where({ patient_id: p.patientId })
       .select("kind", "state", "started_at", "trigger_spo2_pct")) as Record<string, unknown>[];
@@ -426,12 +596,22 @@ describe("monitor CSV", () => {
       NOW,
     );
     expect(preview.counts).toEqual({ total: 9, accepted: 3, rejected: 6 });
-    expect(preview.rejected.map((r) => [r.line, r.reasons[0]?.code, r.reasons[0]?.message])).toEqual([
+    expect(
+      preview.rejected.map((r) => [r.line, r.reasons[0]?.code, r.reasons[0]?.message]),
+    ).toEqual([
       [3, "range", "SpO2 140 % is outside 50–100 %."],
       [5, "missing", "SpO2 is missing."],
-      [6, "unit", "SpO2 column is labelled % but 0.95 looks like a fraction (0–1); check the column's unit."],
+      [
+        6,
+        "unit",
+        "SpO2 column is labelled % but 0.95 looks like a fraction (0–1); check the column's unit.",
+      ],
       [7, "format", "Pulse rate 'abc' is not a whole number."],
-      [9, "duplicate", "Duplicate time 2026-11-20T09:00:05.000Z: an earlier row has the same time."],
+      [
+        9,
+        "duplicate",
+        "Duplicate time 2026-11-20T09:00:05.000Z: an earlier row has the same time.",
+      ],
       [10, "time", "Time 2027-01-01T00:00:00Z is in the future."],
     ]);
     await confirmImport(appDb(), therapist, { importId: preview.id, expectedAccepted: 3 }, NOW);
@@ -452,17 +632,27 @@ describe("monitor CSV", () => {
     const p = await patientOnHfnc();
     const therapist = await actorByEmail(SEEDED.therapist);
     const attempt = (file: Buffer, mrn: string, bed: string) =>
-      uploadForPreview(appDb(), therapist, upload("monitor_csv", p.unitId, "m.csv", { mrn, bed }), file, NOW).then(
+      uploadForPreview(
+        appDb(),
+        therapist,
+        upload("monitor_csv", p.unitId, "m.csv", { mrn, bed }),
+        file,
+        NOW,
+      ).then(
         () => new DomainError("was accepted", 400),
         (e: unknown) => e as DomainError,
       );
     const semi = await attempt(fixture("monitor-semicolon.csv", {}), p.mrn, p.bed);
     expect(semi.message).toMatch(/looks separated by semicolon/);
     const bed = await attempt(fixture("monitor-valid.csv", {}), p.mrn, "NOPE");
-    expect(bed.message).toBe(`MRN ${p.mrn} is admitted on MICU bed ${p.bed}, not bed NOPE; check which monitor the file came from.`);
+    expect(bed.message).toBe(
+      `MRN ${p.mrn} is admitted on MICU bed ${p.bed}, not bed NOPE; check which monitor the file came from.`,
+    );
     const stranger = unknownMrn();
     const unknown = await attempt(fixture("monitor-valid.csv", {}), stranger, p.bed);
-    expect(unknown.message).toBe(`MRN ${stranger} is not an admitted patient on MICU; no row of the file was imported.`);
+    expect(unknown.message).toBe(
+      `MRN ${stranger} is not an admitted patient on MICU; no row of the file was imported.`,
+    );
     expect(await count("readings", { patient_id: p.patientId })).toBe(0);
   });
 });
