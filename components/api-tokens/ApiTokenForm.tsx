@@ -9,6 +9,7 @@ import { useHydrated } from "@/components/bedside/BedsideFormParts";
 import { Button } from "@/components/ui/Button";
 import { Field, inputClasses } from "@/components/ui/Field";
 import { apiTokenCreateSchema, type ApiTokenScope } from "@/lib/api-tokens/schema";
+import { UnitCheckboxes } from "@/components/units/UnitCheckboxes";
 
 type Values = { name: string; scope: ApiTokenScope; unitIds: number[] };
 const FIELDS = ["name", "scope", "unitIds"] as const;
@@ -52,12 +53,19 @@ export function ApiTokenForm({ units }: { units: { id: number; label: string }[]
   return (
     <div className="space-y-3">
       {created ? (
-        <div role="alert" className="space-y-2 rounded-card border border-in-band/50 bg-in-band-soft p-4">
+        <div
+          role="alert"
+          className="space-y-2 rounded-card border border-in-band/50 bg-in-band-soft p-4"
+        >
           <p className="text-sm font-medium">
-            Token “{created.name}” created. Copy it now: it is shown only this once and cannot be recovered.
+            Token “{created.name}” created. Copy it now: it is shown only this once and cannot be
+            recovered.
           </p>
           <div className="flex flex-wrap items-center gap-2">
-            <code className="break-all rounded bg-surface px-2 py-1 font-mono text-sm" data-testid="new-token">
+            <code
+              className="rounded bg-surface px-2 py-1 font-mono text-sm break-all"
+              data-testid="new-token"
+            >
               {created.token}
             </code>
             <Button
@@ -86,12 +94,31 @@ export function ApiTokenForm({ units }: { units: { id: number; label: string }[]
         </h2>
         <fieldset disabled={!hydrated} className="min-w-0 space-y-3">
           <div className="grid gap-x-4 sm:grid-cols-2">
-            <Field id="token-name" label="Name" hint="Which interface engine or device uses it." error={errors.name?.message}>
-              {(d, invalid) => <input id="token-name" className={inputClasses} aria-invalid={invalid} aria-describedby={d} {...register("name")} />}
+            <Field
+              id="token-name"
+              label="Name"
+              hint="Which interface engine or device uses it."
+              error={errors.name?.message}
+            >
+              {(d, invalid) => (
+                <input
+                  id="token-name"
+                  className={inputClasses}
+                  aria-invalid={invalid}
+                  aria-describedby={d}
+                  {...register("name")}
+                />
+              )}
             </Field>
             <Field id="token-scope" label="Scope" error={errors.scope?.message}>
               {(d, invalid) => (
-                <select id="token-scope" className={inputClasses} aria-invalid={invalid} aria-describedby={d} {...register("scope")}>
+                <select
+                  id="token-scope"
+                  className={inputClasses}
+                  aria-invalid={invalid}
+                  aria-describedby={d}
+                  {...register("scope")}
+                >
                   <option value="write">Write (send imports)</option>
                   <option value="read">Read only (FHIR export)</option>
                 </select>
@@ -102,28 +129,14 @@ export function ApiTokenForm({ units }: { units: { id: number; label: string }[]
             control={control}
             name="unitIds"
             render={({ field }) => (
-              <fieldset aria-describedby={errors.unitIds ? "token-units-error" : undefined}>
-                <legend className="text-sm font-medium">Units</legend>
-                <div className="mt-1 flex flex-wrap gap-4">
-                  {units.map((u) => (
-                    <label key={u.id} className="flex items-center gap-2 text-sm">
-                      <input
-                        type="checkbox"
-                        className="size-4 accent-accent"
-                        checked={field.value.includes(u.id)}
-                        onChange={(e) =>
-                          field.onChange(e.target.checked ? [...field.value, u.id] : field.value.filter((x) => x !== u.id))
-                        }
-                        onBlur={field.onBlur}
-                      />
-                      {u.label}
-                    </label>
-                  ))}
-                </div>
-                <p id="token-units-error" className="min-h-4 text-xs font-medium text-below" aria-live="polite">
-                  {errors.unitIds?.message ?? ""}
-                </p>
-              </fieldset>
+              <UnitCheckboxes
+                units={units}
+                value={field.value}
+                onChange={field.onChange}
+                onBlur={field.onBlur}
+                errorId="token-units-error"
+                error={errors.unitIds?.message}
+              />
             )}
           />
           <div className="flex flex-wrap items-center gap-3">

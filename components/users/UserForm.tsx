@@ -10,6 +10,7 @@ import { Button } from "@/components/ui/Button";
 import { Field, inputClasses } from "@/components/ui/Field";
 import { ROLE_LABELS, ROLES } from "@/lib/auth/roles";
 import type { UserSummary } from "@/lib/users/queries";
+import { UnitCheckboxes } from "@/components/units/UnitCheckboxes";
 import {
   PASSWORD_MIN,
   userCreateSchema,
@@ -21,7 +22,15 @@ type Props =
   | { mode: "create"; units: { id: number; label: string }[]; user?: undefined }
   | { mode: "edit"; units: { id: number; label: string }[]; user: UserSummary };
 
-const FIELDS = ["email", "name", "role", "unitIds", "pressureUnit", "rationale", "password"] as const;
+const FIELDS = [
+  "email",
+  "name",
+  "role",
+  "unitIds",
+  "pressureUnit",
+  "rationale",
+  "password",
+] as const;
 
 /** Create or edit an account. Server refusals land beside the fields; typed values stay. */
 export function UserForm({ mode, units, user }: Props) {
@@ -30,7 +39,8 @@ export function UserForm({ mode, units, user }: Props) {
   const hydrated = useHydrated();
   const [formError, setFormError] = useState<string | null>(null);
   const [saved, setSaved] = useState<string | null>(null);
-  const schema = mode === "create" ? userCreateSchema : userUpdateSchema.omit({ id: true, version: true });
+  const schema =
+    mode === "create" ? userCreateSchema : userUpdateSchema.omit({ id: true, version: true });
   const {
     register,
     control,
@@ -85,16 +95,38 @@ export function UserForm({ mode, units, user }: Props) {
       <fieldset disabled={!hydrated} className="min-w-0 space-y-4">
         <div className="grid gap-x-4 sm:grid-cols-2">
           <Field id="name" label="Full name" error={errors.name?.message}>
-            {(d, invalid) => <input id="name" className={inputClasses} aria-invalid={invalid} aria-describedby={d} {...register("name")} />}
+            {(d, invalid) => (
+              <input
+                id="name"
+                className={inputClasses}
+                aria-invalid={invalid}
+                aria-describedby={d}
+                {...register("name")}
+              />
+            )}
           </Field>
           <Field id="email" label="E-mail (sign-in)" error={errors.email?.message}>
             {(d, invalid) => (
-              <input id="email" type="email" autoComplete="off" className={inputClasses} aria-invalid={invalid} aria-describedby={d} {...register("email")} />
+              <input
+                id="email"
+                type="email"
+                autoComplete="off"
+                className={inputClasses}
+                aria-invalid={invalid}
+                aria-describedby={d}
+                {...register("email")}
+              />
             )}
           </Field>
           <Field id="role" label="Role" error={errors.role?.message}>
             {(d, invalid) => (
-              <select id="role" className={inputClasses} aria-invalid={invalid} aria-describedby={d} {...register("role")}>
+              <select
+                id="role"
+                className={inputClasses}
+                aria-invalid={invalid}
+                aria-describedby={d}
+                {...register("role")}
+              >
                 {ROLES.map((r) => (
                   <option key={r} value={r}>
                     {ROLE_LABELS[r]}
@@ -105,7 +137,13 @@ export function UserForm({ mode, units, user }: Props) {
           </Field>
           <Field id="pressureUnit" label="Pressures shown in" error={errors.pressureUnit?.message}>
             {(d, invalid) => (
-              <select id="pressureUnit" className={inputClasses} aria-invalid={invalid} aria-describedby={d} {...register("pressureUnit")}>
+              <select
+                id="pressureUnit"
+                className={inputClasses}
+                aria-invalid={invalid}
+                aria-describedby={d}
+                {...register("pressureUnit")}
+              >
                 <option value="mmHg">mmHg</option>
                 <option value="kPa">kPa</option>
               </select>
@@ -117,30 +155,14 @@ export function UserForm({ mode, units, user }: Props) {
           control={control}
           name="unitIds"
           render={({ field }) => (
-            <fieldset aria-describedby={errors.unitIds ? "unitIds-error" : undefined}>
-              <legend className="text-sm font-medium">Units</legend>
-              <div className="mt-1 flex flex-wrap gap-4">
-                {units.map((u) => (
-                  <label key={u.id} className="flex items-center gap-2 text-sm">
-                    <input
-                      type="checkbox"
-                      className="size-4 accent-accent"
-                      checked={field.value.includes(u.id)}
-                      onChange={(e) =>
-                        field.onChange(
-                          e.target.checked ? [...field.value, u.id] : field.value.filter((id) => id !== u.id),
-                        )
-                      }
-                      onBlur={field.onBlur}
-                    />
-                    {u.label}
-                  </label>
-                ))}
-              </div>
-              <p id="unitIds-error" className="min-h-4 text-xs font-medium text-below" aria-live="polite">
-                {errors.unitIds?.message ?? ""}
-              </p>
-            </fieldset>
+            <UnitCheckboxes
+              units={units}
+              value={field.value}
+              onChange={field.onChange}
+              onBlur={field.onBlur}
+              errorId="unitIds-error"
+              error={errors.unitIds?.message}
+            />
           )}
         />
 
@@ -156,11 +178,32 @@ export function UserForm({ mode, units, user }: Props) {
             error={errors.password?.message}
           >
             {(d, invalid) => (
-              <input id="password" type="password" autoComplete="new-password" className={inputClasses} aria-invalid={invalid} aria-describedby={d} {...register("password")} />
+              <input
+                id="password"
+                type="password"
+                autoComplete="new-password"
+                className={inputClasses}
+                aria-invalid={invalid}
+                aria-describedby={d}
+                {...register("password")}
+              />
             )}
           </Field>
-          <Field id="rationale" label="Reason for the change (optional)" hint="Recorded in the ledger." error={errors.rationale?.message}>
-            {(d, invalid) => <input id="rationale" className={inputClasses} aria-invalid={invalid} aria-describedby={d} {...register("rationale")} />}
+          <Field
+            id="rationale"
+            label="Reason for the change (optional)"
+            hint="Recorded in the ledger."
+            error={errors.rationale?.message}
+          >
+            {(d, invalid) => (
+              <input
+                id="rationale"
+                className={inputClasses}
+                aria-invalid={invalid}
+                aria-describedby={d}
+                {...register("rationale")}
+              />
+            )}
           </Field>
         </div>
 
