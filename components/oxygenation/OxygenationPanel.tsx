@@ -284,42 +284,24 @@ export function OxygenationPanel({ assessment, input, pressureUnit }: Oxygenatio
               </dl>
             </IndexCard>
           ) : null}
-          {indices.oxygenDelivery ? (
-            <IndexCard
-              label="O2 delivery (DO2)"
-              value={formatNumber(indices.oxygenDelivery.value, 0)}
-              unit={indices.oxygenDelivery.unit}
-              basis={indices.oxygenDelivery.basis}
-              pressureUnit={unit}
-            />
-          ) : null}
-          {indices.oxygenationIndex ? (
-            <IndexCard
-              label="Oxygenation index (OI)"
-              value={formatNumber(indices.oxygenationIndex.value, 1)}
-              unit="index"
-              basis={indices.oxygenationIndex.basis}
-              pressureUnit={unit}
-            />
-          ) : null}
-          {indices.oxygenSaturationIndex ? (
-            <IndexCard
-              label="O2 saturation index (OSI)"
-              value={formatNumber(indices.oxygenSaturationIndex.value, 1)}
-              unit="index"
-              basis={indices.oxygenSaturationIndex.basis}
-              pressureUnit={unit}
-            />
-          ) : null}
-          {indices.roxIndex ? (
-            <IndexCard
-              label="ROX index"
-              value={formatNumber(indices.roxIndex.value, 2)}
-              unit="index"
-              basis={indices.roxIndex.basis}
-              pressureUnit={unit}
-            />
-          ) : null}
+          {[
+            { label: "O2 delivery (DO2)", index: indices.oxygenDelivery, digits: 0 },
+            { label: "Oxygenation index (OI)", index: indices.oxygenationIndex, digits: 1 },
+            { label: "O2 saturation index (OSI)", index: indices.oxygenSaturationIndex, digits: 1 },
+            { label: "ROX index", index: indices.roxIndex, digits: 2 },
+          ].map(({ label, index, digits }) =>
+            // Shown only when the inputs it needs were given.
+            index ? (
+              <IndexCard
+                key={label}
+                label={label}
+                value={formatNumber(index.value, digits)}
+                unit={index.unit}
+                basis={index.basis}
+                pressureUnit={unit}
+              />
+            ) : null,
+          )}
         </ul>
       </section>
 
