@@ -7,6 +7,7 @@ import { Field, inputClasses } from "@/components/ui/Field";
 import { IconCheck, IconWarning } from "@/components/ui/icons";
 import type { FieldErrors } from "@/lib/errors";
 import { DEVICE_PROFILES, DEVICES, estimateFio2, type Device } from "@/lib/orders/devices";
+import { wallTimeToInstant, zoneOffsetMs } from "@/lib/time/zone";
 
 // Pieces the bedside forms (adjustment, reading, blood gas) and the blood-gas
 // evaluator share: number inputs, the unit's wall-clock time, the idempotency
@@ -135,30 +136,6 @@ export function NumberField<T extends FieldValues>({
 
 const LOCAL_PATTERN = /^(\d{4})-(\d{2})-(\d{2})T(\d{2}):(\d{2})$/;
 
-function zoneOffsetMs(instant: number, timeZone: string): number {
-  const parts = new Intl.DateTimeFormat("en-US", {
-    timeZone,
-    hourCycle: "h23",
-    year: "numeric",
-    month: "2-digit",
-    day: "2-digit",
-    hour: "2-digit",
-    minute: "2-digit",
-    second: "2-digit",
-  }).formatToParts(new Date(instant));
-  const get = (type: Intl.DateTimeFormatPartTypes) =>
-    Number(parts.find((p) => p.type === type)?.value ?? 0);
-  const wall = Date.UTC(
-    get("year"),
-    get("month") - 1,
-    get("day"),
-    get("hour"),
-    get("minute"),
-    get("second"),
-  );
-  return wall - Math.floor(instant / 1000) * 1000;
-}
-
 /** An instant as the unit's wall-clock time, in the form a datetime-local input holds. */
 export function toZonedLocalInput(date: Date, timeZone: string): string {
   const wall = new Date(date.getTime() + zoneOffsetMs(date.getTime(), timeZone));
@@ -172,10 +149,7 @@ export function fromZonedLocalInput(local: string, timeZone: string): Date | nul
   const [, y, mo, d, h, mi] = m.map(Number) as [number, number, number, number, number, number];
   const wall = Date.UTC(y, mo - 1, d, h, mi);
   if (Number.isNaN(wall)) return null;
-  // Two passes settle the offset on either side of a daylight-saving change.
-  const first = wall - zoneOffsetMs(wall, timeZone);
-  const second = wall - zoneOffsetMs(first, timeZone);
-  return new Date(second);
+  return wallTimeToInstant(wall, timeZone);
 }
 
 /** The datetime-local field of a form: required, a real date and time. */

@@ -1,67 +1,9 @@
 // Times are stored in UTC and shown in the unit's time zone, always with the
-// zone named. Intl does the zone arithmetic, so no time-zone data ships with us.
+// zone named. Intl does the zone arithmetic (lib/time/zone), so no time-zone data ships with us.
 
-type Parts = {
-  year: number;
-  month: number;
-  day: number;
-  hour: number;
-  minute: number;
-  second: number;
-};
-
-const formatters = new Map<string, Intl.DateTimeFormat>();
-
-function formatterFor(timeZone: string): Intl.DateTimeFormat {
-  let f = formatters.get(timeZone);
-  if (!f) {
-    f = new Intl.DateTimeFormat("en-GB", {
-      timeZone,
-      hourCycle: "h23",
-      year: "numeric",
-      month: "2-digit",
-      day: "2-digit",
-      hour: "2-digit",
-      minute: "2-digit",
-      second: "2-digit",
-    });
-    formatters.set(timeZone, f);
-  }
-  return f;
-}
-
-/** Whether the runtime knows this IANA zone name. */
-export function isKnownTimeZone(timeZone: string): boolean {
-  try {
-    formatterFor(timeZone);
-    return true;
-  } catch {
-    return false;
-  }
-}
-
-function partsIn(date: Date, timeZone: string): Parts {
-  const parts = formatterFor(timeZone).formatToParts(date);
-  const get = (type: Intl.DateTimeFormatPartTypes) =>
-    Number(parts.find((p) => p.type === type)?.value ?? 0);
-  return {
-    year: get("year"),
-    month: get("month"),
-    day: get("day"),
-    hour: get("hour"),
-    minute: get("minute"),
-    second: get("second"),
-  };
-}
+import { wallParts, wallTimeToInstant } from "@/lib/time/zone";
 
 const pad = (n: number, width = 2) => String(n).padStart(width, "0");
-
-/** Milliseconds the zone is ahead of UTC at this instant. */
-function offsetAt(instant: number, timeZone: string): number {
-  const p = partsIn(new Date(instant), timeZone);
-  const wallAsUtc = Date.UTC(p.year, p.month - 1, p.day, p.hour, p.minute, p.second);
-  return wallAsUtc - (instant - (((instant % 1000) + 1000) % 1000));
-}
 
 /** A `datetime-local` value, seconds optional. */
 export const LOCAL_DATE_TIME = /^(\d{4})-(\d{2})-(\d{2})T(\d{2}):(\d{2})(?::(\d{2}))?$/;
@@ -91,22 +33,19 @@ export function zonedLocalToUtc(local: string, timeZone: string): Date | undefin
     check.getUTCDate() !== day
   )
     return undefined;
-  // The offset at the wall time read as UTC is a guess; the offset at the guess is right
-  // except across a change, where the second pass settles it.
-  const guess = wall - offsetAt(wall, timeZone);
-  return new Date(wall - offsetAt(guess, timeZone));
+  return wallTimeToInstant(wall, timeZone);
 }
 
 /** The instant as a `datetime-local` value in the zone; seconds only when not zero. */
 export function utcToZonedLocal(instant: Date, timeZone: string): string {
-  const p = partsIn(instant, timeZone);
+  const p = wallParts(instant, timeZone);
   const seconds = p.second ? `:${pad(p.second)}` : "";
   return `${pad(p.year, 4)}-${pad(p.month)}-${pad(p.day)}T${pad(p.hour)}:${pad(p.minute)}${seconds}`;
 }
 
 /** "2025-03-04" and "14:05:09" in the zone. */
 export function formatInZone(instant: Date, timeZone: string): { date: string; time: string } {
-  const p = partsIn(instant, timeZone);
+  const p = wallParts(instant, timeZone);
   return {
     date: `${pad(p.year, 4)}-${pad(p.month)}-${pad(p.day)}`,
     time: `${pad(p.hour)}:${pad(p.minute)}:${pad(p.second)}`,

@@ -1,6 +1,6 @@
 import type { Metadata } from "next";
 import { Suspense } from "react";
-import { isKnownTimeZone } from "@/components/ledger/LedgerTime";
+import { isKnownTimeZone } from "@/lib/time/zone";
 import { LedgerLoading, LedgerView } from "@/components/ledger/LedgerView";
 import { pageActor } from "@/lib/auth/page-guard";
 import { db } from "@/lib/db";

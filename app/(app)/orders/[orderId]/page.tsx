@@ -23,6 +23,7 @@ import { getOrder, type OrderView } from "@/lib/orders/queries";
 import { getAdmissionPatient } from "@/lib/patients/queries";
 import { getStepTableName } from "@/lib/step-tables/queries";
 import { listUnits } from "@/lib/units/queries";
+import { wallTimeToInstant, zoneOffsetMs } from "@/lib/time/zone";
 
 export const metadata: Metadata = { title: "Order" };
 
@@ -33,23 +34,6 @@ const paramsSchema = z.object({ orderId: z.coerce.number().int().positive() });
 // ---------------------------------------------------------------------------
 
 const WALL_TIME = /^(\d{4})-(\d{2})-(\d{2})[T ](\d{2}):(\d{2})(?::(\d{2})(?:\.\d{1,3})?)?$/;
-
-/** What a clock in `timeZone` shows at `date`, as Date.UTC milliseconds (whole seconds). */
-function wallClockMs(date: Date, timeZone: string): number {
-  const parts = new Intl.DateTimeFormat("en-US", {
-    timeZone,
-    hourCycle: "h23",
-    year: "numeric",
-    month: "2-digit",
-    day: "2-digit",
-    hour: "2-digit",
-    minute: "2-digit",
-    second: "2-digit",
-  }).formatToParts(date);
-  const get = (type: Intl.DateTimeFormatPartTypes) =>
-    Number(parts.find((p) => p.type === type)?.value ?? "0");
-  return Date.UTC(get("year"), get("month") - 1, get("day"), get("hour"), get("minute"), get("second"));
-}
 
 /**
  * The moment a wall-clock time in `timeZone` names; ISO strings with a zone
@@ -63,17 +47,23 @@ function parseAsOf(text: string, timeZone: string): Date | null {
     return Number.isNaN(d.getTime()) ? null : d;
   }
   const [, y, mo, d, h, mi, s] = m;
-  const wall = Date.UTC(Number(y), Number(mo) - 1, Number(d), Number(h), Number(mi), Number(s ?? "0"));
+  const wall = Date.UTC(
+    Number(y),
+    Number(mo) - 1,
+    Number(d),
+    Number(h),
+    Number(mi),
+    Number(s ?? "0"),
+  );
   if (Number.isNaN(wall)) return null;
-  // The zone's offset at that moment (twice, for the hour around a clock change).
-  let utc = wall - (wallClockMs(new Date(wall), timeZone) - wall);
-  utc = wall - (wallClockMs(new Date(utc), timeZone) - utc);
-  return new Date(utc);
+  return wallTimeToInstant(wall, timeZone);
 }
 
 /** A moment as the datetime-local input shows it, on the unit's clock. */
 function toWallText(date: Date, timeZone: string): string {
-  return new Date(wallClockMs(date, timeZone)).toISOString().slice(0, 19);
+  return new Date(date.getTime() + zoneOffsetMs(date.getTime(), timeZone))
+    .toISOString()
+    .slice(0, 19);
 }
 
 const ACTION_WORDS: Record<string, string> = {
@@ -88,7 +78,10 @@ const ACTION_WORDS: Record<string, string> = {
 
 function Card({ title, children, id }: { title: string; children: ReactNode; id: string }) {
   return (
-    <section aria-labelledby={id} className="rounded-card border border-border bg-surface p-4 shadow-card">
+    <section
+      aria-labelledby={id}
+      className="rounded-card border border-border bg-surface p-4 shadow-card"
+    >
       <h2 id={id} className="mb-2 text-base font-semibold">
         {title}
       </h2>
@@ -128,10 +121,13 @@ export default async function OrderPage({
   const query = await searchParams;
   const asOfText = typeof query.asOf === "string" ? query.asOf : "";
   const asOf = asOfText ? parseAsOf(asOfText, timeZone) : null;
-  const asOfError = asOfText && !asOf ? "Enter a date and time, for example 2026-12-01 14:30:00." : null;
+  const asOfError =
+    asOfText && !asOf ? "Enter a date and time, for example 2026-12-01 14:30:00." : null;
   const past = asOf ? await getOrder(db(), order.id, asOf) : null;
   const pastTableName =
-    past && past.stepTableId !== order.stepTableId ? await getStepTableName(db(), past.stepTableId) : tableName;
+    past && past.stepTableId !== order.stepTableId
+      ? await getStepTableName(db(), past.stepTableId)
+      : tableName;
 
   const physician = actor.role === "physician";
   const inEffect = order.status === "active" || order.status === "awaiting_cosign";
@@ -150,7 +146,7 @@ export default async function OrderPage({
     <div className="space-y-5">
       <header className="flex flex-wrap items-start justify-between gap-3 rounded-card border border-border bg-surface p-4 shadow-card">
         <div className="space-y-1">
-          <p className="text-xs font-medium uppercase tracking-wide text-ink-muted">Order</p>
+          <p className="text-xs font-medium tracking-wide text-ink-muted uppercase">Order</p>
           <div className="flex flex-wrap items-center gap-2">
             <h1 className="text-2xl font-semibold tracking-tight">Order #{order.id}</h1>
             <OrderStatusBadge status={order.status} />
@@ -184,9 +180,15 @@ export default async function OrderPage({
           </Card>
 
           {physician && order.status === "awaiting_cosign" ? (
-            <CosignForm orderId={order.id} version={order.version} enteredBy={order.enteredBy.name} />
+            <CosignForm
+              orderId={order.id}
+              version={order.version}
+              enteredBy={order.enteredBy.name}
+            />
           ) : null}
-          {physician && inEffect ? <DiscontinueForm orderId={order.id} version={order.version} /> : null}
+          {physician && inEffect ? (
+            <DiscontinueForm orderId={order.id} version={order.version} />
+          ) : null}
 
           <section
             aria-labelledby="as-of-heading"
@@ -224,7 +226,10 @@ export default async function OrderPage({
               </p>
             ) : null}
             {asOf ? (
-              <div className="rounded-md border border-border bg-surface-muted p-3" data-testid="order-as-of">
+              <div
+                className="rounded-md border border-border bg-surface-muted p-3"
+                data-testid="order-as-of"
+              >
                 {past ? (
                   <div className="space-y-2">
                     <div className="flex flex-wrap items-center gap-2 text-sm">
@@ -254,12 +259,17 @@ export default async function OrderPage({
                         </>
                       ) : null}
                     </dl>
-                    <OrderFacts order={past} stepTableName={pastTableName} pressureUnit={actor.pressureUnit} />
+                    <OrderFacts
+                      order={past}
+                      stepTableName={pastTableName}
+                      pressureUnit={actor.pressureUnit}
+                    />
                   </div>
                 ) : (
                   <p className="flex items-center gap-2 text-sm">
                     <IconInfo className="shrink-0 text-ink-muted" />
-                    Order #{order.id} did not exist yet at {time(asOf)}. It was entered {time(order.createdAt)}.
+                    Order #{order.id} did not exist yet at {time(asOf)}. It was entered{" "}
+                    {time(order.createdAt)}.
                   </p>
                 )}
               </div>
@@ -271,7 +281,9 @@ export default async function OrderPage({
           <Card title="Signature" id="order-signature">
             <dl className="grid grid-cols-[auto_1fr] gap-x-3 gap-y-1 text-sm">
               <dt className="text-ink-muted">Signed by</dt>
-              <dd>{order.signedBy?.name ?? <span className="text-ink-muted">Not yet signed</span>}</dd>
+              <dd>
+                {order.signedBy?.name ?? <span className="text-ink-muted">Not yet signed</span>}
+              </dd>
               <dt className="text-ink-muted">Signed at</dt>
               <dd className="tabular">{order.signedAt ? time(order.signedAt) : "—"}</dd>
               <dt className="text-ink-muted">Meaning</dt>
@@ -292,15 +304,21 @@ export default async function OrderPage({
               ) : (
                 <>
                   <dt className="text-ink-muted">Read back</dt>
-                  <dd>{order.readBackConfirmed ? `Yes, to ${order.prescriber.name}` : "Not recorded"}</dd>
+                  <dd>
+                    {order.readBackConfirmed ? `Yes, to ${order.prescriber.name}` : "Not recorded"}
+                  </dd>
                   <dt className="text-ink-muted">Co-sign</dt>
                   <dd>
                     {order.cosignedBy && order.cosignedAt ? (
                       <>
-                        {order.cosignedBy.name}, <span className="tabular">{time(order.cosignedAt)}</span>
+                        {order.cosignedBy.name},{" "}
+                        <span className="tabular">{time(order.cosignedAt)}</span>
                       </>
                     ) : order.status === "awaiting_cosign" ? (
-                      <>Awaiting co-sign for {formatDuration(now.getTime() - Date.parse(order.createdAt))}</>
+                      <>
+                        Awaiting co-sign for{" "}
+                        {formatDuration(now.getTime() - Date.parse(order.createdAt))}
+                      </>
                     ) : (
                       "Never co-signed"
                     )}
@@ -320,8 +338,8 @@ export default async function OrderPage({
                   <li key={event.id} className="border-l-2 border-border pl-3">
                     <p className="font-medium">{ACTION_WORDS[event.action] ?? event.action}</p>
                     <p className="text-ink-muted">
-                      <span className="tabular">{time(event.occurredAt)}</span> · {event.actor.name ?? "Unknown"} (
-                      {event.actor.role})
+                      <span className="tabular">{time(event.occurredAt)}</span> ·{" "}
+                      {event.actor.name ?? "Unknown"} ({event.actor.role})
                     </p>
                     {event.rationale ? <p className="break-words">{event.rationale}</p> : null}
                     <Link
@@ -355,11 +373,14 @@ function StateBanner({
   switch (order.status) {
     case "awaiting_cosign":
       return (
-        <p className={`${box} border-overdue/50 bg-overdue-soft text-ink`} data-testid="order-state">
+        <p
+          className={`${box} border-overdue/50 bg-overdue-soft text-ink`}
+          data-testid="order-state"
+        >
           <OrderStatusBadge status={order.status} />
-          In effect, entered by {order.enteredBy.name} as a {order.entryMode} order from {order.prescriber.name}
-          {" "}{formatDuration(now.getTime() - Date.parse(order.createdAt))} ago; waiting for a physician&apos;s
-          co-signature.
+          In effect, entered by {order.enteredBy.name} as a {order.entryMode} order from{" "}
+          {order.prescriber.name} {formatDuration(now.getTime() - Date.parse(order.createdAt))} ago;
+          waiting for a physician&apos;s co-signature.
         </p>
       );
     case "active":
@@ -368,7 +389,10 @@ function StateBanner({
           <OrderStatusBadge status={order.status} />
           In effect since {time(order.cosignedAt ?? order.createdAt)}.
           {order.replacedOrderId ? (
-            <Link href={`/orders/${order.replacedOrderId}`} className="text-accent underline-offset-2 hover:underline">
+            <Link
+              href={`/orders/${order.replacedOrderId}`}
+              className="text-accent underline-offset-2 hover:underline"
+            >
               Replaced order #{order.replacedOrderId}
             </Link>
           ) : null}
@@ -381,7 +405,8 @@ function StateBanner({
           No longer in effect:
           {order.supersededBy ? (
             <>
-              {" "}replaced by{" "}
+              {" "}
+              replaced by{" "}
               <Link
                 href={`/orders/${order.supersededBy.id}`}
                 className="text-accent underline-offset-2 hover:underline"
@@ -400,14 +425,14 @@ function StateBanner({
         <p className={`${box} border-border bg-surface-muted`} data-testid="order-state">
           <OrderStatusBadge status={order.status} />
           Discontinued by {order.discontinuedBy?.name ?? "a physician"}
-          {order.discontinuedAt ? ` at ${time(order.discontinuedAt)}` : ""}: {order.discontinueReason}
+          {order.discontinuedAt ? ` at ${time(order.discontinuedAt)}` : ""}:{" "}
+          {order.discontinueReason}
         </p>
       );
     case "draft":
       return (
         <p className={`${box} border-border bg-surface`} data-testid="order-state">
-          <OrderStatusBadge status={order.status} />
-          A draft: not in effect.
+          <OrderStatusBadge status={order.status} />A draft: not in effect.
         </p>
       );
   }
