@@ -529,6 +529,7 @@ export async function afterOrderChanged(
 }
 
 type AlertForUpdate = OpenAlertRow & {
+  admission_id: number;
   patient_id: number;
   unit_id: number;
   acknowledged_at: Date | null;
@@ -557,6 +558,7 @@ async function lockAlertForActor(
       "a.state",
       "a.escalation_level",
       "a.version",
+      "a.admission_id",
       "a.patient_id",
       "a.unit_id",
       "a.acknowledged_at",
@@ -626,9 +628,6 @@ export async function resolveAlert(
   return knex.transaction(async (trx) => {
     const alert = await lockAlertForActor(trx, actor, input.alertId);
     if (alert.state === "resolved") throw new ConflictError("This alert is already resolved.");
-    const admission = (await trx("alerts").where({ id: alert.id }).first("admission_id")) as {
-      admission_id: number;
-    };
     await closeAlert(
       trx,
       actor,
@@ -641,8 +640,8 @@ export async function resolveAlert(
     );
     // An excursion closed by hand starts detection afresh: the next reading out of band opens a new one.
     if (alert.kind === "below_band" || alert.kind === "above_band") {
-      const state = await lockWatch(trx, admission.admission_id, now);
-      await saveWatch(trx, admission.admission_id, { ...IDLE_WATCH, lastT: state.lastT }, now);
+      const state = await lockWatch(trx, alert.admission_id, now);
+      await saveWatch(trx, alert.admission_id, { ...IDLE_WATCH, lastT: state.lastT }, now);
     }
     return { id: alert.id, state: "resolved" as const, version: alert.version + 1 };
   });
