@@ -112,7 +112,10 @@ const STATUS_WORDS: Record<OrderStatus, string> = {
   discontinued: "Discontinued",
 };
 
-/** FiO2 is stored as a fraction; the export sends it in % (LOINC 3150-0's example unit). */
+/**
+ * FiO2 is stored as a fraction; the export sends it in %, as the HL7 SANER IG's
+ * 19994-3 example Observations do ("value: 100 %"); 3150-0 in %: recollection.
+ */
 export function fio2Percent(fio2: number): number {
   return Math.round(fio2 * 1000) / 10;
 }
@@ -265,7 +268,9 @@ function readingObservations(
 /**
  * A blood gas as a panel Observation whose members (pH, PCO2, PO2, SO2, HCO3,
  * base excess, Hb) are Observations of their own; FiO2 and PEEP at sampling are
- * components of the panel, since they describe the sample, not the blood.
+ * components of the panel, since they describe the sample, not the blood. The
+ * FiO2 component is 3150-0 on every device: it records the FiO2 the sample was
+ * taken on, beside the blood; the setting itself is the settings Observation.
  */
 function bloodGasObservations(
   b: BundleBuilder,
@@ -335,6 +340,27 @@ type SettingsEvent = {
   note: string;
 };
 
+/**
+ * The code of an applied FiO2 setting. On a ventilator (invasive or NIV/CPAP)
+ * the FiO2 is a ventilator setting, LOINC 19994-3. HFNC is sent the same way:
+ * its FiO2 is set on the device (DEVICE_PROFILES: uses.fio2 "set"), and the
+ * export sends it, like PEEP and flow, as a setting of the order; LOINC's
+ * system for 19994-3 is "Ventilator", so this is our reading for a high-flow
+ * generator. A low-flow device's FiO2 is an estimate of the inhaled
+ * concentration and a Venturi mask is no ventilator: both stay 3150-0.
+ */
+const VENTILATOR_SETTING_DEVICES: ReadonlySet<Device> = new Set<Device>([
+  "invasive",
+  "niv",
+  "hfnc",
+]);
+
+function fio2SettingCode(device: Device): Code {
+  return VENTILATOR_SETTING_DEVICES.has(device)
+    ? LOINC.ventilatorFio2Setting
+    : LOINC.inhaledOxygenConcentration;
+}
+
 /** One applied set of bedside settings as one Observation per setting. */
 function settingsObservations(
   b: BundleBuilder,
@@ -357,7 +383,7 @@ function settingsObservations(
   const out = [
     observation(`${s.idPrefix}-fio2`, base, {
       ...shared,
-      code: loincConcept(LOINC.inhaledOxygenConcentration),
+      code: loincConcept(fio2SettingCode(s.device)),
       valueQuantity: quantity(fio2Percent(s.fio2), UCUM.percent),
       note: fio2Notes.map((text) => ({ text })),
     }),

@@ -303,7 +303,10 @@ describe("the FHIR R4 export bundle", () => {
   it("sends a venous gas with venous codes only, without the members it lacks, and PEEP at sampling", () => {
     const observations = resourcesOf(build(), "Observation");
     const panel = byId(observations, "blood-gas-202");
-    expect(loincCodes(panel)).toEqual(["24338-6"]);
+    // LOINC 24339-4 "Gas panel - Venous blood"; 24338-6 is the panel for blood
+    // of unspecified specimen and would not say the sample was venous.
+    expect(loincCodes(panel)).toEqual(["24339-4"]);
+    expect(panel.code.coding?.[0]?.display).toBe("Gas panel - Venous blood");
     expect(panel.hasMember).toHaveLength(2);
     const members = observations.filter((o) => o.id?.startsWith("blood-gas-202-"));
     expect(members.map((m) => loincCodes(m)[0]).sort()).toEqual(["2021-4", "2705-2"]);
@@ -323,8 +326,9 @@ describe("the FHIR R4 export bundle", () => {
     const bundle = build();
     const observations = resourcesOf(bundle, "Observation");
     const requests = new Map((bundle.entry ?? []).map((e) => [e.fullUrl, e.resource]));
+    // HFNC's FiO2 is set on the device and sent as a setting: LOINC 19994-3.
     const fio2 = byId(observations, "adjustment-301-fio2");
-    expect(loincCodes(fio2)).toEqual(["3150-0"]);
+    expect(loincCodes(fio2)).toEqual(["19994-3"]);
     expect(fio2.effectiveDateTime).toBe("2026-12-01T13:30:00.000Z");
     expect(fio2.valueQuantity).toMatchObject({ value: 35, code: "%" });
     expect(fio2.category?.[0]?.coding?.[0]?.code).toBe("therapy");
@@ -340,10 +344,97 @@ describe("the FHIR R4 export bundle", () => {
     expect(observations.map((o) => o.id)).not.toContain("adjustment-301-peep");
     // Each order's starting settings, as the order service applies them.
     const start11 = byId(observations, "order-11-start-fio2");
+    // A nasal cannula's FiO2 is an estimate of the inhaled concentration: 3150-0.
+    expect(loincCodes(start11)).toEqual(["3150-0"]);
     expect(start11.effectiveDateTime).toBe("2026-12-01T08:00:00.000Z");
     expect(start11.valueQuantity?.value).toBe(29);
     expect(start11.note?.map((n) => n.text).join(" ")).toMatch(/estimated/);
     expect(byId(observations, "order-12-start-flow").valueQuantity?.value).toBe(40);
+  });
+
+  it("sends a ventilator's FiO2 setting as LOINC 19994-3 and its PEEP as 20077-4", () => {
+    // An invasively ventilated patient, then NIV after extubation; no readings or gases.
+    const ventilated: FhirPatientRecord = {
+      ...record(),
+      readings: [],
+      bloodGases: [],
+      orders: [
+        order({
+          id: 21,
+          status: "superseded",
+          device: "invasive",
+          limits: {
+            fio2Min: 0.3,
+            fio2Max: 0.8,
+            peepMin: 5,
+            peepMax: 14,
+            flowMin: null,
+            flowMax: null,
+          },
+          initial: { fio2: 0.5, peep: 8, flow: null },
+          supersededBy: { id: 22, at: "2026-12-02T10:00:00.000Z" },
+          createdAt: "2026-12-02T08:00:00.000Z",
+        }),
+        order({
+          id: 22,
+          status: "active",
+          device: "niv",
+          limits: {
+            fio2Min: 0.3,
+            fio2Max: 0.6,
+            peepMin: 5,
+            peepMax: 10,
+            flowMin: null,
+            flowMax: null,
+          },
+          initial: { fio2: 0.4, peep: 6, flow: null },
+          replacedOrderId: 21,
+          createdAt: "2026-12-02T10:00:00.000Z",
+        }),
+      ],
+      adjustments: [
+        {
+          id: 401,
+          orderId: 21,
+          appliedAt: "2026-12-02T09:00:00.000Z",
+          device: "invasive",
+          fio2: 0.45,
+          peepCmH2O: 10,
+          flowLMin: null,
+          reasonLabel: "SpO2 above the target band",
+          rationale: "SpO2 97 % on 0.50; wean FiO2, raise PEEP",
+          recordedBy: "Piet Lindqvist",
+        },
+      ],
+    };
+    const bundle = buildPatientBundle(ventilated, {
+      installation: INSTALLATION,
+      exportedAt: new Date("2026-12-02T12:00:00Z"),
+    });
+    expect(r4SchemaProblems(bundle)).toEqual([]);
+    expect(exportProblems(bundle)).toEqual([]);
+    const observations = resourcesOf(bundle, "Observation");
+    const setting = (id: string) => {
+      const o = byId(observations, id);
+      return [
+        loincCodes(o),
+        o.code.coding?.[0]?.display,
+        o.valueQuantity?.value,
+        o.valueQuantity?.code,
+      ];
+    };
+    const FIO2_SETTING = "Oxygen/Inspired gas setting [Volume Fraction] Ventilator";
+    expect(setting("order-21-start-fio2")).toEqual([["19994-3"], FIO2_SETTING, 50, "%"]);
+    expect(setting("adjustment-401-fio2")).toEqual([["19994-3"], FIO2_SETTING, 45, "%"]);
+    expect(setting("order-22-start-fio2")).toEqual([["19994-3"], FIO2_SETTING, 40, "%"]);
+    expect(setting("adjustment-401-peep")).toEqual([
+      ["20077-4"],
+      "Positive end expiratory pressure setting Ventilator",
+      10,
+      "cm[H2O]",
+    ]);
+    // No setting of a ventilated patient is sent as a measured inhaled concentration.
+    expect(observations.filter((o) => loincCodes(o).includes("3150-0"))).toEqual([]);
   });
 
   it("sends orders as ServiceRequests with their band, limits, prescriber and the order they replace", () => {
