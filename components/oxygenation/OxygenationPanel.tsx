@@ -54,10 +54,21 @@ const GLOBAL_WORDS: Record<GlobalCategory, string> = {
   "not-classifiable": "Not classifiable",
 };
 
+/**
+ * Which ratio set the global category. P/F and S/F are alternatives there; with
+ * both, the worse band is reported and the criterion line names the other.
+ */
+const CLASSIFIED_BY_WORDS: Record<NonNullable<ClassificationResult<string>["classifiedBy"]>, string> = {
+  "P/F": "P/F ratio",
+  "S/F": "S/F ratio",
+  both: "P/F and S/F ratios (same band)",
+};
+
 const CRITERION_VALUES: Record<string, { label: string; unit: string }> = {
   pfRatio: { label: "P/F", unit: "mmHg" },
   adjustedPfRatio: { label: "P/F × PB/760", unit: "mmHg" },
   sfRatio: { label: "S/F", unit: "ratio" },
+  spo2: { label: "SpO2", unit: "%" },
   peep: { label: "PEEP/CPAP", unit: "cmH2O" },
   flow: { label: "Flow", unit: "L/min" },
   barometricPressure: { label: "PB", unit: "mmHg" },
@@ -327,12 +338,17 @@ export function OxygenationPanel({ assessment, input, pressureUnit }: Oxygenatio
           <li className="rounded-card border border-border bg-surface p-3" data-testid="global-category">
             <p className="text-xs font-medium uppercase tracking-wide text-ink-muted">Global definition 2023</p>
             <p className="text-lg font-semibold">{GLOBAL_WORDS[classification.global.category]}</p>
+            {classification.global.classifiedBy ? (
+              <p className="text-sm font-medium" data-testid="global-classified-by">
+                Classified by: {CLASSIFIED_BY_WORDS[classification.global.classifiedBy]}
+              </p>
+            ) : null}
             <p className="text-sm text-ink-muted">Decided by: {classification.global.criterion}</p>
             <BasisDisclosure
               pressureUnit={unit}
               basis={criterionBasis(
                 "Global definition 2023",
-                "HFNC ≥ 30 L/min, NIV/CPAP ≥ 5 cmH2O or intubated; P/F ≤ 300 mmHg, or S/F ≤ 315 with SpO2 ≤ 97 %; intubated bands P/F 300/200/100, S/F 315/235/148",
+                "HFNC ≥ 30 L/min, NIV/CPAP ≥ 5 cmH2O or intubated; P/F ≤ 300 mmHg, or S/F ≤ 315 with SpO2 ≤ 97 %; intubated bands P/F 300/200/100, S/F 315/235/148. With both ratios the worse band is reported (Tidemark's reading: the definition lists them as alternatives)",
                 classification.global,
                 classification.note,
               )}

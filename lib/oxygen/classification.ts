@@ -19,6 +19,9 @@ export type BerlinCategory = "none" | "mild" | "moderate" | "severe" | "not-clas
 /** `ards` is the non-intubated category of the global definition, which has no severity bands. */
 export type GlobalCategory = "none" | "ards" | "mild" | "moderate" | "severe" | "not-classifiable";
 
+/** Which ratio set the category: one of them, or both when they fall in the same band. */
+export type ClassifiedBy = "P/F" | "S/F" | "both";
+
 export interface ClassificationResult<Category extends string> {
   category: Category;
   /** The criterion that decided the category, in words. */
@@ -26,6 +29,11 @@ export interface ClassificationResult<Category extends string> {
   /** The numbers the criterion was applied to. */
   values: Record<string, number>;
   source: string;
+  /**
+   * Global definition only, when it classified: the ratio whose band is
+   * reported. Absent on Berlin (P/F only) and when not classifiable.
+   */
+  classifiedBy?: ClassifiedBy;
 }
 
 export interface OxygenationClassification {
@@ -101,16 +109,45 @@ function berlin(input: ClassifyOxygenationInput, pf: number | undefined): Classi
   return result("severe", `${shown} ≤ 100 with PEEP ${peep} cmH2O${assumed}`, values);
 }
 
+/** A ratio's band: graded when intubated, "ards" (within, ungraded) when not. */
+type GlobalBand = "none" | "ards" | "mild" | "moderate" | "severe";
+const BAND_ORDER: readonly GlobalBand[] = ["none", "ards", "mild", "moderate", "severe"];
+/** Global definition bands, upper bounds of mild, moderate and severe. */
+const PF_BANDS = [300, 200, 100] as const;
+const SF_BANDS = [315, 235, 148] as const;
+
+type RatioAssessment = { name: "P/F" | "S/F"; value: number; band: GlobalBand; text: string };
+
+function assessRatio(
+  name: "P/F" | "S/F",
+  value: number,
+  [mild, moderate, severe]: readonly [number, number, number],
+  graded: boolean,
+): RatioAssessment {
+  const shown = `${name} ${ratio(value)}`;
+  if (value > mild) return { name, value, band: "none", text: `${shown} > ${mild}` };
+  if (!graded) return { name, value, band: "ards", text: `${shown} ≤ ${mild}` };
+  if (value > moderate) return { name, value, band: "mild", text: `${moderate} < ${shown} ≤ ${mild}` };
+  if (value > severe) return { name, value, band: "moderate", text: `${severe} < ${shown} ≤ ${moderate}` };
+  return { name, value, band: "severe", text: `${shown} ≤ ${severe}` };
+}
+
 function globalDefinition(
   input: ClassifyOxygenationInput,
   pf: number | undefined,
   sf: number | undefined,
 ): ClassificationResult<GlobalCategory> {
-  const result = (category: GlobalCategory, criterion: string, values: Record<string, number> = {}) => ({
+  const result = (
+    category: GlobalCategory,
+    criterion: string,
+    values: Record<string, number> = {},
+    classifiedBy?: ClassifiedBy,
+  ): ClassificationResult<GlobalCategory> => ({
     category,
     criterion,
     values,
     source: SOURCES.globalDefinition,
+    ...(classifiedBy ? { classifiedBy } : {}),
   });
   const { support, peep, flow, spo2 } = input;
   if (support === undefined) return result("not-classifiable", "The 2023 global definition depends on the support in use; none was stated");
@@ -138,30 +175,59 @@ function globalDefinition(
       peep === undefined ? {} : { peep },
     );
   }
-  // P/F decides when there is a PaO2 (the arterial measurement); S/F only without one.
-  let measure: { name: "P/F" | "S/F"; value: number; bands: readonly [number, number, number] };
-  if (pf !== undefined) measure = { name: "P/F", value: pf, bands: [300, 200, 100] };
-  else if (sf !== undefined && spo2 !== undefined && spo2 <= HIGHEST_SPO2_FOR_SF) measure = { name: "S/F", value: sf, bands: [315, 235, 148] };
-  else if (sf !== undefined) {
-    return result("not-classifiable", `SpO2 ${spo2} % is above 97 %: the global definition does not use S/F there, and no PaO2 was given`, {
-      sfRatio: sf,
-    });
-  } else return result("not-classifiable", "Neither PaO2 nor SpO2 was given");
+  // The definition's oxygenation criterion is P/F ≤ 300 or S/F ≤ 315, S/F only
+  // with SpO2 ≤ 97 %. Both ratios are assessed when both are available.
+  const sfUsable = sf !== undefined && spo2 !== undefined && spo2 <= HIGHEST_SPO2_FOR_SF;
+  const sfSkipped = sf !== undefined && !sfUsable ? `S/F not used: SpO2 ${spo2} % > ${HIGHEST_SPO2_FOR_SF} %` : undefined;
+  // Severity bands apply to intubated patients only.
+  const graded = support === "invasive";
+  const assessed: RatioAssessment[] = [];
+  if (pf !== undefined) assessed.push(assessRatio("P/F", pf, PF_BANDS, graded));
+  if (sfUsable) assessed.push(assessRatio("S/F", sf, SF_BANDS, graded));
 
-  const key = measure.name === "P/F" ? "pfRatio" : "sfRatio";
-  const values: Record<string, number> = { [key]: measure.value };
+  const values: Record<string, number> = {};
+  if (pf !== undefined) values.pfRatio = pf;
+  if (sf !== undefined) values.sfRatio = sf;
+  if (sf !== undefined && spo2 !== undefined) values.spo2 = spo2;
   if (support === "hfnc" && flow !== undefined) values.flow = flow;
   if (peep !== undefined) values.peep = peep;
-  const [mild, moderate, severe] = measure.bands;
-  const shown = `${measure.name} ${ratio(measure.value)}`;
-  if (measure.value > mild) return result("none", `${shown} > ${mild}: outside the global definition's oxygenation criterion`, values);
-  if (support !== "invasive") {
-    const device = support === "hfnc" ? `HFNC ${flow} L/min` : `NIV/CPAP ${peep} cmH2O`;
-    return result("ards", `${shown} ≤ ${mild} on ${device} (non-intubated: no severity bands)`, values);
+
+  if (assessed.length === 0) {
+    return sfSkipped
+      ? result("not-classifiable", `SpO2 ${spo2} % is above 97 %: the global definition does not use S/F there, and no PaO2 was given`, values)
+      : result("not-classifiable", "Neither PaO2 nor SpO2 was given");
   }
-  if (measure.value > moderate) return result("mild", `${moderate} < ${shown} ≤ ${mild}, intubated`, values);
-  if (measure.value > severe) return result("moderate", `${severe} < ${shown} ≤ ${moderate}, intubated`, values);
-  return result("severe", `${shown} ≤ ${severe}, intubated`, values);
+
+  // When P/F and S/F fall in different bands the worse band is reported. This
+  // is our reading of the definition, which lists the two ratios as
+  // alternatives without saying which decides when they disagree: either one
+  // meeting the criterion meets it, and grading by the worse one does not
+  // under-grade a patient that one of the two puts in a more severe band.
+  const worst = assessed.reduce((a, b) => (BAND_ORDER.indexOf(b.band) > BAND_ORDER.indexOf(a.band) ? b : a));
+  const agree = assessed.length === 2 && assessed[0]!.band === assessed[1]!.band;
+  const classifiedBy: ClassifiedBy = agree ? "both" : worst.name;
+  const other = assessed.find((a) => a !== worst);
+  const sfCondition = ` (SpO2 ${spo2} % ≤ ${HIGHEST_SPO2_FOR_SF} %)`;
+  const deciding = agree
+    ? `${assessed[0]!.text} and ${assessed[1]!.text}${sfCondition}`
+    : `${worst.text}${worst.name === "S/F" ? sfCondition : ""}`;
+  const bandWords = (band: GlobalBand) =>
+    band === "none" ? "outside the criterion" : band === "ards" ? "within the criterion" : band;
+  const tail = [
+    ...(other && !agree ? [`${other.name} ${ratio(other.value)} would be ${bandWords(other.band)}`] : []),
+    ...(sfSkipped ? [sfSkipped] : []),
+  ]
+    .map((t) => `; ${t}`)
+    .join("");
+
+  if (worst.band === "none") {
+    return result("none", `${deciding}: outside the global definition's oxygenation criterion${tail}`, values, classifiedBy);
+  }
+  if (worst.band === "ards") {
+    const device = support === "hfnc" ? `HFNC ${flow} L/min` : `NIV/CPAP ${peep} cmH2O`;
+    return result("ards", `${deciding} on ${device} (non-intubated: no severity bands)${tail}`, values, classifiedBy);
+  }
+  return result(worst.band, `${deciding}: ${worst.band}, intubated${tail}`, values, classifiedBy);
 }
 
 /**
@@ -171,6 +237,8 @@ function globalDefinition(
  * with PEEP/CPAP ≥ 5 cmH2O (non-invasive only for mild), P/F × PB/760 above
  * 1000 m. Global: HFNC ≥ 30 L/min, NIV/CPAP ≥ 5 cmH2O or intubation; P/F ≤ 300
  * or S/F ≤ 315 with SpO2 ≤ 97 %; intubated bands P/F 300/200/100, S/F 315/235/148.
+ * With both ratios, either meeting the criterion meets it and the worse band is
+ * reported (our reading; see globalDefinition), with `classifiedBy` naming it.
  */
 export function classifyOxygenation(input: ClassifyOxygenationInput): OxygenationClassification {
   const { pao2, spo2, fio2, peep, flow, barometricPressure } = input;

@@ -45,6 +45,35 @@ describe("OxygenationPanel", () => {
     expect(screen.getByTestId("berlin-category").textContent).toContain("Decided by:");
   });
 
+  it("shows which ratio classified the global category, and the other ratio's band", () => {
+    render(<OxygenationPanel assessment={assessment} input={input} pressureUnit="mmHg" />);
+    // Global definition 2023 (Matthay et al., AJRCCM 2024), intubated: P/F 80 / 0.4 = 200
+    // (100 < 200 ≤ 200: moderate); S/F 95 / 0.4 = 237.5 (235 < 237.5 ≤ 315: mild).
+    // The worse band, moderate by P/F, is reported.
+    const global = screen.getByTestId("global-category");
+    expect(global.textContent).toContain("Moderate");
+    expect(within(global).getByTestId("global-classified-by").textContent).toBe("Classified by: P/F ratio");
+    expect(global.textContent).toContain("S/F 238 would be mild");
+  });
+
+  it("shows S/F as the classifier when its band is the worse", () => {
+    // FiO2 0.6: P/F 62 / 0.6 = 103.3 (moderate); S/F 88 / 0.6 = 146.7 (≤ 148: severe).
+    const sfWorse: BloodGasInput = { ...input, fio2: 0.6, pao2: 62, spo2: 88 };
+    render(<OxygenationPanel assessment={assessBloodGas(sfWorse)} input={sfWorse} pressureUnit="mmHg" />);
+    const global = screen.getByTestId("global-category");
+    expect(global.textContent).toContain("Severe");
+    expect(within(global).getByTestId("global-classified-by").textContent).toBe("Classified by: S/F ratio");
+  });
+
+  it("shows no classifier when the global definition cannot classify", () => {
+    // Low-flow oxygen is outside the global definition's respiratory support.
+    const lowFlow: BloodGasInput = { ...input, support: "conventional", peep: undefined };
+    render(<OxygenationPanel assessment={assessBloodGas(lowFlow)} input={lowFlow} pressureUnit="mmHg" />);
+    const global = screen.getByTestId("global-category");
+    expect(global.textContent).toContain("Not classifiable");
+    expect(within(global).queryByTestId("global-classified-by")).toBeNull();
+  });
+
   it("shows pressures in kPa for a kPa user", () => {
     render(<OxygenationPanel assessment={assessment} input={input} pressureUnit="kPa" />);
     // 200 mmHg / 7.50062 = 26.7 kPa (1 kPa = 7.50062 mmHg).
