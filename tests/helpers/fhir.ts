@@ -36,6 +36,18 @@ function r4Schema() {
   return schemaValidators;
 }
 
+/**
+ * Compiles the R4 schema now instead of on first use: the Bundle validator and,
+ * for each resource type named, its own. Compiling the whole schema takes
+ * seconds, so a test file calls this once from `beforeAll` with a generous hook
+ * timeout, and its tests then only validate. Later calls reuse the compiled
+ * validators.
+ */
+export function compileR4Schema(resourceTypes: readonly string[] = []): void {
+  const { byType } = r4Schema();
+  for (const type of resourceTypes) byType(type);
+}
+
 const formatErrors = (where: string, errors: ErrorObject[] | null | undefined) =>
   (errors ?? []).map(
     (e) => `${where}${e.instancePath} ${e.message ?? e.keyword} ${JSON.stringify(e.params)}`,

@@ -1,5 +1,5 @@
 import type * as fhir4 from "fhir/r4";
-import { describe, expect, it } from "vitest";
+import { beforeAll, describe, expect, it } from "vitest";
 import {
   buildPatientBundle,
   fio2Percent,
@@ -9,6 +9,7 @@ import {
 import { UCUM } from "@/lib/fhir/codes";
 import type { OrderView } from "@/lib/orders/queries";
 import {
+  compileR4Schema,
   exportProblems,
   loincCodes,
   r4SchemaProblems,
@@ -190,8 +191,21 @@ const byId = <T extends { id?: string }>(list: T[], id: string): T => {
   return found;
 };
 
+// The R4 JSON schema is several megabytes and ajv takes seconds to compile it,
+// longer on a loaded machine: it is compiled once, before the tests, under a
+// generous hook timeout. The tests that validate also get an explicit timeout
+// above the 5 s default: validating a bundle walks its oneOf over every
+// resource type, with every error collected.
+const SCHEMA_COMPILE_TIMEOUT_MS = 120_000;
+/** Options of each test that validates against the schema. */
+const SCHEMA = { timeout: 30_000 } as const;
+
 describe("the FHIR R4 export bundle", () => {
-  it("validates against the official FHIR R4 JSON schema", () => {
+  beforeAll(() => {
+    compileR4Schema(["Patient", "Observation", "ServiceRequest"]);
+  }, SCHEMA_COMPILE_TIMEOUT_MS);
+
+  it("validates against the official FHIR R4 JSON schema", SCHEMA, () => {
     expect(r4SchemaProblems(build())).toEqual([]);
   });
 
@@ -201,7 +215,7 @@ describe("the FHIR R4 export bundle", () => {
     expect(resourcesOf(bundle, "Observation").length).toBeGreaterThan(10);
   });
 
-  it("lets both validators fail on a broken bundle", () => {
+  it("lets both validators fail on a broken bundle", SCHEMA, () => {
     const bundle = build();
     const spo2 = byId(resourcesOf(bundle, "Observation"), "reading-101-spo2");
     (spo2 as { status: string }).status = "measured";
@@ -352,7 +366,7 @@ describe("the FHIR R4 export bundle", () => {
     expect(byId(observations, "order-12-start-flow").valueQuantity?.value).toBe(40);
   });
 
-  it("sends a ventilator's FiO2 setting as LOINC 19994-3 and its PEEP as 20077-4", () => {
+  it("sends a ventilator's FiO2 setting as LOINC 19994-3 and its PEEP as 20077-4", SCHEMA, () => {
     // An invasively ventilated patient, then NIV after extubation; no readings or gases.
     const ventilated: FhirPatientRecord = {
       ...record(),
