@@ -37,6 +37,16 @@ const envSchema = z
     ALERT_ESCALATE_MINUTES: z.coerce.number().int().min(1).max(1440).default(10),
     ALERT_URGENT_BELOW_PCT: z.coerce.number().int().min(50).max(100).default(85),
     ALERT_URGENT_MARGIN_PCT: z.coerce.number().int().min(1).max(30).default(5),
+    /** Share of the sustain window's monitored time that must be out of band, in %. */
+    ALERT_SUSTAIN_SHARE_PCT: z.coerce.number().int().min(50).max(100).default(80),
+    /** At urgent depth a monitor series opens an urgent alert after this long. */
+    ALERT_URGENT_SUSTAIN_SECONDS: z.coerce.number().int().min(0).max(600).default(15),
+    /** A monitor series silent this long while an excursion is pending or open: signal loss. */
+    ALERT_SIGNAL_LOSS_SECONDS: z.coerce.number().int().min(10).max(3600).default(120),
+    /** "Order limits reached" waits for an SpO2 taken at least this long after the change to the limit. */
+    ALERT_LIMITS_SETTLE_MINUTES: z.coerce.number().int().min(0).max(60).default(5),
+    /** A blood gas older than this drives no forecast unless the clinician chooses it. */
+    FORECAST_GAS_MAX_AGE_MINUTES: z.coerce.number().int().min(10).max(7 * 24 * 60).default(240),
     SMTP_HOST: z.string().default("127.0.0.1"),
     SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(2525),
     SMTP_FROM: z

@@ -20,8 +20,9 @@ import {
   type PressureUnit,
   RANGES,
 } from "@/lib/oxygen";
+import { formatAge, gasAgeCaveat } from "@/lib/blood-gases/freshness";
 import { forecastBasis } from "@/lib/oxygenation/forecast-basis";
-import type { LatestBloodGasView } from "@/lib/patients/bedside";
+import type { BedsideContext } from "@/lib/patients/bedside";
 
 type Outcome =
   | { kind: "none"; message: string }
@@ -35,10 +36,14 @@ export const PEEP_CHANGE_NOTE =
 /**
  * The forecast for the FiO2 being typed, computed here with the pure engine
  * from the latest arterial blood gas: the three models' range in words and on
- * the chart, each model's basis one click away, and the caveats.
+ * the chart, each model's basis one click away, and the caveats. A gas older
+ * than the site's limit is not used unless the clinician ticks the box; its
+ * age is always said.
  */
 export function AdjustmentForecast({
   gas,
+  useStaleGas,
+  onUseStaleGasChange,
   barometricPressure,
   nextFio2,
   fio2Estimated,
@@ -46,7 +51,10 @@ export function AdjustmentForecast({
   pressureUnit,
   timeZone,
 }: {
-  gas: LatestBloodGasView | null;
+  gas: BedsideContext["latestArterialGas"];
+  /** The clinician chose to forecast from a gas older than the limit. */
+  useStaleGas: boolean;
+  onUseStaleGasChange: (use: boolean) => void;
   barometricPressure: number;
   /** The FiO2 typed (or estimated from the typed flow); undefined when there is none yet. */
   nextFio2: number | undefined;
@@ -56,7 +64,8 @@ export function AdjustmentForecast({
   timeZone: string;
 }) {
   const unit = pressureUnit;
-  const arterial = gas && gas.sampleType === "arterial" ? gas : null;
+  const stale = gas !== null && !gas.freshness.fresh;
+  const arterial = gas && (!stale || useStaleGas) ? gas : null;
   const baseline = useMemo(
     () =>
       arterial
@@ -84,8 +93,9 @@ export function AdjustmentForecast({
     if (!baseline) {
       return {
         kind: "none",
-        message:
-          "No arterial blood gas on record, so there is no numeric forecast. Enter a blood gas to see one; until then re-measure SpO2 after the change.",
+        message: gas
+          ? `The latest arterial blood gas is ${formatAge(gas.freshness.ageMinutes)} old, older than the ${formatAge(gas.freshness.maxAgeMinutes)} limit, so there is no numeric forecast. Take a new gas, or choose to forecast from this one below; until then re-measure SpO2 after the change.`
+          : "No arterial blood gas on record, so there is no numeric forecast. Enter a blood gas to see one; until then re-measure SpO2 after the change.",
       };
     }
     if (nextFio2 === undefined || !Number.isFinite(nextFio2)) {
@@ -111,7 +121,7 @@ export function AdjustmentForecast({
         return { kind: "refused", message: `No forecast: ${error.message}.` };
       throw error;
     }
-  }, [baseline, nextFio2, fio2Estimated]);
+  }, [baseline, gas, nextFio2, fio2Estimated]);
 
   const forecast = outcome.kind === "ok" ? outcome.forecast : null;
   const bases =
@@ -119,6 +129,7 @@ export function AdjustmentForecast({
       ? forecastBasis({ ...baseline, nextFio2: outcome.fio2 }, outcome.forecast)
       : null;
   const caveats = [
+    ...(gas ? [gasAgeCaveat(gas.freshness, arterial !== null)] : []),
     ...(arterial && arterial.hb === null
       ? [
           `The blood gas has no haemoglobin: ${ASSUMED_HEMOGLOBIN} g/dL is assumed for the shunt model.`,
@@ -150,6 +161,21 @@ export function AdjustmentForecast({
           </span>{" "}
           at FiO2 <span className="tabular">{formatFio2Value(arterial.fio2)}</span>.
         </p>
+      ) : null}
+      {stale ? (
+        <label className="flex items-start gap-2 text-sm" data-testid="use-stale-gas">
+          <input
+            type="checkbox"
+            className="mt-1"
+            checked={useStaleGas}
+            onChange={(event) => onUseStaleGasChange(event.target.checked)}
+          />
+          <span>
+            Forecast from the gas of {formatUnitTime(gas.sampledAt, timeZone)} anyway (
+            {formatAge(gas.freshness.ageMinutes)} old; the limit is{" "}
+            {formatAge(gas.freshness.maxAgeMinutes)}). The choice is recorded with the change.
+          </span>
+        </label>
       ) : null}
       <div
         role="status"

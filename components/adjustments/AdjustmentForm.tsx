@@ -3,7 +3,7 @@
 import { zodResolver } from "@hookform/resolvers/zod";
 import Link from "next/link";
 import { useRouter } from "next/navigation";
-import { useId, useMemo, useState } from "react";
+import { useCallback, useId, useMemo, useRef, useState } from "react";
 import { useForm, useWatch, type Resolver } from "react-hook-form";
 import useSWR, { SWRConfig } from "swr";
 import { z } from "zod";
@@ -38,6 +38,7 @@ import type { PressureUnit, ProposalDirection, ProposedSetting } from "@/lib/oxy
 import { DEVICE_PROFILES, type Device } from "@/lib/orders/devices";
 import type { OrderView } from "@/lib/orders/queries";
 import type { BedsideContext, BedsideSettings } from "@/lib/patients/bedside";
+import { classifySpo2 } from "@/lib/time-in-band";
 import { AdjustmentForecast } from "./AdjustmentForecast";
 import { BedsideContextCards } from "./BedsideContextCards";
 import { ProposalCard } from "./ProposalCard";
@@ -157,9 +158,8 @@ export function limitWarnings(
 function reasonFor(context: BedsideContext): AdjustmentReason | undefined {
   const { order, latestReading } = context;
   if (!order || !latestReading) return undefined;
-  if (latestReading.spo2 < order.spo2Band.lower) return "below_band";
-  if (latestReading.spo2 > order.spo2Band.upper && latestReading.fio2 > 0.21) return "above_band";
-  return undefined;
+  const side = classifySpo2(latestReading.spo2, latestReading, order.spo2Band);
+  return side === "below" ? "below_band" : side === "above" ? "above_band" : undefined;
 }
 
 const asNumber = (v: unknown): number | undefined => (typeof v === "number" ? v : undefined);
@@ -198,18 +198,23 @@ function AdjustmentFormWithContext({
   timeZone: string;
 }) {
   const bedsideUrl = `/api/v1/patients/${patientId}/bedside`;
-  // No background refresh: the version sent must be the one the person saw.
-  const { data, mutate, isValidating } = useSWR<BedsideContext, Error>(
-    bedsideUrl,
-    fetchJson<BedsideContext>,
-    {
-      fallbackData: initialContext,
-      revalidateOnMount: false,
-      revalidateOnFocus: false,
-      revalidateOnReconnect: false,
-      revalidateIfStale: false,
-    },
+  // A blood gas older than the site's limit drives the proposal only when the
+  // clinician chooses it; every reload asks for the context with that choice.
+  const [useStaleGas, setUseStaleGas] = useState(false);
+  const staleChoice = useRef(false);
+  const fetchContext = useCallback(
+    (url: string) =>
+      fetchJson<BedsideContext>(staleChoice.current ? `${url}?useStaleBloodGas=1` : url),
+    [],
   );
+  // No background refresh: the version sent must be the one the person saw.
+  const { data, mutate, isValidating } = useSWR<BedsideContext, Error>(bedsideUrl, fetchContext, {
+    fallbackData: initialContext,
+    revalidateOnMount: false,
+    revalidateOnFocus: false,
+    revalidateOnReconnect: false,
+    revalidateIfStale: false,
+  });
   const context = data ?? initialContext;
   const { order, settings } = context;
   if (!order || !settings) {
@@ -237,6 +242,12 @@ function AdjustmentFormWithContext({
         await mutate();
       }}
       reloading={isValidating}
+      useStaleGas={useStaleGas}
+      onUseStaleGasChange={(use) => {
+        staleChoice.current = use;
+        setUseStaleGas(use);
+        void mutate();
+      }}
     />
   );
 }
@@ -250,6 +261,8 @@ function AdjustmentFormBody({
   timeZone,
   reload,
   reloading,
+  useStaleGas,
+  onUseStaleGasChange,
 }: {
   patientId: number;
   context: BedsideContext;
@@ -259,6 +272,8 @@ function AdjustmentFormBody({
   timeZone: string;
   reload: () => Promise<void>;
   reloading: boolean;
+  useStaleGas: boolean;
+  onUseStaleGasChange: (use: boolean) => void;
 }) {
   const id = useId();
   const router = useRouter();
@@ -361,6 +376,9 @@ function AdjustmentFormBody({
         reason: values.reason,
         rationale: values.rationale,
         appliedAt: appliedAt.toISOString(),
+        ...(useStaleGas && context.latestArterialGas && !context.latestArterialGas.freshness.fresh
+          ? { useStaleBloodGas: true }
+          : {}),
         idempotencyKey,
       });
     } catch {
@@ -547,7 +565,9 @@ function AdjustmentFormBody({
 
         <div className="min-w-0 space-y-3">
           <AdjustmentForecast
-            gas={context.latestBloodGas}
+            gas={context.latestArterialGas}
+            useStaleGas={useStaleGas}
+            onUseStaleGasChange={onUseStaleGasChange}
             barometricPressure={context.barometricPressure}
             nextFio2={nextFio2}
             fio2Estimated={fio2Estimated}

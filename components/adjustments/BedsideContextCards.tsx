@@ -5,16 +5,18 @@ import { StatusBadge, type Status } from "@/components/ui/StatusBadge";
 import type { PressureUnit } from "@/lib/oxygen";
 import { DEVICE_PROFILES } from "@/lib/orders/devices";
 import type { BedsideContext } from "@/lib/patients/bedside";
+import { classifySpo2 } from "@/lib/time-in-band";
+import { Spo2Value } from "@/components/readings/Spo2Value";
 
-/** In band, below, or above on oxygen: by word and icon as well as colour. */
+/** In band, below, or above on oxygen (the excursion rule of lib/time-in-band): by word and icon as well as colour. */
 export function spo2Status(
   spo2: number,
   band: { lower: number; upper: number },
-  fio2: number,
+  setting: { fio2: number; flow?: number | null },
 ): Status {
-  if (spo2 < band.lower) return "below";
-  if (spo2 > band.upper && fio2 > 0.21) return "above";
-  return "in-band";
+  return ({ below: "below", inBand: "in-band", above: "above" } as const)[
+    classifySpo2(spo2, setting, band)
+  ];
 }
 
 function Card({
@@ -144,10 +146,11 @@ export function BedsideContextCards({
               "SpO2",
               latestReading ? (
                 <span className="inline-flex flex-wrap items-center gap-1">
-                  {latestReading.spo2} % at {formatUnitTime(latestReading.takenAt, timeZone)}
+                  <Spo2Value pct={latestReading.spo2} /> at{" "}
+                  {formatUnitTime(latestReading.takenAt, timeZone)}
                   {order ? (
                     <StatusBadge
-                      status={spo2Status(latestReading.spo2, order.spo2Band, latestReading.fio2)}
+                      status={spo2Status(latestReading.spo2, order.spo2Band, latestReading)}
                     />
                   ) : null}
                 </span>

@@ -1,7 +1,13 @@
 import { formatPressureNumber } from "@/components/oxygenation/format";
 import { formatFio2Value } from "@/components/bedside/BedsideFormParts";
 import { Button } from "@/components/ui/Button";
-import { IconAbove, IconBelow, IconEscalated, IconInBand } from "@/components/ui/icons";
+import {
+  IconAbove,
+  IconBelow,
+  IconEscalated,
+  IconInBand,
+  IconWarning,
+} from "@/components/ui/icons";
 import {
   PEEP_NOT_FORECAST,
   type PressureUnit,
@@ -31,6 +37,8 @@ export function describeSetting(step: Pick<ProposedSetting, "fio2" | "peep" | "f
 /**
  * The engine's proposal for the next step from the order's step table: its
  * direction, the step, the reason and caveats, and a button that fills the form.
+ * At urgent depth it says first, in its own band, to call the prescriber now —
+ * the step within the order is what to do meanwhile — and which limit stops it.
  */
 export function ProposalCard({
   proposal,
@@ -70,6 +78,22 @@ export function ProposalCard({
       className="rounded-card border border-border bg-accent-soft p-3 text-sm shadow-card"
       data-testid="proposal"
     >
+      {proposal.urgent ? (
+        <p
+          className="mb-2 flex items-start gap-2 rounded-md border border-below bg-below-soft px-3 py-2 font-semibold text-below"
+          data-testid="proposal-urgent"
+        >
+          <IconWarning className="mt-0.5 shrink-0" />
+          <span>
+            Urgent: SpO2 is at urgent depth — call the prescriber now.
+            {proposal.stoppedBy ? (
+              <span className="block font-normal">
+                Within this order the step stops at {proposal.stoppedBy}.
+              </span>
+            ) : null}
+          </span>
+        </p>
+      ) : null}
       <div className="flex flex-wrap items-start justify-between gap-2">
         <div className="min-w-0 space-y-1">
           <h2 id="proposal-heading" className="text-sm font-semibold">
@@ -80,6 +104,12 @@ export function ProposalCard({
             </span>
             {proposal.step ? (
               <span className="tabular"> to {describeSetting(proposal.step)}</span>
+            ) : null}
+            {proposal.stepsMoved > 1 ? (
+              <span className="font-normal text-ink-muted">
+                {" "}
+                ({proposal.stepsMoved} table settings)
+              </span>
             ) : null}
           </h2>
           <p>{proposal.reason}</p>

@@ -2,7 +2,9 @@ import Link from "next/link";
 import { buttonClasses } from "@/components/ui/Button";
 import { Caution } from "@/components/ui/Caution";
 import { EmptyState } from "@/components/ui/EmptyState";
-import { StatusBadge, type Status } from "@/components/ui/StatusBadge";
+import { spo2Status } from "@/components/adjustments/BedsideContextCards";
+import { Spo2Value } from "@/components/readings/Spo2Value";
+import { StatusBadge } from "@/components/ui/StatusBadge";
 import type { Actor } from "@/lib/auth/actor";
 import { DEVICE_PROFILES } from "@/lib/orders/devices";
 import { formatPfRatio, formatPressure } from "@/lib/oxygen";
@@ -11,14 +13,6 @@ import type { BedsideContext } from "@/lib/patients/bedside";
 function minutesSince(iso: string, now: Date): number {
   return Math.max(0, Math.round((now.getTime() - Date.parse(iso)) / 60_000));
 }
-
-function bandStatus(spo2: number, lower: number, upper: number, fio2: number): Status {
-  if (spo2 < lower) return "below";
-  if (spo2 > upper && fio2 > 0.21) return "above";
-  return "in-band";
-}
-
-const fmt = (v: number | null, digits = 0) => (v === null ? "—" : v.toFixed(digits));
 
 /** What each role may do from the Chart (DESIGN.md §3). */
 export function bedsideActions(actor: Actor, context: BedsideContext) {
@@ -170,14 +164,10 @@ export function BedsideSummary({
               <dd className="tabular flex flex-wrap items-center gap-1">
                 {latestReading ? (
                   <>
-                    {fmt(latestReading.spo2)} % · {minutesSince(latestReading.takenAt, now)} min ago
+                    <Spo2Value pct={latestReading.spo2} /> ·{" "}
+                    {minutesSince(latestReading.takenAt, now)} min ago
                     <StatusBadge
-                      status={bandStatus(
-                        latestReading.spo2,
-                        order.spo2Band.lower,
-                        order.spo2Band.upper,
-                        latestReading.fio2,
-                      )}
+                      status={spo2Status(latestReading.spo2, order.spo2Band, latestReading)}
                     />
                   </>
                 ) : (

@@ -23,7 +23,7 @@ import { DeviceSettingsFields, devicePrefill } from "@/components/bedside/Device
 import { Button, buttonClasses } from "@/components/ui/Button";
 import { SelectField } from "@/components/ui/SelectField";
 import type { BloodGasInput as BloodGasPayload } from "@/lib/blood-gases/schema";
-import { bloodGasSchema } from "@/lib/blood-gases/schema";
+import { bloodGasSchema, saturationIssue } from "@/lib/blood-gases/schema";
 import type { BloodGasView } from "@/lib/blood-gases/service";
 import {
   type BloodGasInput as EngineInput,
@@ -102,6 +102,8 @@ export const bloodGasFormSchema = z
       }
       const hb = HEMOGLOBIN_UNITS.find((u) => u === v.hemoglobinUnit);
       if (hb) inRange("hemoglobin", "Haemoglobin", hemoglobinRangeIn(hb));
+      const saturation = saturationIssue(v.sampleType, v.sao2);
+      if (saturation) issue("sao2", saturation);
       const device = DEVICES.find((d) => d === v.device);
       if (!device) return;
       const profile = DEVICE_PROFILES[device];
@@ -388,7 +390,7 @@ function BloodGasEntry({
             form={form}
             id={id}
             name="sao2"
-            label="SaO2 (%)"
+            label={venous ? "SvO2/ScvO2 (%)" : "SaO2 (%)"}
             hint="Co-oximetry; optional"
           />
           <NumberField

@@ -1,5 +1,6 @@
 import Link from "next/link";
 import { AlertCountBadge } from "@/components/alerts/AlertCountBadge";
+import { Spo2Value } from "@/components/readings/Spo2Value";
 import { StatusBadge } from "@/components/ui/StatusBadge";
 import { IconSort } from "@/components/ui/icons";
 import type { BoardRow } from "@/lib/board/queries";
@@ -171,7 +172,7 @@ export function BoardTable({
                 {r.latestSpo2 ? (
                   <span className="flex flex-col items-start gap-0.5">
                     <span className="tabular whitespace-nowrap">
-                      <span className="font-semibold">{r.latestSpo2.pct} %</span>
+                      <Spo2Value pct={r.latestSpo2.pct} className="font-semibold" />
                       {r.order ? (
                         <span className="text-xs text-ink-muted">
                           {" "}

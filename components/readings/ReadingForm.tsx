@@ -27,7 +27,12 @@ import { Button, buttonClasses } from "@/components/ui/Button";
 import { StatusBadge } from "@/components/ui/StatusBadge";
 import { DEVICE_PROFILES, DEVICES, type Device } from "@/lib/orders/devices";
 import type { BedsideContext } from "@/lib/patients/bedside";
-import { readingSchema } from "@/lib/readings/schema";
+import {
+  BELOW_OXIMETER_ACCURACY_LABEL,
+  belowOximeterAccuracy,
+  OXIMETER_ACCURACY_NOTE,
+} from "@/lib/oxygen/oximetry";
+import { READING_RANGES, readingSchema } from "@/lib/readings/schema";
 
 /**
  * The reading form's schema: the shared readingSchema's fields and messages,
@@ -206,15 +211,26 @@ export function ReadingForm({
           <legend className="mb-1 text-sm font-semibold">Observation</legend>
           <div>
             <NumberField form={form} id={id} name="spo2" label="SpO2 (%)" />
-            {context.order &&
-            spo2 !== undefined &&
+            {spo2 !== undefined &&
             Number.isFinite(spo2) &&
-            spo2 >= 50 &&
-            spo2 <= 100 ? (
-              <span data-testid="spo2-band">
-                <StatusBadge
-                  status={spo2Status(spo2, context.order.spo2Band, fio2ForBand ?? 0.21)}
-                />
+            spo2 >= READING_RANGES.spo2.min &&
+            spo2 <= READING_RANGES.spo2.max ? (
+              <span className="flex flex-wrap items-center gap-1">
+                {context.order ? (
+                  <span data-testid="spo2-band">
+                    <StatusBadge
+                      status={spo2Status(spo2, context.order.spo2Band, {
+                        fio2: fio2ForBand ?? 0.21,
+                        flow: profile.uses.flow ? (asNumber(typedFlow) ?? null) : null,
+                      })}
+                    />
+                  </span>
+                ) : null}
+                {belowOximeterAccuracy(spo2) ? (
+                  <span className="text-xs text-ink-muted" title={OXIMETER_ACCURACY_NOTE}>
+                    {BELOW_OXIMETER_ACCURACY_LABEL}: charted and alerted; confirm with a blood gas.
+                  </span>
+                ) : null}
               </span>
             ) : null}
           </div>

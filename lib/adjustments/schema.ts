@@ -50,6 +50,8 @@ export const adjustmentSchema = z.object({
     .min(3, "Rationale is required (3 to 1000 characters).")
     .max(1000, "Rationale must be at most 1000 characters."),
   appliedAt: z.coerce.date({ error: "Time applied must be a date and time." }),
+  /** Forecast from the latest arterial gas even though it is older than the site's limit. */
+  useStaleBloodGas: z.boolean({ error: "useStaleBloodGas must be true or false." }).optional(),
   idempotencyKey: idempotencyKeySchema,
 });
 export type AdjustmentInput = z.input<typeof adjustmentSchema>;

@@ -11,8 +11,10 @@ import {
   ASSUMED_HEMOGLOBIN,
   ENGINE_VERSION,
   forecastFio2Change,
+  OxygenInputError,
   type Fio2Forecast,
 } from "../oxygen";
+import { gasAgeCaveat } from "../blood-gases/freshness";
 import { getBedsideContext } from "../patients/bedside";
 import { parseInput } from "../validation";
 import { adjustmentSchema, type AdjustmentInput } from "./schema";
@@ -102,7 +104,10 @@ export async function recordAdjustment(
       appliedAt: ["Time applied must be within the last 24 hours and not in the future."],
     });
   }
-  const context = await getBedsideContext(knex, actor, input.patientId);
+  const context = await getBedsideContext(knex, actor, input.patientId, {
+    useStaleBloodGas: input.useStaleBloodGas === true,
+    now,
+  });
   const order = context.order;
   if (!order || !context.settings) {
     throw new ValidationError(
@@ -127,19 +132,28 @@ export async function recordAdjustment(
     ...(input.toFlow !== undefined ? { flow: input.toFlow } : {}),
   });
 
-  // The forecast uses the latest arterial gas, measured at its own FiO2.
-  const gas = context.latestBloodGas;
-  const forecast =
-    gas && gas.sampleType === "arterial" && toFio2 !== gas.fio2
-      ? forecastFio2Change({
-          fio2: gas.fio2,
-          pao2: gas.pao2,
-          paco2: gas.paco2,
-          hemoglobin: gas.hb ?? ASSUMED_HEMOGLOBIN,
-          nextFio2: toFio2,
-          barometricPressure: context.barometricPressure,
-        })
-      : null;
+  // The forecast stored with the change starts from the latest arterial gas,
+  // measured at its own FiO2 — if it is fresh, or a clinician chose it anyway.
+  // A gas that contradicts itself (PaO2 above PAO2) gives no forecast.
+  const gas = context.forecastUsesGas ? context.latestArterialGas : null;
+  let forecast: Fio2Forecast | null = null;
+  let forecastWithheld: string | null = null;
+  if (gas && toFio2 !== gas.fio2) {
+    try {
+      forecast = forecastFio2Change({
+        fio2: gas.fio2,
+        pao2: gas.pao2,
+        paco2: gas.paco2,
+        hemoglobin: gas.hb ?? ASSUMED_HEMOGLOBIN,
+        nextFio2: toFio2,
+        barometricPressure: context.barometricPressure,
+      });
+      forecast.caveats.unshift(gasAgeCaveat(gas.freshness, true));
+    } catch (error) {
+      if (!(error instanceof OxygenInputError)) throw error;
+      forecastWithheld = error.message;
+    }
+  }
 
   return once(knex, actor.id, input.idempotencyKey, "adjustment.record", async (trx) => {
     const current = (await trx("bedside_settings")
@@ -221,13 +235,17 @@ export async function recordAdjustment(
           forecastRange: forecast
             ? { low: forecast.range.low.pao2, high: forecast.range.high.pao2 }
             : null,
+          ...(forecastWithheld ? { forecastWithheld } : {}),
           engineVersion: ENGINE_VERSION,
         },
         rationale: input.rationale,
       },
       now,
     );
-    await afterSettingsChanged(trx, actor, context.admission, input.appliedAt, now);
+    await afterSettingsChanged(trx, actor, context.admission, input.appliedAt, now, {
+      from: { fio2: from.fio2, flow: from.flow },
+      to: { fio2: to.fio2, flow: to.flow },
+    });
     return view;
   });
 }

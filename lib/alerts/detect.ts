@@ -1,30 +1,60 @@
+import { onSupplementalOxygen } from "../oxygen/oximetry";
+import { monitorCarryMs, MONITOR_MAX_CARRY_MS, type ReadingSource } from "../time-in-band";
+import {
+  ABOVE,
+  addSegment,
+  BELOW,
+  compactWindow,
+  emptyWindow,
+  IN_BAND,
+  measureWindows,
+  URGENT,
+  type MonitorWindow,
+  type SegmentCode,
+  type WindowMeasure,
+} from "./monitor-window";
+
 /**
  * Alert detection: pure, no framework, database or I/O imports. The service
- * feeds it readings as they are charted or imported; the benchmark feeds it a
- * week of 1 Hz monitor data. Both go through {@link advanceWatch}.
+ * feeds it readings as they are charted or imported, and the worker asks it
+ * about silence; the benchmark feeds it a week of 1 Hz monitor data. All go
+ * through {@link advanceWatch} and {@link checkSignal}.
  *
- * Rules (DESIGN.md §2 "Excursion"; issue 6):
- * - Below band: SpO2 under the order's lower bound.
- * - Above band: SpO2 over the upper bound while on supplemental oxygen
- *   (FiO2 > 0.21 or any flow). Above the band on room air is not an excursion.
- * - A manually charted value is a clinician's deliberate observation: one
- *   reading out of band opens an excursion, one in band ends it.
- * - Monitor series page nobody for a single artefact: the excursion opens only
- *   once every monitor reading has stayed out of band (same side) for
- *   `sustainMs` (default 60 s), and ends only once back in band for
- *   `resolveMs` (default 5 min) — so a patient hovering at the bound does not
- *   open and close alerts every few seconds.
- * - Urgent grade (below only): SpO2 under `urgentBelowPct` (85 %) or
- *   `urgentMarginPct` (5) points or more under the lower bound. An open
- *   excursion is upgraded the first time a reading meets either.
- * The 85 % figure and the 5-point margin are the issue's own thresholds, in
- * the range units commonly use for "call now" saturation (common practice,
- * not a published cut-off); both are configurable.
+ * Rules (DESIGN.md §2 "Excursion", "Signal loss"):
+ * - Below band: SpO2 under the order's lower bound. Above band: over the upper
+ *   bound while on supplemental oxygen (FiO2 > 0.21 or any flow — the rule
+ *   time in band uses). Every SpO2 0–100 % counts, however low.
+ * - A charted (manual) value is a clinician's deliberate observation: one
+ *   value out of band opens an excursion at once. A charted value in band
+ *   closes an excursion that a charted value opened.
+ * - A monitor series opens an excursion when, within the last `sustainMs`
+ *   (60 s), at least `sustainShare` (80 %) of the monitored time was out of
+ *   band on one side, with at least half of the window monitored. A sample
+ *   holds until the next one for a few sample intervals (time in band's
+ *   carry rule), so a sparse series (one sample every few minutes) confirms on
+ *   its second out-of-band sample and a 1 Hz series within the minute; one
+ *   in-band blip does not reset anything.
+ * - Fast path: at urgent depth (below `urgentBelowPct`, 85 %, or
+ *   `urgentMarginPct`, 5 points, or more under the band) the same rule over
+ *   the last `urgentSustainMs` (15 s) opens an urgent excursion. A routine
+ *   excursion is upgraded the same way (a charted urgent value upgrades at once).
+ * - An excursion the monitor confirmed closes only on monitor values held in
+ *   band for `resolveMs` (5 min) without a gap, or by a clinician's close with
+ *   a reason: an in-band spot check is reported (for that reason), not
+ *   allowed to close it, so the monitor cannot reopen it a minute later.
+ * - Signal loss: while an excursion is pending or open, a monitor series that
+ *   stops for longer than `signalLossMs` (120 s; twice the sample interval for
+ *   a sparse series) raises its own alert; a pending excursion then ends, so
+ *   nothing waits forever. The next monitor sample (or a charted value)
+ *   restores the signal.
+ * The 85 % figure and the 5-point margin are thresholds in the range units
+ * commonly use for "call now" saturation (common practice, not a published
+ * cut-off); every figure is configurable.
  */
 
 export type Direction = "below" | "above";
 export type Grade = "routine" | "urgent";
-export type ReadingSource = "manual" | "monitor";
+export type { ReadingSource };
 
 export type DetectReading = {
   /** Time taken, ms since the epoch. */
@@ -38,18 +68,31 @@ export type DetectReading = {
 export type Band = { lower: number; upper: number };
 
 export type DetectionOptions = {
+  /** The sliding window a monitor series is judged over. */
   sustainMs: number;
+  /** Share of the window's monitored time that must be out of band. */
+  sustainShare: number;
+  /** The shorter window of the urgent fast path. */
+  urgentSustainMs: number;
   resolveMs: number;
   urgentBelowPct: number;
   urgentMarginPct: number;
+  /** Silence of a monitor series, while an excursion is pending or open, that counts as signal loss. */
+  signalLossMs: number;
 };
 
 export const DEFAULT_DETECTION: DetectionOptions = {
   sustainMs: 60_000,
+  sustainShare: 0.8,
+  urgentSustainMs: 15_000,
   resolveMs: 5 * 60_000,
   urgentBelowPct: 85,
   urgentMarginPct: 5,
+  signalLossMs: 120_000,
 };
+
+/** At least this share of a window must be monitored before it can confirm anything. */
+export const MIN_MONITORED_SHARE = 0.5;
 
 /**
  * Where detection stands for one admission between readings. Plain data, so
@@ -63,21 +106,53 @@ export type WatchState = {
   grade: Grade | null;
   /** The lowest (below) or highest (above) SpO2 of the current excursion. */
   worst: number | null;
-  /** While open: since when monitor readings have been back in band. */
+  /** Which kind of reading opened the open excursion. */
+  openedBy: ReadingSource | null;
+  /** The monitor has confirmed the open excursion: only the monitor (or a clinician) closes it. */
+  monitorConfirmed: boolean;
+  /** Since when monitor readings have been back in band without a gap (pending or open). */
   inBandSince: number | null;
   /** The newest reading applied; older ones arriving later do not move the state. */
   lastT: number | null;
+  /** The newest monitor sample: its time, what it showed, and the interval before it (null: unknown). */
+  monitor: { t: number; code: SegmentCode; intervalMs: number | null } | null;
+  /** When signal loss was raised for the current silence; null while the signal is there. */
+  signalLostAt: number | null;
+  window: MonitorWindow;
 };
 
-export const IDLE_WATCH: WatchState = {
-  phase: "idle",
-  direction: null,
-  since: null,
-  grade: null,
-  worst: null,
-  inBandSince: null,
-  lastT: null,
-};
+/** A fresh state; never share one between admissions (the window is mutable). */
+export function idleWatch(): WatchState {
+  return {
+    phase: "idle",
+    direction: null,
+    since: null,
+    grade: null,
+    worst: null,
+    openedBy: null,
+    monitorConfirmed: false,
+    inBandSince: null,
+    lastT: null,
+    monitor: null,
+    signalLostAt: null,
+    window: emptyWindow(),
+  };
+}
+
+/** A state read back from storage, with the fields an older version did not keep filled in. */
+export function restoreWatch(stored: Partial<WatchState>): WatchState {
+  const state = { ...idleWatch(), ...stored };
+  if (!stored.window) state.window = emptyWindow();
+  return state;
+}
+
+/** The state as stored: segments no window counts any more are dropped. */
+export function storableWatch(state: WatchState): WatchState {
+  compactWindow(state.window);
+  return state;
+}
+
+export type ResolvedBy = "monitor" | "manual" | "other-side";
 
 export type WatchEvent =
   | {
@@ -87,9 +162,24 @@ export type WatchEvent =
       at: number;
       grade: Grade;
       spo2: number;
+      source: ReadingSource;
     }
-  | { type: "upgrade"; at: number; spo2: number }
-  | { type: "resolve"; at: number; direction: Direction; worst: number };
+  | { type: "upgrade"; at: number; spo2: number; source: ReadingSource }
+  | { type: "resolve"; at: number; direction: Direction; worst: number; by: ResolvedBy }
+  /** A charted value in band while a monitor-confirmed excursion stays open. */
+  | { type: "spot-check"; at: number; spo2: number }
+  | {
+      type: "signal-lost";
+      at: number;
+      lastSampleAt: number;
+      phase: "pending" | "open";
+      direction: Direction;
+      since: number;
+      worst: number;
+      /** The open excursion's grade; for a pending one, the grade its worst value has. */
+      grade: Grade;
+    }
+  | { type: "signal-restored"; at: number; source: ReadingSource };
 
 /** Which side of the band a reading is on, or null when it is in band. */
 export function classifyReading(
@@ -97,8 +187,13 @@ export function classifyReading(
   band: Band,
 ): Direction | null {
   if (r.spo2 < band.lower) return "below";
-  if (r.spo2 > band.upper && (r.fio2 > 0.21 || (r.flow ?? 0) > 0)) return "above";
+  if (r.spo2 > band.upper && onSupplementalOxygen(r)) return "above";
   return null;
+}
+
+/** Urgent depth: under the absolute threshold, or the margin or more under the band. */
+export function isUrgentDepth(spo2: number, band: Band, opts: DetectionOptions): boolean {
+  return spo2 < opts.urgentBelowPct || band.lower - spo2 >= opts.urgentMarginPct;
 }
 
 export function gradeOf(
@@ -107,10 +202,148 @@ export function gradeOf(
   band: Band,
   opts: DetectionOptions,
 ): Grade {
-  if (direction !== "below") return "routine";
-  return spo2 < opts.urgentBelowPct || band.lower - spo2 >= opts.urgentMarginPct
-    ? "urgent"
-    : "routine";
+  return direction === "below" && isUrgentDepth(spo2, band, opts) ? "urgent" : "routine";
+}
+
+function codeOf(
+  side: Direction | null,
+  spo2: number,
+  band: Band,
+  opts: DetectionOptions,
+): SegmentCode {
+  if (side === null) return IN_BAND;
+  if (side === "above") return ABOVE;
+  return isUrgentDepth(spo2, band, opts) ? URGENT : BELOW;
+}
+
+function enough(m: WindowMeasure, windowMs: number): boolean {
+  return m.monitored >= MIN_MONITORED_SHARE * windowMs;
+}
+
+/** The sustain rule on one side. */
+function sustained(m: WindowMeasure, side: Direction, opts: DetectionOptions): boolean {
+  const out = side === "below" ? m.below : m.above;
+  return out > 0 && enough(m, opts.sustainMs) && out >= opts.sustainShare * m.monitored;
+}
+
+/** The urgent fast path. */
+function urgentSustained(m: WindowMeasure, opts: DetectionOptions): boolean {
+  return (
+    m.urgent > 0 && enough(m, opts.urgentSustainMs) && m.urgent >= opts.sustainShare * m.monitored
+  );
+}
+
+/** How long a silence must last to count as signal loss: 120 s, or two sample intervals of a sparse series. */
+export function signalLossAfterMs(state: WatchState, opts: DetectionOptions): number {
+  return Math.max(opts.signalLossMs, 2 * (state.monitor?.intervalMs ?? 0));
+}
+
+function worse(direction: Direction, a: number, b: number): number {
+  return direction === "below" ? Math.min(a, b) : Math.max(a, b);
+}
+
+/** Ends the current excursion (pending or open); the monitor's history stays. */
+function endExcursion(state: WatchState): void {
+  state.phase = "idle";
+  state.direction = null;
+  state.since = null;
+  state.grade = null;
+  state.worst = null;
+  state.openedBy = null;
+  state.monitorConfirmed = false;
+  state.inBandSince = null;
+}
+
+/**
+ * A clinician closed the excursion by hand (or the order that set the band
+ * ended): detection starts afresh — the monitor's earlier time out of band no
+ * longer counts, so another excursion needs a fresh half window out of band.
+ */
+export function restartWatch(state: WatchState): void {
+  endExcursion(state);
+  state.window = emptyWindow();
+  state.monitor = null;
+}
+
+function openExcursion(
+  state: WatchState,
+  direction: Direction,
+  since: number,
+  r: DetectReading,
+  grade: Grade,
+  emit: (event: WatchEvent) => void,
+): void {
+  state.phase = "open";
+  state.direction = direction;
+  state.since = since;
+  state.grade = grade;
+  state.openedBy = r.source;
+  state.monitorConfirmed = r.source === "monitor";
+  state.inBandSince = null;
+  emit({
+    type: "open",
+    direction,
+    startedAt: since,
+    at: r.t,
+    grade,
+    spo2: r.spo2,
+    source: r.source,
+  });
+}
+
+function resolveExcursion(
+  state: WatchState,
+  at: number,
+  by: ResolvedBy,
+  emit: (event: WatchEvent) => void,
+): void {
+  emit({ type: "resolve", at, direction: state.direction!, worst: state.worst!, by });
+  endExcursion(state);
+}
+
+function raiseSignalLoss(
+  state: WatchState,
+  at: number,
+  band: Band,
+  opts: DetectionOptions,
+  emit: (event: WatchEvent) => void,
+): void {
+  emit({
+    type: "signal-lost",
+    at,
+    lastSampleAt: state.monitor!.t,
+    phase: state.phase as "pending" | "open",
+    direction: state.direction!,
+    since: state.since!,
+    worst: state.worst!,
+    grade: state.grade ?? gradeOf(state.worst!, state.direction!, band, opts),
+  });
+  state.signalLostAt = at;
+  // A pending excursion cannot be confirmed without a signal: it ends here, reported with the loss.
+  if (state.phase === "pending") endExcursion(state);
+}
+
+/** Signal loss applies to an excursion the monitor is part of. */
+function watchingMonitor(state: WatchState): boolean {
+  if (state.monitor === null || state.signalLostAt !== null) return false;
+  if (state.phase === "pending") return true;
+  return state.phase === "open" && state.monitor.t >= state.since!;
+}
+
+/**
+ * The worker's question at `now`: has the monitor gone silent while an
+ * excursion is pending or open? Raises signal loss once per silence.
+ */
+export function checkSignal(
+  state: WatchState,
+  now: number,
+  band: Band,
+  opts: DetectionOptions,
+  emit: (event: WatchEvent) => void,
+): void {
+  if (!watchingMonitor(state)) return;
+  const lossAt = state.monitor!.t + signalLossAfterMs(state, opts);
+  if (now >= lossAt) raiseSignalLoss(state, lossAt, band, opts, emit);
 }
 
 /**
@@ -127,142 +360,132 @@ export function advanceWatch(
 ): void {
   if (state.lastT !== null && r.t < state.lastT) return;
   state.lastT = r.t;
+  if (r.source === "monitor") applyMonitorSample(state, r, band, opts, emit);
+  else applyChartedValue(state, r, band, opts, emit);
+}
+
+function applyChartedValue(
+  state: WatchState,
+  r: DetectReading,
+  band: Band,
+  opts: DetectionOptions,
+  emit: (event: WatchEvent) => void,
+): void {
+  if (state.signalLostAt !== null) {
+    // Someone is at the bedside: the silence is answered. A monitor that
+    // comes back later starts as a new series.
+    emit({ type: "signal-restored", at: r.t, source: "manual" });
+    state.signalLostAt = null;
+    state.monitor = null;
+  }
   const side = classifyReading(r, band);
+  if (state.phase !== "open") {
+    if (side === null) return; // a pending monitor excursion is the monitor's to confirm or drop
+    const continues = state.phase === "pending" && state.direction === side;
+    const since = continues ? state.since! : r.t;
+    state.worst = continues ? worse(side, state.worst!, r.spo2) : r.spo2;
+    openExcursion(state, side, since, r, gradeOf(r.spo2, side, band, opts), emit);
+    return;
+  }
+  if (side !== null && side === state.direction) {
+    state.worst = worse(side, state.worst!, r.spo2);
+    if (state.grade === "routine" && gradeOf(r.spo2, side, band, opts) === "urgent") {
+      state.grade = "urgent";
+      emit({ type: "upgrade", at: r.t, spo2: r.spo2, source: "manual" });
+    }
+    return;
+  }
+  if (state.monitorConfirmed) {
+    emit({ type: "spot-check", at: r.t, spo2: r.spo2 });
+    return;
+  }
+  resolveExcursion(state, r.t, "manual", emit);
+  if (side !== null) {
+    state.worst = r.spo2;
+    openExcursion(state, side, r.t, r, gradeOf(r.spo2, side, band, opts), emit);
+  }
+}
+
+function applyMonitorSample(
+  state: WatchState,
+  r: DetectReading,
+  band: Band,
+  opts: DetectionOptions,
+  emit: (event: WatchEvent) => void,
+): void {
+  const prev = state.monitor;
+  const gap = prev === null ? null : r.t - prev.t;
+  if (prev !== null) {
+    const end = Math.min(r.t, prev.t + monitorCarryMs(prev.intervalMs));
+    addSegment(state.window, prev.t, end, prev.code);
+    // A gap breaks a run back in band.
+    if (end < r.t) state.inBandSince = null;
+  }
+  if (state.signalLostAt !== null) {
+    emit({ type: "signal-restored", at: r.t, source: "monitor" });
+    state.signalLostAt = null;
+  } else if (gap !== null && watchingMonitor(state) && gap >= signalLossAfterMs(state, opts)) {
+    // A silence nobody was told about (a file imported afterwards): record it.
+    raiseSignalLoss(state, prev!.t + signalLossAfterMs(state, opts), band, opts, emit);
+    emit({ type: "signal-restored", at: r.t, source: "monitor" });
+    state.signalLostAt = null;
+  }
+  const side = classifyReading(r, band);
+  state.monitor = {
+    t: r.t,
+    code: codeOf(side, r.spo2, band, opts),
+    intervalMs: gap !== null && gap <= MONITOR_MAX_CARRY_MS ? gap : null,
+  };
+  const { long, short } = measureWindows(state.window, r.t, opts.sustainMs, opts.urgentSustainMs);
+  const urgentNow = urgentSustained(short, opts);
 
   if (state.phase === "open") {
-    if (side !== null && side === state.direction) {
+    const direction = state.direction!;
+    if (side === direction) {
       state.inBandSince = null;
-      if (side === "below" ? r.spo2 < state.worst! : r.spo2 > state.worst!) state.worst = r.spo2;
-      if (state.grade === "routine" && gradeOf(r.spo2, side, band, opts) === "urgent") {
+      state.worst = worse(direction, state.worst!, r.spo2);
+      if (sustained(long, direction, opts) || (direction === "below" && urgentNow))
+        state.monitorConfirmed = true;
+      if (state.grade === "routine" && direction === "below" && urgentNow) {
         state.grade = "urgent";
-        emit({ type: "upgrade", at: r.t, spo2: r.spo2 });
+        emit({ type: "upgrade", at: r.t, spo2: r.spo2, source: "monitor" });
       }
       return;
     }
     if (side === null) {
-      // Back in band: a manual value ends it now; monitor values must hold.
-      if (r.source === "monitor") {
-        if (state.inBandSince === null) state.inBandSince = r.t;
-        if (r.t - state.inBandSince < opts.resolveMs) return;
-      }
-      emit({ type: "resolve", at: r.t, direction: state.direction!, worst: state.worst! });
-      reset(state, r.t);
+      state.inBandSince ??= r.t;
+      if (r.t - state.inBandSince >= opts.resolveMs) resolveExcursion(state, r.t, "monitor", emit);
       return;
     }
-    // The other side of the band: this excursion is over, a new one may begin.
-    emit({ type: "resolve", at: r.t, direction: state.direction!, worst: state.worst! });
-    reset(state, r.t);
+    // The other side of the band: once that is sustained, this excursion is over.
+    state.inBandSince = null;
+    if (!sustained(long, side, opts) && !(side === "below" && urgentNow)) return;
+    resolveExcursion(state, r.t, "other-side", emit);
   }
 
   if (side === null) {
-    if (state.phase === "pending") reset(state, r.t);
+    // A pending excursion ends once the monitor has been back in band for
+    // longer than the window's in-band allowance (12 of 60 s): a blip does
+    // not end it, a recovery does. Its time out of band stays in the window.
+    if (state.phase === "pending") {
+      state.inBandSince ??= r.t;
+      const allowance = (1 - opts.sustainShare) * opts.sustainMs;
+      const out = state.direction === "below" ? long.below : long.above;
+      if (out === 0 || r.t - state.inBandSince > allowance) endExcursion(state);
+    }
     return;
   }
+  state.inBandSince = null;
   if (state.phase === "pending" && state.direction === side) {
-    if (side === "below" ? r.spo2 < state.worst! : r.spo2 > state.worst!) state.worst = r.spo2;
+    state.worst = worse(side, state.worst!, r.spo2);
   } else {
     state.phase = "pending";
     state.direction = side;
     state.since = r.t;
     state.worst = r.spo2;
   }
-  if (r.source === "manual" || r.t - state.since! >= opts.sustainMs) {
-    const grade = gradeOf(state.worst!, side, band, opts);
-    state.phase = "open";
-    state.grade = grade;
-    state.inBandSince = null;
-    emit({ type: "open", direction: side, startedAt: state.since!, at: r.t, grade, spo2: r.spo2 });
+  const fast = side === "below" && urgentNow;
+  if (fast || sustained(long, side, opts)) {
+    openExcursion(state, side, state.since!, r, fast ? "urgent" : "routine", emit);
   }
-}
-
-function reset(state: WatchState, t: number): void {
-  Object.assign(state, IDLE_WATCH, { lastT: t });
-}
-
-export type Excursion = {
-  direction: Direction;
-  startedAt: number;
-  /** When it was confirmed (and an alert would open). */
-  openedAt: number;
-  grade: Grade;
-  /** When the upgrade to urgent happened, if it did after opening. */
-  upgradedAt: number | null;
-  worst: number;
-  resolvedAt: number | null;
-};
-
-/**
- * Every excursion in a series of readings under one band — what the
- * service's incremental detection would have raised, in one pass. Readings
- * must be sorted by time.
- */
-export function detectExcursions(
-  readings: readonly DetectReading[],
-  band: Band,
-  opts: DetectionOptions = DEFAULT_DETECTION,
-  start: WatchState = IDLE_WATCH,
-): { excursions: Excursion[]; state: WatchState } {
-  const state = { ...start };
-  const excursions: Excursion[] = [];
-  let current: Excursion | null = null;
-  const emit = (e: WatchEvent) => {
-    if (e.type === "open") {
-      current = {
-        direction: e.direction,
-        startedAt: e.startedAt,
-        openedAt: e.at,
-        grade: e.grade,
-        upgradedAt: null,
-        worst: e.spo2,
-        resolvedAt: null,
-      };
-      excursions.push(current);
-    } else if (current) {
-      if (e.type === "upgrade") {
-        current.grade = "urgent";
-        current.upgradedAt = e.at;
-      } else {
-        current.worst = e.worst;
-        current.resolvedAt = e.at;
-        current = null;
-      }
-    }
-  };
-  for (let i = 0; i < readings.length; i++) advanceWatch(state, readings[i]!, band, opts, emit);
-  if (current !== null) (current as Excursion).worst = state.worst ?? (current as Excursion).worst;
-  return { excursions, state };
-}
-
-/**
- * Order limits exhausted: the patient is below the band and the bedside is
- * already at the order's ceiling for FiO2, PEEP or flow — titrating further
- * needs a new order, so the physician is needed. Returns which limits are at
- * their maximum, or an empty list.
- */
-export function exhaustedLimits(
-  settings: { fio2: number; fio2Estimated: boolean; peep: number | null; flow: number | null },
-  limits: { fio2Max: number; peepMax: number | null; flowMax: number | null },
-): ("fio2" | "peep" | "flow")[] {
-  const out: ("fio2" | "peep" | "flow")[] = [];
-  // An estimated FiO2 (low-flow device) is not a setting; the flow is.
-  if (!settings.fio2Estimated && settings.fio2 >= limits.fio2Max - 1e-9) out.push("fio2");
-  if (limits.peepMax !== null && settings.peep !== null && settings.peep >= limits.peepMax - 1e-9)
-    out.push("peep");
-  if (limits.flowMax !== null && settings.flow !== null && settings.flow >= limits.flowMax - 1e-9)
-    out.push("flow");
-  return out;
-}
-
-/**
- * Reassessment overdue: the order's interval has passed since the last
- * reassessment (a charted reading, an adjustment). Returns the minutes past
- * due, or null when not overdue.
- */
-export function reassessmentOverdueMinutes(
-  lastReassessedAt: number,
-  reassessMinutes: number,
-  now: number,
-): number | null {
-  const due = lastReassessedAt + reassessMinutes * 60_000;
-  return now > due ? Math.floor((now - due) / 60_000) : null;
 }

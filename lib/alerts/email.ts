@@ -1,3 +1,4 @@
+import { BELOW_OXIMETER_ACCURACY_LABEL, belowOximeterAccuracy } from "../oxygen/oximetry";
 import { ALERT_KIND_LABELS, ESCALATION_LABELS, type AlertKind } from "./kinds";
 
 /**
@@ -22,6 +23,12 @@ export type AlertEmailInput = {
   limitsAtMax?: string[];
   /** For reassessment overdue: minutes past due. */
   overdueMinutes?: number;
+  /** For signal loss: the last monitor sample, and whether an excursion was open or only pending. */
+  lastSampleAt?: Date;
+  excursion?: { phase: "pending" | "open"; direction: "below" | "above" };
+  /** For PaO2 above band: the measured PaO2 and the order's PaO2 band, mmHg. */
+  pao2?: number;
+  pao2Band?: { lower: number; upper: number };
   baseUrl: string;
 };
 
@@ -47,20 +54,41 @@ function when(at: Date, timeZone: string): string {
   return `${local} (${timeZone})`;
 }
 
+/** An SpO2 value as the alert texts show it, with the mark below the oximeter's accuracy. */
+export function spo2Text(spo2: number | null | undefined): string {
+  if (spo2 === null || spo2 === undefined) return "SpO2 ?";
+  return `SpO2 ${spo2} %${belowOximeterAccuracy(spo2) ? ` (${BELOW_OXIMETER_ACCURACY_LABEL})` : ""}`;
+}
+
 /** What was missed, in one line. */
 export function describeAlert(
-  input: Pick<AlertEmailInput, "kind" | "band" | "spo2" | "limitsAtMax" | "overdueMinutes">,
+  input: Pick<
+    AlertEmailInput,
+    "kind" | "band" | "spo2" | "limitsAtMax" | "overdueMinutes" | "excursion" | "pao2" | "pao2Band"
+  > & { lastSampleText?: string },
 ): string {
   const band = input.band ? `target ${input.band.lower}–${input.band.upper} %` : "no target band";
   switch (input.kind) {
     case "below_band":
-      return `SpO2 ${input.spo2 ?? "?"} %, below the ${band}.`;
+      return `${spo2Text(input.spo2)}, below the ${band}.`;
     case "above_band":
-      return `SpO2 ${input.spo2 ?? "?"} % on supplemental oxygen, above the ${band}.`;
+      return `${spo2Text(input.spo2)} on supplemental oxygen, above the ${band}.`;
     case "limits_exhausted":
       return `SpO2 below the ${band} with ${(input.limitsAtMax ?? []).join(", ") || "a limit"} at the order's maximum: a new order is needed to go further.`;
     case "reassessment_overdue":
       return `Reassessment is ${input.overdueMinutes ?? "?"} min past the interval the order sets.`;
+    case "signal_loss": {
+      const side = input.excursion?.direction === "above" ? "above" : "below";
+      const state = input.excursion?.phase === "open" ? "while SpO2 was" : "while SpO2 was going";
+      const last = input.lastSampleText ? ` (last sample ${input.lastSampleText})` : "";
+      return `The SpO2 monitor stopped sending${last} ${state} ${side} the ${band}, worst ${spo2Text(input.spo2)}: check the probe and the patient.`;
+    }
+    case "pao2_above_band": {
+      const pao2Band = input.pao2Band
+        ? `PaO2 target ${input.pao2Band.lower}–${input.pao2Band.upper} mmHg`
+        : "PaO2 target";
+      return `PaO2 ${input.pao2 ?? "?"} mmHg on supplemental oxygen, above the ${pao2Band}: consider weaning.`;
+    }
   }
 }
 
@@ -80,7 +108,10 @@ export function composeAlertEmail(input: AlertEmailInput): AlertEmail {
   const lines = [
     `${ALERT_KIND_LABELS[input.kind]}${urgent ? " (urgent)" : ""}`,
     `Where: ${input.unitName} (${input.unitCode}), bed ${input.bedLabel}`,
-    `What: ${describeAlert(input)}`,
+    `What: ${describeAlert({
+      ...input,
+      ...(input.lastSampleAt ? { lastSampleText: when(input.lastSampleAt, input.timeZone) } : {}),
+    })}`,
     `Since: ${when(input.startedAt, input.timeZone)}`,
     `You are receiving this as the ${ESCALATION_LABELS[input.escalationLevel] ?? "care team"}${
       input.purpose === "escalate" ? " because it was not acknowledged in time" : ""

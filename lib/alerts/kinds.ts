@@ -4,6 +4,8 @@ export const ALERT_KINDS = [
   "above_band",
   "limits_exhausted",
   "reassessment_overdue",
+  "signal_loss",
+  "pao2_above_band",
 ] as const;
 export type AlertKind = (typeof ALERT_KINDS)[number];
 
@@ -12,6 +14,8 @@ export const ALERT_KIND_LABELS: Record<AlertKind, string> = {
   above_band: "SpO2 above target on oxygen",
   limits_exhausted: "Order limits reached",
   reassessment_overdue: "Reassessment overdue",
+  signal_loss: "Monitor signal lost",
+  pao2_above_band: "PaO2 above target on oxygen",
 };
 
 export const ALERT_STATES = [

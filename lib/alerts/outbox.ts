@@ -65,7 +65,8 @@ export async function queueAlertMail(
   level: number,
   purpose: string,
   now: Date,
-): Promise<{ recipients: number[]; mailed: number[]; optedOut: number[] }> {
+  opts: { exclude?: number | null } = {},
+): Promise<{ recipients: number[]; mailed: number[]; optedOut: number[]; excluded: number[] }> {
   const a = (await trx("alerts as a")
     .join("units as u", "u.id", "a.unit_id")
     .join("beds as b", "b.id", "a.bed_id")
@@ -88,7 +89,7 @@ export async function queueAlertMail(
       "b.label as bed_label",
     )) as AlertMailContext;
   const recipients = await recipientsFor(trx, { bedId: a.bed_id, orderId: a.order_id }, level, now);
-  if (!recipients.length) return { recipients: [], mailed: [], optedOut: [] };
+  if (!recipients.length) return { recipients: [], mailed: [], optedOut: [], excluded: [] };
   const optedOut = (await trx("alert_email_preferences")
     .whereIn(
       "user_id",
@@ -97,7 +98,14 @@ export async function queueAlertMail(
     .where({ kind: a.kind, email: false })
     .pluck("user_id")) as number[];
   const env = getEnv();
-  const detail = JSON.parse(a.detail_json) as { limitsAtMax?: string[]; overdueMinutes?: number };
+  const detail = JSON.parse(a.detail_json) as {
+    limitsAtMax?: string[];
+    overdueMinutes?: number;
+    lastSampleAt?: string;
+    excursion?: { phase: "pending" | "open"; direction: "below" | "above" };
+    pao2?: number;
+    pao2Band?: { lower: number; upper: number };
+  };
   const spo2 = a.worst_spo2_pct ?? a.trigger_spo2_pct;
   const mail = composeAlertEmail({
     alertId: a.id,
@@ -121,9 +129,15 @@ export async function queueAlertMail(
     spo2: spo2 === null ? null : Number(spo2),
     limitsAtMax: detail.limitsAtMax,
     overdueMinutes: detail.overdueMinutes,
+    ...(detail.lastSampleAt ? { lastSampleAt: new Date(detail.lastSampleAt) } : {}),
+    ...(detail.excursion ? { excursion: detail.excursion } : {}),
+    ...(detail.pao2 !== undefined ? { pao2: detail.pao2 } : {}),
+    ...(detail.pao2Band ? { pao2Band: detail.pao2Band } : {}),
     baseUrl: env.NEXTAUTH_URL,
   });
-  const mailed = recipients.filter((r) => !optedOut.includes(r.id));
+  // Whoever charted the value that raised the alert is at the bedside: no e-mail for them.
+  const excluded = recipients.filter((r) => r.id === opts.exclude).map((r) => r.id);
+  const mailed = recipients.filter((r) => !optedOut.includes(r.id) && !excluded.includes(r.id));
   if (mailed.length) {
     await trx("mail_outbox")
       .insert(
@@ -148,7 +162,42 @@ export async function queueAlertMail(
     recipients: recipients.map((r) => r.id),
     mailed: mailed.map((r) => r.id),
     optedOut,
+    excluded,
   };
+}
+
+/**
+ * Cancels an alert's e-mail that has not left yet, with the reason — an
+ * alert resolved or acknowledged before its e-mail was sent is not announced
+ * as if it still waited for someone. `purposes` limits it (by prefix).
+ * Returns the recipients whose e-mail was cancelled.
+ */
+export async function cancelPendingMail(
+  trx: Knex.Transaction,
+  alertId: number,
+  reason: string,
+  now: Date,
+  purposes?: readonly string[],
+): Promise<number[]> {
+  const pending = (await trx("mail_outbox")
+    .where({ alert_id: alertId, state: "pending" })
+    .forUpdate()
+    .select("id", "purpose", "recipient_user_id")) as {
+    id: number;
+    purpose: string;
+    recipient_user_id: number;
+  }[];
+  const chosen = purposes
+    ? pending.filter((m) => purposes.some((p) => m.purpose.startsWith(p)))
+    : pending;
+  if (!chosen.length) return [];
+  await trx("mail_outbox")
+    .whereIn(
+      "id",
+      chosen.map((m) => m.id),
+    )
+    .update({ state: "cancelled", cancel_reason: reason.slice(0, 300), cancelled_at: now });
+  return chosen.map((m) => m.recipient_user_id);
 }
 
 /** What the worker needs of a nodemailer transport. */
@@ -221,6 +270,23 @@ export async function deliverOutbox(
       })
       .update({ claimed_until: new Date(now.getTime() + claimMs) });
     if (!claimed) continue;
+    if (row.alert_id !== null) {
+      // Resolved meanwhile (a row queued before resolving cancelled its mail, or a race): not sent.
+      const alert = (await knex("alerts")
+        .where({ id: row.alert_id })
+        .first("state", "resolved_at")) as { state: string; resolved_at: Date | null } | undefined;
+      if (alert?.state === "resolved") {
+        await knex("mail_outbox")
+          .where({ id: row.id, state: "pending" })
+          .update({
+            state: "cancelled",
+            cancel_reason: `The alert was resolved at ${new Date(alert.resolved_at ?? now).toISOString()} before this e-mail left.`,
+            cancelled_at: now,
+            claimed_until: null,
+          });
+        continue;
+      }
+    }
     let response: string;
     try {
       const info = await sender.sendMail({

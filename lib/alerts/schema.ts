@@ -40,5 +40,7 @@ export const emailPreferencesSchema = z.object({
   above_band: z.boolean(),
   limits_exhausted: z.boolean(),
   reassessment_overdue: z.boolean(),
+  signal_loss: z.boolean(),
+  pao2_above_band: z.boolean(),
 });
 export type EmailPreferences = z.infer<typeof emailPreferencesSchema>;

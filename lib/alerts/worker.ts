@@ -1,14 +1,20 @@
 import type { Knex } from "knex";
 import { alertConfig, type AlertConfig } from "./config";
 import { deliverOutbox, type MailSender } from "./outbox";
-import { escalateDueAlerts, openOverdueReassessments } from "./service";
+import { escalateDueAlerts, openOverdueReassessments, raiseSignalLosses } from "./sweeps";
 
-export type WorkerPass = { escalated: number; overdueOpened: number; sent: number; failed: number };
+export type WorkerPass = {
+  escalated: number;
+  overdueOpened: number;
+  signalLosses: number;
+  sent: number;
+  failed: number;
+};
 
 /**
  * One pass of the background work alerts need besides the writes that raise
- * them: escalate what nobody acknowledged, open overdue reassessments, deliver
- * the outbox. Time-driven, so the tests call it with their own clock.
+ * them: escalate what nobody acknowledged, open overdue reassessments, raise
+ * signal loss for monitors gone silent during an excursion, deliver the outbox. Time-driven, so the tests call it with their own clock.
  */
 export async function runAlertWork(
   knex: Knex,
@@ -18,8 +24,9 @@ export async function runAlertWork(
 ): Promise<WorkerPass> {
   const escalated = await escalateDueAlerts(knex, now, cfg);
   const overdueOpened = await openOverdueReassessments(knex, now, cfg);
+  const signalLosses = await raiseSignalLosses(knex, now, cfg);
   const { sent, failed } = await deliverOutbox(knex, sender, now);
-  return { escalated, overdueOpened, sent, failed };
+  return { escalated, overdueOpened, signalLosses, sent, failed };
 }
 
 /**
@@ -40,9 +47,9 @@ export function startAlertWorker(
   const tick = () => {
     running = runAlertWork(knex, sender)
       .then((pass) => {
-        if (pass.escalated || pass.overdueOpened || pass.sent || pass.failed)
+        if (pass.escalated || pass.overdueOpened || pass.signalLosses || pass.sent || pass.failed)
           log(
-            `[alerts] escalated ${pass.escalated}, overdue opened ${pass.overdueOpened}, mail sent ${pass.sent}` +
+            `[alerts] escalated ${pass.escalated}, overdue opened ${pass.overdueOpened}, signal lost ${pass.signalLosses}, mail sent ${pass.sent}` +
               (pass.failed
                 ? `, ${pass.failed} failed (kept in the outbox, retried with backoff)`
                 : ""),

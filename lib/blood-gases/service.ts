@@ -3,6 +3,7 @@ import type { Actor } from "../auth/actor";
 import { assertRole } from "../auth/actor-queries";
 import { ValidationError } from "../errors";
 import { once } from "../idempotency";
+import { afterBloodGasRecorded } from "../alerts/service";
 import { appendLedger } from "../ledger/service";
 import { RESPIRATORY_SUPPORT, type Device } from "../orders/devices";
 import {
@@ -179,6 +180,19 @@ export async function recordBloodGas(
             ? { pfRatio: assessment.indices.pfRatio.value, inconsistent: assessment.inconsistent }
             : null,
         },
+      },
+      now,
+    );
+    await afterBloodGasRecorded(
+      trx,
+      actor,
+      admission,
+      {
+        sampledAt: input.sampledAt,
+        sampleType: input.sampleType,
+        pao2: input.pao2,
+        fio2: view.fio2,
+        flow: input.flow ?? null,
       },
       now,
     );

@@ -1,5 +1,6 @@
 import type { Knex } from "knex";
 import { openAlertsByAdmission, type AdmissionAlerts } from "../alerts/queries";
+import { belowOximeterAccuracy } from "../oxygen/oximetry";
 import { DEVICE_PROFILES, type Device } from "../orders/devices";
 import { ageInYears, initialsOf } from "../patients/display";
 import { readingWindow, type WindowReading } from "./reading-window";
@@ -38,7 +39,14 @@ export type BoardRow = {
     upper: number;
     reassessMinutes: number;
   } | null;
-  latestSpo2: { pct: number; fio2: number; takenAt: string } | null;
+  /** The newest SpO2; `belowOximeterAccuracy` marks a value under the oximeter's stated accuracy (< 70 %). */
+  latestSpo2: {
+    pct: number;
+    fio2: number;
+    takenAt: string;
+    source: "manual" | "monitor";
+    belowOximeterAccuracy: boolean;
+  } | null;
   /** The latest SpO2 against the band in effect; null without a reading or an order. */
   spo2Status: "in-band" | "below" | "above" | null;
   /** Share of the last 24 h below / in / above the band, and unknown (lib/time-in-band). */
@@ -251,7 +259,7 @@ async function loadClinical(
           ),
           knex
             .raw(
-              `SELECT r.admission_id, r.taken_at, r.spo2_pct, r.fio2
+              `SELECT r.admission_id, r.taken_at, r.spo2_pct, r.fio2, r.flow_l_min, r.source
                  FROM readings r
                  JOIN (SELECT patient_id, MAX(taken_at) AS m FROM readings
                         WHERE patient_id IN (${patientIds.map(() => "?").join(",")}) AND taken_at <= ?
@@ -259,8 +267,16 @@ async function loadClinical(
               [...patientIds, now],
             )
             .then(
-              ([r]: [{ admission_id: number; taken_at: Date; spo2_pct: number; fio2: number }[]]) =>
-                r,
+              ([r]: [
+                {
+                  admission_id: number;
+                  taken_at: Date;
+                  spo2_pct: number;
+                  fio2: number;
+                  flow_l_min: number | null;
+                  source: "manual" | "monitor";
+                }[],
+              ]) => r,
             ),
           knex
             .raw(
@@ -299,6 +315,7 @@ async function loadClinical(
       to: o.status === "active" || o.status === "awaiting_cosign" ? null : o.ended_at,
       lower: o.spo2_lower_pct,
       upper: o.spo2_upper_pct,
+      reassessMinutes: o.reassess_minutes,
     }));
     const tib = timeInBandOfSeries({
       from: from.getTime(),
@@ -316,10 +333,14 @@ async function loadClinical(
     const spo2Status =
       last && current
         ? ({ below: "below", inBand: "in-band", above: "above" } as const)[
-            classifySpo2(last.spo2_pct, last.fio2, {
-              lower: current.spo2_lower_pct,
-              upper: current.spo2_upper_pct,
-            })
+            classifySpo2(
+              last.spo2_pct,
+              { fio2: last.fio2, flow: last.flow_l_min },
+              {
+                lower: current.spo2_lower_pct,
+                upper: current.spo2_upper_pct,
+              },
+            )
           ]
         : null;
     return {
@@ -339,7 +360,13 @@ async function loadClinical(
           }
         : null,
       latestSpo2: last
-        ? { pct: last.spo2_pct, fio2: last.fio2, takenAt: last.taken_at.toISOString() }
+        ? {
+            pct: last.spo2_pct,
+            fio2: last.fio2,
+            takenAt: last.taken_at.toISOString(),
+            source: last.source,
+            belowOximeterAccuracy: belowOximeterAccuracy(last.spo2_pct),
+          }
         : null,
       spo2Status,
       timeInBand24h: {

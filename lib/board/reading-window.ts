@@ -1,7 +1,14 @@
 import type { Knex } from "knex";
 
 /** One reading as the time-in-band computation needs it (t in ms since epoch). */
-export type WindowReading = { id: number; t: number; spo2: number; fio2: number };
+export type WindowReading = {
+  id: number;
+  t: number;
+  spo2: number;
+  fio2: number;
+  flow: number | null;
+  source: "manual" | "monitor";
+};
 
 type Entry = { readings: WindowReading[]; builtAt: number; usedAt: number };
 type Cache = {
@@ -42,13 +49,15 @@ type Row = {
   t: number | string;
   spo2_pct: number;
   fio2: number;
+  flow_l_min: number | null;
+  source: "manual" | "monitor";
 };
 
 async function fetchRows(knex: Knex, where: string, bindings: Knex.RawBinding[]): Promise<Row[]> {
   // Milliseconds since the epoch as plain integers: they parse much faster than
   // DATETIME values when there are tens of thousands of rows.
   const [rows] = (await knex.raw(
-    `SELECT id, admission_id, TIMESTAMPDIFF(MICROSECOND, '1970-01-01', taken_at) DIV 1000 AS t, spo2_pct, fio2
+    `SELECT id, admission_id, TIMESTAMPDIFF(MICROSECOND, '1970-01-01', taken_at) DIV 1000 AS t, spo2_pct, fio2, flow_l_min, source
        FROM readings WHERE ${where}`,
     bindings,
   )) as [Row[]];
@@ -60,6 +69,8 @@ const toReading = (r: Row): WindowReading => ({
   t: Number(r.t),
   spo2: r.spo2_pct,
   fio2: r.fio2,
+  flow: r.flow_l_min,
+  source: r.source,
 });
 
 async function fetchFull(

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { BLOOD_GAS_RANGES, type BloodGasRangeKey } from "../blood-gases/schema";
+import { BLOOD_GAS_RANGES, saturationIssue, type BloodGasRangeKey } from "../blood-gases/schema";
 import { READING_RANGES } from "../readings/schema";
 import {
   MEASURED_FIELDS,
@@ -63,9 +63,13 @@ export const importedBloodGasSchema = z.object({
   ph: gas("ph").optional(),
   hco3: gas("hco3").optional(),
   baseExcess: gas("baseExcess").optional(),
-  sao2: gas("sao2").optional(),
+  // Any saturation here; the sample type's own range is checked below.
+  sao2: measured({ label: "Saturation", min: 0, max: 100, unit: "%" }).optional(),
   hemoglobin: gas("hemoglobin").optional(),
   fio2: gas("fio2").optional(),
+}).superRefine((v, ctx) => {
+  const message = saturationIssue(v.sampleType, v.sao2);
+  if (message) ctx.addIssue({ code: "custom", path: ["sao2"], message: `${message.slice(0, -1)} (${v.sao2} % given).` });
 });
 export type ImportedBloodGas = z.infer<typeof importedBloodGasSchema>;
 

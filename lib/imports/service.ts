@@ -1,7 +1,7 @@
 import { createHash } from "node:crypto";
 import type { Knex } from "knex";
 import { z } from "zod";
-import { afterReadingsCharted } from "../alerts/service";
+import { afterBloodGasRecorded, afterReadingsCharted } from "../alerts/service";
 import type { TokenActor } from "../api-tokens/service";
 import type { Actor } from "../auth/actor";
 import { assertRole } from "../auth/actor-queries";
@@ -419,6 +419,13 @@ async function writeImport(
         recordedBy,
         importId: row.id,
       });
+      await afterBloodGasRecorded(
+        trx,
+        ledgerActor,
+        alertAdmissionOf(g.patient),
+        { sampledAt: g.values.sampledAt, sampleType: g.values.sampleType, pao2: g.values.pao2, fio2: view.fio2, flow: g.values.flow ?? null },
+        now,
+      );
       const entry = touched.get(g.patient.patientId) ?? { patient: g.patient, after: { bloodGasIds: [] as number[], readings: 0 } };
       (entry.after.bloodGasIds as number[]).push(view.id);
       touched.set(g.patient.patientId, entry);

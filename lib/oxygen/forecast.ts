@@ -47,8 +47,6 @@ export interface Fio2Forecast {
   alveolarPO2: { current: number; next: number };
   /** Virtual shunt fraction estimated from the blood gas, 0–1 */
   shuntFraction: number;
-  /** The measured PaO2 is above the computed PAO2: the inputs contradict each other. */
-  inconsistent: boolean;
   caveats: string[];
   /** What every forecast assumes, for the basis view. */
   assumptions: readonly string[];
@@ -68,6 +66,23 @@ export const FORECAST_ASSUMPTIONS: readonly string[] = Object.freeze([
 // halvings make the answer a monotone function of the target content, so the
 // forecast can never fall when FiO2 rises, not even by rounding.
 const SOLVER_HIGH = 800;
+
+/**
+ * A measured PaO2 above the alveolar PO2 computed for its own FiO2: the
+ * inputs contradict each other (a wrong FiO2, PaCO2 or barometric pressure, or
+ * a sample that is not arterial). Every model would start from a falsehood —
+ * clamping them to PAO2 once made a wean read "235 mmHg" — so no forecast is
+ * made; the message says why. An OxygenInputError, so every caller that
+ * withholds a forecast on a refused input withholds this one too.
+ */
+export class InconsistentBloodGasError extends OxygenInputError {
+  constructor(pao2: number, alveolar: number, fio2: number) {
+    super({ field: "pao2", value: pao2, min: RANGES.pao2.min, max: alveolar, unit: RANGES.pao2.unit });
+    this.message =
+      `measured PaO2 ${mmHg(pao2)} is above the alveolar PO2 ${mmHg(alveolar)} computed at FiO2 ${fio2}: the inputs contradict each other ` +
+      "(check FiO2, PaCO2, barometric pressure and that the sample is arterial), so no forecast is made from them";
+  }
+}
 const SOLVER_HALVINGS = 52;
 
 function solvePO2ForContent(hemoglobin: number, target: number): number {
@@ -82,7 +97,9 @@ function solvePO2ForContent(hemoglobin: number, target: number): number {
 }
 
 const model = (pao2: number): ModelForecast => ({ pao2, spo2: 100 * severinghausSaturation(pao2) });
-const mmHg = (value: number): string => `${Math.round(value)} mmHg`;
+function mmHg(value: number): string {
+  return `${Math.round(value)} mmHg`;
+}
 
 /**
  * Forecast PaO2 and SpO2 after a change of FiO2 alone, by three models side by
@@ -95,6 +112,7 @@ const mmHg = (value: number): string => `${Math.round(value)} mmHg`;
  * CaO2 = (1 − Qs/Qt)·Cc'O2new + Qs/Qt·CvO2new for PaO2 in [0, PAO2new] by
  * bisection. (With both held, the balance keeps Cc'O2 − CaO2 constant.)
  * No model exceeds PAO2 at the new FiO2; every model is non-decreasing in nextFio2.
+ * A measured PaO2 above the computed PAO2 throws {@link InconsistentBloodGasError}.
  */
 export function forecastFio2Change(input: ForecastInput): Fio2Forecast {
   const {
@@ -128,13 +146,7 @@ export function forecastFio2Change(input: ForecastInput): Fio2Forecast {
   const next = nextFio2 * (barometricPressure - waterVapourPressure) - paco2 / respiratoryQuotient;
   const caveats: string[] = [PEEP_NOT_FORECAST];
 
-  const inconsistent = pao2 > current;
-  if (inconsistent) {
-    caveats.push(
-      `Measured PaO2 ${mmHg(pao2)} is above the computed PAO2 ${mmHg(current)} at FiO2 ${fio2}: the inputs are inconsistent ` +
-        "(check FiO2, PaCO2, barometric pressure and that the sample is arterial). The a/A ratio is capped at 1 and the shunt at 0.",
-    );
-  }
+  if (pao2 > current) throw new InconsistentBloodGasError(pao2, current, fio2);
 
   const pfPao2 = (pao2 / fio2) * nextFio2;
   if (pfPao2 > next) {
@@ -142,7 +154,7 @@ export function forecastFio2Change(input: ForecastInput): Fio2Forecast {
   }
   const pf = model(Math.min(pfPao2, next));
 
-  const alveolarArterialRatio = model(Math.min(pao2 / current, 1) * next);
+  const alveolarArterialRatio = model((pao2 / current) * next);
 
   const endCapillary = contentAtPO2(hemoglobin, current);
   const arterial = contentAtPO2(hemoglobin, pao2);
@@ -169,7 +181,6 @@ export function forecastFio2Change(input: ForecastInput): Fio2Forecast {
     range: { low, high },
     alveolarPO2: { current, next },
     shuntFraction,
-    inconsistent,
     caveats,
     assumptions: FORECAST_ASSUMPTIONS,
   };

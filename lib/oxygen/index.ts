@@ -9,6 +9,13 @@ export { OxygenInputError, type OxygenInputErrorDetails } from "./errors";
 export { RANGES, MIN_ALVEOLAR_PO2, type InputRange } from "./ranges";
 export { SOURCES } from "./sources";
 export {
+  SPO2_READING_RANGE,
+  OXIMETER_ACCURATE_FROM_PCT,
+  BELOW_OXIMETER_ACCURACY_LABEL,
+  belowOximeterAccuracy,
+  onSupplementalOxygen,
+} from "./oximetry";
+export {
   MMHG_PER_KPA,
   HEMOGLOBIN_MONOMER_MOLAR_MASS,
   toMmHg,
@@ -66,6 +73,7 @@ export {
   FORECAST_ASSUMPTIONS,
   PEEP_NOT_FORECAST,
   forecastFio2Change,
+  InconsistentBloodGasError,
   type ForecastInput,
   type ModelForecast,
   type Fio2Forecast,
@@ -81,7 +89,9 @@ export {
   ASSUMED_HEMOGLOBIN,
   ASSUMED_PACO2,
   HIGHEST_SPO2_FOR_IMPUTING,
+  DEFAULT_URGENCY,
   proposeStep,
+  type Urgency,
   type OrderStep,
   type OrderLimits,
   type TitrationOrder,

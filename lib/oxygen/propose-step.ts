@@ -1,4 +1,4 @@
-import { po2FromSaturation } from "./dissociation";
+import { po2FromSaturation, saturationFromPO2 } from "./dissociation";
 import { OxygenInputError } from "./errors";
 import { forecastFio2Change, PEEP_NOT_FORECAST, type Fio2Forecast } from "./forecast";
 import { checkBetween, checkRange, RANGES } from "./ranges";
@@ -26,6 +26,8 @@ export interface OrderLimits {
 export interface TitrationOrder {
   /** SpO2 target band in % */
   spo2Target: { lower: number; upper: number };
+  /** Optional PaO2 target band in mmHg: a fresh arterial PaO2 above it weans. */
+  pao2Target?: { lower: number; upper: number } | null;
   limits: OrderLimits;
   /** Ordered from least to most support. */
   steps: readonly OrderStep[];
@@ -67,7 +69,22 @@ export interface ProposeStepInput {
   latestBloodGas?: LatestBloodGas | null;
   /** mmHg, from the unit's altitude; 760 if omitted */
   barometricPressure?: number;
+  /** When SpO2 is low enough to call the prescriber now; {@link DEFAULT_URGENCY} if omitted. */
+  urgency?: Urgency;
 }
+
+/** Urgent depth: SpO2 under `belowPct`, or `marginPct` points or more under the band. */
+export interface Urgency {
+  belowPct: number;
+  marginPct: number;
+}
+
+/**
+ * The thresholds alert detection grades "urgent" by (85 %, or 5 points under
+ * the band): units commonly treat these as "call now" saturations (common
+ * practice, not a published cut-off). The service passes the configured ones.
+ */
+export const DEFAULT_URGENCY: Urgency = { belowPct: 85, marginPct: 5 };
 
 export type ProposalDirection = "up" | "down" | "hold" | "escalate";
 
@@ -82,8 +99,14 @@ export interface ProposedSetting {
 
 export interface Proposal {
   direction: ProposalDirection;
+  /** SpO2 at urgent depth: call the prescriber now, whatever the step. */
+  urgent: boolean;
   /** The setting to move to; null for hold and escalate. */
   step: ProposedSetting | null;
+  /** How many table settings the step moves (more than one only when urgent). */
+  stepsMoved: number;
+  /** The order limit that keeps the table's next setting out of reach, in words; null when none does. */
+  stoppedBy: string | null;
   /** Forecast at the proposed FiO2; null when there is no step or nothing to forecast from. */
   forecast: Fio2Forecast | null;
   reason: string;
@@ -96,6 +119,14 @@ export const ASSUMED_HEMOGLOBIN = 12;
 export const ASSUMED_PACO2 = 40;
 /** Above this SpO2 the curve is too flat to impute PaO2 from it. */
 export const HIGHEST_SPO2_FOR_IMPUTING = 96;
+
+/**
+ * SpO2 more than this many points under the saturation a blood gas's PaO2
+ * implies means the gas no longer describes the patient: the 4 % root-mean-
+ * square accuracy ISO 80601-2-61 asks of pulse oximeters over 70–100 %
+ * (recalled from memory).
+ */
+export const GAS_SPO2_DISAGREEMENT = 4;
 
 // Settings within these are the same setting (FiO2 0.3 vs 0.30000000001).
 const SAME = { fio2: 0.001, peep: 0.01, flow: 0.01 } as const;
@@ -160,6 +191,21 @@ function withinLimits(setting: Setting, limits: OrderLimits): boolean {
   );
 }
 
+/** Which of the order's limits a table setting breaks, in words ("the order's FiO2 maximum 0.6"). */
+function brokenLimit(setting: Setting, limits: OrderLimits): string | null {
+  const over = (value: number | undefined, max: number | undefined, tolerance: number) =>
+    value !== undefined && max !== undefined && value > max + tolerance;
+  const under = (value: number | undefined, min: number | undefined, tolerance: number) =>
+    value !== undefined && min !== undefined && value < min - tolerance;
+  if (over(setting.fio2, limits.fio2Max, SAME.fio2)) return `the order's FiO2 maximum ${format(limits.fio2Max)}`;
+  if (over(setting.peep, limits.peepMax, SAME.peep)) return `the order's PEEP maximum ${format(limits.peepMax ?? 0, 1)} cmH2O`;
+  if (over(setting.flow, limits.flowMax, SAME.flow)) return `the order's flow maximum ${format(limits.flowMax ?? 0, 1)} L/min`;
+  if (under(setting.fio2, limits.fio2Min, SAME.fio2)) return `the order's FiO2 minimum ${format(limits.fio2Min)}`;
+  if (under(setting.peep, limits.peepMin, SAME.peep)) return `the order's PEEP minimum ${format(limits.peepMin ?? 0, 1)} cmH2O`;
+  if (under(setting.flow, limits.flowMin, SAME.flow)) return `the order's flow minimum ${format(limits.flowMin ?? 0, 1)} L/min`;
+  return null;
+}
+
 function checkSetting(field: string, value: SettingValue, range: { min: number; max: number; unit: string }): void {
   const [low, high] = ends(value);
   checkRange(field, low, range);
@@ -171,7 +217,11 @@ function checkOptional(field: string, value: number | undefined, min: number, ma
 }
 
 function checkInput({ order, current, latestReading, latestBloodGas, barometricPressure }: ProposeStepInput): void {
-  const { spo2Target, limits, steps } = order;
+  const { spo2Target, limits, steps, pao2Target } = order;
+  if (pao2Target) {
+    checkRange("order.pao2Target.lower", pao2Target.lower, RANGES.pao2);
+    checkBetween("order.pao2Target.upper", pao2Target.upper, pao2Target.lower, RANGES.pao2.max, RANGES.pao2.unit);
+  }
   checkRange("order.spo2Target.lower", spo2Target.lower, RANGES.spo2);
   checkBetween("order.spo2Target.upper", spo2Target.upper, spo2Target.lower, RANGES.spo2.max, RANGES.spo2.unit);
   checkRange("order.limits.fio2Min", limits.fio2Min, RANGES.fio2);
@@ -188,7 +238,7 @@ function checkInput({ order, current, latestReading, latestBloodGas, barometricP
   checkRange("current.fio2", current.fio2, RANGES.fio2);
   if (current.peep !== undefined) checkRange("current.peep", current.peep, RANGES.peep);
   if (current.flow !== undefined) checkRange("current.flow", current.flow, RANGES.flow);
-  checkRange("latestReading.spo2", latestReading.spo2, RANGES.spo2);
+  checkRange("latestReading.spo2", latestReading.spo2, RANGES.spo2Reading);
   if (latestReading.fio2 !== undefined) checkRange("latestReading.fio2", latestReading.fio2, RANGES.fio2);
   if (latestBloodGas) {
     checkRange("latestBloodGas.pao2", latestBloodGas.pao2, RANGES.pao2);
@@ -219,7 +269,17 @@ function forecastFor(input: ProposeStepInput, step: ProposedSetting, caveats: st
     if (peep !== undefined && current.peep !== undefined && Math.abs(peep - current.peep) > SAME.peep) {
       caveats.push(`The blood gas was taken at PEEP ${format(peep, 1)} cmH2O, not the current ${format(current.peep, 1)} cmH2O.`);
     }
+    const implied = 100 * saturationFromPO2(pao2);
+    if (latestReading.spo2 < implied - GAS_SPO2_DISAGREEMENT) {
+      caveats.push(
+        `The blood gas's PaO2 ${Math.round(pao2)} mmHg means a saturation of about ${Math.round(implied)} %, but SpO2 is now ${format(latestReading.spo2, 1)} %: ` +
+          "the patient has worsened since the gas, so the forecast is likely optimistic.",
+      );
+    }
     baseline = { fio2, pao2, paco2, hemoglobin: hemoglobin ?? ASSUMED_HEMOGLOBIN };
+  } else if (latestReading.spo2 / 100 < RANGES.saturation.min) {
+    caveats.push(`No blood gas, and SpO2 ${latestReading.spo2} % gives no PaO2 to impute: no forecast.`);
+    return null;
   } else if (latestReading.spo2 <= HIGHEST_SPO2_FOR_IMPUTING) {
     const pao2 = po2FromSaturation(latestReading.spo2 / 100);
     caveats.push(
@@ -246,35 +306,62 @@ function forecastFor(input: ProposeStepInput, step: ProposedSetting, caveats: st
 }
 
 /**
+ * The setting an urgent step goes to: at least two table settings up (one
+ * routine step is too timid at urgent depth), and further — to the least
+ * support the forecast's most pessimistic model puts at or above the band's
+ * lower bound, or failing that the most support the order allows — when a
+ * forecast can be made. Always within the order's limits.
+ */
+function urgentStep(input: ProposeStepInput, reachable: readonly ProposedSetting[]): ProposedSetting {
+  const least = Math.min(1, reachable.length - 1);
+  let anyForecast = false;
+  for (const candidate of reachable.slice(least)) {
+    const forecast = forecastFor(input, candidate, []);
+    if (!forecast) continue;
+    anyForecast = true;
+    if (forecast.range.low.spo2 >= input.order.spo2Target.lower) return candidate;
+  }
+  return anyForecast ? reachable[reachable.length - 1]! : reachable[least]!;
+}
+
+/**
  * The next step from the order's step table for the latest SpO2: below the
  * target band, the first table setting above the current one (no less FiO2,
  * PEEP or flow, more of at least one) within the order's limits, or `escalate`
- * when there is none; above the band on FiO2 > 0.21, the last table setting
- * below the current one within the limits (wean); in the band, `hold`.
+ * when there is none; above the band on supplemental oxygen — or in the band
+ * with a (fresh) arterial PaO2 above the order's PaO2 band — the last table
+ * setting below the current one within the limits (wean); in the band, `hold`.
+ * At urgent depth (below 85 %, or 5 points or more under the band, by
+ * default) the proposal is urgent: call the prescriber now, and the step goes
+ * more than one setting up (see urgentStep), naming the limit that stops it.
  * A published range (e.g. PEEP 18–24) offers both its ends, least support first.
- * The forecast is forecastFio2Change from the latest blood gas to the proposed
- * FiO2, or from a PaO2 imputed from SpO2 ≤ 96 % when there is no blood gas.
+ * The forecast is forecastFio2Change from the blood gas passed (the caller
+ * passes only one that still represents the patient) to the proposed FiO2,
+ * or from a PaO2 imputed from SpO2 ≤ 96 % when there is none.
  */
 export function proposeStep(input: ProposeStepInput): Proposal {
   checkInput(input);
-  const { order, current, latestReading } = input;
+  const { order, current, latestReading, latestBloodGas } = input;
+  const urgency = input.urgency ?? DEFAULT_URGENCY;
   const spo2 = latestReading.spo2;
   const { lower, upper } = order.spo2Target;
   const band = `${format(lower, 1)}–${format(upper, 1)} %`;
   const reading = `SpO2 ${format(spo2, 1)} %`;
   const caveats: string[] = [];
-  // One pass over the table: is the current setting a row, which is the first
-  // setting above it (within the limits or not), and the last below it within them.
+  // One pass over the table: is the current setting a row, which settings
+  // above it are within the limits (and the first one that is not), and the
+  // last setting below it within them.
   let onTable = false;
-  let nextAbove: ProposedSetting | undefined;
-  let nextAboveWithinLimits: ProposedSetting | undefined;
+  const reachable: ProposedSetting[] = [];
+  let firstOutOfReach: ProposedSetting | undefined;
   let nextBelowWithinLimits: ProposedSetting | undefined;
   for (const candidate of candidates(order.steps)) {
     const relative = relation(candidate, current);
     if (relative === "same") onTable = true;
     else if (relative === "above") {
-      nextAbove ??= candidate;
-      if (!nextAboveWithinLimits && withinLimits(candidate, order.limits)) nextAboveWithinLimits = candidate;
+      if (withinLimits(candidate, order.limits)) {
+        if (!firstOutOfReach) reachable.push(candidate);
+      } else firstOutOfReach ??= candidate;
     } else if (relative === "below" && withinLimits(candidate, order.limits)) nextBelowWithinLimits = candidate;
   }
   if (!onTable && order.steps.length > 0) caveats.push(`The current setting (${describe(current)}) is not a row of the step table.`);
@@ -285,65 +372,89 @@ export function proposeStep(input: ProposeStepInput): Proposal {
     caveats.push(`The reading was taken at FiO2 ${format(latestReading.fio2)}, not the current ${format(current.fio2)}.`);
   }
   const position = (step: ProposedSetting) => `step ${step.stepIndex + 1} of ${order.steps.length}`;
+  const stoppedBy = firstOutOfReach ? brokenLimit(firstOutOfReach, order.limits) : null;
+  const base = { urgent: false, stepsMoved: 0, stoppedBy: null };
 
   if (spo2 < lower) {
-    const step = nextAboveWithinLimits;
-    if (!step) {
-      const why =
-        nextAbove === undefined
-          ? "the step table has no higher step"
-          : `the next table step (${describe(nextAbove)}) is outside the order's limits`;
+    const urgent = spo2 < urgency.belowPct || lower - spo2 >= urgency.marginPct;
+    const depth = spo2 < urgency.belowPct ? `below ${format(urgency.belowPct, 1)} %` : `${format(lower - spo2, 1)} points under the band`;
+    const callNow = urgent ? `${reading} is ${depth}, below the target band ${band} (urgent): call the prescriber now.` : "";
+    const limitWords = stoppedBy ? `${stoppedBy} stops the next table step (${describe(firstOutOfReach!)})` : null;
+    if (reachable.length === 0) {
+      const why = firstOutOfReach === undefined ? "the step table has no higher step" : (limitWords ?? "the next table step is outside the order's limits");
       return {
+        ...base,
         direction: "escalate",
+        urgent,
         step: null,
         forecast: null,
-        reason: `${reading} is below the target band ${band} and ${why}: escalate to the prescriber.`,
+        stoppedBy,
+        reason: urgent ? `${callNow} Within the order there is nothing further: ${why}.` : `${reading} is below the target band ${band} and ${why}: escalate to the prescriber.`,
         caveats,
       };
     }
+    const step = urgent ? urgentStep(input, reachable) : reachable[0]!;
+    const stepsMoved = reachable.indexOf(step) + 1;
     const forecast = forecastFor(input, step, caveats);
+    const moved = stepsMoved > 1 ? `, ${stepsMoved} table settings up` : "";
+    const stop = limitWords && step === reachable[reachable.length - 1] ? `; ${limitWords}` : "";
     return {
+      ...base,
       direction: "up",
+      urgent,
       step,
+      stepsMoved,
+      stoppedBy: stop ? stoppedBy : null,
       forecast,
-      reason: `${reading} is below the target band ${band}: next step up is ${describe(step)} (${position(step)}).`,
+      reason: urgent
+        ? `${callNow} Meanwhile, within the order: ${describe(step)} (${position(step)}${moved})${stop}.`
+        : `${reading} is below the target band ${band}: next step up is ${describe(step)} (${position(step)}).`,
       caveats,
     };
   }
 
-  if (spo2 > upper) {
-    if (current.fio2 <= RANGES.fio2.min + SAME.fio2) {
+  const pao2Target = order.pao2Target;
+  const pao2Above = latestBloodGas && pao2Target && latestBloodGas.pao2 > pao2Target.upper ? latestBloodGas.pao2 : null;
+  if (spo2 > upper || pao2Above !== null) {
+    const why =
+      spo2 > upper
+        ? `${reading} is above the target band ${band}`
+        : `PaO2 ${Math.round(pao2Above!)} mmHg is above the PaO2 band ${format(pao2Target!.lower, 0)}–${format(pao2Target!.upper, 0)} mmHg (${reading} in band)`;
+    if (current.fio2 <= RANGES.fio2.min + SAME.fio2 && !(current.flow !== undefined && current.flow > 0)) {
       return {
+        ...base,
         direction: "hold",
         step: null,
         forecast: null,
-        reason: `${reading} is above the target band ${band}, but the patient breathes room air (FiO2 0.21): nothing to wean.`,
+        reason: `${why}, but the patient breathes room air (FiO2 0.21): nothing to wean.`,
         caveats,
       };
     }
     const step = nextBelowWithinLimits;
     if (!step) {
       return {
+        ...base,
         direction: "hold",
         step: null,
         forecast: null,
-        reason:
-          `${reading} is above the target band ${band} on FiO2 ${format(current.fio2)}, but no lower step is within ` +
-          "the order: hold and ask the prescriber to review the order.",
+        reason: `${why} on FiO2 ${format(current.fio2)}, but no lower step is within the order: hold and ask the prescriber to review the order.`,
         caveats,
       };
     }
     const forecast = forecastFor(input, step, caveats);
     return {
+      ...base,
       direction: "down",
       step,
+      stepsMoved: 1,
       forecast,
-      reason: `${reading} is above the target band ${band} on FiO2 ${format(current.fio2)}: next step down (wean) is ${describe(step)} (${position(step)}).`,
+      reason: `${why} on FiO2 ${format(current.fio2)}: next step down (wean) is ${describe(step)} (${position(step)}).`,
       caveats,
     };
   }
 
   return {
+    ...base,
     direction: "hold",
     step: null,
     forecast: null,

@@ -1,4 +1,5 @@
 import { OxygenInputError } from "./errors";
+import { SPO2_READING_RANGE } from "./oximetry";
 
 /** An accepted input range, inclusive at both ends. */
 export interface InputRange {
@@ -26,8 +27,11 @@ export const RANGES = {
   saturation: { min: 0.001, max: 0.9999, unit: "fraction" },
   // Saturation as a content input (SaO2), where 0 and 1 are meaningful.
   saturationFraction: { min: 0, max: 1, unit: "fraction" },
-  // Pulse oximetry below 40 % is outside any oximeter's calibrated range.
+  // SpO2 as an index input (S/F, OSI, ROX, the ARDS definitions): below 40 %
+  // no oximeter is calibrated and the indices mean nothing.
   spo2: { min: 40, max: 100, unit: "%" },
+  // SpO2 as a charted reading: anything an oximeter displays (./oximetry).
+  spo2Reading: SPO2_READING_RANGE,
   paco2: { min: 10, max: 150, unit: "mmHg" },
   hemoglobin: { min: 3, max: 25, unit: "g/dL" },
   // 150 mmHg is the ICAO pressure near the tropopause; 800 mmHg a deep

@@ -9,6 +9,9 @@ import {
   type SettingValue,
 } from "../oxygen";
 import type { Device } from "../orders/devices";
+import { alertConfig } from "../alerts/config";
+import { gasAgeCaveat, gasFreshness, type GasFreshness } from "../blood-gases/freshness";
+import { getEnv } from "../env";
 import { findOpenAdmission, type OpenAdmission } from "./access";
 
 export type BedsideSettings = {
@@ -54,6 +57,10 @@ export type BedsideContext = {
   settings: BedsideSettings | null;
   latestReading: LatestReadingView | null;
   latestBloodGas: LatestBloodGasView | null;
+  /** The newest arterial gas (forecasts start from arterial blood only), with its age against the site's limit. */
+  latestArterialGas: (LatestBloodGasView & { freshness: GasFreshness }) | null;
+  /** Whether the forecast and proposal use that gas: a fresh one, or a stale one a clinician chose. */
+  forecastUsesGas: boolean;
   proposal: Proposal | null;
   proposalError: string | null;
 };
@@ -90,12 +97,14 @@ export async function getBedsideContext(
   knex: Knex,
   actor: Actor,
   patientId: number,
+  options: { useStaleBloodGas?: boolean; now?: Date } = {},
 ): Promise<BedsideContext> {
+  const now = options.now ?? new Date();
   const admission = await findOpenAdmission(knex, actor, patientId);
   const barometricPressure = barometricPressureAtAltitude(admission.altitudeM);
   // Rows are typed by assertion below, at the knex boundary.
   const first = (q: Knex.QueryBuilder): Promise<unknown> => q.first() as Promise<unknown>;
-  const [order, settingsRow, readingRow, gasRow] = await Promise.all([
+  const [order, settingsRow, readingRow, gasRow, arterialRow] = await Promise.all([
     getCurrentOrder(knex, patientId),
     first(knex("bedside_settings").where({ admission_id: admission.admissionId })),
     first(
@@ -104,6 +113,11 @@ export async function getBedsideContext(
     first(
       knex("blood_gases")
         .where({ admission_id: admission.admissionId })
+        .orderBy("sampled_at", "desc"),
+    ),
+    first(
+      knex("blood_gases")
+        .where({ admission_id: admission.admissionId, sample_type: "arterial" })
         .orderBy("sampled_at", "desc"),
     ),
   ]);
@@ -155,43 +169,26 @@ export async function getBedsideContext(
         flow: r.flow_l_min,
       }
     : null;
-  const g = gasRow as
-    | {
-        id: number;
-        sampled_at: Date;
-        sample_type: "arterial" | "venous";
-        pao2_mmhg: number;
-        paco2_mmhg: number;
-        hb_g_dl: number | null;
-        fio2: number;
-        fio2_estimated: number;
-        peep_cmh2o: number | null;
-        pf_ratio: number | null;
-      }
-    | undefined;
-  const latestBloodGas: LatestBloodGasView | null = g
-    ? {
-        id: g.id,
-        sampledAt: g.sampled_at.toISOString(),
-        sampleType: g.sample_type,
-        pao2: g.pao2_mmhg,
-        paco2: g.paco2_mmhg,
-        hb: g.hb_g_dl,
-        fio2: g.fio2,
-        fio2Estimated: Boolean(g.fio2_estimated),
-        peep: g.peep_cmh2o,
-        pfRatio: g.pf_ratio,
-      }
+  const latestBloodGas = gasView(gasRow as GasRow | undefined);
+  const arterial = gasView(arterialRow as GasRow | undefined);
+  const maxAgeMinutes = getEnv().FORECAST_GAS_MAX_AGE_MINUTES;
+  const latestArterialGas = arterial
+    ? { ...arterial, freshness: gasFreshness(arterial.sampledAt, now, maxAgeMinutes) }
     : null;
+  const forecastUsesGas =
+    latestArterialGas !== null &&
+    (latestArterialGas.freshness.fresh || options.useStaleBloodGas === true);
 
   const steps = order ? await loadSteps(knex, order.stepTableId) : [];
   let proposal: Proposal | null = null;
   let proposalError: string | null = null;
   if (order && settings && latestReading) {
     try {
+      const cfg = alertConfig();
       proposal = proposeStep({
         order: {
           spo2Target: order.spo2Band,
+          pao2Target: order.pao2Band,
           limits: {
             fio2Min: order.limits.fio2Min,
             fio2Max: order.limits.fio2Max,
@@ -209,17 +206,20 @@ export async function getBedsideContext(
         },
         latestReading: { spo2: latestReading.spo2, fio2: latestReading.fio2 },
         latestBloodGas:
-          latestBloodGas && latestBloodGas.sampleType === "arterial"
+          latestArterialGas && forecastUsesGas
             ? {
-                pao2: latestBloodGas.pao2,
-                paco2: latestBloodGas.paco2,
-                fio2: latestBloodGas.fio2,
-                ...(latestBloodGas.hb !== null ? { hemoglobin: latestBloodGas.hb } : {}),
-                ...(latestBloodGas.peep !== null ? { peep: latestBloodGas.peep } : {}),
+                pao2: latestArterialGas.pao2,
+                paco2: latestArterialGas.paco2,
+                fio2: latestArterialGas.fio2,
+                ...(latestArterialGas.hb !== null ? { hemoglobin: latestArterialGas.hb } : {}),
+                ...(latestArterialGas.peep !== null ? { peep: latestArterialGas.peep } : {}),
               }
             : null,
         barometricPressure,
+        urgency: { belowPct: cfg.urgentBelowPct, marginPct: cfg.urgentMarginPct },
       });
+      if (latestArterialGas)
+        proposal.caveats.unshift(gasAgeCaveat(latestArterialGas.freshness, forecastUsesGas));
     } catch (error) {
       // A proposal is advice; a recorded value the engine refuses must not hide the page.
       proposalError =
@@ -234,7 +234,39 @@ export async function getBedsideContext(
     settings,
     latestReading,
     latestBloodGas,
+    latestArterialGas,
+    forecastUsesGas,
     proposal,
     proposalError,
   };
+}
+
+type GasRow = {
+  id: number;
+  sampled_at: Date;
+  sample_type: "arterial" | "venous";
+  pao2_mmhg: number;
+  paco2_mmhg: number;
+  hb_g_dl: number | null;
+  fio2: number;
+  fio2_estimated: number;
+  peep_cmh2o: number | null;
+  pf_ratio: number | null;
+};
+
+function gasView(g: GasRow | undefined): LatestBloodGasView | null {
+  return g
+    ? {
+        id: g.id,
+        sampledAt: g.sampled_at.toISOString(),
+        sampleType: g.sample_type,
+        pao2: g.pao2_mmhg,
+        paco2: g.paco2_mmhg,
+        hb: g.hb_g_dl,
+        fio2: g.fio2,
+        fio2Estimated: Boolean(g.fio2_estimated),
+        peep: g.peep_cmh2o,
+        pfRatio: g.pf_ratio,
+      }
+    : null;
 }

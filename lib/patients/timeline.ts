@@ -3,6 +3,7 @@ import { ADJUSTMENT_REASONS } from "../adjustments/schema";
 import type { Actor } from "../auth/actor";
 import { ValidationError } from "../errors";
 import { DEVICE_PROFILES, type Device } from "../orders/devices";
+import { BELOW_OXIMETER_ACCURACY_LABEL, belowOximeterAccuracy } from "../oxygen/oximetry";
 import { findOpenAdmission } from "./access";
 
 // Alerts are a later issue: when they exist they join the timeline as a fifth kind.
@@ -227,7 +228,7 @@ const SOURCES: Record<TimelineKind, Source> = {
         at: (r.at as Date).toISOString(),
         who: (r.who as string | null) ?? null,
         summary: [
-          `Reading: SpO2 ${num(r.spo2_pct)} %`,
+          `Reading: SpO2 ${num(r.spo2_pct)} %${belowOximeterAccuracy(num(r.spo2_pct)) ? ` (${BELOW_OXIMETER_ACCURACY_LABEL})` : ""}`,
           rr === null ? null : `RR ${rr} /min`,
           `${deviceLabel(r.device)}${flow === null ? "" : ` ${flow} L/min`}`,
           `FiO2 ${fio2Text(num(r.fio2))}${estimated ? " (estimated)" : ""}`,

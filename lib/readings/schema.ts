@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { DEVICES } from "../orders/devices";
 import { idempotencyKeySchema } from "../orders/schema";
+import { SPO2_READING_RANGE } from "../oxygen/oximetry";
 
 const optional = (schema: z.ZodNumber) =>
   z.preprocess(
@@ -8,20 +9,26 @@ const optional = (schema: z.ZodNumber) =>
     schema.optional(),
   );
 
-/** Accepted ranges of a reading's numbers; shared with the monitor imports (lib/imports). */
+/**
+ * Accepted ranges of a reading's numbers; shared with the monitor imports
+ * (lib/imports). SpO2 takes anything an oximeter shows: the deepest
+ * desaturations must be charted, never refused.
+ */
 export const READING_RANGES = {
-  spo2: { label: "SpO2", min: 50, max: 100, unit: "%" },
+  spo2: { label: "SpO2", ...SPO2_READING_RANGE },
   pulseRate: { label: "Pulse rate", min: 20, max: 250, unit: "/min" },
 } as const;
+
+const SPO2_MESSAGE = `SpO2 must be between ${READING_RANGES.spo2.min} and ${READING_RANGES.spo2.max} %.`;
 
 /** One charted observation: SpO2 with the device and oxygen in use. */
 export const readingSchema = z.object({
   patientId: z.number().int().positive(),
   takenAt: z.coerce.date({ error: "Time taken must be a date and time." }),
   spo2: z
-    .number({ error: "SpO2 must be a number between 50 and 100 %." })
-    .min(50, "SpO2 must be between 50 and 100 %.")
-    .max(100, "SpO2 must be between 50 and 100 %."),
+    .number({ error: SPO2_MESSAGE })
+    .min(READING_RANGES.spo2.min, SPO2_MESSAGE)
+    .max(READING_RANGES.spo2.max, SPO2_MESSAGE),
   respiratoryRate: optional(
     z
       .number()

@@ -6,7 +6,8 @@
  * of a few seconds (artefacts) and some sustained excursions, so every branch
  * of the detector is exercised. The median of several rounds is reported.
  */
-import { detectExcursions, type DetectReading } from "../../lib/alerts/detect";
+import type { DetectReading } from "../../lib/alerts/detect";
+import { detectExcursions } from "../../lib/alerts/replay";
 
 const SECONDS = 7 * 24 * 3600;
 const ROUNDS = 7;

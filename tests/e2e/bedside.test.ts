@@ -283,7 +283,7 @@ describe("charting a reading in the browser", () => {
         await page.keyboard.press("Tab");
         await page.keyboard.type("22");
         await page.keyboard.press("Enter");
-        await page.getByText("SpO2 must be between 50 and 100 %.").waitFor();
+        await page.getByText("SpO2 must be between 0 and 100 %.").waitFor();
         expect(await page.getByLabel("Respiratory rate (/min)").inputValue()).toBe("22");
 
         await page.getByLabel("SpO2 (%)").fill("93");

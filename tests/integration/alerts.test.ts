@@ -1,4 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { recordAdjustment } from "@/lib/adjustments/service";
 import { DEFAULT_DETECTION } from "@/lib/alerts/detect";
 import type { AlertConfig } from "@/lib/alerts/config";
 import { getEmailPreferences, listAlerts, setEmailPreferences } from "@/lib/alerts/queries";
@@ -6,11 +7,14 @@ import {
   acknowledgeAlert,
   afterReadingsCharted,
   openOverdueReassessments,
+  raiseSignalLosses,
   resolveAlert,
 } from "@/lib/alerts/service";
 import { runAlertWork } from "@/lib/alerts/worker";
 import type { Actor } from "@/lib/auth/actor";
+import { recordBloodGas } from "@/lib/blood-gases/service";
 import { closeDb } from "@/lib/db";
+import { confirmImport, uploadForPreview, type UploadInput } from "@/lib/imports/service";
 import { SYSTEM_ACTOR } from "@/lib/ledger/service";
 import { startFakeInbox, type FakeInbox } from "@/lib/mail/fake-inbox";
 import { createMailTransport } from "@/lib/mail/transport";
@@ -22,26 +26,36 @@ import { hfncOrder } from "../helpers/orders";
 
 // The real chain: services write the alert and its outbox row in the reading's
 // transaction; the worker pass (with an injected clock, never a sleep) sends
-// through nodemailer to the local SMTP fake over TCP.
+// through nodemailer to the local SMTP fake over TCP. Low values are charted by
+// a colleague of the assigned nurse unless a test says otherwise: the nurse who
+// charts a value herself is at the bedside and is not e-mailed about it.
 
-const cfg: AlertConfig = { ...DEFAULT_DETECTION, escalateAfterMs: 10 * 60_000 };
+const cfg: AlertConfig = {
+  ...DEFAULT_DETECTION,
+  escalateAfterMs: 10 * 60_000,
+  limitsSettleMs: 5 * 60_000,
+};
 const MIN = 60_000;
+/** The second nurse of the seeded medical ICU: not assigned to the test beds. */
+const COLLEAGUE = "felix.adeyemi@kestrel.example";
 
 let inbox: FakeInbox;
 let smtpPort: number;
 let nurse: Actor;
 let therapist: Actor;
 let physician: Actor;
+let colleague: Actor;
 
 const sender = () => createMailTransport({ host: "127.0.0.1", port: smtpPort });
 
 beforeAll(async () => {
   inbox = await startFakeInbox({ smtpPort: 0, httpPort: null });
   smtpPort = inbox.smtpPort;
-  [nurse, therapist, physician] = await Promise.all([
+  [nurse, therapist, physician, colleague] = await Promise.all([
     actorByEmail(SEEDED.nurse),
     actorByEmail(SEEDED.therapist),
     actorByEmail(SEEDED.physician),
+    actorByEmail(COLLEAGUE),
   ]);
 });
 
@@ -81,10 +95,10 @@ async function assignedPatient(order: Partial<OrderInput> = {}) {
   return admitted;
 }
 
-async function chartLow(patientId: number, spo2 = 88, at = new Date()) {
+async function chartLow(patientId: number, spo2 = 88, at = new Date(), by = colleague) {
   return chartReading(
     appDb(),
-    nurse,
+    by,
     { patientId, takenAt: at.toISOString(), spo2, device: "hfnc", fio2: 0.4, flow: 40 },
     at,
   );
@@ -233,22 +247,36 @@ describe("an excursion charted at the bedside", () => {
     await chartLow(patientId, 94, new Date(t0 + 2 * MIN));
     expect(await openAlertsOf(patientId)).toEqual([]);
     const [resolved] = await listAlerts(appDb(), nurse, { patientId, status: "resolved" });
-    // Resolved by detection (the nurse's in-band reading), not closed by her hand.
+    // Resolved by detection (the in-band reading), not closed by hand.
     expect(resolved!.resolved).toEqual({
       at: new Date(t0 + 2 * MIN).toISOString(),
       by: null,
-      reason: "Back in the target band.",
+      reason: "Back in the target band: a charted value in band.",
     });
     expect(await ledgerActions(alert!.id)).toEqual([
       "alert.open",
       "alert.upgrade",
       "alert.resolve",
     ]);
+    // Resolved before the worker sent anything: both e-mails are cancelled, with the reason.
     const outbox = (await appDb()("mail_outbox")
       .where({ alert_id: alert!.id })
       .orderBy("id")
-      .pluck("purpose")) as string[];
-    expect(outbox).toEqual(["notify", "urgent"]);
+      .select("purpose", "state", "cancel_reason")) as Record<string, unknown>[];
+    expect(outbox).toEqual([
+      {
+        purpose: "notify",
+        state: "cancelled",
+        cancel_reason: expect.stringMatching(/resolved/) as unknown,
+      },
+      {
+        purpose: "urgent",
+        state: "cancelled",
+        cancel_reason: expect.stringMatching(/resolved/) as unknown,
+      },
+    ]);
+    await runAlertWork(appDb(), sender(), new Date(), cfg);
+    expect(mailsFor(alert!.id)).toEqual([]);
   });
 });
 
@@ -308,67 +336,261 @@ describe("mail down", () => {
 });
 
 describe("monitor series", () => {
-  it("opens only when a dip is sustained for the configured time", async () => {
-    const { patientId, unitId, bedId } = await assignedPatient();
+  async function watchContext(patientId: number, unitId: number, bedId: number) {
     const admission = (await appDb()("admissions")
       .where({ patient_id: patientId })
       .first("id")) as { id: number };
-    const ctx = { admissionId: admission.id, patientId, unitId, bedId };
+    return { admissionId: admission.id, patientId, unitId, bedId };
+  }
+  const series = (from: number, values: number[]) =>
+    values.map((spo2, i) => ({
+      takenAt: new Date(from + i * 1000),
+      spo2,
+      fio2: 0.4,
+      flow: 40,
+      source: "monitor" as const,
+    }));
+
+  it("continues the sliding window across batches: 80 % of a minute out of band opens", async () => {
+    const { patientId, unitId, bedId } = await assignedPatient();
+    const ctx = await watchContext(patientId, unitId, bedId);
     const start = Date.now() - 30 * MIN;
-    const series = (from: number, values: number[]) =>
-      values.map((spo2, i) => ({
-        takenAt: new Date(from + i * 1000),
-        spo2,
-        fio2: 0.4,
-        flow: 40,
-        source: "monitor" as const,
-      }));
+    const batch = (from: number, values: number[]) =>
+      appDb().transaction((trx) =>
+        afterReadingsCharted(trx, SYSTEM_ACTOR, ctx, series(from, values), new Date(), cfg),
+      );
+    // A minute in band, then 30 s at 89 % (3 points under, routine depth): 29 s below so far.
+    await batch(start, [...Array<number>(60).fill(95), ...Array<number>(30).fill(89)]);
+    expect(await openAlertsOf(patientId)).toEqual([]);
+    // The next batch continues the window: 48 s of the last 60 below at t = 108 s.
+    await batch(start + 90_000, Array<number>(30).fill(89));
+    const [alert] = await openAlertsOf(patientId);
+    expect(alert).toMatchObject({
+      kind: "below_band",
+      grade: "routine",
+      startedAt: new Date(start + 60_000).toISOString(),
+      detail: { confirmedAt: new Date(start + 108_000).toISOString(), confirmedBy: "monitor" },
+    });
+  });
+
+  it("imports a monitor CSV of 75 % with an in-band blip every 45 s: one alert, one e-mail", async () => {
+    const { patientId, unitId, bedId } = await assignedPatient();
+    const { mrn } = (await appDb()("patients").where({ id: patientId }).first("mrn")) as {
+      mrn: string;
+    };
+    const { label } = (await appDb()("beds").where({ id: bedId }).first("label")) as {
+      label: string;
+    };
+    const now = new Date();
+    // Ten minutes at 1 Hz ending now: a minute in band, then 75 % with 94 % every 45 s.
+    const values = Array.from({ length: 600 }, (_, i) => (i < 60 || i % 45 === 0 ? 94 : 75));
+    const from = now.getTime() - 600_000;
+    const csv = [
+      "time,spo2",
+      ...values.map((v, i) => `${new Date(from + i * 1000).toISOString()},${v}`),
+    ].join("\n");
+    const preview = await uploadForPreview(
+      appDb(),
+      therapist,
+      { kind: "monitor_csv", unitId, fileName: "blips.csv", mrn, bed: label } as UploadInput,
+      Buffer.from(csv, "utf8"),
+      now,
+    );
+    await confirmImport(appDb(), therapist, { importId: preview.id, expectedAccepted: 600 }, now);
+
+    const alerts = await listAlerts(appDb(), nurse, { patientId, status: "all" });
+    expect(alerts.map((a) => [a.kind, a.grade, a.state])).toEqual([
+      ["below_band", "urgent", "opened"],
+    ]);
+    const alert = alerts[0]!;
+    // Urgent depth (under 85 %): 12 of the last 15 s open it, however the blips fall.
+    expect(Date.parse(alert.detail.confirmedAt as string) - from).toBeLessThanOrEqual(90_000);
+    await runAlertWork(appDb(), sender(), new Date(now.getTime() + 1000), cfg);
+    await runAlertWork(appDb(), sender(), new Date(now.getTime() + 2000), cfg);
+    expect(mailsFor(alert.id).map((m) => m.to[0])).toEqual([nurse.email]);
+    expect(mailsFor(alert.id)[0]!.subject).toMatch(/urgent/i);
+  });
+
+  it("raises signal loss when the probe goes off after one low sample, mails the nurse, and clears on the next sample", async () => {
+    const { patientId, unitId, bedId } = await assignedPatient();
+    const ctx = await watchContext(patientId, unitId, bedId);
+    const t0 = Date.now() - 10 * MIN;
+    await appDb().transaction((trx) =>
+      afterReadingsCharted(
+        trx,
+        SYSTEM_ACTOR,
+        ctx,
+        series(t0, [...Array<number>(60).fill(95), 80]),
+        new Date(t0 + 61_000),
+        cfg,
+      ),
+    );
+    expect(await openAlertsOf(patientId)).toEqual([]);
+    // Silence: nothing after 120 s, the next after.
+    expect(await raiseSignalLosses(appDb(), new Date(t0 + 60_000 + 119_000), cfg)).toBe(0);
+    await raiseSignalLosses(appDb(), new Date(t0 + 60_000 + 121_000), cfg);
+    const [lost] = await openAlertsOf(patientId);
+    expect(lost).toMatchObject({
+      kind: "signal_loss",
+      worstSpo2: 80,
+      detail: {
+        lastSampleAt: new Date(t0 + 60_000).toISOString(),
+        excursion: { phase: "pending", direction: "below" },
+      },
+    });
+    // Once per silence.
+    await raiseSignalLosses(appDb(), new Date(t0 + 5 * MIN), cfg);
+    expect(await openAlertsOf(patientId)).toHaveLength(1);
+    await runAlertWork(appDb(), sender(), new Date(t0 + 5 * MIN), cfg);
+    expect(mailsFor(lost!.id).map((m) => m.to[0])).toEqual([nurse.email]);
+    expect(mailsFor(lost!.id)[0]!.subject).toMatch(/signal/i);
 
     await appDb().transaction((trx) =>
       afterReadingsCharted(
         trx,
         SYSTEM_ACTOR,
         ctx,
-        series(start, [95, ...Array<number>(30).fill(85), 95]),
-        new Date(),
+        series(t0 + 6 * MIN, [95]),
+        new Date(t0 + 6 * MIN),
         cfg,
       ),
     );
     expect(await openAlertsOf(patientId)).toEqual([]);
-    // Batches continue where the last left off: 40 s now + 30 s next = sustained.
+    const [restored] = await listAlerts(appDb(), nurse, { patientId, status: "resolved" });
+    expect(restored!.resolved?.reason).toBe("The monitor's signal is back.");
+  });
+
+  it("keeps a monitor-confirmed alert open through an in-band spot check, and offers it as the closing reason", async () => {
+    const { patientId, unitId, bedId } = await assignedPatient();
+    const ctx = await watchContext(patientId, unitId, bedId);
+    const t0 = Date.now() - 10 * MIN;
     await appDb().transaction((trx) =>
       afterReadingsCharted(
         trx,
         SYSTEM_ACTOR,
         ctx,
-        series(start + 60_000, Array<number>(40).fill(89)),
-        new Date(),
-        cfg,
-      ),
-    );
-    expect(await openAlertsOf(patientId)).toEqual([]);
-    await appDb().transaction((trx) =>
-      afterReadingsCharted(
-        trx,
-        SYSTEM_ACTOR,
-        ctx,
-        series(start + 100_000, Array<number>(30).fill(89)),
-        new Date(),
+        series(t0, Array<number>(90).fill(89)),
+        new Date(t0 + 90_000),
         cfg,
       ),
     );
     const [alert] = await openAlertsOf(patientId);
-    expect(alert).toMatchObject({
-      kind: "below_band",
-      startedAt: new Date(start + 60_000).toISOString(),
+    expect(alert!.kind).toBe("below_band");
+    await chartLow(patientId, 95, new Date(t0 + 100_000));
+    // The monitor goes on at 89 %: still the same one alert, never a second.
+    await appDb().transaction((trx) =>
+      afterReadingsCharted(
+        trx,
+        SYSTEM_ACTOR,
+        ctx,
+        series(t0 + 101_000, Array<number>(120).fill(89)),
+        new Date(t0 + 221_000),
+        cfg,
+      ),
+    );
+    const open = await openAlertsOf(patientId);
+    expect(open.map((a) => a.id)).toEqual([alert!.id]);
+    expect(open[0]!.detail.spotCheck).toEqual({
+      spo2: 95,
+      at: new Date(t0 + 100_000).toISOString(),
     });
+    expect(await ledgerActions(alert!.id)).toEqual(["alert.open"]);
+  });
+});
+
+describe("the charting nurse and the e-mail", () => {
+  it("SpO2 45 % charted by a colleague: an urgent alert and one e-mail to the assigned nurse", async () => {
+    const { patientId } = await assignedPatient();
+    const t0 = new Date();
+    const reading = await chartLow(patientId, 45, t0);
+    expect(reading.spo2).toBe(45);
+    const [alert] = await openAlertsOf(patientId);
+    expect(alert).toMatchObject({ kind: "below_band", grade: "urgent", triggerSpo2: 45 });
+    await runAlertWork(appDb(), sender(), new Date(t0.getTime() + 1000), cfg);
+    await runAlertWork(appDb(), sender(), new Date(t0.getTime() + 2000), cfg);
+    const mails = mailsFor(alert!.id);
+    expect(mails.map((m) => m.to[0])).toEqual([nurse.email]);
+    expect(mails[0]!.text).toContain("SpO2 45 % (below oximeter accuracy)");
+  });
+
+  it("SpO2 0 % is charted and alerted", async () => {
+    const { patientId } = await assignedPatient();
+    await chartLow(patientId, 0);
+    expect((await openAlertsOf(patientId)).map((a) => [a.grade, a.triggerSpo2])).toEqual([
+      ["urgent", 0],
+    ]);
+  });
+
+  it("does not e-mail the nurse who charted the value herself; the alert still opens and escalates", async () => {
+    const { patientId } = await assignedPatient();
+    const t0 = new Date();
+    await chartLow(patientId, 45, t0, nurse);
+    const [alert] = await openAlertsOf(patientId);
+    expect(alert).toMatchObject({ kind: "below_band", grade: "urgent" });
+    expect(await appDb()("mail_outbox").where({ alert_id: alert!.id }).count({ n: "*" })).toEqual([
+      { n: 0 },
+    ]);
+    const opened = (await appDb()("ledger_entries")
+      .where({ entity_type: "alert", entity_id: String(alert!.id), action: "alert.open" })
+      .first("after_json")) as { after_json: string };
+    expect(JSON.parse(opened.after_json)).toMatchObject({ notMailedAtBedside: [nurse.id] });
+    await runAlertWork(appDb(), sender(), new Date(t0.getTime() + 10 * MIN + 1000), cfg);
+    expect(mailsFor(alert!.id).map((m) => m.to[0])).toEqual([therapist.email]);
+  });
+});
+
+describe("PaO2 above the order's band", () => {
+  it("opens on an arterial gas above the band on oxygen, and closes when the settings are weaned", async () => {
+    const { patientId } = await assignedPatient({ pao2Lower: 60, pao2Upper: 100 });
+    const t0 = new Date(Date.now() - 5 * MIN);
+    await recordBloodGas(
+      appDb(),
+      therapist,
+      {
+        patientId,
+        sampledAt: t0.toISOString(),
+        sampleType: "arterial",
+        pao2: 160,
+        paco2: 40,
+        device: "hfnc",
+        fio2: 0.4,
+        flow: 40,
+      },
+      t0,
+    );
+    const [alert] = await openAlertsOf(patientId);
+    expect(alert).toMatchObject({
+      kind: "pao2_above_band",
+      detail: { pao2: 160, pao2Band: { lower: 60, upper: 100 } },
+    });
+    const { version } = (await appDb()("bedside_settings")
+      .join("admissions", "admissions.id", "bedside_settings.admission_id")
+      .where({ "admissions.patient_id": patientId })
+      .first("bedside_settings.version")) as { version: number };
+    await recordAdjustment(appDb(), therapist, {
+      patientId,
+      settingsVersion: version,
+      toFio2: 0.35,
+      toFlow: 40,
+      reason: "above_band",
+      rationale: "PaO2 160 on FiO2 0.40: wean",
+      appliedAt: new Date().toISOString(),
+    });
+    expect(await openAlertsOf(patientId)).toEqual([]);
+    const [closed] = await listAlerts(appDb(), nurse, { patientId, status: "resolved" });
+    expect(closed!.resolved?.reason).toMatch(/^Weaned: FiO2 0.4 → 0.35/);
   });
 });
 
 describe("limits, reassessment and closing by hand", () => {
   it("calls the physician when the order's FiO2 ceiling is reached and the patient is still below", async () => {
     const { patientId } = await assignedPatient({ initialFio2: 0.6 });
-    await chartLow(patientId, 89);
+    const t0 = Date.now();
+    // Taken right after the order set FiO2 0.6: too soon for the change to show.
+    await chartLow(patientId, 89, new Date(t0));
+    expect((await openAlertsOf(patientId)).map((a) => a.kind)).toEqual(["below_band"]);
+    // Six minutes later, still below at the ceiling: the physician is called.
+    await chartLow(patientId, 89, new Date(t0 + 6 * MIN));
     const open = await openAlertsOf(patientId);
     expect(open.map((a) => a.kind).sort()).toEqual(["below_band", "limits_exhausted"]);
     const limits = open.find((a) => a.kind === "limits_exhausted")!;

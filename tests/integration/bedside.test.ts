@@ -199,7 +199,7 @@ describe("readings and blood gases", () => {
       spo2: 140,
       device: "hfnc",
     }).catch((e: unknown) => e)) as ValidationError;
-    expect(error.fieldErrors?.spo2).toEqual(["SpO2 must be between 50 and 100 %."]);
+    expect(error.fieldErrors?.spo2).toEqual(["SpO2 must be between 0 and 100 %."]);
     const missing = (await chartReading(appDb(), nurse, {
       patientId,
       takenAt: minutesAgo(2),

@@ -548,10 +548,11 @@ describe("monitor CSV", () => {
     const p = await patientOnHfnc();
     const therapist = await actorByEmail(SEEDED.therapist);
     const start = Date.parse("2026-11-20T09:00:00Z");
-    // 1 Hz: 60 s in band, a 30 s dip to 86 %, 60 s in band, then 90 s at 89 %.
+    // 1 Hz: 60 s in band, a 30 s dip to 89 % (3 points under the band: routine
+    // depth, so no urgent fast path), 60 s in band, then 90 s at 89 %.
     const values = [
       ...Array<number>(60).fill(94),
-      ...Array<number>(30).fill(86),
+      ...Array<number>(30).fill(89),
       ...Array<number>(60).fill(94),
       ...Array<number>(90).fill(89),
     ];
@@ -599,7 +600,7 @@ describe("monitor CSV", () => {
     expect(
       preview.rejected.map((r) => [r.line, r.reasons[0]?.code, r.reasons[0]?.message]),
     ).toEqual([
-      [3, "range", "SpO2 140 % is outside 50–100 %."],
+      [3, "range", "SpO2 140 % is outside 0–100 %."],
       [5, "missing", "SpO2 is missing."],
       [
         6,

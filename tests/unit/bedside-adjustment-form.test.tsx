@@ -68,6 +68,19 @@ function order(device: Device, limits: Partial<OrderView["limits"]> = {}): Order
   };
 }
 
+const gas = {
+  id: 1,
+  sampledAt: "2026-12-01T10:20:00.000Z",
+  sampleType: "arterial" as const,
+  pao2: 62,
+  paco2: 40,
+  hb: 12,
+  fio2: 0.4,
+  fio2Estimated: false,
+  peep: null,
+  pfRatio: 155,
+};
+
 /** An HFNC patient on FiO2 0.40 and 40 L/min, SpO2 89 %, arterial gas PaO2 62 mmHg at FiO2 0.40. */
 function hfncContext(overrides: Partial<BedsideContext> = {}): BedsideContext {
   return {
@@ -102,20 +115,14 @@ function hfncContext(overrides: Partial<BedsideContext> = {}): BedsideContext {
       fio2Estimated: false,
       flow: 40,
     },
-    latestBloodGas: {
-      id: 1,
-      sampledAt: "2026-12-01T10:20:00.000Z",
-      sampleType: "arterial",
-      pao2: 62,
-      paco2: 40,
-      hb: 12,
-      fio2: 0.4,
-      fio2Estimated: false,
-      peep: null,
-      pfRatio: 155,
-    },
+    latestBloodGas: gas,
+    latestArterialGas: { ...gas, freshness: { ageMinutes: 20, maxAgeMinutes: 240, fresh: true } },
+    forecastUsesGas: true,
     proposal: {
       direction: "up",
+      urgent: false,
+      stepsMoved: 1,
+      stoppedBy: null,
       step: { fio2: 0.5, flow: 50, stepIndex: 2 },
       forecast: null,
       reason:
@@ -197,10 +204,76 @@ describe("AdjustmentForm", () => {
   });
 
   it("says there is no numeric forecast without an arterial gas", () => {
-    renderForm(hfncContext({ latestBloodGas: null }));
+    renderForm(
+      hfncContext({ latestBloodGas: null, latestArterialGas: null, forecastUsesGas: false }),
+    );
     expect(screen.getByTestId("forecast-range").textContent).toMatch(
       /No arterial blood gas on record/,
     );
+  });
+
+  it("does not forecast from a gas older than the limit unless chosen, and sends the choice", async () => {
+    const stale = { ...gas, sampledAt: "2026-12-01T04:00:00.000Z" };
+    const context = hfncContext({
+      latestBloodGas: stale,
+      latestArterialGas: {
+        ...stale,
+        freshness: { ageMinutes: 390, maxAgeMinutes: 240, fresh: false },
+      },
+      forecastUsesGas: false,
+    });
+    const fetchMock = vi.fn<typeof fetch>(() =>
+      Promise.resolve(
+        new Response(JSON.stringify({ ...context, forecastUsesGas: true }), { status: 200 }),
+      ),
+    );
+    vi.stubGlobal("fetch", fetchMock);
+    mocks.record.mockResolvedValue({ ok: true, data: recorded });
+    renderForm(context);
+    type("New FiO2", "0.5");
+    expect(screen.getByTestId("forecast-range").textContent).toMatch(
+      /latest arterial blood gas is 6 h 30 min old, older than the 4 h limit, so there is no numeric forecast/,
+    );
+    expect(
+      screen.getByText(/not used for the forecast \(choose it to forecast from it anyway\)/),
+    ).toBeTruthy();
+
+    fireEvent.click(within(screen.getByTestId("use-stale-gas")).getByRole("checkbox"));
+    expect(screen.getByTestId("forecast-range").textContent).toMatch(/PaO2 forecast \d+–\d+ mmHg/);
+    expect(screen.getByText(/used because a clinician chose it/)).toBeTruthy();
+    // The proposal is asked for again with the same choice.
+    await waitFor(() =>
+      expect(fetchMock).toHaveBeenCalledWith(
+        `/api/v1/patients/${PATIENT_ID}/bedside?useStaleBloodGas=1`,
+        expect.anything(),
+      ),
+    );
+    type("Rationale", "SpO2 89 %");
+    submit();
+    await waitFor(() => expect(mocks.record).toHaveBeenCalledTimes(1));
+    expect(mocks.record.mock.calls[0]?.[0]).toMatchObject({ useStaleBloodGas: true });
+  });
+
+  it("puts an urgent proposal's call to the prescriber first, with the limit that stops it", () => {
+    renderForm(
+      hfncContext({
+        proposal: {
+          direction: "up",
+          urgent: true,
+          stepsMoved: 2,
+          stoppedBy: "the order's FiO2 maximum 0.6",
+          step: { fio2: 0.6, flow: 60, stepIndex: 3 },
+          forecast: null,
+          reason:
+            "SpO2 70 % is below 85 %, below the target band 92–96 % (urgent): call the prescriber now.",
+          caveats: [],
+        },
+      }),
+    );
+    const urgent = screen.getByTestId("proposal-urgent").textContent ?? "";
+    expect(urgent).toContain("call the prescriber now");
+    expect(urgent).toContain("the step stops at the order's FiO2 maximum 0.6");
+    expect(screen.getByTestId("proposal").textContent).toContain("(2 table settings)");
   });
 
   it("warns while typing a value outside the order's limits, and not inside them", () => {

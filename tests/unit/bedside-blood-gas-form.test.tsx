@@ -125,6 +125,8 @@ function context(): BedsideContext {
     },
     latestReading: null,
     latestBloodGas: null,
+    latestArterialGas: null,
+    forecastUsesGas: false,
     proposal: null,
     proposalError: null,
   };

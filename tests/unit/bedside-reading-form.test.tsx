@@ -46,6 +46,8 @@ function context(): BedsideContext {
     },
     latestReading: null,
     latestBloodGas: null,
+    latestArterialGas: null,
+    forecastUsesGas: false,
     proposal: null,
     proposalError: null,
   };
@@ -90,14 +92,28 @@ describe("ReadingForm", () => {
     expect(screen.getByText("FiO2 (estimated)")).toBeTruthy();
   });
 
-  it("refuses an SpO2 outside 50–100 % beside the field, keeping the rate typed", async () => {
+  it("refuses an SpO2 outside 0–100 % beside the field, keeping the rate typed", async () => {
     render(<ReadingForm patientId={PATIENT_ID} context={context()} timeZone="UTC" />);
     type("SpO2 (%)", "130");
     type("Respiratory rate (/min)", "22");
     fireEvent.click(screen.getByRole("button", { name: "Chart reading" }));
-    await screen.findByText("SpO2 must be between 50 and 100 %.");
+    await screen.findByText("SpO2 must be between 0 and 100 %.");
     expect(field("Respiratory rate (/min)").value).toBe("22");
     expect(mocks.chart).not.toHaveBeenCalled();
+  });
+
+  it("charts a deep desaturation (45 %), marked as below oximeter accuracy, never refused", async () => {
+    mocks.chart.mockResolvedValue({ ok: true, data: { ...charted, spo2: 45 } });
+    render(<ReadingForm patientId={PATIENT_ID} context={context()} timeZone="UTC" />);
+    type("SpO2 (%)", "45");
+    expect(screen.getByText(/below oximeter accuracy: charted and alerted/)).toBeTruthy();
+    type("SpO2 (%)", "93");
+    expect(screen.queryByText(/below oximeter accuracy/)).toBeNull();
+    type("SpO2 (%)", "45");
+    type("Respiratory rate (/min)", "30");
+    fireEvent.click(screen.getByRole("button", { name: "Chart reading" }));
+    await waitFor(() => expect(mocks.chart).toHaveBeenCalledTimes(1));
+    expect(mocks.chart.mock.calls[0]?.[0]).toMatchObject({ spo2: 45 });
   });
 
   it("charts the reading with the device's own settings only, then opens the Chart", async () => {

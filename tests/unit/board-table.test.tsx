@@ -22,7 +22,13 @@ const row: BoardRow = {
   peepCmH2o: 10,
   flowLMin: null,
   order: { id: 1, status: "active", lower: 88, upper: 95, reassessMinutes: 60 },
-  latestSpo2: { pct: 91, fio2: 0.5, takenAt: "2026-12-01T10:00:00.000Z" },
+  latestSpo2: {
+    pct: 91,
+    fio2: 0.5,
+    takenAt: "2026-12-01T10:00:00.000Z",
+    source: "manual",
+    belowOximeterAccuracy: false,
+  },
   spo2Status: "in-band",
   timeInBand24h: { below: 0, inBand: 1, above: 0, unknown: 0 },
   latestPf: { ratio: 150, fio2Estimated: false, sampledAt: "2026-12-01T09:00:00.000Z" },
@@ -78,5 +84,25 @@ describe("Board table", () => {
     expect(badge.textContent).toContain("1 to acknowledge · urgent");
     expect(badge.getAttribute("href")).toBe("/alerts?patientId=7");
     expect(badge.getAttribute("title")).toBe("SpO2 below target; Order limits reached");
+  });
+
+  it("shows a deep desaturation as charted, with the below-oximeter-accuracy mark", () => {
+    render(
+      <BoardTable
+        rows={[
+          {
+            ...row,
+            latestSpo2: { ...row.latestSpo2!, pct: 45, belowOximeterAccuracy: true },
+            spo2Status: "below",
+          },
+        ]}
+        caption="beds"
+        sort={sort}
+        onSort={() => undefined}
+        pressureUnit="mmHg"
+      />,
+    );
+    expect(screen.getByText("below oximeter accuracy")).toBeTruthy();
+    expect(screen.getByText(/^45 %/)).toBeTruthy();
   });
 });

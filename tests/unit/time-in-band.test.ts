@@ -1,13 +1,34 @@
 import { describe, expect, it } from "vitest";
 import {
   classifySpo2,
+  manualCarryMs,
   MAX_CARRY_FORWARD_MS,
+  monitorCarryMs,
   timeInBand,
   timeInBandOfSeries,
+  type BandReading,
 } from "@/lib/time-in-band";
 
 const t = (hhmm: string) => new Date(`2026-11-30T${hhmm}:00.000Z`);
 const MIN = 60_000;
+const S = 1000;
+/** A charted value (invented). */
+const manual = (at: Date, spo2: number, fio2: number, flow: number | null = null): BandReading => ({
+  at,
+  spo2,
+  fio2,
+  flow,
+  source: "manual",
+});
+/** A monitor series from `start`, one sample every `stepMs` (invented). */
+const monitor = (start: Date, values: number[], stepMs = S, fio2 = 0.4): BandReading[] =>
+  values.map((spo2, i) => ({
+    at: new Date(start.getTime() + i * stepMs),
+    spo2,
+    fio2,
+    flow: null,
+    source: "monitor",
+  }));
 
 describe("timeInBand", () => {
   it("matches a hand-computed fixture with a band change mid-period", () => {
@@ -22,17 +43,17 @@ describe("timeInBand", () => {
       ],
       readings: [
         // 06:00, 90 % → carried in, holds to the 08:30 reading: 08:00–08:30 under A, 90 < 92 → below 30 min.
-        { at: t("06:00"), spo2: 90, fio2: 0.4 },
+        manual(t("06:00"), 90, 0.4),
         // 08:30, 94 % → to 10:00 under A, 92 ≤ 94 ≤ 96 → in band 90 min.
-        { at: t("08:30"), spo2: 94, fio2: 0.4 },
+        manual(t("08:30"), 94, 0.4),
         // 10:00, 98 % on FiO2 0.40 → to 12:00: 10:00–11:00 under A (98 > 96) above 60 min,
         //   11:00–12:00 under B (98 > 92) above 60 min → above 120 min.
-        { at: t("10:00"), spo2: 98, fio2: 0.4 },
+        manual(t("10:00"), 98, 0.4),
         // 12:00, 97 % on room air (FiO2 0.21) → to 12:30: above the band but not on oxygen → in band 30 min.
-        { at: t("12:00"), spo2: 97, fio2: 0.21 },
+        manual(t("12:00"), 97, 0.21),
         // 12:30, 87 % → no next reading: holds 4 h to 16:30 under B (87 < 88) → below 240 min;
         //   16:30–17:00 nothing holds → unknown 30 min.
-        { at: t("12:30"), spo2: 87, fio2: 0.3 },
+        manual(t("12:30"), 87, 0.3),
       ],
     });
     // below 30 + 240 = 270 min; in band 90 + 30 = 120 min; above 120 min; unknown 30 min; total 540.
@@ -64,7 +85,7 @@ describe("timeInBand", () => {
     const r = timeInBand({
       from: t("08:00"),
       to: t("10:00"),
-      readings: [{ at: t("08:00"), spo2: 94, fio2: 0.3 }],
+      readings: [manual(t("08:00"), 94, 0.3)],
       bands: [{ from: t("09:00"), to: null, lower: 92, upper: 96 }],
     });
     expect(r.inBand).toBeCloseTo(0.5, 10);
@@ -77,7 +98,7 @@ describe("timeInBand", () => {
     const carried = timeInBand({
       from: t("08:00"),
       to: t("10:00"),
-      readings: [{ at: t("05:00"), spo2: 85, fio2: 0.5 }],
+      readings: [manual(t("05:00"), 85, 0.5)],
       bands,
     });
     expect(carried.ms.below).toBe(60 * MIN);
@@ -86,7 +107,7 @@ describe("timeInBand", () => {
     const stale = timeInBand({
       from: t("08:00"),
       to: t("10:00"),
-      readings: [{ at: t("03:00"), spo2: 85, fio2: 0.5 }],
+      readings: [manual(t("03:00"), 85, 0.5)],
       bands,
     });
     expect(stale.unknown).toBe(1);
@@ -98,7 +119,7 @@ describe("timeInBand", () => {
     const after = timeInBand({
       from: t("08:00"),
       to: t("09:00"),
-      readings: [{ at: t("09:30"), spo2: 94, fio2: 0.3 }],
+      readings: [manual(t("09:30"), 94, 0.3)],
       bands,
     });
     expect(after.unknown).toBe(1);
@@ -108,10 +129,7 @@ describe("timeInBand", () => {
 
   it("takes readings in any order", () => {
     const bands = [{ from: t("00:00"), to: null, lower: 92, upper: 96 }];
-    const readings = [
-      { at: t("09:00"), spo2: 90, fio2: 0.3 },
-      { at: t("08:00"), spo2: 94, fio2: 0.3 },
-    ];
+    const readings = [manual(t("09:00"), 90, 0.3), manual(t("08:00"), 94, 0.3)];
     const r = timeInBand({ from: t("08:00"), to: t("10:00"), readings, bands });
     expect(r.inBand).toBeCloseTo(0.5, 10);
     expect(r.below).toBeCloseTo(0.5, 10);
@@ -125,13 +143,13 @@ describe("timeInBandOfSeries", () => {
       { from: t("11:00"), to: null, lower: 88, upper: 92 },
     ];
     const readings = [
-      { at: t("06:00"), spo2: 90, fio2: 0.4 },
-      { at: t("10:00"), spo2: 98, fio2: 0.4 },
-      { at: t("12:30"), spo2: 87, fio2: 0.3 },
+      manual(t("06:00"), 90, 0.4),
+      manual(t("10:00"), 98, 0.4),
+      manual(t("12:30"), 87, 0.3),
     ];
     const viaDates = timeInBand({ readings, bands, from: t("08:00"), to: t("17:00") });
     const viaSeries = timeInBandOfSeries({
-      series: readings.map((r) => ({ t: r.at.getTime(), spo2: r.spo2, fio2: r.fio2 })),
+      series: readings.map(({ at, ...r }) => ({ ...r, t: at.getTime() })),
       bands,
       from: t("08:00").getTime(),
       to: t("17:00").getTime(),
@@ -140,15 +158,67 @@ describe("timeInBandOfSeries", () => {
   });
 });
 
+describe("honest gaps", () => {
+  const bands = [{ from: t("00:00"), to: null, lower: 92, upper: 96 }];
+
+  it("counts a 3-hour gap in a 1 Hz monitor series as unknown, not in band", () => {
+    // 08:00:00–08:00:59 in band at 1 Hz, then silence until 11:00, then another minute.
+    const readings = [
+      ...monitor(t("08:00"), Array<number>(60).fill(94)),
+      ...monitor(t("11:00"), Array<number>(60).fill(94)),
+    ];
+    const r = timeInBand({ from: t("08:00"), to: t("11:01"), readings, bands });
+    // Each sample holds until the next; the last of the first minute holds 3 intervals (3 s).
+    expect(r.ms.inBand).toBe((59 + 3 + 60) * S);
+    expect(r.ms.unknown).toBe(181 * MIN - (59 + 3 + 60) * S);
+    expect(r.unknown).toBeGreaterThan(0.98);
+  });
+
+  it("lets a sparse monitor series hold three intervals, at most 5 minutes", () => {
+    expect(monitorCarryMs(S)).toBe(3 * S);
+    expect(monitorCarryMs(60 * S)).toBe(3 * MIN);
+    expect(monitorCarryMs(4 * MIN)).toBe(5 * MIN);
+    // No previous sample: the interval is unknown and the sample holds 5 minutes.
+    expect(monitorCarryMs(null)).toBe(5 * MIN);
+    // One sample a minute, the last one at 08:02 holding to 08:05.
+    const r = timeInBand({
+      from: t("08:00"),
+      to: t("09:00"),
+      readings: monitor(t("08:00"), [90, 90, 90], MIN),
+      bands,
+    });
+    expect(r.ms.below).toBe(5 * MIN);
+    expect(r.ms.unknown).toBe(55 * MIN);
+  });
+
+  it("lets a charted value hold for the order's reassessment interval, at most 4 h", () => {
+    expect(manualCarryMs(60)).toBe(60 * MIN);
+    expect(manualCarryMs(480)).toBe(MAX_CARRY_FORWARD_MS);
+    expect(manualCarryMs(null)).toBe(MAX_CARRY_FORWARD_MS);
+    const hourly = [{ ...bands[0]!, reassessMinutes: 60 }];
+    const r = timeInBand({
+      from: t("08:00"),
+      to: t("12:00"),
+      readings: [manual(t("08:00"), 94, 0.3)],
+      bands: hourly,
+    });
+    expect(r.ms.inBand).toBe(60 * MIN);
+    expect(r.ms.unknown).toBe(180 * MIN);
+  });
+});
+
 describe("classifySpo2", () => {
   const band = { lower: 88, upper: 92 };
-  it("treats above the band on room air as in band, and on oxygen as above", () => {
-    expect(classifySpo2(97, 0.21, band)).toBe("inBand");
-    expect(classifySpo2(97, 0.22, band)).toBe("above");
+  it("treats above the band on room air as in band, and on oxygen (FiO2 > 0.21 or any flow) as above", () => {
+    expect(classifySpo2(97, { fio2: 0.21 }, band)).toBe("inBand");
+    expect(classifySpo2(97, { fio2: 0.21, flow: null }, band)).toBe("inBand");
+    expect(classifySpo2(97, { fio2: 0.22 }, band)).toBe("above");
+    expect(classifySpo2(97, { fio2: 0.21, flow: 2 }, band)).toBe("above");
   });
-  it("treats the bounds themselves as in band", () => {
-    expect(classifySpo2(88, 0.4, band)).toBe("inBand");
-    expect(classifySpo2(92, 0.4, band)).toBe("inBand");
-    expect(classifySpo2(87.9, 0.4, band)).toBe("below");
+  it("treats the bounds themselves as in band, and every value down to 0 % below", () => {
+    expect(classifySpo2(88, { fio2: 0.4 }, band)).toBe("inBand");
+    expect(classifySpo2(92, { fio2: 0.4 }, band)).toBe("inBand");
+    expect(classifySpo2(87.9, { fio2: 0.4 }, band)).toBe("below");
+    expect(classifySpo2(0, { fio2: 0.4 }, band)).toBe("below");
   });
 });

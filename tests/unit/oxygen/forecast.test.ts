@@ -1,5 +1,10 @@
 import { describe, expect, it } from "vitest";
-import { ASSUMED_ARTERIOVENOUS_DIFFERENCE, forecastFio2Change, PEEP_NOT_FORECAST } from "@/lib/oxygen";
+import {
+  ASSUMED_ARTERIOVENOUS_DIFFERENCE,
+  forecastFio2Change,
+  InconsistentBloodGasError,
+  PEEP_NOT_FORECAST,
+} from "@/lib/oxygen";
 
 // The published equations, written out independently of the engine.
 const saturation = (po2: number) => 1 / (23400 / (po2 ** 3 + 150 * po2) + 1); // Severinghaus 1979
@@ -66,19 +71,19 @@ describe("forecastFio2Change", () => {
     expect(caveats.some((caveat) => caveat.includes("capped"))).toBe(true);
   });
 
-  it("flags a measured PaO2 above PAO2 as inconsistent and does not extrapolate from it", () => {
-    const { inconsistent, models, alveolarPO2, shuntFraction, caveats } = forecastFio2Change({
-      fio2: 0.21,
-      pao2: 120,
-      paco2: 40,
-      hemoglobin: 14,
-      nextFio2: 0.3,
-    });
-    expect(inconsistent).toBe(true);
-    expect(shuntFraction).toBe(0);
-    expect(models.alveolarArterialRatio.pao2).toBeCloseTo(alveolarPO2.next, 10);
-    expect(models.shunt.pao2).toBeLessThanOrEqual(alveolarPO2.next);
-    expect(caveats.some((caveat) => caveat.includes("inconsistent"))).toBe(true);
+  it("withholds the forecast when the measured PaO2 is above PAO2, never clamping to it", () => {
+    // PAO2 at FiO2 0.21 and PaCO2 40 is 0.21 × 713 − 40 / 0.8 = 99.7 mmHg (alveolar gas equation).
+    const inputs = { fio2: 0.21, pao2: 120, paco2: 40, hemoglobin: 14, nextFio2: 0.3 };
+    expect(() => forecastFio2Change(inputs)).toThrow(InconsistentBloodGasError);
+    expect(() => forecastFio2Change(inputs)).toThrow(/PaO2 120 mmHg is above the alveolar PO2 100 mmHg/);
+    // A wean from a high-PaO2 gas is the case that once read "PAO2": also withheld.
+    expect(() =>
+      forecastFio2Change({ fio2: 0.4, pao2: 260, paco2: 40, hemoglobin: 12, nextFio2: 0.3 }),
+    ).toThrow(InconsistentBloodGasError);
+    // At PAO2 itself the inputs still agree (no a–A difference): a forecast is made.
+    const atAlveolar = alveolar(0.21, 40);
+    const forecast = forecastFio2Change({ ...inputs, pao2: atAlveolar });
+    expect(forecast.models.alveolarArterialRatio.pao2).toBeCloseTo(alveolar(0.3, 40), 6);
   });
 
   it("always says that PEEP changes are not forecast", () => {

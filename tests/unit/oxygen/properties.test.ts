@@ -7,6 +7,7 @@ import {
   classifyOxygenation,
   forecastFio2Change,
   mechanicalPower,
+  InconsistentBloodGasError,
   OxygenInputError,
   oxygenContent,
   oxygenSaturationIndex,
@@ -40,16 +41,21 @@ const expectAllFinite = (value: unknown) => {
 };
 
 // A blood gas the engine accepts: PaCO2 kept low enough for the altitude that
-// PAO2 stays above 5 mmHg even on room air (the engine refuses inputs that
-// leave no alveolar oxygen).
+// PAO2 stays at or above the lowest PaO2 accepted even on room air, and a
+// measured PaO2 no higher than PAO2 at its own FiO2 (above it the inputs
+// contradict each other and the forecast is withheld — its own property below).
 const bloodGas = between(400, 800).chain((barometricPressure) =>
-  fc.record({
-    fio2: within(RANGES.fio2),
-    pao2: within(RANGES.pao2),
-    paco2: between(15, Math.min(120, 0.8 * (0.21 * (barometricPressure - 47) - 5))),
-    hemoglobin: within(RANGES.hemoglobin),
-    barometricPressure: fc.constant(barometricPressure),
-  }),
+  fc
+    .record({
+      fio2: within(RANGES.fio2),
+      paco2: between(15, Math.min(120, 0.8 * (0.21 * (barometricPressure - 47) - RANGES.pao2.min))),
+      hemoglobin: within(RANGES.hemoglobin),
+      barometricPressure: fc.constant(barometricPressure),
+    })
+    .chain((gas) => {
+      const ceiling = Math.min(RANGES.pao2.max, alveolarPO2(gas));
+      return between(RANGES.pao2.min, ceiling).map((pao2) => ({ ...gas, pao2 }));
+    }),
 );
 
 describe("properties", () => {
@@ -150,6 +156,16 @@ describe("properties", () => {
     );
   });
 
+  it("withholds every forecast from a PaO2 above PAO2 at its own FiO2, whatever the step", () => {
+    fc.assert(
+      fc.property(bloodGas, between(1.001, 3), between(0.25, 1), (gas, factor, nextFio2) => {
+        const pao2 = alveolarPO2(gas) * factor;
+        fc.pre(pao2 <= RANGES.pao2.max);
+        expect(() => forecastFio2Change({ ...gas, pao2, nextFio2 })).toThrow(InconsistentBloodGasError);
+      }),
+    );
+  });
+
   const refusals: Array<[string, InputRange, (value: number) => unknown]> = [
     ["fio2", RANGES.fio2, (fio2) => alveolarPO2({ fio2, paco2: 40 })],
     ["po2", RANGES.po2, (po2) => saturationFromPO2(po2)],
@@ -161,7 +177,7 @@ describe("properties", () => {
     ["heightCm", RANGES.heightCm, (heightCm) => predictedBodyWeight({ heightCm, sex: "male" })],
     ["value", RANGES.pressureMmHg, (value) => toMmHg(value, "mmHg")],
     ["value", RANGES.hemoglobinGramsPerDecilitre, (value) => toGramsPerDecilitre(value, "g/dL")],
-    ["latestReading.spo2", RANGES.spo2, (spo2) =>
+    ["latestReading.spo2", RANGES.spo2Reading, (spo2) =>
       proposeStep({
         order: { spo2Target: { lower: 88, upper: 95 }, limits: { fio2Min: 0.21, fio2Max: 1 }, steps: [] },
         current: { fio2: 0.4 },
