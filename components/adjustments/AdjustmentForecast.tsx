@@ -29,7 +29,7 @@ type Outcome =
   | { kind: "refused"; message: string }
   | { kind: "ok"; fio2: number; forecast: Fio2Forecast };
 
-/** The words shown when PEEP changes: only FiO2 is forecast (DESIGN.md §4). */
+/** The words shown when PEEP changes: only FiO2 is forecast. */
 export const PEEP_CHANGE_NOTE =
   "PEEP changes are not forecast numerically: re-measure (blood gas or SpO2) after changing PEEP.";
 

@@ -146,8 +146,10 @@ export function BedsideContextCards({
               "SpO2",
               latestReading ? (
                 <span className="inline-flex flex-wrap items-center gap-1">
-                  <Spo2Value pct={latestReading.spo2} /> at{" "}
-                  {formatUnitTime(latestReading.takenAt, timeZone)}
+                  <span>
+                    <Spo2Value pct={latestReading.spo2} /> at{" "}
+                    {formatUnitTime(latestReading.takenAt, timeZone)}
+                  </span>
                   {order ? (
                     <StatusBadge
                       status={spo2Status(latestReading.spo2, order.spo2Band, latestReading)}

@@ -24,10 +24,13 @@ type Outcome = { ok: boolean; message: string } | null;
 export function AlertActions({
   alertId,
   canAcknowledge,
+  suggestedReason,
   onDone,
 }: {
   alertId: number;
   canAcknowledge: boolean;
+  /** A reason to start from (an in-band spot check recorded on the alert); editable. */
+  suggestedReason?: string;
   onDone: () => void;
 }) {
   const id = useId();
@@ -39,7 +42,7 @@ export function AlertActions({
   });
   const close = useForm<{ reason: string }>({
     resolver: zodResolver(resolveForm),
-    defaultValues: { reason: "" },
+    defaultValues: { reason: suggestedReason ?? "" },
   });
 
   async function finish<T>(

@@ -7,7 +7,7 @@ import { getApiJson } from "@/components/ui/api-json";
 import { EmptyState } from "@/components/ui/EmptyState";
 import { LoadError } from "@/components/ui/LoadError";
 import { StatusBadge, type Status } from "@/components/ui/StatusBadge";
-import { describeAlert } from "@/lib/alerts/email";
+import { describeAlert, type AlertEmailInput } from "@/lib/alerts/email";
 import {
   ALERT_KIND_LABELS,
   ALERT_STATE_LABELS,
@@ -42,8 +42,10 @@ function statusOf(a: AlertView): { status: Status; label: string } {
       status: "escalated",
       label: `Escalated to the ${ESCALATION_LABELS[a.escalationLevel]}`,
     };
+  // No signal is "no data", not a side of the band.
+  if (a.kind === "signal_loss") return { status: "overdue", label: ALERT_STATE_LABELS[a.state] };
   return {
-    status: a.kind === "above_band" ? "above" : "below",
+    status: a.kind === "above_band" || a.kind === "pao2_above_band" ? "above" : "below",
     label: ALERT_STATE_LABELS[a.state],
   };
 }
@@ -103,6 +105,7 @@ export function AlertList({
           {alerts.map((a) => {
             const s = statusOf(a);
             const tz = a.unit.timeZone;
+            const spotCheck = a.detail.spotCheck as { spo2: number; at: string } | undefined;
             return (
               <li
                 key={a.id}
@@ -138,6 +141,12 @@ export function AlertList({
                     spo2: a.worstSpo2 ?? a.triggerSpo2,
                     limitsAtMax: a.detail.limitsAtMax as string[] | undefined,
                     overdueMinutes: a.detail.overdueMinutes as number | undefined,
+                    excursion: a.detail.excursion as AlertEmailInput["excursion"],
+                    pao2: a.detail.pao2 as number | undefined,
+                    pao2Band: a.detail.pao2Band as AlertEmailInput["pao2Band"],
+                    ...(typeof a.detail.lastSampleAt === "string"
+                      ? { lastSampleText: at(a.detail.lastSampleAt, tz) }
+                      : {}),
                   })}
                 </p>
                 <dl className="mt-2 grid grid-cols-[auto_1fr] gap-x-3 gap-y-0.5 text-xs text-ink-muted sm:grid-cols-[auto_1fr_auto_1fr]">
@@ -166,6 +175,16 @@ export function AlertList({
                       </dd>
                     </>
                   ) : null}
+                  {spotCheck ? (
+                    <>
+                      <dt>Spot check</dt>
+                      <dd>
+                        SpO2 {spotCheck.spo2} % charted at {at(spotCheck.at, tz)}, in band — the
+                        monitor confirmed this alert, so only the monitor back in band or a
+                        clinician&apos;s close ends it.
+                      </dd>
+                    </>
+                  ) : null}
                   {a.resolved ? (
                     <>
                       <dt>Resolved</dt>
@@ -180,6 +199,11 @@ export function AlertList({
                   <AlertActions
                     alertId={a.id}
                     canAcknowledge={a.state !== "acknowledged"}
+                    suggestedReason={
+                      spotCheck
+                        ? `Spot check in band: SpO2 ${spotCheck.spo2} % at ${at(spotCheck.at, tz)}.`
+                        : undefined
+                    }
                     onDone={() => void mutate()}
                   />
                 ) : null}

@@ -14,7 +14,7 @@ function minutesSince(iso: string, now: Date): number {
   return Math.max(0, Math.round((now.getTime() - Date.parse(iso)) / 60_000));
 }
 
-/** What each role may do from the Chart (DESIGN.md §3). */
+/** What each role may do from the Chart (DEVELOPERS.md, "Roles"). */
 export function bedsideActions(actor: Actor, context: BedsideContext) {
   const base = `/patients/${context.admission.patientId}`;
   const actions: { href: string; label: string }[] = [];
@@ -164,8 +164,11 @@ export function BedsideSummary({
               <dd className="tabular flex flex-wrap items-center gap-1">
                 {latestReading ? (
                   <>
-                    <Spo2Value pct={latestReading.spo2} /> ·{" "}
-                    {minutesSince(latestReading.takenAt, now)} min ago
+                    {/* One flex item, so it reads as one line: "93 % · 4 min ago". */}
+                    <span>
+                      <Spo2Value pct={latestReading.spo2} /> ·{" "}
+                      {minutesSince(latestReading.takenAt, now)} min ago
+                    </span>
                     <StatusBadge
                       status={spo2Status(latestReading.spo2, order.spo2Band, latestReading)}
                     />

@@ -4,7 +4,7 @@ import { DEVICE_PROFILES } from "@/lib/orders/devices";
 import type { OrderStatus, OrderView } from "@/lib/orders/queries";
 import { fromMmHg, type PressureUnit } from "@/lib/oxygen";
 
-/** The order states in the product's words (DESIGN.md §2). */
+/** The order states in the product's words. */
 export const ORDER_STATUS_LABELS: Record<OrderStatus, string> = {
   draft: "Draft",
   awaiting_cosign: "Awaiting co-sign",

@@ -6,7 +6,7 @@ import type { Basis, PressureUnit } from "@/lib/oxygen";
 import { formatBasisInput } from "./format";
 
 /**
- * "Basis" one click away (DESIGN.md §8): the inputs, formula, source and
+ * "Basis" one click away: the inputs, formula, source and
  * assumptions behind a number, so a clinician can check it by hand. A native
  * button; its accessible name says whose basis it is.
  */

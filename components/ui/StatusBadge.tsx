@@ -12,7 +12,7 @@ const LOOK: Record<Status, { label: string; className: string; Icon: ComponentTy
   neutral: { label: "No data", className: "bg-surface-muted text-ink-muted", Icon: IconInfo },
 };
 
-/** Status by word and shape as well as colour (DESIGN.md §8). */
+/** Status by word and shape as well as colour. */
 export function StatusBadge({ status, label }: { status: Status; label?: string }) {
   const look = LOOK[status];
   return (

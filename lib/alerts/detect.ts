@@ -20,7 +20,7 @@ import {
  * about silence; the benchmark feeds it a week of 1 Hz monitor data. All go
  * through {@link advanceWatch} and {@link checkSignal}.
  *
- * Rules (DESIGN.md §2 "Excursion", "Signal loss"):
+ * Rules (README "Alerts and e-mail" says them in a nurse's words):
  * - Below band: SpO2 under the order's lower bound. Above band: over the upper
  *   bound while on supplemental oxygen (FiO2 > 0.21 or any flow — the rule
  *   time in band uses). Every SpO2 0–100 % counts, however low.

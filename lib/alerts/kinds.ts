@@ -1,4 +1,4 @@
-/** The alert vocabulary (DESIGN.md §2 "Alert"), shared by the service, API and screens. */
+/** The alert vocabulary (DEVELOPERS.md, "The product's words"), shared by the service, API and screens. */
 export const ALERT_KINDS = [
   "below_band",
   "above_band",

@@ -1,4 +1,4 @@
-/** The five roles of DESIGN.md §3. */
+/** The five roles (DEVELOPERS.md, "Roles"). */
 export const ROLES = ["physician", "therapist", "nurse", "reviewer", "admin"] as const;
 export type Role = (typeof ROLES)[number];
 

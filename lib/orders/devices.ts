@@ -1,7 +1,7 @@
 import type { RespiratorySupport } from "../oxygen";
 import type { StepTableView } from "../step-tables/queries";
 
-/** Oxygen delivery devices an order can prescribe (DESIGN.md §2, "Order"). */
+/** Oxygen delivery devices an order can prescribe (DEVELOPERS.md, "The product's words"). */
 export const DEVICES = [
   "room_air",
   "nasal_cannula",

@@ -34,7 +34,7 @@ export const OXIMETER_ACCURACY_NOTE =
  * On supplemental oxygen: FiO2 above room air, or any oxygen flow (a
  * low-flow device's estimated FiO2 may round to 0.21). One rule for alert
  * detection and for time in band: SpO2 above the band counts as an excursion
- * only while the patient receives oxygen (DESIGN "Excursion").
+ * only while the patient receives oxygen (the excursion rule).
  */
 export function onSupplementalOxygen(setting: { fio2: number; flow?: number | null }): boolean {
   return setting.fio2 > 0.21 || (setting.flow ?? 0) > 0;

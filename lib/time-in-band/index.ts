@@ -18,7 +18,7 @@ import { onSupplementalOxygen } from "../oxygen/oximetry";
  *   same rules.
  * - The band is the one of the order in effect at that moment; time with no
  *   order in effect counts as unknown.
- * - Excursion (DESIGN.md §2): below the lower bound, or above the upper bound
+ * - Excursion (DEVELOPERS.md, "The product's words"): below the lower bound, or above the upper bound
  *   while on supplemental oxygen (FiO2 > 0.21 or any flow, the rule alert
  *   detection uses). Above the upper bound on room air counts as in band.
  */

@@ -17,7 +17,7 @@ import { detectExcursions } from "@/lib/alerts/replay";
 // (60 s window with 80 % out of band, urgent below 85 % or 5 points under the
 // band after 15 s, 5 min back in band, signal lost after 120 s) — common
 // practice for "call now" saturations, not published cut-offs — and
-// DESIGN.md's excursion rule.
+// the excursion rule (DEVELOPERS.md, "The product's words").
 const band = { lower: 92, upper: 96 };
 const T0 = Date.UTC(2026, 11, 1, 8, 0, 0);
 const S = 1000;

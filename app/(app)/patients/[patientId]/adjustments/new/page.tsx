@@ -9,7 +9,7 @@ import { DEVICE_PROFILES } from "@/lib/orders/devices";
 
 export const metadata: Metadata = { title: "Record adjustment" };
 
-/** Record one applied settings change within the order in effect (DESIGN.md §3). */
+/** Record one applied settings change within the order in effect (DEVELOPERS.md, "Roles"). */
 export default async function NewAdjustmentPage({
   params,
 }: {
