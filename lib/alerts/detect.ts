@@ -431,11 +431,15 @@ function applyMonitorSample(
     state.signalLostAt = null;
   }
   const side = classifyReading(r, band);
-  state.monitor = {
-    t: r.t,
-    code: codeOf(side, r.spo2, band, opts),
-    intervalMs: gap !== null && gap <= MONITOR_MAX_CARRY_MS ? gap : null,
-  };
+  const code = codeOf(side, r.spo2, band, opts);
+  const intervalMs = gap !== null && gap <= MONITOR_MAX_CARRY_MS ? gap : null;
+  // In place: one object per admission, not one per sample.
+  if (state.monitor === null) state.monitor = { t: r.t, code, intervalMs };
+  else {
+    state.monitor.t = r.t;
+    state.monitor.code = code;
+    state.monitor.intervalMs = intervalMs;
+  }
   const { long, short } = measureWindows(state.window, r.t, opts.sustainMs, opts.urgentSustainMs);
   const urgentNow = urgentSustained(short, opts);
 

@@ -68,32 +68,57 @@ function advance(w: MonitorWindow, sums: WindowSums, from: number): void {
   }
 }
 
-function measure(w: MonitorWindow, sums: WindowSums, from: number): WindowMeasure {
-  const ms = [...sums.ms];
+function measureInto(
+  w: MonitorWindow,
+  sums: WindowSums,
+  from: number,
+  out: WindowMeasure,
+): WindowMeasure {
+  const ms = sums.ms;
+  let inBand = ms[IN_BAND];
+  let below = ms[BELOW];
+  let urgent = ms[URGENT];
+  let above = ms[ABOVE];
   // The first segment may straddle the window's start: leave out its older part.
   if (sums.first < w.segs.length && w.segs[sums.first]! < from) {
-    ms[w.segs[sums.first + 2]!]! -= from - w.segs[sums.first]!;
+    const older = from - w.segs[sums.first]!;
+    const code = w.segs[sums.first + 2]!;
+    if (code === IN_BAND) inBand -= older;
+    else if (code === BELOW) below -= older;
+    else if (code === URGENT) urgent -= older;
+    else above -= older;
   }
-  return {
-    below: ms[BELOW]! + ms[URGENT]!,
-    urgent: ms[URGENT]!,
-    above: ms[ABOVE]!,
-    monitored: ms[IN_BAND]! + ms[BELOW]! + ms[URGENT]! + ms[ABOVE]!,
-  };
+  out.below = below + urgent;
+  out.urgent = urgent;
+  out.above = above;
+  out.monitored = inBand + below + urgent + above;
+  return out;
 }
 
-/** Both windows ending at `now`: the sustain window (`longMs`) and the urgent one (`shortMs`). */
+// Reused on every sample (detection runs synchronously): a week of 1 Hz
+// samples must not allocate three objects per sample.
+const scratch = {
+  long: { below: 0, urgent: 0, above: 0, monitored: 0 } as WindowMeasure,
+  short: { below: 0, urgent: 0, above: 0, monitored: 0 } as WindowMeasure,
+};
+
+/**
+ * Both windows ending at `now`: the sustain window (`longMs`) and the urgent
+ * one (`shortMs`). The answer is overwritten by the next call: read it at once.
+ */
 export function measureWindows(
   w: MonitorWindow,
   now: number,
   longMs: number,
   shortMs: number,
-): { long: WindowMeasure; short: WindowMeasure } {
+): { readonly long: WindowMeasure; readonly short: WindowMeasure } {
   advance(w, w.long, now - longMs);
   advance(w, w.short, now - shortMs);
   // Drop segments both windows have left, now and then, so the stored state stays small.
   if (w.long.first >= 48) compactWindow(w);
-  return { long: measure(w, w.long, now - longMs), short: measure(w, w.short, now - shortMs) };
+  measureInto(w, w.long, now - longMs, scratch.long);
+  measureInto(w, w.short, now - shortMs, scratch.short);
+  return scratch;
 }
 
 /** Removes segments that no window counts any more. */

@@ -51,5 +51,5 @@ times.sort((a, b) => a - b);
 console.log(
   `detectExcursions over ${readings.length.toLocaleString("en")} readings (7 days at 1 Hz): ` +
     `median ${times[Math.floor(ROUNDS / 2)]!.toFixed(1)} ms (min ${times[0]!.toFixed(1)}, max ${times[ROUNDS - 1]!.toFixed(1)}); ` +
-    `${count} excursions opened; target < 1000 ms`,
+    `${count} excursions opened; target < 100 ms`,
 );
