@@ -31,6 +31,20 @@ const envSchema = z
     TIDEMARK_DEMO: z.enum(["0", "1"]).default("0"),
     SIGNIN_MAX_FAILURES: z.coerce.number().int().min(1).max(100).default(5),
     SIGNIN_WINDOW_MINUTES: z.coerce.number().int().min(1).max(1440).default(15),
+    /**
+     * Proxies whose X-Forwarded-For entries are trusted, comma-separated IP
+     * addresses (README "Security model"); empty: none.
+     */
+    TRUSTED_PROXIES: z
+      .string()
+      .default("")
+      .refine(
+        // Shape only: this module is also read by the edge middleware (no node:net).
+        (v) => v.split(",").every((p) => /^[0-9A-Fa-f:.]*$/.test(p.trim())),
+        "TRUSTED_PROXIES must be comma-separated IP addresses",
+      ),
+    /** A session unused this long ends; the next request asks to sign in again. */
+    SESSION_IDLE_MINUTES: z.coerce.number().int().min(1).max(720).default(30),
     /** Alerts: how long a monitor series must stay out of band / back in band, escalation delay, urgent grade. */
     ALERT_SUSTAIN_SECONDS: z.coerce.number().int().min(0).max(3600).default(60),
     ALERT_RESOLVE_SECONDS: z.coerce.number().int().min(0).max(86400).default(300),

@@ -49,6 +49,17 @@ export class ConflictError extends DomainError {
   }
 }
 
+/** Too many attempts: try again after `retryAfterSeconds` (the Retry-After header). */
+export class TooManyRequestsError extends DomainError {
+  constructor(
+    message: string,
+    readonly retryAfterSeconds: number,
+    fieldErrors?: FieldErrors,
+  ) {
+    super(message, 429, fieldErrors);
+  }
+}
+
 /**
  * Engine input errors (lib/oxygen stays free of app imports) become a 400
  * naming the field and its range.

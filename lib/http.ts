@@ -1,6 +1,6 @@
 import { NextResponse } from "next/server";
 import { z } from "zod";
-import { DomainError, fromEngineError } from "./errors";
+import { DomainError, fromEngineError, TooManyRequestsError } from "./errors";
 
 /** The one JSON error shape of the API. */
 export type ApiError = { error: { message: string; fieldErrors?: Record<string, string[]> } };
@@ -15,7 +15,12 @@ export function errorResponse(thrown: unknown): NextResponse<ApiError> {
           ...(error.fieldErrors ? { fieldErrors: error.fieldErrors } : {}),
         },
       },
-      { status: error.status },
+      {
+        status: error.status,
+        ...(error instanceof TooManyRequestsError
+          ? { headers: { "retry-after": String(error.retryAfterSeconds) } }
+          : {}),
+      },
     );
   }
   console.error("[api] unexpected error", error);
@@ -54,9 +59,13 @@ export async function readWriteBody(request: Request): Promise<Record<string, un
     throw new DomainError("Request body must be a JSON object.", 400);
   }
   const key = request.headers.get("idempotency-key");
-  return key ? { ...(body as Record<string, unknown>), idempotencyKey: key } : (body as Record<string, unknown>);
+  return key
+    ? { ...(body as Record<string, unknown>), idempotencyKey: key }
+    : (body as Record<string, unknown>);
 }
 
 /** Route params are validated like any other input. */
 export const idParam = (name: string) =>
-  z.object({ [name]: z.coerce.number().int().positive(`${name} must be a positive whole number.`) });
+  z.object({
+    [name]: z.coerce.number().int().positive(`${name} must be a positive whole number.`),
+  });

@@ -27,6 +27,8 @@ const ACTION_LABELS: Record<LedgerAction, string> & Record<string, string | unde
   "alert.acknowledge": "Alert acknowledged",
   "alert.resolve": "Alert resolved",
   "user.alert_email_preferences": "Alert e-mail choices changed",
+  "user.reauth_refused": "Password re-entry refused",
+  "user.sign_out": "Signed out",
   "import.blood_gas_csv": "Blood gas file imported",
   "import.hl7": "HL7 results imported",
   "import.monitor_csv": "Monitor file imported",

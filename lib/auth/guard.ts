@@ -5,6 +5,7 @@ import type { Actor } from "./actor";
 import { assertRole, loadActor } from "./actor-queries";
 import { authOptions } from "./options";
 import type { Role } from "./roles";
+import { checkSession } from "./sessions";
 
 /**
  * The one server-side guard. Every server action, route handler and protected
@@ -13,7 +14,9 @@ import type { Role } from "./roles";
 export async function requireRole(...roles: Role[]): Promise<Actor> {
   const session = await getServerSession(authOptions);
   const userId = session?.user?.id;
-  if (typeof userId !== "number") throw new UnauthenticatedError();
+  const sessionId = session?.user?.sid;
+  if (typeof userId !== "number" || typeof sessionId !== "string") throw new UnauthenticatedError();
+  await checkSession(db(), sessionId, userId);
   const actor = await loadActor(db(), userId);
   if (roles.length > 0) assertRole(actor, roles);
   return actor;

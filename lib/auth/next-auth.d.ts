@@ -3,7 +3,7 @@ import type { Role } from "@/lib/auth/roles";
 
 declare module "next-auth" {
   interface Session {
-    user?: DefaultSession["user"] & { id?: number; role?: Role };
+    user?: DefaultSession["user"] & { id?: number; role?: Role; sid?: string };
   }
 }
 
@@ -11,5 +11,7 @@ declare module "next-auth/jwt" {
   interface JWT {
     uid?: number;
     role?: string;
+    /** The row in user_sessions that keeps this session valid. */
+    sid?: string;
   }
 }

@@ -2,13 +2,16 @@ import type { NextAuthOptions } from "next-auth";
 import CredentialsProvider from "next-auth/providers/credentials";
 import { db } from "../db";
 import { getEnv } from "../env";
+import { appendLedger } from "../ledger/service";
+import { clientAddress, parseTrustedProxies } from "./client-address";
+import { safeRedirect } from "./redirects";
 import { isRole } from "./roles";
-import { SignInError, verifySignIn } from "./sign-in";
+import { endSession, startSession } from "./sessions";
+import { SIGN_IN_UNAVAILABLE, SignInError, verifySignIn } from "./sign-in";
 
-function clientIpFrom(headers: Record<string, unknown> | undefined): string {
-  const forwarded = headers?.["x-forwarded-for"];
-  const first = typeof forwarded === "string" ? forwarded.split(",")[0]?.trim() : undefined;
-  return first || "local";
+function forwardedFor(headers: Record<string, unknown> | undefined): string | undefined {
+  const value = headers?.["x-forwarded-for"];
+  return typeof value === "string" ? value : undefined;
 }
 
 export const authOptions: NextAuthOptions = {
@@ -16,8 +19,12 @@ export const authOptions: NextAuthOptions = {
   get secret() {
     return getEnv().NEXTAUTH_SECRET;
   },
-  // A shift is twelve hours; the guard re-reads the user on every request anyway.
+  // A shift is twelve hours at most; the guard ends idle and ended sessions sooner.
   session: { strategy: "jwt", maxAge: 12 * 60 * 60 },
+  // Secure cookies whenever the site is served over https.
+  get useSecureCookies() {
+    return getEnv().NEXTAUTH_URL.startsWith("https://");
+  },
   pages: { signIn: "/sign-in", error: "/sign-in" },
   providers: [
     CredentialsProvider({
@@ -28,15 +35,25 @@ export const authOptions: NextAuthOptions = {
       },
       async authorize(credentials, req) {
         try {
+          const trusted = parseTrustedProxies(getEnv().TRUSTED_PROXIES);
           const user = await verifySignIn(
             db(),
             { email: credentials?.email, password: credentials?.password },
-            clientIpFrom(req.headers),
+            clientAddress(forwardedFor(req.headers), trusted),
           );
-          return { id: String(user.id), email: user.email, name: user.name, role: user.role };
+          const sessionId = await startSession(db(), user.id);
+          return {
+            id: String(user.id),
+            email: user.email,
+            name: user.name,
+            role: user.role,
+            sessionId,
+          };
         } catch (error) {
           if (error instanceof SignInError) throw new Error(error.message);
-          throw error;
+          // Never let an internal error (SQL, bound values) reach the browser.
+          console.error("[auth] sign-in failed on our side", error);
+          throw new Error(SIGN_IN_UNAVAILABLE);
         }
       },
     }),
@@ -46,6 +63,7 @@ export const authOptions: NextAuthOptions = {
       if (user) {
         token.uid = Number(user.id);
         token.role = (user as { role?: unknown }).role as string;
+        token.sid = (user as { sessionId?: unknown }).sessionId as string;
       }
       return token;
     },
@@ -53,8 +71,31 @@ export const authOptions: NextAuthOptions = {
       if (session.user && typeof token.uid === "number" && isRole(token.role)) {
         session.user.id = token.uid;
         session.user.role = token.role;
+        if (typeof token.sid === "string") session.user.sid = token.sid;
       }
       return session;
+    },
+    redirect({ url, baseUrl }) {
+      return safeRedirect(url, baseUrl);
+    },
+  },
+  events: {
+    async signOut({ token }) {
+      const sid = token?.sid;
+      const uid = token?.uid;
+      if (typeof sid !== "string" || typeof uid !== "number" || !isRole(token.role)) return;
+      await endSession(db(), sid, "sign_out");
+      await db().transaction((trx) =>
+        appendLedger(
+          trx,
+          { id: uid, role: token.role as never },
+          {
+            action: "user.sign_out",
+            entityType: "user",
+            entityId: uid,
+          },
+        ),
+      );
     },
   },
 };

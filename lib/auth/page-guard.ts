@@ -3,6 +3,7 @@ import { ForbiddenError, UnauthenticatedError } from "../errors";
 import type { Actor } from "./actor";
 import { requireRole } from "./guard";
 import type { Role } from "./roles";
+import { SessionEndedError } from "./sessions";
 
 /**
  * The guard for pages: the same requireRole, with its failures turned into the
@@ -12,6 +13,7 @@ export async function pageActor(...roles: Role[]): Promise<Actor> {
   try {
     return await requireRole(...roles);
   } catch (error) {
+    if (error instanceof SessionEndedError) redirect(`/sign-in?ended=${error.reason}`);
     if (error instanceof UnauthenticatedError) redirect("/sign-in");
     if (error instanceof ForbiddenError) forbidden();
     throw error;

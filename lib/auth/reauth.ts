@@ -1,14 +1,61 @@
 import type { Knex } from "knex";
-import { ValidationError } from "../errors";
+import { TooManyRequestsError, UnauthenticatedError, ValidationError } from "../errors";
+import { appendLedger } from "../ledger/service";
 import { verifyPassword } from "./password";
+import { isRole } from "./roles";
+import { checkThrottle, recordAttempt, retryWords } from "./throttle";
 
-/** Signing re-asks the password: a signature is the signer's own act, not a left-open session's. */
-export async function confirmPassword(knex: Knex, userId: number, password: string): Promise<void> {
-  const row = (await knex("users").where({ id: userId }).first("password_hash")) as
-    { password_hash: string } | undefined;
-  if (!row || !(await verifyPassword(password, row.password_hash))) {
+/**
+ * Signing, discontinuing and account changes re-ask the password: a signature
+ * is the signer's own act, not a left-open session's. The check shares the
+ * sign-in throttle of the signer's account (a stolen session cannot guess the
+ * password without limit), and every refusal is a ledger row of its own —
+ * written outside the caller's transaction, so it stays when the write fails.
+ */
+export async function confirmPassword(
+  knex: Knex,
+  userId: number,
+  password: string,
+  now: Date = new Date(),
+): Promise<void> {
+  const user = (await knex("users")
+    .where({ id: userId })
+    .first("id", "email", "role", "password_hash")) as
+    { id: number; email: string; role: string; password_hash: string } | undefined;
+  if (!user || !isRole(user.role)) throw new UnauthenticatedError();
+  const actor = { id: user.id, role: user.role };
+  const emailKey = user.email.trim().toLowerCase();
+  const refuse = async (
+    outcome: "throttled" | "wrong",
+    after: Record<string, unknown>,
+  ): Promise<void> => {
+    await recordAttempt(knex, { emailKey, clientIp: null, purpose: "reauth", outcome }, now);
+    await knex.transaction((trx) =>
+      appendLedger(
+        trx,
+        actor,
+        {
+          action: "user.reauth_refused",
+          entityType: "user",
+          entityId: user.id,
+          after: { outcome, ...after },
+        },
+        now,
+      ),
+    );
+  };
+
+  const verdict = await checkThrottle(knex, { emailKey, clientIp: null }, now);
+  if (!verdict.allowed) {
+    await refuse("throttled", { retryAfterSeconds: verdict.retryAfterSeconds });
+    const message = `Too many wrong passwords: signing is locked for your account. Try again in ${retryWords(verdict.retryAfterSeconds)}; nothing was signed.`;
+    throw new TooManyRequestsError(message, verdict.retryAfterSeconds, { password: [message] });
+  }
+  if (!(await verifyPassword(password, user.password_hash))) {
+    await refuse("wrong", {});
     throw new ValidationError("The password does not match; nothing was signed.", {
       password: ["The password does not match your account."],
     });
   }
+  await recordAttempt(knex, { emailKey, clientIp: null, purpose: "reauth", outcome: "ok" }, now);
 }

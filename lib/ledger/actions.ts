@@ -28,6 +28,8 @@ export const LEDGER_ACTIONS = [
   "alert.acknowledge",
   "alert.resolve",
   "user.alert_email_preferences",
+  "user.reauth_refused",
+  "user.sign_out",
 ] as const;
 
 export type LedgerAction = (typeof LEDGER_ACTIONS)[number];

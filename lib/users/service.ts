@@ -2,6 +2,7 @@ import type { Knex } from "knex";
 import type { Actor } from "../auth/actor";
 import { assertRole } from "../auth/actor-queries";
 import { hashPassword } from "../auth/password";
+import { endUserSessions } from "../auth/sessions";
 import { duplicateIndex } from "../db-errors";
 import { ConflictError, NotFoundError, ValidationError } from "../errors";
 import { appendLedger } from "../ledger/service";
@@ -130,12 +131,25 @@ export async function updateUser(
       await trx("user_units").where({ user_id: input.id }).delete();
       await trx("user_units").insert([...new Set(input.unitIds)].map((unitId) => ({ user_id: input.id, unit_id: unitId })));
       const after = (await getUser(trx, input.id))!;
+      // A new password, role or set of units ends the user's open sessions at once.
+      const sameUnits =
+        JSON.stringify(ledgerView(before).unitIds.toSorted()) ===
+        JSON.stringify(ledgerView(after).unitIds.toSorted());
+      const endedSessions = passwordHash
+        ? await endUserSessions(trx, input.id, "password_changed")
+        : before.role !== after.role || !sameUnits
+          ? await endUserSessions(trx, input.id, "role_or_units_changed")
+          : 0;
       await appendLedger(trx, actor, {
         action: "user.update",
         entityType: "user",
         entityId: input.id,
         before: ledgerView(before),
-        after: { ...ledgerView(after), ...(passwordHash ? { passwordChanged: true } : {}) },
+        after: {
+          ...ledgerView(after),
+          ...(passwordHash ? { passwordChanged: true } : {}),
+          ...(endedSessions ? { sessionsEnded: endedSessions } : {}),
+        },
         rationale: input.rationale || null,
       });
       return after;
@@ -163,6 +177,7 @@ export async function setUserActive(
     await trx("users")
       .where({ id: input.id })
       .update({ active: input.active, version: before.version + 1, updated_at: trx.fn.now(3) });
+    if (!input.active) await endUserSessions(trx, input.id, "deactivated");
     const after = (await getUser(trx, input.id))!;
     await appendLedger(trx, actor, {
       action: input.active ? "user.reactivate" : "user.deactivate",

@@ -1,17 +1,22 @@
 import type { Metadata } from "next";
-import { getServerSession } from "next-auth";
 import { redirect } from "next/navigation";
 import { SignInForm } from "@/components/auth/SignInForm";
 import { Caution } from "@/components/ui/Caution";
 import { IconMark } from "@/components/ui/icons";
-import { authOptions } from "@/lib/auth/options";
+import { requireActor } from "@/lib/auth/guard";
+import { safeCallbackPath } from "@/lib/auth/redirects";
+import { SESSION_ENDED_MESSAGES } from "@/lib/auth/sessions";
 
 export const metadata: Metadata = { title: "Sign in" };
 
-function safeCallback(value: string | string[] | undefined): string {
-  const v = Array.isArray(value) ? value[0] : value;
-  // Only same-site paths: an open redirect would let a link send staff elsewhere.
-  return v && v.startsWith("/") && !v.startsWith("//") ? v : "/board";
+/** A live session goes straight on; an ended or idle one (or none) sees the form. */
+async function signedIn(): Promise<boolean> {
+  try {
+    await requireActor();
+    return true;
+  } catch {
+    return false;
+  }
 }
 
 export default async function SignInPage({
@@ -20,9 +25,10 @@ export default async function SignInPage({
   searchParams: Promise<Record<string, string | string[] | undefined>>;
 }) {
   const params = await searchParams;
-  const callbackUrl = safeCallback(params.callbackUrl);
-  const session = await getServerSession(authOptions);
-  if (session?.user?.id) redirect(callbackUrl);
+  // Only same-site paths: an open redirect would let a link send staff elsewhere.
+  const callbackUrl = safeCallbackPath(params.callbackUrl);
+  if (await signedIn()) redirect(callbackUrl);
+  const ended = params.ended === "idle" || params.ended === "ended" ? params.ended : null;
   return (
     <main className="flex min-h-screen items-center justify-center px-4 py-10">
       <div className="w-full max-w-sm space-y-6">
@@ -32,7 +38,18 @@ export default async function SignInPage({
         </div>
         <div className="rounded-card border border-border bg-surface p-6 shadow-card">
           <h1 className="mb-1 text-xl font-semibold">Sign in</h1>
-          <p className="mb-5 text-sm text-ink-muted">Oxygen and ventilation orders for your units.</p>
+          <p className="mb-5 text-sm text-ink-muted">
+            Oxygen and ventilation orders for your units.
+          </p>
+          {ended ? (
+            <p
+              role="status"
+              className="mb-4 rounded-md border border-border bg-surface-muted px-3 py-2 text-sm"
+              data-testid="session-ended"
+            >
+              {SESSION_ENDED_MESSAGES[ended]}
+            </p>
+          ) : null}
           <SignInForm callbackUrl={callbackUrl} />
         </div>
         <Caution compact />
