@@ -22,6 +22,9 @@ const nextConfig = (phase) => ({
           { key: "X-Frame-Options", value: "DENY" },
           { key: "X-Content-Type-Options", value: "nosniff" },
           { key: "Referrer-Policy", value: "same-origin" },
+          // Browsers honour HSTS only when it arrives over https (RFC 6797 §8.1),
+          // so the plain-http demo on loopback is unaffected.
+          { key: "Strict-Transport-Security", value: "max-age=31536000; includeSubDomains" },
         ],
       },
     ];

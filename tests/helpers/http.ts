@@ -14,7 +14,8 @@ export class Session {
 
   async fetch(path: string, init: RequestInit = {}): Promise<Response> {
     const headers = new Headers(init.headers);
-    if (this.cookies.size) headers.set("cookie", [...this.cookies].map(([k, v]) => `${k}=${v}`).join("; "));
+    if (this.cookies.size)
+      headers.set("cookie", [...this.cookies].map(([k, v]) => `${k}=${v}`).join("; "));
     const res = await fetch(`${BASE_URL}${path}`, { ...init, headers, redirect: "manual" });
     this.remember(res);
     return res;
@@ -27,9 +28,31 @@ export class Session {
     await s.fetch("/api/auth/callback/credentials", {
       method: "POST",
       headers: { "content-type": "application/x-www-form-urlencoded" },
-      body: new URLSearchParams({ csrfToken: csrf.csrfToken, email, password, json: "true" }).toString(),
+      body: new URLSearchParams({
+        csrfToken: csrf.csrfToken,
+        email,
+        password,
+        json: "true",
+      }).toString(),
     });
     return s;
+  }
+
+  /** A second client holding the same cookies now: a copied (stolen) session token. */
+  copy(): Session {
+    const other = new Session();
+    for (const [k, v] of this.cookies) other.cookies.set(k, v);
+    return other;
+  }
+
+  /** NextAuth's sign-out over HTTP (CSRF token, then the POST). */
+  async signOut(): Promise<void> {
+    const csrf = (await (await this.fetch("/api/auth/csrf")).json()) as { csrfToken: string };
+    await this.fetch("/api/auth/signout", {
+      method: "POST",
+      headers: { "content-type": "application/x-www-form-urlencoded" },
+      body: new URLSearchParams({ csrfToken: csrf.csrfToken, json: "true" }).toString(),
+    });
   }
 
   json(path: string, method: string, body: unknown): Promise<Response> {

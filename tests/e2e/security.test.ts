@@ -1,0 +1,126 @@
+import { afterAll, describe, expect, it } from "vitest";
+import { hashPassword } from "@/lib/auth/password";
+import { SIGN_IN_FAILED } from "@/lib/auth/sign-in";
+import { closeDb } from "@/lib/db";
+import { updateUser } from "@/lib/users/service";
+import { DEMO_PASSWORD } from "../helpers/browser";
+import { actorByEmail, appDb, SEEDED, uniqueEmail } from "../helpers/db";
+import { Session } from "../helpers/http";
+
+afterAll(async () => {
+  await closeDb();
+});
+
+async function newNurse() {
+  const email = uniqueEmail("e2e-sec");
+  const [id] = await appDb()("users").insert({
+    email,
+    name: "Probe Nurse",
+    role: "nurse",
+    password_hash: await hashPassword(DEMO_PASSWORD),
+  });
+  const unit = (await appDb()("units").where({ code: "MICU" }).first("id")) as { id: number };
+  await appDb()("user_units").insert({ user_id: Number(id), unit_id: unit.id });
+  return { id: Number(id), email, unitId: unit.id };
+}
+
+/** The credentials callback as a browser would post it, with extra headers. */
+async function postCredentials(email: string, password: string, headers: Record<string, string>) {
+  const s = new Session();
+  const csrf = (await (await s.fetch("/api/auth/csrf")).json()) as { csrfToken: string };
+  const res = await s.fetch("/api/auth/callback/credentials", {
+    method: "POST",
+    headers: { "content-type": "application/x-www-form-urlencoded", ...headers },
+    body: new URLSearchParams({
+      csrfToken: csrf.csrfToken,
+      email,
+      password,
+      json: "true",
+    }).toString(),
+  });
+  return { session: s, body: await res.text(), location: res.headers.get("location") ?? "" };
+}
+
+describe("sign-in over HTTP", () => {
+  it("answers a sign-in with an X-Forwarded-For longer than 64 characters with the fixed message, and records it", async () => {
+    const { email } = await newNurse();
+    const forwarded = `${"9".repeat(40)}.${"8".repeat(40)}`;
+    const wrong = await postCredentials(email, "not-the-password", {
+      "x-forwarded-for": forwarded,
+    });
+    const right = await postCredentials(email, DEMO_PASSWORD, { "x-forwarded-for": forwarded });
+    for (const answer of [wrong, right]) {
+      // Nothing of the database's own error text reaches the browser.
+      expect(`${answer.body} ${answer.location}`).not.toMatch(
+        /insert|sign_in_attempts|values|sql/i,
+      );
+    }
+    expect(decodeURIComponent(`${wrong.body}${wrong.location}`)).toContain(SIGN_IN_FAILED);
+    expect((await right.session.fetch("/api/v1/me")).status).toBe(200);
+    const rows = (await appDb()("sign_in_attempts")
+      .where({ email_key: email })
+      .orderBy("id")
+      .select("client_ip", "outcome")) as { client_ip: string; outcome: string }[];
+    expect(rows).toEqual([
+      { client_ip: "invalid", outcome: "wrong" },
+      { client_ip: "invalid", outcome: "ok" },
+    ]);
+  });
+
+  it("keeps the open-redirect payloads of the sign-in page on the site", async () => {
+    const nurse = await Session.signIn(SEEDED.nurse);
+    for (const payload of [
+      "/%5Cevil.example",
+      "/%09/evil.example",
+      "//evil.example",
+      "https://evil.example",
+    ]) {
+      const res = await nurse.fetch(`/sign-in?callbackUrl=${payload}`);
+      expect(res.status).toBe(307);
+      expect(res.headers.get("location")).toBe("/board");
+    }
+  });
+});
+
+describe("sessions that end", () => {
+  it("refuses the old session token after sign-out", async () => {
+    const { email } = await newNurse();
+    const session = await Session.signIn(email);
+    expect((await session.fetch("/api/v1/me")).status).toBe(200);
+    const stolen = session.copy();
+    await session.signOut();
+    const res = await stolen.fetch("/api/v1/me");
+    expect(res.status).toBe(401);
+    expect(((await res.json()) as { error: { message: string } }).error.message).toMatch(
+      /session was ended/,
+    );
+    // A page answers with the sign-in page and the reason.
+    const page = await stolen.fetch("/board");
+    expect(page.status).toBe(307);
+    expect(page.headers.get("location")).toMatch(/\/sign-in\?ended=ended$/);
+  });
+
+  it("refuses the old session token after an administrator resets the password", async () => {
+    const user = await newNurse();
+    const session = await Session.signIn(user.email);
+    expect((await session.fetch("/api/v1/me")).status).toBe(200);
+    const admin = await actorByEmail(SEEDED.admin);
+    const { version } = (await appDb()("users").where({ id: user.id }).first("version")) as {
+      version: number;
+    };
+    await updateUser(appDb(), admin, {
+      id: user.id,
+      version,
+      email: user.email,
+      name: "Probe Nurse",
+      role: "nurse",
+      unitIds: [user.unitId],
+      pressureUnit: "mmHg",
+      password: "a-fresh-password-789",
+      rationale: "Password reset at the service desk",
+    });
+    expect((await session.fetch("/api/v1/me")).status).toBe(401);
+    const again = await Session.signIn(user.email, "a-fresh-password-789");
+    expect((await again.fetch("/api/v1/me")).status).toBe(200);
+  });
+});
