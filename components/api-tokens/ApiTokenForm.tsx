@@ -8,11 +8,16 @@ import { createApiTokenAction } from "@/app/(app)/admin/api-tokens/actions";
 import { useHydrated } from "@/components/bedside/BedsideFormParts";
 import { Button } from "@/components/ui/Button";
 import { Field, inputClasses } from "@/components/ui/Field";
-import { apiTokenCreateSchema, type ApiTokenScope } from "@/lib/api-tokens/schema";
+import {
+  apiTokenCreateSchema,
+  TOKEN_DAYS_DEFAULT,
+  TOKEN_DAYS_MAX,
+  type ApiTokenScope,
+} from "@/lib/api-tokens/schema";
 import { UnitCheckboxes } from "@/components/units/UnitCheckboxes";
 
-type Values = { name: string; scope: ApiTokenScope; unitIds: number[] };
-const FIELDS = ["name", "scope", "unitIds"] as const;
+type Values = { name: string; scope: ApiTokenScope; unitIds: number[]; validDays: number };
+const FIELDS = ["name", "scope", "unitIds", "validDays"] as const;
 
 /** Create a token; the secret is shown once, with a way to copy it. */
 export function ApiTokenForm({ units }: { units: { id: number; label: string }[] }) {
@@ -30,7 +35,7 @@ export function ApiTokenForm({ units }: { units: { id: number; label: string }[]
     formState: { errors, isSubmitting },
   } = useForm<Values>({
     resolver: zodResolver(apiTokenCreateSchema) as unknown as Resolver<Values>,
-    defaultValues: { name: "", scope: "write", unitIds: [] },
+    defaultValues: { name: "", scope: "write", unitIds: [], validDays: TOKEN_DAYS_DEFAULT },
   });
 
   const onSubmit = handleSubmit(async (values) => {
@@ -125,6 +130,29 @@ export function ApiTokenForm({ units }: { units: { id: number; label: string }[]
               )}
             </Field>
           </div>
+          <Field
+            id="token-valid-days"
+            label="Valid for (days)"
+            hint={`${TOKEN_DAYS_DEFAULT} days unless you choose otherwise; at most ${TOKEN_DAYS_MAX}. After that the token is refused.`}
+            error={errors.validDays?.message}
+          >
+            {(d, invalid) => (
+              <input
+                id="token-valid-days"
+                type="number"
+                inputMode="numeric"
+                min={1}
+                max={TOKEN_DAYS_MAX}
+                step={1}
+                className={`${inputClasses} tabular sm:w-40`}
+                aria-invalid={invalid}
+                aria-describedby={d}
+                {...register("validDays", {
+                  setValueAs: (v: unknown) => (v === "" || v === null ? undefined : Number(v)),
+                })}
+              />
+            )}
+          </Field>
           <Controller
             control={control}
             name="unitIds"

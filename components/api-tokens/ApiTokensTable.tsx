@@ -56,6 +56,7 @@ export function ApiTokensTable({ tokens }: { tokens: ApiTokenSummary[] }) {
               <th scope="col" className="px-3 py-2">Units</th>
               <th scope="col" className="px-3 py-2">Status</th>
               <th scope="col" className="px-3 py-2">Created</th>
+              <th scope="col" className="px-3 py-2">Expires</th>
               <th scope="col" className="px-3 py-2">Last used</th>
               <th scope="col" className="px-3 py-2"><span className="sr-only">Actions</span></th>
             </tr>
@@ -70,14 +71,17 @@ export function ApiTokensTable({ tokens }: { tokens: ApiTokenSummary[] }) {
                 <td className="px-3 py-2">
                   {t.revokedAt ? (
                     <StatusBadge status="neutral" label={`Revoked ${when(t.revokedAt)}${t.revokedBy ? ` by ${t.revokedBy}` : ""}`} />
+                  ) : t.expired ? (
+                    <StatusBadge status="neutral" label={`Expired ${when(t.expiresAt)}`} />
                   ) : (
                     <StatusBadge status="in-band" label="Active" />
                   )}
                 </td>
                 <td className="px-3 py-2 tabular">{when(t.createdAt)} by {t.createdBy}</td>
+                <td className="px-3 py-2 tabular">{when(t.expiresAt)}</td>
                 <td className="px-3 py-2 tabular">{when(t.lastUsedAt)}</td>
                 <td className="px-3 py-2 text-right">
-                  {t.revokedAt ? null : (
+                  {t.revokedAt || t.expired ? null : (
                     <Button variant="danger" onClick={() => setTarget(t)}>
                       Revoke…<span className="sr-only"> {t.name}</span>
                     </Button>

@@ -3,7 +3,7 @@
 import { zodResolver } from "@hookform/resolvers/zod";
 import { useForm } from "react-hook-form";
 import { cosignOrderAction } from "@/app/(app)/orders/actions";
-import { SIGNATURE_MEANING } from "@/lib/orders/devices";
+import { DESIGNATED_COSIGN_MEANING, SIGNATURE_MEANING } from "@/lib/orders/devices";
 import { cosignSchema } from "@/lib/orders/schema";
 import { SignedStepFooter, SignPasswordField, useSignedOrderStep } from "./SignedOrderStep";
 
@@ -11,15 +11,25 @@ const formSchema = cosignSchema.pick({ password: true });
 type CosignValues = { password: string };
 const FIELDS = ["password"] as const;
 
-/** A physician co-signs a verbal or telephone order by re-entering the password. */
+/**
+ * The prescriber named on a verbal or telephone order, or a physician the unit
+ * designates, co-signs it by re-entering the password. The page shows this
+ * form only to them; the server refuses anyone else.
+ */
 export function CosignForm({
   orderId,
   version,
   enteredBy,
+  prescriber,
+  asPrescriber,
 }: {
   orderId: number;
   version: number;
   enteredBy: string;
+  /** The prescriber the order names. */
+  prescriber: string;
+  /** The signed-in physician is that prescriber (else a designated co-signer). */
+  asPrescriber: boolean;
 }) {
   const form = useForm<CosignValues>({
     resolver: zodResolver(formSchema),
@@ -44,12 +54,21 @@ export function CosignForm({
       <h2 id="cosign-heading" className="text-base font-semibold">
         Co-sign this order
       </h2>
-      <p className="text-sm text-ink-muted">
-        Entered by {enteredBy} from your verbal or telephone order. Check every field above against
-        what you ordered; co-signing makes it active and records you as its signer.
-      </p>
+      {asPrescriber ? (
+        <p className="text-sm text-ink-muted">
+          Entered by {enteredBy} from your verbal or telephone order. Check every field above
+          against what you ordered; co-signing makes it active and records you as its signer.
+        </p>
+      ) : (
+        <p className="text-sm text-ink-muted">
+          Entered by {enteredBy} from {prescriber}&apos;s verbal or telephone order. You may co-sign
+          it as a co-signer this unit designates: check every field above; co-signing makes it
+          active and records you as its signer.
+        </p>
+      )}
       <p id="cosign-meaning" className="rounded-md bg-accent-soft px-3 py-2 text-sm">
-        By co-signing you state: <q>{SIGNATURE_MEANING}</q>
+        By co-signing you state:{" "}
+        <q>{asPrescriber ? SIGNATURE_MEANING : DESIGNATED_COSIGN_MEANING}</q>
       </p>
       <SignPasswordField
         id="cosign-password"

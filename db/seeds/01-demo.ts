@@ -74,6 +74,13 @@ export async function seed(knex: Knex): Promise<void> {
       );
     }
 
+    // Each unit designates its attending physician to co-sign verbal orders naming another
+    // prescriber; Dr Ines Varga, on both units, co-signs only the orders that name her.
+    await trx("unit_cosigners").insert([
+      { unit_id: unitIds.get("MICU")!, user_id: userIds.get("tobias.renwick@kestrel.example")! },
+      { unit_id: unitIds.get("RESP")!, user_id: userIds.get("amara.obi-lund@kestrel.example")! },
+    ]);
+
     const occupied = UNITS.flatMap((u) => u.occupied.map((n) => `${u.code}:${n}`));
     const patients = demoPatients(occupied.length);
     for (const [i, key] of occupied.entries()) {

@@ -34,7 +34,7 @@ export type AlertEmailInput = {
 
 export type AlertEmail = { subject: string; text: string; html: string };
 
-function escapeHtml(s: string): string {
+export function escapeHtml(s: string): string {
   return s
     .replace(/&/g, "&amp;")
     .replace(/</g, "&lt;")
@@ -42,7 +42,8 @@ function escapeHtml(s: string): string {
     .replace(/"/g, "&quot;");
 }
 
-function when(at: Date, timeZone: string): string {
+/** A moment on the unit's clock, with the zone named. */
+export function when(at: Date, timeZone: string): string {
   const local = new Intl.DateTimeFormat("en-GB", {
     timeZone,
     day: "2-digit",

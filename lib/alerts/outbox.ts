@@ -4,7 +4,7 @@ import { appendLedger, lockPatientChain, SYSTEM_ACTOR } from "../ledger/service"
 import { alertMessageId, composeAlertEmail, retryDelayMs } from "./email";
 import { ESCALATION_DUTIES, type AlertKind } from "./kinds";
 
-type Recipient = { id: number; email: string; name: string };
+export type Recipient = { id: number; email: string; name: string };
 
 /**
  * Who an escalation level reaches now: the shift's care-team assignment for
@@ -164,6 +164,45 @@ export async function queueAlertMail(
     optedOut,
     excluded,
   };
+}
+
+/**
+ * Writes one e-mail that belongs to no alert (`alert_id` null, e.g. an order
+ * notice) into the outbox, inside the caller's transaction; the worker
+ * delivers it like alert mail. The Message-ID is unique, so a repeated step
+ * queues it once. Returns the Message-ID.
+ */
+export async function queueUserMail(
+  trx: Knex.Transaction,
+  purpose: string,
+  recipient: Recipient,
+  compose: (env: { baseUrl: string; domain: string }) => {
+    subject: string;
+    text: string;
+    html: string;
+    messageId: string;
+  },
+  now: Date,
+): Promise<string> {
+  const env = getEnv();
+  const mail = compose({ baseUrl: env.NEXTAUTH_URL, domain: mailDomain(env.SMTP_FROM) });
+  await trx("mail_outbox")
+    .insert({
+      alert_id: null,
+      purpose,
+      recipient_user_id: recipient.id,
+      to_address: recipient.email,
+      subject: mail.subject,
+      text_body: mail.text,
+      html_body: mail.html,
+      message_id: mail.messageId,
+      state: "pending",
+      next_attempt_at: now,
+      created_at: now,
+    })
+    .onConflict()
+    .ignore();
+  return mail.messageId;
 }
 
 /**

@@ -10,6 +10,10 @@ export type ApiTokenSummary = {
   units: { id: number; code: string }[];
   createdBy: string;
   createdAt: string;
+  /** After this moment the token is refused (401), like a revoked one. */
+  expiresAt: string;
+  /** Expired when the list was read. */
+  expired: boolean;
   revokedAt: string | null;
   revokedBy: string | null;
   lastUsedAt: string | null;
@@ -21,6 +25,7 @@ type Row = {
   prefix: string;
   scope: ApiTokenScope;
   created_at: Date;
+  expires_at: Date;
   revoked_at: Date | null;
   last_used_at: Date | null;
   created_by_name: string;
@@ -38,6 +43,7 @@ async function summaries(knex: Knex | Knex.Transaction, ids?: number[]): Promise
       "t.prefix",
       "t.scope",
       "t.created_at",
+      "t.expires_at",
       "t.revoked_at",
       "t.last_used_at",
       "c.name as created_by_name",
@@ -45,6 +51,7 @@ async function summaries(knex: Knex | Knex.Transaction, ids?: number[]): Promise
     );
   if (ids) q.whereIn("t.id", ids);
   const rows = (await q) as Row[];
+  const now = Date.now();
   const units = (await knex("api_token_units as tu")
     .join("units as u", "u.id", "tu.unit_id")
     .whereIn(
@@ -61,6 +68,8 @@ async function summaries(knex: Knex | Knex.Transaction, ids?: number[]): Promise
     units: units.filter((u) => u.api_token_id === r.id).map((u) => ({ id: u.id, code: u.code })),
     createdBy: r.created_by_name,
     createdAt: r.created_at.toISOString(),
+    expiresAt: r.expires_at.toISOString(),
+    expired: r.expires_at.getTime() <= now,
     revokedAt: r.revoked_at?.toISOString() ?? null,
     revokedBy: r.revoked_by_name,
     lastUsedAt: r.last_used_at?.toISOString() ?? null,

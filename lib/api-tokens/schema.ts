@@ -5,6 +5,11 @@ import { z } from "zod";
 export const API_TOKEN_SCOPES = ["read", "write"] as const;
 export type ApiTokenScope = (typeof API_TOKEN_SCOPES)[number];
 
+/** A token lives a year unless the admin chooses otherwise, and never longer than two. */
+export const TOKEN_DAYS_DEFAULT = 365;
+export const TOKEN_DAYS_MAX = 730;
+const validDaysMessage = `Valid for must be a whole number of days between 1 and ${TOKEN_DAYS_MAX}.`;
+
 export const apiTokenCreateSchema = z.object({
   name: z
     .string()
@@ -16,6 +21,12 @@ export const apiTokenCreateSchema = z.object({
     .array(z.number().int().positive())
     .min(1, "Choose at least one unit.")
     .max(50, "At most 50 units."),
+  validDays: z
+    .number({ error: validDaysMessage })
+    .int(validDaysMessage)
+    .min(1, validDaysMessage)
+    .max(TOKEN_DAYS_MAX, validDaysMessage)
+    .default(TOKEN_DAYS_DEFAULT),
 });
 export type ApiTokenCreateInput = z.input<typeof apiTokenCreateSchema>;
 

@@ -33,7 +33,9 @@ export type TokenActor = {
 
 /**
  * Creates a token (admin only): 32 random bytes, base64url, shown once in the
- * answer; only its hash, a short prefix and the scope are kept.
+ * answer; only its hash, a short prefix for the admin's list, the scope and
+ * the expiry are kept. The ledger names it by id and name only: the ledger
+ * cannot be purged, so no part of the secret goes there.
  */
 export async function createApiToken(
   knex: Knex,
@@ -59,6 +61,7 @@ export async function createApiToken(
       scope: input.scope,
       created_by: actor.id,
       created_at: now,
+      expires_at: new Date(now.getTime() + input.validDays * 86_400_000),
     });
     const tokenId = Number(id);
     await trx("api_token_units").insert(unitIds.map((unitId) => ({ api_token_id: tokenId, unit_id: unitId })));
@@ -70,7 +73,12 @@ export async function createApiToken(
         action: "api_token.create",
         entityType: "api_token",
         entityId: tokenId,
-        after: { name: created.name, prefix: created.prefix, scope: created.scope, unitIds },
+        after: {
+          name: created.name,
+          scope: created.scope,
+          unitIds,
+          expiresAt: created.expiresAt,
+        },
       },
       now,
     );
@@ -104,7 +112,7 @@ export async function revokeApiToken(
         entityType: "api_token",
         entityId: input.id,
         before: { revokedAt: null },
-        after: { name: after.name, prefix: after.prefix, revokedAt: after.revokedAt },
+        after: { name: after.name, revokedAt: after.revokedAt },
         rationale: input.rationale,
       },
       now,
@@ -115,8 +123,8 @@ export async function revokeApiToken(
 
 /**
  * Authenticates `Authorization: Bearer tdm_…` for the import API. No or a
- * malformed header, an unknown or a revoked token: 401. A read token on a
- * write endpoint: 403. Marks the token as used.
+ * malformed header, an unknown, revoked or expired token: 401. A read token on
+ * a write endpoint: 403. Marks the token as used.
  */
 export async function authenticateApiToken(
   knex: Knex,
@@ -132,10 +140,16 @@ export async function authenticateApiToken(
   if (!TOKEN_PATTERN.test(token)) {
     throw new UnauthenticatedError("This API token is not valid or has been revoked.");
   }
-  const row = (await knex("api_tokens").where({ token_hash: hashApiToken(token) }).first("id", "name", "scope", "revoked_at")) as
-    | { id: number; name: string; scope: ApiTokenScope; revoked_at: Date | null }
+  const row = (await knex("api_tokens")
+    .where({ token_hash: hashApiToken(token) })
+    .first("id", "name", "scope", "revoked_at", "expires_at")) as
+    | { id: number; name: string; scope: ApiTokenScope; revoked_at: Date | null; expires_at: Date }
     | undefined;
   if (!row || row.revoked_at) throw new UnauthenticatedError("This API token is not valid or has been revoked.");
+  // Only the holder of the secret reaches this, so saying why helps them and tells no one else anything.
+  if (row.expires_at.getTime() <= now.getTime()) {
+    throw new UnauthenticatedError("This API token has expired; an administrator can create a new one.");
+  }
   if (need === "write" && row.scope !== "write") {
     throw new ForbiddenError("This API token may only read; imports need a token with the write scope.");
   }

@@ -171,6 +171,10 @@ export const TARGET_BAND_PRESETS = [
 export const SIGNATURE_MEANING =
   "I am the prescriber of this oxygen order and I have reviewed it for this patient.";
 
+/** What a co-signature by a physician the unit designates, not the prescriber, states. */
+export const DESIGNATED_COSIGN_MEANING =
+  "I co-sign this oxygen order as a physician this unit designates, for its named prescriber, and I have reviewed it for this patient.";
+
 /** The kind of respiratory support each device is, as the ARDS definitions classify it. */
 export const RESPIRATORY_SUPPORT: Record<Device, RespiratorySupport> = {
   room_air: "none",

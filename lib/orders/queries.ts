@@ -1,4 +1,5 @@
 import type { Knex } from "knex";
+import { unitCosigners, type Cosigners } from "./cosigners";
 import type { Device } from "./devices";
 
 export type OrderStatus = "draft" | "awaiting_cosign" | "active" | "superseded" | "discontinued";
@@ -205,6 +206,8 @@ export type CosignQueueEntry = OrderView & {
   unitCode: string;
   /** The unit's time zone: the queue shows times on it. */
   timeZone: string;
+  /** Who may co-sign it: the queue offers co-signing only to them. */
+  cosigners: Cosigners;
 };
 
 /** Verbal and telephone orders in the caller's units still waiting for a physician's co-signature. */
@@ -232,11 +235,16 @@ export async function listCosignQueue(
     unit_code: string;
     time_zone: string;
   })[];
-  return rows.map((r) => ({
-    ...toOrderView(r),
-    bedLabel: r.bed_label,
-    patientName: r.patient_name,
-    unitCode: r.unit_code,
-    timeZone: r.time_zone,
-  }));
+  const designated = await unitCosigners(knex, [...new Set(rows.map((r) => r.unit_id))]);
+  return rows.map((r) => {
+    const order = toOrderView(r);
+    return {
+      ...order,
+      bedLabel: r.bed_label,
+      patientName: r.patient_name,
+      unitCode: r.unit_code,
+      timeZone: r.time_zone,
+      cosigners: { prescriber: order.prescriber, designated: designated.get(r.unit_id) ?? [] },
+    };
+  });
 }

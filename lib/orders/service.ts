@@ -2,20 +2,23 @@ import type { Knex } from "knex";
 import type { Actor } from "../auth/actor";
 import { assertRole } from "../auth/actor-queries";
 import { confirmPassword } from "../auth/reauth";
-import { ConflictError, NotFoundError, ValidationError } from "../errors";
+import { ConflictError, ForbiddenError, NotFoundError, ValidationError } from "../errors";
 import { once } from "../idempotency";
+import { queueUserMail } from "../alerts/outbox";
 import { afterOrderChanged } from "../alerts/service";
 import { appendLedger } from "../ledger/service";
 import { duplicateIndex, isLockConflict } from "../db-errors";
 import { findOpenAdmission, type OpenAdmission } from "../patients/access";
 import { parseInput } from "../validation";
 import {
+  DESIGNATED_COSIGN_MEANING,
   DEVICE_PROFILES,
   estimateFio2,
   SIGNATURE_MEANING,
   stepTableFitsDevice,
   stepTableMismatchMessage,
 } from "./devices";
+import { cosignersFor, cosignersText, mayCosign } from "./cosigners";
 import { getCurrentOrder, getOrder, type OrderView } from "./queries";
 import {
   cosignSchema,
@@ -25,6 +28,11 @@ import {
   type DiscontinueInput,
   type OrderInput,
 } from "./schema";
+import {
+  composeOrderSupersededEmail,
+  ORDER_SUPERSEDED_PURPOSE,
+  orderSupersededMessageId,
+} from "./supersede-email";
 
 type ParsedOrder = ReturnType<typeof orderInputSchema.parse>;
 
@@ -168,6 +176,18 @@ async function writeOrderInTransaction(
     updated_at: now,
   });
   const newId = Number(orderId);
+  // A signed order replaced by a verbal or telephone one: its prescriber hears of it.
+  const notice =
+    before && before.signedBy && input.entryMode !== "written"
+      ? await noticeToPrescriber(
+          trx,
+          actor,
+          before,
+          { id: newId, entryMode: input.entryMode, prescriberId: input.prescriberId },
+          admission,
+          now,
+        )
+      : null;
   if (current) {
     await trx("orders").where({ id: current.id }).update({ superseded_by_order_id: newId });
     await appendLedger(
@@ -181,7 +201,7 @@ async function writeOrderInTransaction(
         unitId: admission.unitId,
         before,
         after: await getOrder(trx, current.id),
-        rationale: `Superseded by order #${newId}`,
+        rationale: `Superseded by order #${newId}${notice ? `; ${notice.words}` : ""}`,
       },
       now,
     );
@@ -197,13 +217,75 @@ async function writeOrderInTransaction(
       entityId: newId,
       patientId: input.patientId,
       unitId: admission.unitId,
-      after: { order, bedsideSettings: settings },
+      after: {
+        order,
+        bedsideSettings: settings,
+        ...(notice ? { supersededPrescriberNotice: notice.detail } : {}),
+      },
       rationale: input.rationale,
     },
     now,
   );
   await afterOrderChanged(trx, actor, admission, now);
   return order;
+}
+
+/**
+ * Queues the e-mail to the prescriber of a signed order that a verbal or
+ * telephone order replaces, in the writer's transaction, and says what was
+ * done for the ledger (a deactivated prescriber gets none).
+ */
+async function noticeToPrescriber(
+  trx: Knex.Transaction,
+  actor: Actor,
+  replaced: OrderView,
+  entered: { id: number; entryMode: "verbal" | "telephone"; prescriberId: number },
+  admission: OpenAdmission,
+  now: Date,
+): Promise<{ words: string; detail: Record<string, unknown> }> {
+  const recipient = (await trx("users")
+    .where({ id: replaced.prescriber.id, active: true })
+    .first("id", "email", "name")) as { id: number; email: string; name: string } | undefined;
+  if (!recipient) {
+    return {
+      words: `its prescriber, ${replaced.prescriber.name}, is no longer active and was not e-mailed`,
+      detail: { orderId: replaced.id, recipientUserId: replaced.prescriber.id, mailed: false },
+    };
+  }
+  const where = (await trx("beds as b")
+    .join("units as u", "u.id", "b.unit_id")
+    .where("b.id", admission.bedId)
+    .first("b.label", "u.code", "u.name")) as { label: string; code: string; name: string };
+  const newPrescriber = (await trx("users").where({ id: entered.prescriberId }).first("name")) as {
+    name: string;
+  };
+  const messageId = await queueUserMail(
+    trx,
+    ORDER_SUPERSEDED_PURPOSE,
+    recipient,
+    ({ baseUrl, domain }) => ({
+      ...composeOrderSupersededEmail({
+        oldOrderId: replaced.id,
+        newOrderId: entered.id,
+        entryMode: entered.entryMode,
+        enteredBy: actor.name,
+        newPrescriber: newPrescriber.name,
+        fromRecipient: entered.prescriberId === recipient.id,
+        unitCode: where.code,
+        unitName: where.name,
+        bedLabel: where.label,
+        timeZone: admission.timeZone,
+        at: now,
+        baseUrl,
+      }),
+      messageId: orderSupersededMessageId(replaced.id, recipient.id, domain),
+    }),
+    now,
+  );
+  return {
+    words: `its prescriber, ${recipient.name}, is e-mailed`,
+    detail: { orderId: replaced.id, recipientUserId: recipient.id, mailed: true, messageId },
+  };
 }
 
 async function applyStartingSettings(trx: Knex.Transaction, order: OrderView, now: Date) {
@@ -265,7 +347,10 @@ async function lockOrder(
   return order;
 }
 
-/** A physician co-signs a verbal or telephone order; it becomes active. */
+/**
+ * The prescriber named on a verbal or telephone order, or a physician its unit
+ * designates, co-signs it; it becomes active.
+ */
 export async function cosignOrder(knex: Knex, actor: Actor, raw: CosignInput): Promise<OrderView> {
   assertRole(actor, ["physician"]);
   const input = parseInput(cosignSchema, raw);
@@ -277,6 +362,10 @@ export async function cosignOrder(knex: Knex, actor: Actor, raw: CosignInput): P
         `Order #${before.id} is ${before.status.replace("_", " ")}, not awaiting co-signature.`,
       );
     }
+    // The co-signature says the order is what its prescriber meant: only they,
+    // or a physician the unit designates, may give it.
+    const cosigners = await cosignersFor(trx, before);
+    if (!mayCosign(actor.id, cosigners)) throw new ForbiddenError(cosignersText(cosigners));
     const now = new Date();
     await trx("orders")
       .where({ id: before.id })
@@ -286,7 +375,8 @@ export async function cosignOrder(knex: Knex, actor: Actor, raw: CosignInput): P
         cosigned_at: now,
         signed_by: actor.id,
         signed_at: now,
-        signature_meaning: SIGNATURE_MEANING,
+        signature_meaning:
+          actor.id === before.prescriber.id ? SIGNATURE_MEANING : DESIGNATED_COSIGN_MEANING,
         version: before.version + 1,
         updated_at: now,
       });
@@ -302,7 +392,10 @@ export async function cosignOrder(knex: Knex, actor: Actor, raw: CosignInput): P
         unitId: before.unitId,
         before,
         after,
-        rationale: `Co-signed ${before.entryMode} order entered by ${before.enteredBy.name}`,
+        rationale:
+          actor.id === before.prescriber.id
+            ? `Co-signed ${before.entryMode} order entered by ${before.enteredBy.name}`
+            : `Co-signed ${before.entryMode} order entered by ${before.enteredBy.name} from ${before.prescriber.name}, as a co-signer the unit designates`,
       },
       now,
     );

@@ -297,6 +297,13 @@ describe("a verbal order", () => {
       expect(rowText).toContain("Hana Whitlock");
       expect(rowText).toMatch(/Telephone from Dr Ines Varga/);
       expect(rowText).toMatch(/\d+ min/);
+      // Co-signing is offered only to the prescriber an order names or a designated co-signer: the
+      // demo's ward telephone order names Dr Amara Obi-Lund, and Dr Ines Varga is designated nowhere.
+      for (const other of await page.getByTestId("cosign-row").filter({ hasText: "from Dr Amara Obi-Lund" }).all()) {
+        expect(await other.getByRole("link", { name: /^Review and co-sign/ }).count()).toBe(0);
+        expect(await other.getByRole("link", { name: /^Review order #/ }).count()).toBe(1);
+        expect(await other.innerText()).toMatch(/Dr Amara Obi-Lund( or a designated co-signer)? co-signs/);
+      }
       expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(1024);
       await page.screenshot({ path: `${ARTIFACTS}/order-cosign-queue-day.png`, fullPage: true });
 

@@ -4,10 +4,11 @@ import { afterAll, describe, expect, it } from "vitest";
 import { POST as postHl7 } from "@/app/api/v1/imports/hl7/route";
 import { POST as postMonitor } from "@/app/api/v1/imports/monitor/route";
 import { GET as getFhir } from "@/app/api/v1/patients/[patientId]/fhir/route";
+import { TOKEN_DAYS_MAX } from "@/lib/api-tokens/schema";
 import { createApiToken, revokeApiToken } from "@/lib/api-tokens/service";
 import { listApiTokens } from "@/lib/api-tokens/queries";
 import { closeDb } from "@/lib/db";
-import { ForbiddenError } from "@/lib/errors";
+import { ForbiddenError, ValidationError } from "@/lib/errors";
 import { writeOrder } from "@/lib/orders/service";
 import { actorByEmail, admitTestPatient, appDb, SEEDED } from "../helpers/db";
 import { hfncOrder } from "../helpers/orders";
@@ -105,8 +106,14 @@ describe("API tokens", () => {
         action: "api_token.create",
       })
       .orderBy("id", "desc")
-      .first("action")) as { action: string } | undefined;
-    expect(ledger).toEqual({ action: "api_token.create" });
+      .first("action", "after_json")) as { action: string; after_json: string } | undefined;
+    expect(ledger?.action).toBe("api_token.create");
+    expect(JSON.parse(ledger!.after_json)).toEqual({
+      name: summary.name,
+      scope: "write",
+      unitIds: summary.units.map((u) => u.id),
+      expiresAt: summary.expiresAt,
+    });
     const therapist = await actorByEmail(SEEDED.therapist);
     await expect(
       createApiToken(appDb(), therapist, { name: "Nope", scope: "write", unitIds: [1] }),
@@ -304,5 +311,84 @@ describe("API tokens", () => {
     const bad = await postMonitor(request(path, "time;spo2\n2026-11-20T08:00:00Z;95\n", secret));
     expect(bad.status).toBe(422);
     expect((await json(bad)).error?.message).toMatch(/looks separated by semicolon/);
+  });
+
+  it("writes no part of the secret to the ledger when a token is created or revoked", async () => {
+    const admin = await actorByEmail(SEEDED.admin);
+    const { token: secret, summary } = await token("write");
+    await revokeApiToken(appDb(), admin, { id: summary.id, rationale: "Rotated for the test" });
+    const rows = (await appDb()("ledger_entries")
+      .where({ entity_type: "api_token", entity_id: String(summary.id) })
+      .orderBy("id")
+      .select()) as Record<string, unknown>[];
+    expect(rows.map((r) => r.action)).toEqual(["api_token.create", "api_token.revoke"]);
+    // Every six characters of the random part (the display prefix holds eight of them).
+    const random = secret.slice(4);
+    const pieces = Array.from({ length: random.length - 5 }, (_, i) => random.slice(i, i + 6));
+    for (const row of rows) {
+      const text = JSON.stringify(row);
+      expect(pieces.filter((piece) => text.includes(piece))).toEqual([]);
+      expect(text).not.toContain(summary.prefix);
+    }
+  });
+
+  it("expires a year after creation unless the admin chooses otherwise, up to two years, and lists the expiry", async () => {
+    const admin = await actorByEmail(SEEDED.admin);
+    const micu = (await appDb()("units").where({ code: "MICU" }).pluck("id")) as number[];
+    const now = new Date("2026-12-03T10:00:00.000Z");
+    const { summary: year } = await createApiToken(
+      appDb(),
+      admin,
+      { name: `Default ${randomUUID().slice(0, 6)}`, scope: "read", unitIds: micu },
+      now,
+    );
+    expect(year.expiresAt).toBe("2027-12-03T10:00:00.000Z");
+    const { summary: month } = await createApiToken(
+      appDb(),
+      admin,
+      { name: `Month ${randomUUID().slice(0, 6)}`, scope: "read", unitIds: micu, validDays: 30 },
+      now,
+    );
+    expect(month.expiresAt).toBe("2027-01-02T10:00:00.000Z");
+    const tooLong = (await createApiToken(appDb(), admin, {
+      name: "Too long",
+      scope: "read",
+      unitIds: micu,
+      validDays: TOKEN_DAYS_MAX + 1,
+    }).catch((e: unknown) => e)) as ValidationError;
+    expect(tooLong).toBeInstanceOf(ValidationError);
+    expect(tooLong.fieldErrors?.validDays).toEqual([
+      `Valid for must be a whole number of days between 1 and ${TOKEN_DAYS_MAX}.`,
+    ]);
+    const listed = (await listApiTokens(appDb())).find((t) => t.id === month.id);
+    expect(listed).toMatchObject({ expiresAt: "2027-01-02T10:00:00.000Z" });
+    expect(listed?.expired).toBe(Date.now() >= Date.parse("2027-01-02T10:00:00.000Z"));
+  });
+
+  it("refuses an expired token with 401, like a revoked one, and nothing is imported", async () => {
+    const p = await patientOnHfnc();
+    const message = hl7("hl7-valid.hl7", p.mrn, `E${randomUUID().slice(0, 12)}`);
+    const { token: secret, summary } = await token("write");
+    // Its expiry passed a second ago.
+    await appDb()("api_tokens")
+      .where({ id: summary.id })
+      .update({ expires_at: new Date(Date.now() - 1000) });
+    const refused = await postHl7(request("/api/v1/imports/hl7", message, secret));
+    expect(refused.status).toBe(401);
+    expect((await json(refused)).error?.message).toBe(
+      "This API token has expired; an administrator can create a new one.",
+    );
+    expect(await appDb()("blood_gases").where({ patient_id: p.patientId }).first()).toBeUndefined();
+    const row = (await appDb()("api_tokens").where({ id: summary.id }).first("last_used_at")) as {
+      last_used_at: Date | null;
+    };
+    expect(row.last_used_at).toBeNull();
+    expect((await listApiTokens(appDb())).find((t) => t.id === summary.id)?.expired).toBe(true);
+
+    // The same token a day from expiry still works.
+    await appDb()("api_tokens")
+      .where({ id: summary.id })
+      .update({ expires_at: new Date(Date.now() + 86_400_000) });
+    expect((await postHl7(request("/api/v1/imports/hl7", message, secret))).status).toBe(201);
   });
 });

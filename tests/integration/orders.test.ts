@@ -1,15 +1,20 @@
 import { afterAll, describe, expect, it } from "vitest";
+import { hashPassword } from "@/lib/auth/password";
 import { closeDb } from "@/lib/db";
 import { ConflictError, ForbiddenError, NotFoundError, ValidationError } from "@/lib/errors";
 import { listLedgerForEntity } from "@/lib/ledger/queries";
 import { verifyLedger } from "@/lib/ledger/verify";
-import { stepTableMismatchMessage } from "@/lib/orders/devices";
+import {
+  DESIGNATED_COSIGN_MEANING,
+  SIGNATURE_MEANING,
+  stepTableMismatchMessage,
+} from "@/lib/orders/devices";
 import { getBedsideContext } from "@/lib/patients/bedside";
-import { getOrder } from "@/lib/orders/queries";
+import { getOrder, listCosignQueue } from "@/lib/orders/queries";
 import { PAO2_BAND_INCOMPLETE, type OrderInput } from "@/lib/orders/schema";
 import { cosignOrder, discontinueOrder, writeOrder } from "@/lib/orders/service";
 import { createStepTable } from "@/lib/step-tables/service";
-import { actorByEmail, admitTestPatient, appDb, SEEDED } from "../helpers/db";
+import { actorByEmail, admitTestPatient, appDb, SEEDED, uniqueEmail } from "../helpers/db";
 
 afterAll(async () => {
   await closeDb();
@@ -69,6 +74,43 @@ async function ledgerFor(entityType: string, id: number) {
     rationale: string | null;
     patient_id: number;
     chain_key: string;
+  }[];
+}
+
+/** A physician of its own on one unit, optionally designated there to co-sign, signing with PASSWORD. */
+async function newPhysician(unitId: number, opts: { designated?: boolean } = {}) {
+  const email = uniqueEmail("physician");
+  const [id] = await appDb()("users").insert({
+    email,
+    name: `Dr Test ${email.slice(10, 18)}`,
+    role: "physician",
+    password_hash: await hashPassword(PASSWORD),
+  });
+  await appDb()("user_units").insert({ user_id: id, unit_id: unitId });
+  if (opts.designated) await appDb()("unit_cosigners").insert({ unit_id: unitId, user_id: id });
+  return actorByEmail(email);
+}
+
+function verbalOrder(patientId: number, prescriberId: number, over: Partial<OrderInput> = {}) {
+  return {
+    ...ventilatorOrder(patientId, over),
+    entryMode: "telephone",
+    prescriberId,
+    readBackConfirmed: true,
+  } as unknown as OrderInput;
+}
+
+async function supersedeMail(orderId: number) {
+  return (await appDb()("mail_outbox")
+    .where({ purpose: "order_superseded" })
+    .where("message_id", "like", `<order-${orderId}.superseded.%`)
+    .select()) as {
+    alert_id: number | null;
+    recipient_user_id: number;
+    to_address: string;
+    subject: string;
+    text_body: string;
+    state: string;
   }[];
 }
 
@@ -354,5 +396,195 @@ describe("orders", () => {
       discontinueReason: "Extubated to room air",
     });
     expect((await verifyLedger(appDb())).ok).toBe(true);
+  });
+});
+
+describe("who co-signs a verbal order", () => {
+  it("refuses a physician who is neither the named prescriber nor designated, with 403 naming who may, and changes nothing", async () => {
+    const { patientId, unitId } = await admitTestPatient();
+    const nurse = await actorByEmail(SEEDED.nurse);
+    const prescriber = await newPhysician(unitId);
+    const colleague = await newPhysician(unitId);
+    const order = await writeOrder(appDb(), nurse, verbalOrder(patientId, prescriber.id));
+
+    for (const physician of [colleague, await actorByEmail(SEEDED.physician)]) {
+      const error = (await cosignOrder(appDb(), physician, {
+        orderId: order.id,
+        version: order.version,
+        password: PASSWORD,
+      }).catch((e: unknown) => e)) as ForbiddenError;
+      expect(error).toBeInstanceOf(ForbiddenError);
+      expect(error.status).toBe(403);
+      // The seed designates Dr Tobias Renwick on MICU (other tests may add more).
+      expect(error.message).toMatch(
+        `Only the prescriber named on the order, ${prescriber.name}, or a co-signer this unit designates (`,
+      );
+      expect(error.message).toMatch(/Dr Tobias Renwick.*\) may co-sign it\.$/);
+    }
+    expect(await getOrder(appDb(), order.id)).toMatchObject({
+      status: "awaiting_cosign",
+      version: order.version,
+      cosignedBy: null,
+      signedBy: null,
+    });
+    expect((await ledgerFor("order", order.id)).map((r) => r.action)).toEqual(["order.verbal"]);
+
+    // The queue tells each physician whether they may co-sign.
+    const entry = (await listCosignQueue(appDb(), [unitId])).find((o) => o.id === order.id);
+    expect(entry?.cosigners.prescriber.id).toBe(prescriber.id);
+    expect(entry?.cosigners.designated.map((p) => p.name)).toContain("Dr Tobias Renwick");
+    expect(entry?.cosigners.designated.map((p) => p.id)).not.toContain(colleague.id);
+  });
+
+  it("lets the named prescriber co-sign, with the prescriber's signature meaning", async () => {
+    const { patientId, unitId } = await admitTestPatient();
+    const nurse = await actorByEmail(SEEDED.nurse);
+    const prescriber = await newPhysician(unitId);
+    const order = await writeOrder(appDb(), nurse, verbalOrder(patientId, prescriber.id));
+    const signed = await cosignOrder(appDb(), prescriber, {
+      orderId: order.id,
+      version: order.version,
+      password: PASSWORD,
+    });
+    expect(signed).toMatchObject({
+      status: "active",
+      cosignedBy: { id: prescriber.id },
+      signedBy: { id: prescriber.id },
+      signatureMeaning: SIGNATURE_MEANING,
+    });
+  });
+
+  it("lets a physician the unit designates co-sign another prescriber's order, and only on that unit", async () => {
+    const { patientId, unitId } = await admitTestPatient();
+    const resp = await admitTestPatient("RESP");
+    const nurse = await actorByEmail(SEEDED.nurse);
+    const prescriber = await newPhysician(unitId);
+    const designated = await newPhysician(unitId, { designated: true });
+    // Designated on RESP only (and assigned to MICU too): not a co-signer on MICU.
+    const respCosigner = await newPhysician(resp.unitId, { designated: true });
+    await appDb()("user_units").insert({ user_id: respCosigner.id, unit_id: unitId });
+    const order = await writeOrder(appDb(), nurse, verbalOrder(patientId, prescriber.id));
+
+    await expect(
+      cosignOrder(appDb(), await actorByEmail(respCosigner.email), {
+        orderId: order.id,
+        version: order.version,
+        password: PASSWORD,
+      }),
+    ).rejects.toBeInstanceOf(ForbiddenError);
+    const signed = await cosignOrder(appDb(), designated, {
+      orderId: order.id,
+      version: order.version,
+      password: PASSWORD,
+    });
+    expect(signed).toMatchObject({
+      status: "active",
+      prescriber: { id: prescriber.id },
+      cosignedBy: { id: designated.id },
+      signatureMeaning: DESIGNATED_COSIGN_MEANING,
+    });
+    expect((await ledgerFor("order", order.id)).map((r) => [r.action, r.rationale])).toEqual([
+      ["order.verbal", expect.any(String)],
+      [
+        "order.cosign",
+        `Co-signed telephone order entered by ${nurse.name} from ${prescriber.name}, as a co-signer the unit designates`,
+      ],
+    ]);
+  });
+
+  it("a designation lapses when the physician leaves the unit or is deactivated", async () => {
+    const { patientId, unitId } = await admitTestPatient();
+    const nurse = await actorByEmail(SEEDED.nurse);
+    const prescriber = await newPhysician(unitId);
+    const deactivated = await newPhysician(unitId, { designated: true });
+    const moved = await newPhysician(unitId, { designated: true });
+    const order = await writeOrder(appDb(), nurse, verbalOrder(patientId, prescriber.id));
+    const designatedNow = async () =>
+      (await listCosignQueue(appDb(), [unitId]))
+        .find((o) => o.id === order.id)
+        ?.cosigners.designated.map((p) => p.id);
+    expect(await designatedNow()).toEqual(expect.arrayContaining([deactivated.id, moved.id]));
+    await appDb()("users").where({ id: deactivated.id }).update({ active: false });
+    await appDb()("user_units").where({ user_id: moved.id }).delete();
+    const now = await designatedNow();
+    expect(now).not.toContain(deactivated.id);
+    expect(now).not.toContain(moved.id);
+  });
+});
+
+describe("a verbal order superseding a signed one", () => {
+  it("queues one e-mail to the replaced order's prescriber in the same transaction, and says so in the ledger", async () => {
+    const { patientId, unitId } = await admitTestPatient();
+    const nurse = await actorByEmail(SEEDED.nurse);
+    const oldPrescriber = await newPhysician(unitId);
+    const signed = await writeOrder(appDb(), oldPrescriber, ventilatorOrder(patientId));
+    expect(await supersedeMail(signed.id)).toEqual([]);
+
+    const ines = await actorByEmail(SEEDED.physician);
+    const verbal = await writeOrder(
+      appDb(),
+      nurse,
+      verbalOrder(patientId, ines.id, { supersedesOrderId: signed.id, fio2Max: 0.9 }),
+    );
+    const mail = await supersedeMail(signed.id);
+    expect(mail).toHaveLength(1);
+    expect(mail[0]).toMatchObject({
+      alert_id: null,
+      recipient_user_id: oldPrescriber.id,
+      to_address: oldPrescriber.email,
+      state: "pending",
+    });
+    expect(mail[0]!.subject).toContain(
+      `Your order #${signed.id} was replaced by a telephone order`,
+    );
+    expect(mail[0]!.text_body).toContain(
+      `${nurse.name} entered telephone order #${verbal.id} from ${ines.name}`,
+    );
+    // Minimum necessary: no patient name or record number leaves by e-mail.
+    expect(mail[0]!.text_body).not.toMatch(/Testcase|TST/);
+
+    const supersede = (await ledgerFor("order", signed.id)).find(
+      (r) => r.action === "order.supersede",
+    );
+    expect(supersede?.rationale).toBe(
+      `Superseded by order #${verbal.id}; its prescriber, ${oldPrescriber.name}, is e-mailed`,
+    );
+    const entered = (await appDb()("ledger_entries")
+      .where({ entity_type: "order", entity_id: String(verbal.id), action: "order.verbal" })
+      .first("after_json")) as { after_json: string };
+    expect(JSON.parse(entered.after_json)).toMatchObject({
+      supersededPrescriberNotice: {
+        orderId: signed.id,
+        recipientUserId: oldPrescriber.id,
+        mailed: true,
+      },
+    });
+  });
+
+  it("queues nothing when the replaced order was not signed, or the new one is written", async () => {
+    const { patientId, unitId } = await admitTestPatient();
+    const nurse = await actorByEmail(SEEDED.nurse);
+    const prescriber = await newPhysician(unitId);
+    const first = await writeOrder(appDb(), prescriber, ventilatorOrder(patientId));
+    const written = await writeOrder(
+      appDb(),
+      prescriber,
+      ventilatorOrder(patientId, { supersedesOrderId: first.id }),
+    );
+    const unsigned = await writeOrder(
+      appDb(),
+      nurse,
+      verbalOrder(patientId, prescriber.id, { supersedesOrderId: written.id }),
+    );
+    expect((await supersedeMail(written.id)).map((m) => m.recipient_user_id)).toEqual([
+      prescriber.id,
+    ]);
+    await writeOrder(
+      appDb(),
+      nurse,
+      verbalOrder(patientId, prescriber.id, { supersedesOrderId: unsigned.id }),
+    );
+    expect(await supersedeMail(first.id)).toEqual([]);
+    expect(await supersedeMail(unsigned.id)).toEqual([]);
   });
 });

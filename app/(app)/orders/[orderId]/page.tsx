@@ -19,6 +19,7 @@ import { pageActor } from "@/lib/auth/page-guard";
 import { db } from "@/lib/db";
 import { NotFoundError } from "@/lib/errors";
 import { listLedgerForEntity } from "@/lib/ledger/queries";
+import { cosignersFor, cosignersText, mayCosign } from "@/lib/orders/cosigners";
 import { getOrder, type OrderView } from "@/lib/orders/queries";
 import { getAdmissionPatient } from "@/lib/patients/queries";
 import { getStepTableName } from "@/lib/step-tables/queries";
@@ -130,6 +131,9 @@ export default async function OrderPage({
       : tableName;
 
   const physician = actor.role === "physician";
+  // Only the prescriber named on the order, or a designated co-signer, is offered the co-signature.
+  const cosigners =
+    physician && order.status === "awaiting_cosign" ? await cosignersFor(db(), order) : null;
   const inEffect = order.status === "active" || order.status === "awaiting_cosign";
   const patientName = `${patient.givenName} ${patient.familyName}`;
 
@@ -179,12 +183,22 @@ export default async function OrderPage({
             <OrderFacts order={order} stepTableName={tableName} pressureUnit={actor.pressureUnit} />
           </Card>
 
-          {physician && order.status === "awaiting_cosign" ? (
+          {cosigners && mayCosign(actor.id, cosigners) ? (
             <CosignForm
               orderId={order.id}
               version={order.version}
               enteredBy={order.enteredBy.name}
+              prescriber={order.prescriber.name}
+              asPrescriber={order.prescriber.id === actor.id}
             />
+          ) : cosigners ? (
+            <p
+              className="flex items-center gap-2 rounded-card border border-border bg-surface p-4 text-sm shadow-card"
+              data-testid="cosign-not-yours"
+            >
+              <IconInfo className="shrink-0 text-ink-muted" />
+              {cosignersText(cosigners)}
+            </p>
           ) : null}
           {physician && inEffect ? (
             <DiscontinueForm orderId={order.id} version={order.version} />
@@ -380,7 +394,7 @@ function StateBanner({
           <OrderStatusBadge status={order.status} />
           In effect, entered by {order.enteredBy.name} as a {order.entryMode} order from{" "}
           {order.prescriber.name} {formatDuration(now.getTime() - Date.parse(order.createdAt))} ago;
-          waiting for a physician&apos;s co-signature.
+          waiting for the co-signature of the prescriber or a co-signer the unit designates.
         </p>
       );
     case "active":

@@ -5,6 +5,7 @@ import { EmptyState } from "@/components/ui/EmptyState";
 import { StatusBadge } from "@/components/ui/StatusBadge";
 import { pageActor } from "@/lib/auth/page-guard";
 import { db } from "@/lib/db";
+import { mayCosign } from "@/lib/orders/cosigners";
 import { DEVICE_PROFILES } from "@/lib/orders/devices";
 import { listCosignQueue } from "@/lib/orders/queries";
 
@@ -24,7 +25,9 @@ export default async function CosignQueuePage() {
         <h1 className="text-2xl font-semibold tracking-tight">Co-sign queue</h1>
         <p className="text-sm text-ink-muted">
           Verbal and telephone orders entered by nurses and therapists on your units. Each is in
-          effect, marked &ldquo;Awaiting co-sign&rdquo;, until a physician co-signs it. Oldest first.
+          effect, marked &ldquo;Awaiting co-sign&rdquo;, until the prescriber it names, or a
+          physician the unit designates, co-signs it. Oldest first; you are offered co-signing only
+          where you may give it.
         </p>
       </div>
       {queue.length === 0 ? (
@@ -81,13 +84,32 @@ export default async function CosignQueuePage() {
                     />
                   </td>
                   <td className="px-3 py-2 text-right">
-                    <Link
-                      href={`/orders/${o.id}`}
-                      className="whitespace-nowrap font-medium text-accent underline-offset-2 hover:underline"
-                      aria-label={`Review and co-sign order #${o.id} for ${o.patientName}`}
-                    >
-                      Review and co-sign
-                    </Link>
+                    {mayCosign(actor.id, o.cosigners) ? (
+                      <Link
+                        href={`/orders/${o.id}`}
+                        className="whitespace-nowrap font-medium text-accent underline-offset-2 hover:underline"
+                        aria-label={`Review and co-sign order #${o.id} for ${o.patientName}`}
+                      >
+                        Review and co-sign
+                      </Link>
+                    ) : (
+                      <>
+                        <Link
+                          href={`/orders/${o.id}`}
+                          className="whitespace-nowrap font-medium text-accent underline-offset-2 hover:underline"
+                          aria-label={`Review order #${o.id} for ${o.patientName}`}
+                        >
+                          Review
+                        </Link>
+                        <span className="block text-xs text-ink-muted">
+                          {o.prescriber.name}
+                          {o.cosigners.designated.some((p) => p.id !== o.prescriber.id)
+                            ? " or a designated co-signer"
+                            : ""}{" "}
+                          co-signs
+                        </span>
+                      </>
+                    )}
                   </td>
                 </tr>
               ))}

@@ -1,0 +1,69 @@
+import { escapeHtml, when } from "../alerts/email";
+
+/** The outbox purpose of the e-mail telling a prescriber their signed order was replaced. */
+export const ORDER_SUPERSEDED_PURPOSE = "order_superseded";
+
+/**
+ * The e-mail to the prescriber of a signed order that a verbal or telephone
+ * order replaced. Pure. Like alert e-mail it carries unit, bed, who and when,
+ * and a link — never the patient's name or record number.
+ */
+export type OrderSupersededEmailInput = {
+  oldOrderId: number;
+  newOrderId: number;
+  entryMode: "verbal" | "telephone";
+  enteredBy: string;
+  newPrescriber: string;
+  /** The new order names the recipient as its prescriber too. */
+  fromRecipient: boolean;
+  unitCode: string;
+  unitName: string;
+  bedLabel: string;
+  timeZone: string;
+  at: Date;
+  baseUrl: string;
+};
+
+export function composeOrderSupersededEmail(input: OrderSupersededEmailInput): {
+  subject: string;
+  text: string;
+  html: string;
+} {
+  const where = `${input.unitCode} bed ${input.bedLabel}`;
+  const subject = `Your order #${input.oldOrderId} was replaced by a ${input.entryMode} order — ${where}`;
+  const link = `${input.baseUrl.replace(/\/$/, "")}/orders/${input.newOrderId}`;
+  const yours = input.fromRecipient;
+  const lines = [
+    `Your signed oxygen order #${input.oldOrderId} is no longer in effect.`,
+    `Where: ${input.unitName} (${input.unitCode}), bed ${input.bedLabel}`,
+    `What: ${input.enteredBy} entered ${input.entryMode} order #${input.newOrderId} from ${
+      yours ? "you" : input.newPrescriber
+    }, read back; it is in effect and awaits co-signature.`,
+    `When: ${when(input.at, input.timeZone)}`,
+    yours
+      ? "If you did not give this order, open it now."
+      : "You are receiving this as the prescriber of the replaced order.",
+    "",
+    `Open the new order: ${link}`,
+  ];
+  const html = `<!doctype html><html><body style="font-family:sans-serif">
+<p><strong>${escapeHtml(lines[0]!)}</strong></p>
+<ul>
+<li>${escapeHtml(lines[1]!)}</li>
+<li>${escapeHtml(lines[2]!)}</li>
+<li>${escapeHtml(lines[3]!)}</li>
+</ul>
+<p>${escapeHtml(lines[4]!)}</p>
+<p><a href="${escapeHtml(link)}">Open the new order in Tidemark</a></p>
+</body></html>`;
+  return { subject: subject.slice(0, 200), text: lines.join("\n"), html };
+}
+
+/** Stable per replaced order and recipient: a retry sends the same Message-ID. */
+export function orderSupersededMessageId(
+  oldOrderId: number,
+  userId: number,
+  domain: string,
+): string {
+  return `<order-${oldOrderId}.superseded.${userId}@${domain}>`;
+}
