@@ -16,8 +16,14 @@ import {
 } from "@/lib/api-tokens/schema";
 import { UnitCheckboxes } from "@/components/units/UnitCheckboxes";
 
-type Values = { name: string; scope: ApiTokenScope; unitIds: number[]; validDays: number };
-const FIELDS = ["name", "scope", "unitIds", "validDays"] as const;
+type Values = {
+  name: string;
+  scope: ApiTokenScope;
+  unitIds: number[];
+  validDays: number;
+  currentPassword: string;
+};
+const FIELDS = ["name", "scope", "unitIds", "validDays", "currentPassword"] as const;
 
 /** Create a token; the secret is shown once, with a way to copy it. */
 export function ApiTokenForm({ units }: { units: { id: number; label: string }[] }) {
@@ -35,7 +41,13 @@ export function ApiTokenForm({ units }: { units: { id: number; label: string }[]
     formState: { errors, isSubmitting },
   } = useForm<Values>({
     resolver: zodResolver(apiTokenCreateSchema) as unknown as Resolver<Values>,
-    defaultValues: { name: "", scope: "write", unitIds: [], validDays: TOKEN_DAYS_DEFAULT },
+    defaultValues: {
+      name: "",
+      scope: "write",
+      unitIds: [],
+      validDays: TOKEN_DAYS_DEFAULT,
+      currentPassword: "",
+    },
   });
 
   const onSubmit = handleSubmit(async (values) => {
@@ -167,6 +179,24 @@ export function ApiTokenForm({ units }: { units: { id: number; label: string }[]
               />
             )}
           />
+          <Field
+            id="token-current-password"
+            label="Your password"
+            hint="Token changes are confirmed with your own password; a wrong one is recorded."
+            error={errors.currentPassword?.message}
+          >
+            {(d, invalid) => (
+              <input
+                id="token-current-password"
+                type="password"
+                autoComplete="current-password"
+                className={`${inputClasses} sm:max-w-xs`}
+                aria-invalid={invalid}
+                aria-describedby={d}
+                {...register("currentPassword")}
+              />
+            )}
+          </Field>
           <div className="flex flex-wrap items-center gap-3">
             <Button type="submit" disabled={isSubmitting}>
               {isSubmitting ? "Creating…" : "Create token"}

@@ -18,22 +18,32 @@ export function ApiTokensTable({ tokens }: { tokens: ApiTokenSummary[] }) {
   const [target, setTarget] = useState<ApiTokenSummary | null>(null);
   const [reason, setReason] = useState("");
   const [error, setError] = useState<string | null>(null);
+  const [password, setPassword] = useState("");
+  const [passwordError, setPasswordError] = useState<string | null>(null);
   const [busy, setBusy] = useState(false);
 
   const close = () => {
     setTarget(null);
     setReason("");
     setError(null);
+    setPassword("");
+    setPasswordError(null);
   };
 
   const revoke = async (e: React.FormEvent) => {
     e.preventDefault();
     if (!target) return;
     setBusy(true);
-    const result = await revokeApiTokenAction({ id: target.id, rationale: reason });
+    const result = await revokeApiTokenAction({
+      id: target.id,
+      rationale: reason,
+      currentPassword: password,
+    });
     setBusy(false);
     if (!result.ok) {
-      setError(result.fieldErrors?.rationale?.join(" ") ?? result.message);
+      const fields = result.fieldErrors ?? {};
+      setPasswordError(fields.currentPassword?.join(" ") ?? null);
+      setError(fields.rationale?.join(" ") ?? (fields.currentPassword ? null : result.message));
       return;
     }
     close();
@@ -109,6 +119,25 @@ export function ApiTokensTable({ tokens }: { tokens: ApiTokenSummary[] }) {
                     autoFocus
                     value={reason}
                     onChange={(e) => setReason(e.target.value)}
+                    className={inputClasses}
+                    aria-invalid={invalid}
+                    aria-describedby={d}
+                  />
+                )}
+              </Field>
+              <Field
+                id="revoke-password"
+                label="Your password"
+                hint="Confirms the revocation; a wrong one is recorded."
+                error={passwordError ?? undefined}
+              >
+                {(d, invalid) => (
+                  <input
+                    id="revoke-password"
+                    type="password"
+                    autoComplete="current-password"
+                    value={password}
+                    onChange={(e) => setPassword(e.target.value)}
                     className={inputClasses}
                     aria-invalid={invalid}
                     aria-describedby={d}

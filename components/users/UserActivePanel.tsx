@@ -14,21 +14,36 @@ export function UserActivePanel({ user, isSelf }: { user: UserSummary; isSelf: b
   const router = useRouter();
   const [open, setOpen] = useState(false);
   const [reason, setReason] = useState("");
+  const [password, setPassword] = useState("");
   const [error, setError] = useState<string | null>(null);
+  const [passwordError, setPasswordError] = useState<string | null>(null);
   const [busy, setBusy] = useState(false);
   const next = !user.active;
 
   const submit = async (e: React.FormEvent) => {
     e.preventDefault();
     setBusy(true);
-    const result = await setUserActiveAction({ id: user.id, version: user.version, active: next, rationale: reason });
+    const result = await setUserActiveAction({
+      id: user.id,
+      version: user.version,
+      active: next,
+      rationale: reason,
+      currentPassword: password,
+    });
     setBusy(false);
     if (!result.ok) {
-      setError(result.fieldErrors?.rationale?.join(" ") ?? result.fieldErrors?.active?.join(" ") ?? result.message);
+      const fields = result.fieldErrors ?? {};
+      setPasswordError(fields.currentPassword?.join(" ") ?? null);
+      setError(
+        fields.rationale?.join(" ") ??
+          fields.active?.join(" ") ??
+          (fields.currentPassword ? null : result.message),
+      );
       return;
     }
     setOpen(false);
     setReason("");
+    setPassword("");
     router.refresh();
   };
 
@@ -65,6 +80,25 @@ export function UserActivePanel({ user, isSelf }: { user: UserSummary; isSelf: b
                     autoFocus
                     value={reason}
                     onChange={(e) => setReason(e.target.value)}
+                    className={inputClasses}
+                    aria-invalid={invalid}
+                    aria-describedby={d}
+                  />
+                )}
+              </Field>
+              <Field
+                id="active-password"
+                label="Your password"
+                hint="Confirms the change; a wrong one is recorded."
+                error={passwordError ?? undefined}
+              >
+                {(d, invalid) => (
+                  <input
+                    id="active-password"
+                    type="password"
+                    autoComplete="current-password"
+                    value={password}
+                    onChange={(e) => setPassword(e.target.value)}
                     className={inputClasses}
                     aria-invalid={invalid}
                     aria-describedby={d}

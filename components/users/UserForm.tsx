@@ -30,6 +30,7 @@ const FIELDS = [
   "pressureUnit",
   "rationale",
   "password",
+  "currentPassword",
 ] as const;
 
 /** Create or edit an account. Server refusals land beside the fields; typed values stay. */
@@ -58,6 +59,7 @@ export function UserForm({ mode, units, user }: Props) {
       pressureUnit: user?.pressureUnit ?? "mmHg",
       rationale: "",
       password: "",
+      currentPassword: "",
     },
   });
 
@@ -80,7 +82,7 @@ export function UserForm({ mode, units, user }: Props) {
       router.push(`/admin/users/${result.data.id}`);
     } else {
       setSaved(`Saved. ${result.data.name}'s account is up to date.`);
-      reset({ ...values, password: "", rationale: "" });
+      reset({ ...values, password: "", rationale: "", currentPassword: "" });
     }
     router.refresh();
   });
@@ -206,6 +208,25 @@ export function UserForm({ mode, units, user }: Props) {
             )}
           </Field>
         </div>
+
+        <Field
+          id="currentPassword"
+          label="Your password"
+          hint="Account changes are confirmed with your own password; a wrong one is recorded."
+          error={errors.currentPassword?.message}
+        >
+          {(d, invalid) => (
+            <input
+              id="currentPassword"
+              type="password"
+              autoComplete="current-password"
+              className={`${inputClasses} sm:max-w-xs`}
+              aria-invalid={invalid}
+              aria-describedby={d}
+              {...register("currentPassword")}
+            />
+          )}
+        </Field>
 
         <div className="flex flex-wrap items-center gap-3">
           <Button type="submit" disabled={isSubmitting || (mode === "edit" && !isDirty)}>

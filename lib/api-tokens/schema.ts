@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { currentPassword } from "../users/schema";
 
 // One schema per write, shared by the admin form and the server.
 
@@ -27,6 +28,7 @@ export const apiTokenCreateSchema = z.object({
     .min(1, validDaysMessage)
     .max(TOKEN_DAYS_MAX, validDaysMessage)
     .default(TOKEN_DAYS_DEFAULT),
+  currentPassword,
 });
 export type ApiTokenCreateInput = z.input<typeof apiTokenCreateSchema>;
 
@@ -37,5 +39,6 @@ export const apiTokenRevokeSchema = z.object({
     .trim()
     .min(3, "Give a reason of 3 to 500 characters; it is recorded in the ledger.")
     .max(500, "Give a reason of 3 to 500 characters; it is recorded in the ledger."),
+  currentPassword,
 });
 export type ApiTokenRevokeInput = z.input<typeof apiTokenRevokeSchema>;

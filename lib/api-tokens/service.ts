@@ -2,6 +2,7 @@ import { createHash, randomBytes } from "node:crypto";
 import type { Knex } from "knex";
 import type { Actor } from "../auth/actor";
 import { assertRole } from "../auth/actor-queries";
+import { confirmAdminPassword } from "../auth/reauth";
 import { ConflictError, DomainError, ForbiddenError, NotFoundError, UnauthenticatedError, ValidationError } from "../errors";
 import { appendLedger } from "../ledger/service";
 import { parseInput } from "../validation";
@@ -45,6 +46,7 @@ export async function createApiToken(
 ): Promise<{ token: string; summary: ApiTokenSummary }> {
   assertRole(actor, ["admin"]);
   const input = parseInput(apiTokenCreateSchema, raw);
+  await confirmAdminPassword(knex, actor.id, input.currentPassword);
   const token = `${TOKEN_PREFIX}${randomBytes(32).toString("base64url")}`;
   const unitIds = [...new Set(input.unitIds)];
   const summary = await knex.transaction(async (trx) => {
@@ -96,6 +98,7 @@ export async function revokeApiToken(
 ): Promise<ApiTokenSummary> {
   assertRole(actor, ["admin"]);
   const input = parseInput(apiTokenRevokeSchema, raw);
+  await confirmAdminPassword(knex, actor.id, input.currentPassword);
   return knex.transaction(async (trx) => {
     const row = (await trx("api_tokens").where({ id: input.id }).forUpdate().first("id", "revoked_at")) as
       | { id: number; revoked_at: Date | null }

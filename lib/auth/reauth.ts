@@ -6,7 +6,8 @@ import { isRole } from "./roles";
 import { checkThrottle, recordAttempt, retryWords } from "./throttle";
 
 /**
- * Signing, discontinuing and account changes re-ask the password: a signature
+ * Signing, discontinuing, and an administrator's changes to accounts and API
+ * tokens re-ask the password: a signature
  * is the signer's own act, not a left-open session's. The check shares the
  * sign-in throttle of the signer's account (a stolen session cannot guess the
  * password without limit), and every refusal is a ledger row of its own —
@@ -17,6 +18,8 @@ export async function confirmPassword(
   userId: number,
   password: string,
   now: Date = new Date(),
+  /** The form field the password was typed in, and what a refusal did not do. */
+  words: { field: string; notDone: string } = { field: "password", notDone: "nothing was signed" },
 ): Promise<void> {
   const user = (await knex("users")
     .where({ id: userId })
@@ -48,14 +51,22 @@ export async function confirmPassword(
   const verdict = await checkThrottle(knex, { emailKey, clientIp: null }, now);
   if (!verdict.allowed) {
     await refuse("throttled", { retryAfterSeconds: verdict.retryAfterSeconds });
-    const message = `Too many wrong passwords: signing is locked for your account. Try again in ${retryWords(verdict.retryAfterSeconds)}; nothing was signed.`;
-    throw new TooManyRequestsError(message, verdict.retryAfterSeconds, { password: [message] });
+    const message = `Too many wrong passwords: password confirmation is locked for your account. Try again in ${retryWords(verdict.retryAfterSeconds)}; ${words.notDone}.`;
+    throw new TooManyRequestsError(message, verdict.retryAfterSeconds, { [words.field]: [message] });
   }
   if (!(await verifyPassword(password, user.password_hash))) {
     await refuse("wrong", {});
-    throw new ValidationError("The password does not match; nothing was signed.", {
-      password: ["The password does not match your account."],
+    throw new ValidationError(`The password does not match; ${words.notDone}.`, {
+      [words.field]: ["The password does not match your account."],
     });
   }
   await recordAttempt(knex, { emailKey, clientIp: null, purpose: "reauth", outcome: "ok" }, now);
+}
+
+/** An administrator's change to accounts or API tokens: the admin's own password, re-entered. */
+export function confirmAdminPassword(knex: Knex, adminId: number, password: string): Promise<void> {
+  return confirmPassword(knex, adminId, password, new Date(), {
+    field: "currentPassword",
+    notDone: "nothing was changed",
+  });
 }

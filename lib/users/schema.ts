@@ -31,6 +31,12 @@ const newPassword = z
 
 const pressureUnit = z.enum(["mmHg", "kPa"], { error: "Pressure unit must be mmHg or kPa." });
 
+/** The administrator's own password, re-entered for every change to an account. */
+export const currentPassword = z
+  .string({ error: "Enter your own password to confirm the change." })
+  .min(1, "Enter your own password to confirm the change.")
+  .max(200, "Enter your own password to confirm the change.");
+
 const rationale = z
   .string()
   .trim()
@@ -47,6 +53,7 @@ export const userFieldsSchema = z.object({
   pressureUnit,
   rationale,
   password: z.union([z.literal(""), newPassword]),
+  currentPassword,
 });
 
 export const userCreateSchema = userFieldsSchema.extend({ password: newPassword });
@@ -65,6 +72,7 @@ export const userActiveSchema = z.object({
   id: z.number().int().positive(),
   version: z.number().int().positive(),
   active: z.boolean(),
+  currentPassword,
   rationale: z
     .string()
     .trim()

@@ -1,6 +1,7 @@
 import type { Knex } from "knex";
 import type { Actor } from "../auth/actor";
 import { assertRole } from "../auth/actor-queries";
+import { confirmAdminPassword } from "../auth/reauth";
 import { hashPassword } from "../auth/password";
 import { endUserSessions } from "../auth/sessions";
 import { duplicateIndex } from "../db-errors";
@@ -57,6 +58,7 @@ export async function createUser(
 ): Promise<UserSummary> {
   assertRole(actor, ["admin"]);
   const input = parseInput(userCreateSchema, raw);
+  await confirmAdminPassword(knex, actor.id, input.currentPassword);
   const passwordHash = await hashPassword(input.password);
   try {
     return await knex.transaction(async (trx) => {
@@ -107,6 +109,7 @@ export async function updateUser(
 ): Promise<UserSummary> {
   assertRole(actor, ["admin"]);
   const input = parseInput(userUpdateSchema, raw);
+  await confirmAdminPassword(knex, actor.id, input.currentPassword);
   if (input.id === actor.id && input.role !== "admin") {
     throw new ValidationError("You cannot remove your own administrator role.", {
       role: ["You cannot remove your own administrator role; ask another administrator."],
@@ -167,6 +170,7 @@ export async function setUserActive(
 ): Promise<UserSummary> {
   assertRole(actor, ["admin"]);
   const input = parseInput(userActiveSchema, raw);
+  await confirmAdminPassword(knex, actor.id, input.currentPassword);
   if (input.id === actor.id && !input.active) {
     throw new ValidationError("You cannot deactivate your own account.", {
       active: ["You cannot deactivate your own account; ask another administrator."],

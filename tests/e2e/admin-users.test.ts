@@ -37,6 +37,8 @@ describe("admin manages users", () => {
       // What was typed is kept after a refusal.
       expect(await page.getByLabel("Full name").inputValue()).toBe("Ottilie Brennan");
       await page.getByLabel("Initial password").fill("a-proper-password");
+      // Account changes are confirmed with the administrator's own password.
+      await page.getByLabel("Your password").fill("tidemark-demo");
       await page.getByLabel("Initial password").press("Enter");
       await page.waitForURL(/\/admin\/users\/\d+$/);
       await page.getByRole("heading", { name: "Ottilie Brennan" }).waitFor();
@@ -77,6 +79,7 @@ describe("admin manages users", () => {
       pressureUnit: "mmHg",
       password: "leaver-password-1",
       rationale: "",
+      currentPassword: "tidemark-demo",
     });
     expect(created.status).toBe(201);
     const context = await browser.newContext();
@@ -91,6 +94,7 @@ describe("admin manages users", () => {
       await dialog.getByRole("button", { name: "Deactivate" }).click();
       await dialog.getByText(/Give a reason/).waitFor();
       await dialog.getByLabel(/Reason/).fill("Moved to another hospital");
+      await dialog.getByLabel("Your password").fill("tidemark-demo");
       await dialog.getByRole("button", { name: "Deactivate" }).click();
       await page.getByText("Deactivated", { exact: true }).waitFor();
 

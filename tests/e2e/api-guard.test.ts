@@ -15,6 +15,7 @@ function newUserBody(email: string) {
     pressureUnit: "mmHg",
     password: "long-enough-password",
     rationale: "api test",
+    currentPassword: "tidemark-demo",
   };
 }
 

@@ -118,6 +118,7 @@ describe("sessions that end", () => {
       pressureUnit: "mmHg",
       password: "a-fresh-password-789",
       rationale: "Password reset at the service desk",
+      currentPassword: "tidemark-demo",
     });
     expect((await session.fetch("/api/v1/me")).status).toBe(401);
     const again = await Session.signIn(user.email, "a-fresh-password-789");

@@ -60,6 +60,7 @@ async function token(scope: "read" | "write", units: ("MICU" | "RESP")[] = ["MIC
   const admin = await actorByEmail(SEEDED.admin);
   const unitIds = (await appDb()("units").whereIn("code", units).pluck("id")) as number[];
   return createApiToken(appDb(), admin, {
+    currentPassword: "tidemark-demo",
     name: `Engine ${randomUUID().slice(0, 6)}`,
     scope,
     unitIds,
@@ -116,7 +117,7 @@ describe("API tokens", () => {
     });
     const therapist = await actorByEmail(SEEDED.therapist);
     await expect(
-      createApiToken(appDb(), therapist, { name: "Nope", scope: "write", unitIds: [1] }),
+      createApiToken(appDb(), therapist, { name: "Nope", scope: "write", unitIds: [1], currentPassword: "tidemark-demo" }),
     ).rejects.toBeInstanceOf(ForbiddenError);
   });
 
@@ -217,6 +218,7 @@ describe("API tokens", () => {
     const admin = await actorByEmail(SEEDED.admin);
     const { token: revoked, summary } = await token("write");
     await revokeApiToken(appDb(), admin, {
+      currentPassword: "tidemark-demo",
       id: summary.id,
       rationale: "Interface engine replaced",
     });
@@ -275,7 +277,7 @@ describe("API tokens", () => {
     expect((await get(respOnly)).status).toBe(404);
     const admin = await actorByEmail(SEEDED.admin);
     const { token: revoked, summary } = await token("read");
-    await revokeApiToken(appDb(), admin, { id: summary.id, rationale: "No longer used" });
+    await revokeApiToken(appDb(), admin, { id: summary.id, rationale: "No longer used", currentPassword: "tidemark-demo" });
     expect((await get(revoked)).status).toBe(401);
   });
 
@@ -316,7 +318,7 @@ describe("API tokens", () => {
   it("writes no part of the secret to the ledger when a token is created or revoked", async () => {
     const admin = await actorByEmail(SEEDED.admin);
     const { token: secret, summary } = await token("write");
-    await revokeApiToken(appDb(), admin, { id: summary.id, rationale: "Rotated for the test" });
+    await revokeApiToken(appDb(), admin, { id: summary.id, rationale: "Rotated for the test", currentPassword: "tidemark-demo" });
     const rows = (await appDb()("ledger_entries")
       .where({ entity_type: "api_token", entity_id: String(summary.id) })
       .orderBy("id")
@@ -339,18 +341,19 @@ describe("API tokens", () => {
     const { summary: year } = await createApiToken(
       appDb(),
       admin,
-      { name: `Default ${randomUUID().slice(0, 6)}`, scope: "read", unitIds: micu },
+      { name: `Default ${randomUUID().slice(0, 6)}`, scope: "read", unitIds: micu, currentPassword: "tidemark-demo" },
       now,
     );
     expect(year.expiresAt).toBe("2027-12-03T10:00:00.000Z");
     const { summary: month } = await createApiToken(
       appDb(),
       admin,
-      { name: `Month ${randomUUID().slice(0, 6)}`, scope: "read", unitIds: micu, validDays: 30 },
+      { name: `Month ${randomUUID().slice(0, 6)}`, scope: "read", unitIds: micu, validDays: 30, currentPassword: "tidemark-demo" },
       now,
     );
     expect(month.expiresAt).toBe("2027-01-02T10:00:00.000Z");
     const tooLong = (await createApiToken(appDb(), admin, {
+      currentPassword: "tidemark-demo",
       name: "Too long",
       scope: "read",
       unitIds: micu,

@@ -208,6 +208,7 @@ describe("sessions that end", () => {
       pressureUnit: "mmHg",
       password: "a-brand-new-password-456",
       rationale: "Reset after a lost badge",
+      currentPassword: "tidemark-demo",
     });
     await expect(checkSession(appDb(), beforeReset, user.id)).rejects.toMatchObject({
       reason: "ended",
@@ -222,6 +223,7 @@ describe("sessions that end", () => {
       version: v2,
       active: false,
       rationale: "Left the hospital",
+      currentPassword: "tidemark-demo",
     });
     await expect(checkSession(appDb(), beforeDeactivation, user.id)).rejects.toBeInstanceOf(
       SessionEndedError,

@@ -9,6 +9,9 @@ afterAll(async () => {
   await closeDb();
 });
 
+/** The seeded administrator's (documented demo) password, re-entered for each change. */
+const ADMIN_PASSWORD = "tidemark-demo";
+
 async function unitId(code: string): Promise<number> {
   const row = (await appDb()("units").where({ code }).first("id")) as { id: number };
   return row.id;
@@ -23,6 +26,7 @@ async function newUserInput(over: Partial<UserCreateInput> = {}): Promise<UserCr
     pressureUnit: "mmHg",
     password: "a-long-enough-password",
     rationale: "integration test",
+    currentPassword: ADMIN_PASSWORD,
     ...over,
   };
 }
@@ -93,6 +97,7 @@ describe("user administration", () => {
       pressureUnit: user.pressureUnit,
       password: "",
       rationale: "",
+      currentPassword: ADMIN_PASSWORD,
     };
     const results = await Promise.allSettled([
       updateUser(appDb(), admin, { ...base, name: "First Editor" }),
@@ -109,13 +114,14 @@ describe("user administration", () => {
     const admin = await actorByEmail(SEEDED.admin);
     const user = await createUser(appDb(), admin, await newUserInput());
     await expect(
-      setUserActive(appDb(), admin, { id: user.id, version: 1, active: false, rationale: "" }),
+      setUserActive(appDb(), admin, { id: user.id, version: 1, active: false, rationale: "", currentPassword: ADMIN_PASSWORD }),
     ).rejects.toMatchObject({ fieldErrors: { rationale: [expect.any(String)] } });
     const after = await setUserActive(appDb(), admin, {
       id: user.id,
       version: 1,
       active: false,
       rationale: "left the unit",
+      currentPassword: ADMIN_PASSWORD,
     });
     expect(after.active).toBe(false);
     await expect(actorByEmail(user.email)).rejects.toMatchObject({ status: 401 });
@@ -127,7 +133,7 @@ describe("user administration", () => {
     const admin = await actorByEmail(SEEDED.admin);
     const self = (await appDb()("users").where({ id: admin.id }).first("version")) as { version: number };
     await expect(
-      setUserActive(appDb(), admin, { id: admin.id, version: self.version, active: false, rationale: "oops" }),
+      setUserActive(appDb(), admin, { id: admin.id, version: self.version, active: false, rationale: "oops", currentPassword: ADMIN_PASSWORD }),
     ).rejects.toBeInstanceOf(ValidationError);
     await expect(
       updateUser(appDb(), admin, {
@@ -140,7 +146,27 @@ describe("user administration", () => {
         pressureUnit: "mmHg",
         password: "",
         rationale: "",
+        currentPassword: ADMIN_PASSWORD,
       }),
     ).rejects.toMatchObject({ fieldErrors: { role: [expect.any(String)] } });
+  });
+
+  it("asks the administrator's own password for every account change, and records a wrong one", async () => {
+    const admin = await actorByEmail(SEEDED.admin);
+    const input = await newUserInput({ currentPassword: "not-my-password" });
+    const error = (await createUser(appDb(), admin, input).catch((e: unknown) => e)) as ValidationError;
+    expect(error).toBeInstanceOf(ValidationError);
+    expect(error.fieldErrors).toEqual({ currentPassword: ["The password does not match your account."] });
+    expect(await appDb()("users").where({ email: input.email }).first("id")).toBeUndefined();
+    const refused = (await appDb()("ledger_entries")
+      .where({ action: "user.reauth_refused", entity_id: String(admin.id) })
+      .count({ n: "*" })
+      .first()) as { n: number };
+    expect(Number(refused.n)).toBeGreaterThan(0);
+    const withoutPassword: Partial<UserCreateInput> = await newUserInput();
+    delete withoutPassword.currentPassword;
+    await expect(createUser(appDb(), admin, withoutPassword as UserCreateInput)).rejects.toMatchObject({
+      fieldErrors: { currentPassword: ["Enter your own password to confirm the change."] },
+    });
   });
 });
