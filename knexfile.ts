@@ -1,3 +1,4 @@
+import "./lib/local-env";
 import type { Knex } from "knex";
 import { connectionConfig } from "./lib/db";
 

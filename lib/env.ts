@@ -1,10 +1,21 @@
 import { z } from "zod";
 
-// Environment, parsed once with zod. Defaults are the documented demo values
-// (README "Configuration"); production sets every secret itself.
+// Environment, parsed once with zod. Defaults suit this machine only (README
+// "Configuration"); the scripts generate this install's secrets into .env.local
+// and production sets every secret itself.
 
-/** The documented demo secret; refused in production unless TIDEMARK_DEMO=1. */
+/** The documented demo secret; refused in production unless TIDEMARK_DEMO=1, and always off loopback. */
 export const DEMO_SECRET = "tidemark-demo-secret-not-for-production-use";
+
+/** The database passwords earlier versions documented; refused off loopback like DEMO_SECRET. */
+export const DEMO_APP_PASSWORD = "tidemark-app-dev";
+export const DEMO_OWNER_PASSWORD = "tidemark-owner-dev";
+
+/** True when the URL points at this machine (localhost, 127.0.0.0/8, ::1). */
+export function isLoopbackUrl(url: string): boolean {
+  const host = new URL(url).hostname.toLowerCase();
+  return host === "localhost" || host === "[::1]" || /^127(\.\d{1,3}){3}$/.test(host);
+}
 
 const envSchema = z
   .object({
@@ -18,9 +29,9 @@ const envSchema = z
       .regex(/^[A-Za-z0-9_]+$/)
       .default("tidemark"),
     DATABASE_USER: z.string().min(1).default("tidemark_app"),
-    DATABASE_PASSWORD: z.string().default("tidemark-app-dev"),
+    DATABASE_PASSWORD: z.string().default(DEMO_APP_PASSWORD),
     DATABASE_OWNER_USER: z.string().min(1).default("tidemark_owner"),
-    DATABASE_OWNER_PASSWORD: z.string().default("tidemark-owner-dev"),
+    DATABASE_OWNER_PASSWORD: z.string().default(DEMO_OWNER_PASSWORD),
     DATABASE_POOL_MAX: z.coerce.number().int().min(1).max(100).default(10),
     NEXTAUTH_URL: z.url().default("http://localhost:3000"),
     NEXTAUTH_SECRET: z
@@ -90,23 +101,48 @@ const envSchema = z
       message:
         "set a real NEXTAUTH_SECRET in production (the demo secret is refused)",
     },
-  );
+  )
+  // The published demo values protect nothing: a server others can reach
+  // (NEXTAUTH_URL off this machine) refuses them whatever NODE_ENV or TIDEMARK_DEMO say.
+  .superRefine((e, ctx) => {
+    if (isLoopbackUrl(e.NEXTAUTH_URL)) return;
+    const published = [
+      ["NEXTAUTH_SECRET", e.NEXTAUTH_SECRET === DEMO_SECRET],
+      ["DATABASE_PASSWORD", e.DATABASE_PASSWORD === DEMO_APP_PASSWORD],
+      ["DATABASE_OWNER_PASSWORD", e.DATABASE_OWNER_PASSWORD === DEMO_OWNER_PASSWORD],
+    ] as const;
+    for (const [name, isDemo] of published) {
+      if (isDemo) {
+        ctx.addIssue({
+          code: "custom",
+          path: [name],
+          message: `the documented demo value is refused when NEXTAUTH_URL is not this machine; set ${name} (README "Configuration")`,
+        });
+      }
+    }
+  });
 
 export type Env = z.infer<typeof envSchema>;
 
 let cached: Env | undefined;
 
-/** Parses process.env on first use, so a build without secrets still succeeds. */
-export function getEnv(): Env {
-  if (!cached) {
-    const parsed = envSchema.safeParse(process.env);
-    if (!parsed.success) {
-      const problems = parsed.error.issues.map(
-        (i) => `${i.path.join(".")}: ${i.message}`,
-      );
-      throw new Error(`Invalid environment:\n  ${problems.join("\n  ")}`);
-    }
-    cached = parsed.data;
+/** Parses an environment; throws one error listing every problem. */
+export function parseEnv(source: Record<string, string | undefined>): Env {
+  const parsed = envSchema.safeParse(source);
+  if (!parsed.success) {
+    const problems = parsed.error.issues.map(
+      (i) => `${i.path.join(".")}: ${i.message}`,
+    );
+    throw new Error(`Invalid environment:\n  ${problems.join("\n  ")}`);
   }
+  return parsed.data;
+}
+
+/**
+ * Parses process.env on first use, so a build without secrets still succeeds;
+ * the server calls it once at start (instrumentation.ts) and refuses to run on error.
+ */
+export function getEnv(): Env {
+  if (!cached) cached = parseEnv(process.env);
   return cached;
 }

@@ -36,6 +36,7 @@ export default defineConfig({
         test: {
           name: "integration",
           environment: "node",
+          setupFiles: ["tests/setup/local-env.ts"],
           include: ["tests/integration/**/*.test.ts"],
           fileParallelism: false,
           testTimeout: 30_000,
@@ -47,6 +48,7 @@ export default defineConfig({
         test: {
           name: "e2e",
           environment: "node",
+          setupFiles: ["tests/setup/local-env.ts"],
           include: ["tests/e2e/**/*.test.ts"],
           fileParallelism: false,
           testTimeout: 60_000,

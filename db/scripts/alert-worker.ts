@@ -3,6 +3,7 @@
  * outbox delivery every few seconds. `npm run demo` starts it beside the app;
  * production runs one (or more: rows are claimed before sending) per site.
  */
+import "../../lib/local-env";
 import { startAlertWorker } from "../../lib/alerts/worker";
 import { db } from "../../lib/db";
 import { getEnv } from "../../lib/env";

@@ -1,5 +1,6 @@
 // `npm run mail:inbox` (and `npm run demo`, in the background): the local SMTP
 // fake on 127.0.0.1 at SMTP_PORT, with its readable inbox at MAIL_INBOX_PORT.
+import "../../lib/local-env";
 import { getEnv } from "../../lib/env";
 import { startFakeInbox } from "../../lib/mail/fake-inbox";
 

@@ -1,11 +1,14 @@
 #!/usr/bin/env bash
 # Shared preparation for `npm run demo` and `npm test`: npm packages, the private
 # MariaDB (installed from Debian's packages when missing) and, with --browser,
-# Debian's Chromium. Source it from the other scripts.
+# Debian's Chromium; the secrets of this install (.env.local, generated on first
+# run), exported so every later step reads them. Source it from the other scripts.
 set -euo pipefail
 
 ROOT="$(cd "$(dirname "${BASH_SOURCE[0]}")/../.." && pwd)"
 cd "$ROOT"
+# shellcheck source=db/scripts/secrets.sh
+source "$ROOT/db/scripts/secrets.sh"
 export NEXT_TELEMETRY_DISABLED=1
 export PLAYWRIGHT_SKIP_BROWSER_DOWNLOAD=1
 
@@ -56,6 +59,8 @@ build_is_stale() {
 
 # Each step is checked explicitly: callers run this under `||`, where set -e is off.
 prepare() {
+  ensure_local_env || return 1
+  load_local_env || return 1
   ensure_node_modules || return 1
   ensure_mariadb || return 1
   if [ "${1:-}" = "--browser" ]; then ensure_chromium || return 1; fi

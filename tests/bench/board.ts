@@ -9,6 +9,7 @@
  * Run on demand: `npm run bench:board` (needs the private MariaDB: `npm run db:start`).
  * Uses its own database and drops it at the end.
  */
+import "../../lib/local-env";
 import { execFileSync } from "node:child_process";
 import http from "node:http";
 import type { AddressInfo } from "node:net";

@@ -5,6 +5,7 @@
  * onto one global chain. Run on demand: `npm run bench:ledger` (needs the
  * private MariaDB running: `npm run db:start`). Uses its own database.
  */
+import "../../lib/local-env";
 import { execFileSync } from "node:child_process";
 import knex, { type Knex } from "knex";
 import { connectionConfig } from "../../lib/db";

@@ -10,6 +10,7 @@
  * big heap. Run on demand: `npm run bench:import` (needs `npm run db:start`).
  * Uses its own database.
  */
+import "../../lib/local-env";
 import { execFileSync } from "node:child_process";
 import { randomBytes } from "node:crypto";
 import knex from "knex";
