@@ -75,6 +75,7 @@ describe("user schemas", () => {
     pressureUnit: "kPa",
     password: "twelve-chars!",
     rationale: "",
+    currentPassword: "the-admins-own",
   };
 
   it("normalises the e-mail to trimmed lower case", () => {
@@ -95,6 +96,11 @@ describe("user schemas", () => {
     expect(userUpdateSchema.safeParse({ ...edit, password: "" }).success).toBe(true);
     expect(userUpdateSchema.safeParse({ ...edit, password: "short" }).success).toBe(false);
     expect(userCreateSchema.safeParse({ ...valid, password: "" }).success).toBe(false);
+  });
+
+  it("asks for the administrator's own password on every change", () => {
+    const result = userCreateSchema.safeParse({ ...valid, currentPassword: "" });
+    expect(toFieldErrors(result.error!).currentPassword).toEqual(["Enter your own password to confirm the change."]);
   });
 });
 
