@@ -7,8 +7,8 @@ import { getEnv } from "../env";
  * `sign_in_attempts`, where every attempt lands whatever its outcome.
  *
  * - Per account (the e-mail typed, known or not, and the signer's own
- *   account): after two failures each further attempt waits, doubling from
- *   1 s up to 60 s; after SIGNIN_MAX_FAILURES within SIGNIN_WINDOW_MINUTES the
+ *   account): at sign-in, after three failures each further attempt waits,
+ *   doubling from 1 s up to 60 s (two typos in a row cost nothing); after SIGNIN_MAX_FAILURES within SIGNIN_WINDOW_MINUTES the
  *   account is locked until the oldest of those failures leaves the window.
  * - Per client address: a progressive delay only (from 2 × SIGNIN_MAX_FAILURES
  *   failures, doubling up to 60 s), never a lockout — behind a proxy that
@@ -36,14 +36,16 @@ export function throttleVerdict(input: {
   now: number;
   maxFailures: number;
   windowMs: number;
+  /** Whether quick repeated failures wait (sign-in); a re-entered password only locks. */
+  progressive: boolean;
 }): ThrottleVerdict {
   const { accountFailures: acc, addressFailures: addr, now, maxFailures, windowMs } = input;
   let until = 0;
   let scope: "account" | "address" = "account";
   if (acc.length >= maxFailures) {
     until = acc[acc.length - maxFailures]! + windowMs;
-  } else if (acc.length > 0) {
-    until = acc[acc.length - 1]! + delayAfter(acc.length, 2);
+  } else if (acc.length > 0 && input.progressive) {
+    until = acc[acc.length - 1]! + delayAfter(acc.length, 3);
   }
   if (addr.length > 0) {
     const addressUntil = addr[addr.length - 1]! + delayAfter(addr.length, 2 * maxFailures);
@@ -99,6 +101,8 @@ export async function checkThrottle(
     now: now.getTime(),
     maxFailures: env.SIGNIN_MAX_FAILURES,
     windowMs,
+    // A signer who mistypes is already signed in and typing in front of a patient: no waits, only the lockout.
+    progressive: keys.clientIp !== null,
   });
 }
 

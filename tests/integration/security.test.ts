@@ -108,12 +108,15 @@ describe("sign-in: throttling", () => {
     await expect(
       verifySignIn(appDb(), { email, password: "w2" }, "203.0.113.9", at(100)),
     ).rejects.toThrow(SIGN_IN_FAILED);
-    // Two failures are free; the third must wait a second.
     await expect(
       verifySignIn(appDb(), { email, password: "w3" }, "203.0.113.9", at(200)),
+    ).rejects.toThrow(SIGN_IN_FAILED);
+    // Three failures are free (a typo or two costs nothing); the fourth must wait a second.
+    await expect(
+      verifySignIn(appDb(), { email, password: "w4" }, "203.0.113.9", at(300)),
     ).rejects.toThrow("Too many failed sign-ins. Try again in 1 second.");
     await expect(
-      verifySignIn(appDb(), { email, password: "w3" }, "203.0.113.9", at(1200)),
+      verifySignIn(appDb(), { email, password: "w4" }, "203.0.113.9", at(1300)),
     ).rejects.toThrow(SIGN_IN_FAILED);
   });
 
