@@ -17,6 +17,9 @@ export function isLoopbackUrl(url: string): boolean {
   return host === "localhost" || host === "[::1]" || /^127(\.\d{1,3}){3}$/.test(host);
 }
 
+/** The documented demo ledger key; refused in production unless TIDEMARK_DEMO=1 (like DEMO_SECRET). */
+export const DEMO_LEDGER_KEY = "tidemark-demo-ledger-key-not-for-production-use";
+
 const envSchema = z
   .object({
     NODE_ENV: z
@@ -84,6 +87,15 @@ const envSchema = z
     SMTP_PASS: z.string().optional(),
     /** HTTP port of the local fake inbox's readable page (`npm run mail:inbox`, the demo). */
     MAIL_INBOX_PORT: z.coerce.number().int().min(1).max(65535).default(2580),
+    // --- Ledger integrity (lib/ledger; README "What the ledger promises") ---
+    /** The ledger's HMAC secret. Kept out of the database, so an account that can INSERT cannot forge rows. */
+    LEDGER_HMAC_KEY: z
+      .string()
+      .min(32, "LEDGER_HMAC_KEY must be at least 32 characters")
+      .default(DEMO_LEDGER_KEY),
+    /** Where the worker writes the signed chain-head anchor; default .data/ledger-anchor.<DATABASE_NAME>.json. */
+    LEDGER_ANCHOR_PATH: z.string().min(1).optional(),
+    LEDGER_ANCHOR_MINUTES: z.coerce.number().int().min(1).max(1440).default(5),
   })
   .refine((e) => !e.SMTP_USER || !!e.SMTP_PASS, {
     path: ["SMTP_PASS"],
@@ -110,6 +122,7 @@ const envSchema = z
       ["NEXTAUTH_SECRET", e.NEXTAUTH_SECRET === DEMO_SECRET],
       ["DATABASE_PASSWORD", e.DATABASE_PASSWORD === DEMO_APP_PASSWORD],
       ["DATABASE_OWNER_PASSWORD", e.DATABASE_OWNER_PASSWORD === DEMO_OWNER_PASSWORD],
+      ["LEDGER_HMAC_KEY", e.LEDGER_HMAC_KEY === DEMO_LEDGER_KEY],
     ] as const;
     for (const [name, isDemo] of published) {
       if (isDemo) {
@@ -120,6 +133,24 @@ const envSchema = z
         });
       }
     }
+  })
+  // Ledger integrity: the demo key only in the demo and tests; never the session secret.
+  .refine(
+    (e) =>
+      !(
+        e.NODE_ENV === "production" &&
+        e.TIDEMARK_DEMO !== "1" &&
+        e.LEDGER_HMAC_KEY === DEMO_LEDGER_KEY
+      ),
+    {
+      path: ["LEDGER_HMAC_KEY"],
+      message:
+        "set a real LEDGER_HMAC_KEY in production (the demo key is refused)",
+    },
+  )
+  .refine((e) => e.LEDGER_HMAC_KEY !== e.NEXTAUTH_SECRET, {
+    path: ["LEDGER_HMAC_KEY"],
+    message: "LEDGER_HMAC_KEY must differ from NEXTAUTH_SECRET",
   });
 
 export type Env = z.infer<typeof envSchema>;

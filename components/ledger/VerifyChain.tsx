@@ -13,13 +13,24 @@ const plural = (n: number, one: string, many: string) =>
 
 /** The verdict in words: intact with its count, or where the first link breaks and why. */
 export function verificationMessage(result: LedgerVerification): string {
+  const anchorTime = result.anchor
+    ? `${result.anchor.createdAt.slice(0, 16).replace("T", " ")} UTC`
+    : null;
   if (result.ok || result.firstBroken === null) {
-    return `Chain intact — ${plural(result.checked, "row", "rows")} checked`;
+    const rows = `Chain intact — ${plural(result.checked, "row", "rows")} checked`;
+    if (!anchorTime) return rows;
+    return result.mode === "incremental"
+      ? `${rows} since the anchor of ${anchorTime}`
+      : `${rows}; heads match the anchor of ${anchorTime}`;
   }
   const { id, chainKey, chainSeq, problem } = result.firstBroken;
-  // Row 0 means the chain head points past the last stored row.
-  const where = id > 0 ? `row #${id}` : "the chain head";
-  return `Broken link at ${where} (chain ${chainKey}, position ${chainSeq}): ${problem}`;
+  // Row 0 means the chain head (or the anchor file), not a stored row.
+  const where = id > 0 ? `row #${id}` : chainKey === "(anchor)" ? "the anchor" : "the chain head";
+  const more = (result.problems?.length ?? 1) - 1;
+  return (
+    `Broken link at ${where} (chain ${chainKey}, position ${chainSeq}): ${problem}` +
+    (more > 0 ? ` — and ${plural(more, "more problem", "more problems")}` : "")
+  );
 }
 
 /** Walks every hash chain on request; the verdict by word, icon and colour. */

@@ -1,7 +1,8 @@
 import type { Knex } from "knex";
 import type { Actor } from "../auth/actor";
 import type { LedgerAction, LedgerEntityType } from "./actions";
-import { GENESIS_HASH, hashLedgerEntry } from "./hash";
+import { GENESIS_HASH, keyedLedgerHash } from "./hash";
+import { ledgerKeys } from "./keys";
 
 export type LedgerInput = {
   action: LedgerAction;
@@ -65,7 +66,9 @@ export async function lockPatientChain(trx: Knex.Transaction, patientId: number)
 /**
  * Appends one hash-chained ledger row inside the caller's transaction. Only the
  * chain's head row is locked, so writes on different patients do not queue
- * behind each other.
+ * behind each other. The row's hash is an HMAC under LEDGER_HMAC_KEY, so an
+ * account that can INSERT but does not hold the key cannot append a row that
+ * verifies; triggers let the chain head advance only one stored row at a time.
  */
 export async function appendLedger(
   trx: Knex.Transaction,
@@ -93,7 +96,7 @@ export async function appendLedger(
     afterJson: input.after === undefined ? null : JSON.stringify(input.after),
     rationale: input.rationale ?? null,
   };
-  const hash = hashLedgerEntry(fields);
+  const hash = keyedLedgerHash(ledgerKeys(), fields);
   const [id] = await trx("ledger_entries").insert({
     chain_key: fields.chainKey,
     chain_seq: fields.chainSeq,

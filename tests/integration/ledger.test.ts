@@ -1,6 +1,7 @@
 import { afterAll, describe, expect, it } from "vitest";
 import { closeDb } from "@/lib/db";
-import { GENESIS_HASH, hashLedgerEntry } from "@/lib/ledger/hash";
+import { GENESIS_HASH, keyedLedgerHash, type HashedLedgerFields } from "@/lib/ledger/hash";
+import { ledgerKeys } from "@/lib/ledger/keys";
 import { appendLedger, chainKeyFor } from "@/lib/ledger/service";
 import { verifyLedger } from "@/lib/ledger/verify";
 import { actorByEmail, appDb, ownerDb, SEEDED } from "../helpers/db";
@@ -87,24 +88,24 @@ describe("ledger hash chain", () => {
     expect((await verifyLedger(appDb())).ok).toBe(true);
   });
 
-  it("reports the first broken link when a chain head no longer matches its rows", async () => {
+  it("refuses to point a chain head anywhere but its next stored row", async () => {
     const row = await appendOne(4, "head tamper probe");
-    // The head table is writable (it must be, to advance); tampering with it is caught.
-    await appDb()("ledger_chains").where({ chain_key: row.chainKey }).update({ last_hash: GENESIS_HASH });
-    try {
-      const result = await verifyLedger(appDb());
-      expect(result.ok).toBe(false);
-      expect(result.firstBroken).toMatchObject({ chainKey: row.chainKey });
-    } finally {
-      await appDb()("ledger_chains").where({ chain_key: row.chainKey }).update({ last_hash: row.hash });
-    }
+    // The head table must stay writable to advance; the trigger allows nothing else.
+    await expect(
+      appDb()("ledger_chains").where({ chain_key: row.chainKey }).update({ last_hash: GENESIS_HASH }),
+    ).rejects.toMatchObject({ errno: 1644 });
+    const head = (await appDb()("ledger_chains").where({ chain_key: row.chainKey }).first()) as {
+      last_seq: number;
+      last_hash: string;
+    };
+    expect(head).toMatchObject({ last_seq: row.chainSeq, last_hash: row.hash });
     expect((await verifyLedger(appDb())).ok).toBe(true);
   });
 
   it("a stored row's hash covers its content (recomputing from the row reproduces it)", async () => {
     const row = await appendOne(5, "recompute probe");
     const r = (await appDb()("ledger_entries").where({ id: row.id }).first()) as Record<string, unknown>;
-    const fields = {
+    const fields: HashedLedgerFields = {
       chainKey: r.chain_key as string,
       chainSeq: Number(r.chain_seq),
       prevHash: r.prev_hash as string,
@@ -120,7 +121,7 @@ describe("ledger hash chain", () => {
       afterJson: r.after_json as string,
       rationale: r.rationale as string,
     };
-    expect(hashLedgerEntry(fields)).toBe(r.hash);
-    expect(hashLedgerEntry({ ...fields, rationale: "recompute probe!" })).not.toBe(r.hash);
+    expect(keyedLedgerHash(ledgerKeys(), fields)).toBe(r.hash);
+    expect(keyedLedgerHash(ledgerKeys(), { ...fields, rationale: "recompute probe!" })).not.toBe(r.hash);
   });
 });

@@ -1,6 +1,11 @@
 import { describe, expect, it } from "vitest";
 import { duplicateIndex } from "@/lib/db-errors";
-import { GENESIS_HASH, hashLedgerEntry, type HashedLedgerFields } from "@/lib/ledger/hash";
+import {
+  deriveLedgerKeys,
+  GENESIS_HASH,
+  keyedLedgerHash,
+  type HashedLedgerFields,
+} from "@/lib/ledger/hash";
 import { ageInYears, initialsOf } from "@/lib/patients/display";
 import { resolveUnitChoice } from "@/lib/preferences/unit";
 import { userCreateSchema, userUpdateSchema } from "@/lib/users/schema";
@@ -29,6 +34,8 @@ describe("patient display", () => {
 });
 
 describe("ledger hash", () => {
+  const keys = deriveLedgerKeys("a-test-ledger-key-of-at-least-32-chars");
+  const hashLedgerEntry = (f: HashedLedgerFields) => keyedLedgerHash(keys, f);
   const base: HashedLedgerFields = {
     chainKey: "patient:7",
     chainSeq: 3,
@@ -46,7 +53,7 @@ describe("ledger hash", () => {
     rationale: "reason",
   };
 
-  it("is a 64-character hex SHA-256 and stable for the same fields", () => {
+  it("is a 64-character hex HMAC-SHA256 and stable for the same fields", () => {
     expect(hashLedgerEntry(base)).toMatch(/^[0-9a-f]{64}$/);
     expect(hashLedgerEntry({ ...base })).toBe(hashLedgerEntry(base));
   });

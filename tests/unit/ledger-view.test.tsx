@@ -93,6 +93,33 @@ describe("ledger words", () => {
       }),
     ).toMatch(/^Broken link at the chain head \(chain admin, position 9\)/);
   });
+
+  it("names the anchor a verdict was checked against, and how many more problems there are", () => {
+    const anchor = { createdAt: "2026-12-04T08:05:00.000Z", chains: 12 };
+    expect(verificationMessage({ ok: true, checked: 3, firstBroken: null, anchor })).toBe(
+      "Chain intact — 3 rows checked; heads match the anchor of 2026-12-04 08:05 UTC",
+    );
+    expect(
+      verificationMessage({ ok: true, checked: 1, firstBroken: null, anchor, mode: "incremental" }),
+    ).toBe("Chain intact — 1 row checked since the anchor of 2026-12-04 08:05 UTC");
+    const truncated = {
+      id: 0,
+      chainKey: "patient:3",
+      chainSeq: 9,
+      problem: "chain ends at row 7 but the anchor recorded row 9",
+    };
+    expect(
+      verificationMessage({
+        ok: false,
+        checked: 40,
+        firstBroken: truncated,
+        problems: [truncated, { ...truncated, problem: "head rewound" }],
+        anchor,
+      }),
+    ).toBe(
+      "Broken link at the chain head (chain patient:3, position 9): chain ends at row 7 but the anchor recorded row 9 — and 1 more problem",
+    );
+  });
 });
 
 describe("ledger times", () => {
