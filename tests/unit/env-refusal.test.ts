@@ -11,6 +11,7 @@ const REAL = {
   NEXTAUTH_SECRET: "a".repeat(43),
   DATABASE_PASSWORD: "generated-app-password",
   DATABASE_OWNER_PASSWORD: "generated-owner-password",
+  LEDGER_HMAC_KEY: "b".repeat(43),
 };
 const OFF_LOOPBACK = "https://tidemark.hospital.example";
 
@@ -69,7 +70,7 @@ describe("demo secrets off loopback", () => {
     expect(explicit).toMatch(/DATABASE_PASSWORD: the documented demo value/);
     expect(explicit).toMatch(/DATABASE_OWNER_PASSWORD: the documented demo value/);
     const defaulted = refusal({ NODE_ENV: "production", NEXTAUTH_URL: OFF_LOOPBACK });
-    for (const name of ["NEXTAUTH_SECRET", "DATABASE_PASSWORD", "DATABASE_OWNER_PASSWORD"]) {
+    for (const name of ["NEXTAUTH_SECRET", "DATABASE_PASSWORD", "DATABASE_OWNER_PASSWORD", "LEDGER_HMAC_KEY"]) {
       expect(defaulted).toMatch(new RegExp(`${name}: the documented demo value`));
     }
   });
