@@ -70,7 +70,12 @@ describe("demo secrets off loopback", () => {
     expect(explicit).toMatch(/DATABASE_PASSWORD: the documented demo value/);
     expect(explicit).toMatch(/DATABASE_OWNER_PASSWORD: the documented demo value/);
     const defaulted = refusal({ NODE_ENV: "production", NEXTAUTH_URL: OFF_LOOPBACK });
-    for (const name of ["NEXTAUTH_SECRET", "DATABASE_PASSWORD", "DATABASE_OWNER_PASSWORD", "LEDGER_HMAC_KEY"]) {
+    for (const name of [
+      "NEXTAUTH_SECRET",
+      "DATABASE_PASSWORD",
+      "DATABASE_OWNER_PASSWORD",
+      "LEDGER_HMAC_KEY",
+    ]) {
       expect(defaulted).toMatch(new RegExp(`${name}: the documented demo value`));
     }
   });
