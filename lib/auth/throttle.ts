@@ -7,9 +7,11 @@ import { getEnv } from "../env";
  * `sign_in_attempts`, where every attempt lands whatever its outcome.
  *
  * - Per account (the e-mail typed, known or not, and the signer's own
- *   account): at sign-in, after three failures each further attempt waits,
- *   doubling from 1 s up to 60 s (two typos in a row cost nothing); after SIGNIN_MAX_FAILURES within SIGNIN_WINDOW_MINUTES the
- *   account is locked until the oldest of those failures leaves the window.
+ *   account): at sign-in, after three wrong sign-in passwords each further
+ *   attempt waits, doubling from 1 s up to 60 s (a typo or two costs
+ *   nothing); after SIGNIN_MAX_FAILURES wrong passwords of either kind within
+ *   SIGNIN_WINDOW_MINUTES the account is locked until the oldest of them
+ *   leaves the window.
  * - Per client address: a progressive delay only (from 2 × SIGNIN_MAX_FAILURES
  *   failures, doubling up to 60 s), never a lockout — behind a proxy that
  *   hides addresses everyone shares one, and one attacker must not lock the
@@ -31,7 +33,10 @@ function delayAfter(failures: number, from: number): number {
 
 /** Pure: whether an attempt at `now` may go ahead, from the failure times (ms, ascending) in the window. */
 export function throttleVerdict(input: {
+  /** Every wrong password on the account (sign-in and re-entered): these lock. */
   accountFailures: readonly number[];
+  /** The wrong sign-in passwords among them: these slow sign-in down. */
+  accountSignInFailures: readonly number[];
   addressFailures: readonly number[];
   now: number;
   maxFailures: number;
@@ -44,8 +49,9 @@ export function throttleVerdict(input: {
   let scope: "account" | "address" = "account";
   if (acc.length >= maxFailures) {
     until = acc[acc.length - maxFailures]! + windowMs;
-  } else if (acc.length > 0 && input.progressive) {
-    until = acc[acc.length - 1]! + delayAfter(acc.length, 3);
+  } else if (input.progressive && input.accountSignInFailures.length > 0) {
+    const signIn = input.accountSignInFailures;
+    until = signIn[signIn.length - 1]! + delayAfter(signIn.length, 3);
   }
   if (addr.length > 0) {
     const addressUntil = addr[addr.length - 1]! + delayAfter(addr.length, 2 * maxFailures);
@@ -64,20 +70,20 @@ export function retryWords(seconds: number): string {
   return `${Math.ceil(seconds / 60)} minutes`;
 }
 
-async function failureTimes(
+async function failures(
   knex: Knex,
   column: "email_key" | "client_ip",
   value: string,
   since: Date,
-): Promise<number[]> {
+): Promise<{ t: number; purpose: string }[]> {
   const rows = (await knex("sign_in_attempts")
     .where(column, value)
     .andWhere("outcome", "wrong")
     .andWhere("attempted_at", ">=", since)
     .orderBy("attempted_at", "desc")
     .limit(200)
-    .pluck("attempted_at")) as Date[];
-  return rows.map((d) => new Date(d).getTime()).reverse();
+    .select("attempted_at", "purpose")) as { attempted_at: Date; purpose: string }[];
+  return rows.map((r) => ({ t: new Date(r.attempted_at).getTime(), purpose: r.purpose })).reverse();
 }
 
 /** The verdict for an account key and (when known) a client address, from the record. */
@@ -89,15 +95,16 @@ export async function checkThrottle(
   const env = getEnv();
   const windowMs = env.SIGNIN_WINDOW_MINUTES * 60_000;
   const since = new Date(now.getTime() - windowMs);
-  const [accountFailures, addressFailures] = await Promise.all([
-    failureTimes(knex, "email_key", keys.emailKey, since),
+  const [account, address] = await Promise.all([
+    failures(knex, "email_key", keys.emailKey, since),
     keys.clientIp === null
       ? Promise.resolve([])
-      : failureTimes(knex, "client_ip", keys.clientIp, since),
+      : failures(knex, "client_ip", keys.clientIp, since),
   ]);
   return throttleVerdict({
-    accountFailures,
-    addressFailures,
+    accountFailures: account.map((f) => f.t),
+    accountSignInFailures: account.filter((f) => f.purpose === "sign_in").map((f) => f.t),
+    addressFailures: address.map((f) => f.t),
     now: now.getTime(),
     maxFailures: env.SIGNIN_MAX_FAILURES,
     windowMs,
