@@ -6,6 +6,7 @@
  * Run on demand: `npm run bench:verify` (needs the private MariaDB running:
  * `npm run db:start`). Uses its own database, dropped at the end.
  */
+import "../../lib/local-env";
 import { execFileSync } from "node:child_process";
 import { mkdtemp, rm } from "node:fs/promises";
 import { tmpdir } from "node:os";
