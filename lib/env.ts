@@ -57,6 +57,8 @@ const envSchema = z
         (v) => v.split(",").every((p) => /^[0-9A-Fa-f:.]*$/.test(p.trim())),
         "TRUSTED_PROXIES must be comma-separated IP addresses",
       ),
+    /** Other origins (comma-separated) whose pages may write with a session; NEXTAUTH_URL's always may. */
+    ALLOWED_ORIGINS: z.string().default(""),
     /** A session unused this long ends; the next request asks to sign in again. */
     SESSION_IDLE_MINUTES: z.coerce.number().int().min(1).max(720).default(30),
     /** Alerts: how long a monitor series must stay out of band / back in band, escalation delay, urgent grade. */

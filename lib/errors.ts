@@ -7,7 +7,7 @@ export type FieldErrors = Record<string, string[]>;
 export class DomainError extends Error {
   constructor(
     message: string,
-    readonly status: 400 | 401 | 403 | 404 | 409 | 413 | 422 | 429,
+    readonly status: 400 | 401 | 403 | 404 | 409 | 413 | 415 | 422 | 429,
     readonly fieldErrors?: FieldErrors,
   ) {
     super(message);

@@ -39,12 +39,40 @@ export async function handleRoute(body: () => Promise<Response>): Promise<Respon
   }
 }
 
+/**
+ * Reads a request body as bytes, chunk by chunk, refusing it (413) as soon as
+ * it passes `maxBytes` rather than after buffering all of it.
+ */
+function sizeWords(bytes: number): string {
+  return bytes >= 1024 * 1024
+    ? `${Math.round(bytes / 1024 / 1024)} MB`
+    : `${Math.round(bytes / 1024)} KB`;
+}
+
+export async function readBodyBytes(request: Request, maxBytes: number): Promise<Buffer> {
+  if (!request.body) return Buffer.alloc(0);
+  const declared = Number(request.headers.get("content-length") ?? "0");
+  if (declared > maxBytes)
+    throw new DomainError(`The body is larger than ${sizeWords(maxBytes)}.`, 413);
+  const chunks: Buffer[] = [];
+  let size = 0;
+  const reader = request.body.getReader();
+  for (;;) {
+    const { done, value } = await reader.read();
+    if (done) break;
+    size += value.byteLength;
+    if (size > maxBytes) {
+      await reader.cancel();
+      throw new DomainError(`The body is larger than ${sizeWords(maxBytes)}.`, 413);
+    }
+    chunks.push(Buffer.from(value));
+  }
+  return Buffer.concat(chunks, size);
+}
+
 /** Reads a JSON body with a size cap; malformed or oversized bodies are a 400/413. */
 export async function readJson(request: Request, maxBytes = 64 * 1024): Promise<unknown> {
-  const text = await request.text();
-  if (Buffer.byteLength(text) > maxBytes) {
-    throw new DomainError(`Request body is larger than ${maxBytes} bytes.`, 413);
-  }
+  const text = (await readBodyBytes(request, maxBytes)).toString("utf8");
   try {
     return JSON.parse(text) as unknown;
   } catch {

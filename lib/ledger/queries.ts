@@ -1,14 +1,15 @@
 import type { Knex } from "knex";
 import { z } from "zod";
 import type { Actor } from "../auth/actor";
+import { queryTime } from "../validation";
 import { LEDGER_ACTIONS, type LedgerEntityType } from "./actions";
 
 export const ledgerFilterSchema = z.object({
   patientId: z.coerce.number().int().positive().optional(),
   actorId: z.coerce.number().int().positive().optional(),
   action: z.enum(LEDGER_ACTIONS).optional(),
-  from: z.coerce.date().optional(),
-  to: z.coerce.date().optional(),
+  from: queryTime("From").optional(),
+  to: queryTime("To").optional(),
   /** Rows older than this id (newest first). */
   before: z.coerce.number().int().positive().optional(),
   limit: z.coerce.number().int().min(1).max(500).default(50),

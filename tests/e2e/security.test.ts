@@ -125,3 +125,72 @@ describe("sessions that end", () => {
     expect((await again.fetch("/api/v1/me")).status).toBe(200);
   });
 });
+
+describe("writes from other sites, odd bodies and out-of-range queries", () => {
+  const readings = async () =>
+    Number(((await appDb()("readings").count({ n: "*" }).first()) as { n: number }).n);
+  const reading = { patientId: 1, takenAt: new Date().toISOString(), spo2: 93, device: "room_air" };
+
+  it("refuses a cookie-session write as text/plain from another origin, and writes nothing", async () => {
+    const nurse = await Session.signIn(SEEDED.nurse);
+    const before = await readings();
+    const res = await nurse.fetch("/api/v1/readings", {
+      method: "POST",
+      headers: { "content-type": "text/plain", origin: "https://evil.example" },
+      body: JSON.stringify(reading),
+    });
+    expect(res.status).toBe(403);
+    expect(((await res.json()) as { error: { message: string } }).error.message).toContain(
+      "https://evil.example",
+    );
+    // The same from another site as JSON, and from our own origin as text/plain.
+    const json = await nurse.fetch("/api/v1/readings", {
+      method: "POST",
+      headers: { "content-type": "application/json", origin: "https://evil.example" },
+      body: JSON.stringify(reading),
+    });
+    expect(json.status).toBe(403);
+    const plain = await nurse.fetch("/api/v1/readings", {
+      method: "POST",
+      headers: { "content-type": "text/plain", "sec-fetch-site": "same-origin" },
+      body: JSON.stringify(reading),
+    });
+    expect(plain.status).toBe(415);
+    expect(await readings()).toBe(before);
+  });
+
+  it("answers an asOf beyond the order history with 400, not 500", async () => {
+    const physician = await Session.signIn(SEEDED.physician);
+    const res = await physician.fetch("/api/v1/orders/10?asOf=99999-01-01");
+    expect(res.status).toBe(400);
+    expect(
+      ((await res.json()) as { error: { fieldErrors: Record<string, string[]> } }).error.fieldErrors
+        .asOf?.[0],
+    ).toMatch(/asOf must be a date and time between 1970-01-01 and 2038-01-19/);
+    const ledger = await physician.fetch("/api/v1/ledger?from=99999-01-01");
+    expect(ledger.status).toBe(400);
+  });
+
+  it("refuses a 50 MB chunked upload at the cap (413) without reading it whole", async () => {
+    const therapist = await Session.signIn(SEEDED.therapist);
+    const chunk = new Uint8Array(1024 * 1024).fill(65);
+    let sent = 0;
+    const body = new ReadableStream<Uint8Array>({
+      pull(controller) {
+        if (sent >= 50) return controller.close();
+        sent += 1;
+        controller.enqueue(chunk);
+      },
+    });
+    const res = await therapist.fetch("/api/v1/imports", {
+      method: "POST",
+      headers: { "content-type": "multipart/form-data; boundary=tidemark" },
+      body,
+      duplex: "half",
+    } as RequestInit);
+    expect(res.status).toBe(413);
+    expect(((await res.json()) as { error: { message: string } }).error.message).toMatch(
+      /larger than 12 MB/,
+    );
+  });
+});

@@ -2,9 +2,11 @@ import { NextResponse } from "next/server";
 import { requireRole } from "@/lib/auth/guard";
 import { db } from "@/lib/db";
 import { DomainError } from "@/lib/errors";
-import { handleRoute } from "@/lib/http";
+import { getEnv } from "@/lib/env";
+import { handleRoute, readBodyBytes } from "@/lib/http";
 import { listImports } from "@/lib/imports/queries";
 import { IMPORT_ROLES, MAX_IMPORT_BYTES, uploadForPreview } from "@/lib/imports/service";
+import { allowedOrigins, refuseCrossSiteWrite } from "@/lib/request-guard";
 
 /** The latest imports of the caller's units. */
 export function GET() {
@@ -25,14 +27,22 @@ const field = (form: FormData, name: string) => {
  */
 export function POST(request: Request) {
   return handleRoute(async () => {
+    // This route is outside the middleware (large bodies): the cross-site rule is applied here.
+    const env = getEnv();
+    const url = new URL(request.url);
+    const refusal = refuseCrossSiteWrite(
+      { method: request.method, pathname: url.pathname, headers: request.headers, origin: url.origin },
+      allowedOrigins(env.NEXTAUTH_URL, env.ALLOWED_ORIGINS),
+    );
+    if (refusal) throw new DomainError(refusal.message, refusal.status);
     const actor = await requireRole(...IMPORT_ROLES);
-    const declared = Number(request.headers.get("content-length") ?? "0");
-    if (declared > MAX_IMPORT_BYTES.monitor_csv + 64 * 1024) {
-      throw new DomainError(`The upload is larger than ${MAX_IMPORT_BYTES.monitor_csv / 1024 / 1024} MB.`, 413);
-    }
+    // Counted while it streams in: a 50 MB upload is refused at the cap, not read whole first.
+    const body = await readBodyBytes(request, MAX_IMPORT_BYTES.monitor_csv + 64 * 1024);
     let form: FormData;
     try {
-      form = await request.formData();
+      form = await new Response(new Uint8Array(body), {
+        headers: { "content-type": request.headers.get("content-type") ?? "" },
+      }).formData();
     } catch {
       throw new DomainError("Send the file as multipart/form-data.", 400);
     }

@@ -6,9 +6,9 @@ import { db } from "@/lib/db";
 import { NotFoundError } from "@/lib/errors";
 import { handleRoute, idParam } from "@/lib/http";
 import { getOrder } from "@/lib/orders/queries";
-import { parseInput } from "@/lib/validation";
+import { HISTORY_RANGE, parseInput, queryTime } from "@/lib/validation";
 
-const query = z.object({ asOf: z.coerce.date({ error: "asOf must be a date and time." }).optional() });
+const query = z.object({ asOf: queryTime("asOf", HISTORY_RANGE).optional() });
 
 /** An order as it stands, or as it stood at `?asOf=` (system-versioned history). */
 export function GET(request: Request, { params }: { params: Promise<{ orderId: string }> }) {
