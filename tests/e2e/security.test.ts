@@ -194,3 +194,24 @@ describe("writes from other sites, odd bodies and out-of-range queries", () => {
     );
   });
 });
+
+describe("quotas", () => {
+  it("answers the seventh ledger verification within a minute with 429 and Retry-After", async () => {
+    const { email } = await newNurse();
+    const nurse = await Session.signIn(email);
+    // Start early in a minute, so all seven land in one window.
+    const second = new Date().getUTCSeconds();
+    if (second >= 45) await new Promise((resolve) => setTimeout(resolve, (61 - second) * 1000));
+    const statuses: number[] = [];
+    let retryAfter: string | null = null;
+    for (let i = 0; i < 7; i++) {
+      const res = await nurse.fetch("/api/v1/ledger/verify?mode=incremental");
+      statuses.push(res.status);
+      if (res.status === 429) retryAfter = res.headers.get("retry-after");
+      await res.arrayBuffer();
+    }
+    expect(statuses).toEqual([200, 200, 200, 200, 200, 200, 429]);
+    expect(Number(retryAfter)).toBeGreaterThan(0);
+    expect(Number(retryAfter)).toBeLessThanOrEqual(60);
+  }, 90_000);
+});

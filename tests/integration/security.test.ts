@@ -8,6 +8,7 @@ import { SIGN_IN_FAILED, verifySignIn } from "@/lib/auth/sign-in";
 import { closeDb } from "@/lib/db";
 import { getEnv } from "@/lib/env";
 import { TooManyRequestsError, ValidationError } from "@/lib/errors";
+import { consumeQuota, QUOTAS } from "@/lib/rate-limit";
 import { updateUser, setUserActive } from "@/lib/users/service";
 import { actorByEmail, appDb, SEEDED, uniqueEmail } from "../helpers/db";
 
@@ -266,5 +267,25 @@ describe("redirects after sign-in", () => {
     expect(safeRedirect("/\\evil.example", "http://localhost:3000")).toBe(
       "http://localhost:3000/board",
     );
+  });
+});
+
+describe("quotas on expensive reads", () => {
+  it("answers the request past the quota with 429 and the seconds until the minute turns", async () => {
+    const subject = `user:quota-${Date.now()}-${Math.random()}`;
+    const now = new Date(Math.floor(Date.now() / 60_000) * 60_000 + 15_000);
+    for (let i = 0; i < QUOTAS.ledger_verify.perMinute; i++)
+      await consumeQuota(appDb(), subject, "ledger_verify", now);
+    const error = (await consumeQuota(appDb(), subject, "ledger_verify", now).catch(
+      (e: unknown) => e,
+    )) as TooManyRequestsError;
+    expect(error).toBeInstanceOf(TooManyRequestsError);
+    expect(error.retryAfterSeconds).toBe(45);
+    expect(error.message).toBe(
+      "Too many ledger verifications: at most 6 a minute. Try again in 45 seconds.",
+    );
+    // Another bucket, and the next minute, are counted afresh.
+    await consumeQuota(appDb(), subject, "ledger_export", now);
+    await consumeQuota(appDb(), subject, "ledger_verify", new Date(now.getTime() + 60_000));
   });
 });

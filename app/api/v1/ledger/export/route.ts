@@ -3,11 +3,13 @@ import { db } from "@/lib/db";
 import { handleRoute } from "@/lib/http";
 import { ledgerCsv, ledgerFilterSchema } from "@/lib/ledger/queries";
 import { parseInput } from "@/lib/validation";
+import { consumeQuota } from "@/lib/rate-limit";
 
 /** The filtered ledger as a CSV download, streamed. */
 export function GET(request: Request) {
   return handleRoute(async () => {
     const actor = await requireRole();
+    await consumeQuota(db(), `user:${actor.id}`, "ledger_export");
     const filter = parseInput(ledgerFilterSchema, Object.fromEntries(new URL(request.url).searchParams));
     const rows = ledgerCsv(db(), actor, filter);
     const encoder = new TextEncoder();

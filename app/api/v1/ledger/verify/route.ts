@@ -5,6 +5,7 @@ import { db } from "@/lib/db";
 import { handleRoute } from "@/lib/http";
 import { chainUnitId, verifyLedger, type LedgerProblem } from "@/lib/ledger/verify";
 import { parseInput } from "@/lib/validation";
+import { consumeQuota } from "@/lib/rate-limit";
 
 const querySchema = z.object({ mode: z.enum(["full", "incremental"]).default("full") });
 
@@ -17,6 +18,7 @@ const querySchema = z.object({ mode: z.enum(["full", "incremental"]).default("fu
 export function GET(request: Request) {
   return handleRoute(async () => {
     const actor = await requireRole();
+    await consumeQuota(db(), `user:${actor.id}`, "ledger_verify");
     const { mode } = parseInput(querySchema, Object.fromEntries(new URL(request.url).searchParams));
     const result = await verifyLedger(db(), { mode });
     const broken = result.firstBroken;

@@ -5,6 +5,7 @@ import { handleRoute, readJson } from "@/lib/http";
 import { forecastFio2 } from "@/lib/oxygenation/evaluate";
 import { forecastRequestSchema } from "@/lib/oxygenation/schema";
 import { parseInput } from "@/lib/validation";
+import { consumeQuota } from "@/lib/rate-limit";
 
 /**
  * POST /api/v1/oxygenation/forecast — PaO2 and SpO2 after a change of FiO2, by
@@ -29,6 +30,7 @@ import { parseInput } from "@/lib/validation";
 export function POST(request: Request) {
   return handleRoute(async () => {
     const actor = await requireRole();
+    await consumeQuota(db(), `user:${actor.id}`, "forecast");
     const body = parseInput(forecastRequestSchema, await readJson(request));
     return NextResponse.json(await forecastFio2(db(), actor, body));
   });

@@ -6,6 +6,7 @@ import { getEnv } from "@/lib/env";
 import { exportPatientFhir } from "@/lib/fhir/queries";
 import { handleRoute, idParam } from "@/lib/http";
 import { parseInput } from "@/lib/validation";
+import { consumeQuota } from "@/lib/rate-limit";
 
 const querySchema = z.object({
   since: z.iso
@@ -27,9 +28,10 @@ const querySchema = z.object({
 export function GET(request: Request, { params }: { params: Promise<{ patientId: string }> }) {
   return handleRoute(async () => {
     const authorization = request.headers.get("authorization");
-    const reader = authorization
-      ? { unitIds: (await authenticateApiToken(db(), authorization, "read")).unitIds }
-      : await requireRole();
+    const token = authorization ? await authenticateApiToken(db(), authorization, "read") : null;
+    const actor = token ? null : await requireRole();
+    const reader = token ? { unitIds: token.unitIds } : actor!;
+    await consumeQuota(db(), token ? `token:${token.tokenId}` : `user:${actor!.id}`, "fhir_export");
     const { patientId } = parseInput(idParam("patientId"), await params) as { patientId: number };
     const query = parseInput(querySchema, Object.fromEntries(new URL(request.url).searchParams));
     const { bundle, mrn } = await exportPatientFhir(db(), reader, patientId, {
