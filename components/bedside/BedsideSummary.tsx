@@ -6,6 +6,7 @@ import { spo2Status } from "@/components/adjustments/BedsideContextCards";
 import { Spo2Value } from "@/components/readings/Spo2Value";
 import { StatusBadge } from "@/components/ui/StatusBadge";
 import type { Actor } from "@/lib/auth/actor";
+import { can, mayAdjustDevice } from "@/lib/auth/permissions";
 import { DEVICE_PROFILES } from "@/lib/orders/devices";
 import { formatPfRatio, formatPressure } from "@/lib/oxygen";
 import type { BedsideContext } from "@/lib/patients/bedside";
@@ -18,19 +19,20 @@ function minutesSince(iso: string, now: Date): number {
 export function bedsideActions(actor: Actor, context: BedsideContext) {
   const base = `/patients/${context.admission.patientId}`;
   const actions: { href: string; label: string }[] = [];
-  const clinical =
-    actor.role === "physician" || actor.role === "therapist" || actor.role === "nurse";
-  if (!clinical) return actions;
-  actions.push({
-    href: `${base}/orders/new`,
-    label: actor.role === "physician" ? "Write order" : "Enter verbal order",
-  });
-  const lowFlow = context.order ? DEVICE_PROFILES[context.order.device].lowFlow : false;
-  if (context.order && (actor.role !== "nurse" || lowFlow)) {
+  // Which buttons to show comes from the permission table, as the server's checks do.
+  if (can(actor, "order.write")) {
+    actions.push({
+      href: `${base}/orders/new`,
+      label: actor.role === "physician" ? "Write order" : "Enter verbal order",
+    });
+  }
+  if (context.order && mayAdjustDevice(actor, DEVICE_PROFILES[context.order.device])) {
     actions.push({ href: `${base}/adjustments/new`, label: "Record adjustment" });
   }
-  actions.push({ href: `${base}/readings/new`, label: "Chart reading" });
-  actions.push({ href: `${base}/blood-gases/new`, label: "Enter blood gas" });
+  if (can(actor, "reading.chart"))
+    actions.push({ href: `${base}/readings/new`, label: "Chart reading" });
+  if (can(actor, "blood_gas.record"))
+    actions.push({ href: `${base}/blood-gases/new`, label: "Enter blood gas" });
   return actions;
 }
 

@@ -1,6 +1,5 @@
 import type { Knex } from "knex";
 import type { Actor } from "../auth/actor";
-import { assertRole } from "../auth/actor-queries";
 import { ConflictError, ForbiddenError, ValidationError } from "../errors";
 import { once } from "../idempotency";
 import { afterSettingsChanged } from "../alerts/service";
@@ -18,6 +17,7 @@ import { gasAgeCaveat } from "../blood-gases/freshness";
 import { getBedsideContext } from "../patients/bedside";
 import { parseInput } from "../validation";
 import { adjustmentSchema, type AdjustmentInput } from "./schema";
+import { assertCan, mayAdjustDevice } from "../auth/permissions";
 
 export type AdjustmentView = {
   id: number;
@@ -94,7 +94,7 @@ export async function recordAdjustment(
   raw: AdjustmentInput,
   now: Date = new Date(),
 ): Promise<AdjustmentView> {
-  assertRole(actor, ["physician", "therapist", "nurse"]);
+  assertCan(actor, "adjustment.record");
   const input = parseInput(adjustmentSchema, raw);
   if (
     input.appliedAt.getTime() > now.getTime() + 5 * 60_000 ||
@@ -117,7 +117,7 @@ export async function recordAdjustment(
       },
     );
   }
-  if (actor.role === "nurse" && !DEVICE_PROFILES[order.device].lowFlow) {
+  if (!mayAdjustDevice(actor, DEVICE_PROFILES[order.device])) {
     throw new ForbiddenError(
       `Nurses record changes on low-flow devices only; ${DEVICE_PROFILES[order.device].label} changes are recorded by a therapist or physician.`,
     );

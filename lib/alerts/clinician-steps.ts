@@ -1,6 +1,5 @@
 import type { Knex } from "knex";
 import type { Actor } from "../auth/actor";
-import { assertRole } from "../auth/actor-queries";
 import { ConflictError, NotFoundError } from "../errors";
 import { appendLedger, lockPatientChain } from "../ledger/service";
 import { parseInput } from "../validation";
@@ -13,10 +12,9 @@ import {
   type AcknowledgeInput,
   type ResolveInput,
 } from "./schema";
+import { assertCan } from "../auth/permissions";
 
 // The steps a clinician takes on an alert: acknowledge it, or close it with a reason.
-
-const CLINICAL = ["physician", "therapist", "nurse"] as const;
 
 type AlertForUpdate = OpenAlertRow & {
   admission_id: number;
@@ -68,7 +66,7 @@ export async function acknowledgeAlert(
   raw: AcknowledgeInput,
   now: Date = new Date(),
 ): Promise<AlertStepResult> {
-  assertRole(actor, CLINICAL);
+  assertCan(actor, "alert.act");
   const input = parseInput(acknowledgeSchema, raw);
   return knex.transaction(async (trx) => {
     const alert = await lockAlertForActor(trx, actor, input.alertId);
@@ -124,7 +122,7 @@ export async function resolveAlert(
   raw: ResolveInput,
   now: Date = new Date(),
 ): Promise<AlertStepResult> {
-  assertRole(actor, CLINICAL);
+  assertCan(actor, "alert.act");
   const input = parseInput(resolveSchema, raw);
   return knex.transaction(async (trx) => {
     const alert = await lockAlertForActor(trx, actor, input.alertId);

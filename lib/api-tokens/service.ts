@@ -1,7 +1,6 @@
 import { createHash, randomBytes } from "node:crypto";
 import type { Knex } from "knex";
 import type { Actor } from "../auth/actor";
-import { assertRole } from "../auth/actor-queries";
 import { confirmAdminPassword } from "../auth/reauth";
 import { ConflictError, DomainError, ForbiddenError, NotFoundError, UnauthenticatedError, ValidationError } from "../errors";
 import { appendLedger } from "../ledger/service";
@@ -14,6 +13,7 @@ import {
   type ApiTokenRevokeInput,
   type ApiTokenScope,
 } from "./schema";
+import { assertCan } from "../auth/permissions";
 
 /** Every token starts with this, so a leaked one is easy to recognise in logs and scanners. */
 export const TOKEN_PREFIX = "tdm_";
@@ -44,7 +44,7 @@ export async function createApiToken(
   raw: ApiTokenCreateInput,
   now: Date = new Date(),
 ): Promise<{ token: string; summary: ApiTokenSummary }> {
-  assertRole(actor, ["admin"]);
+  assertCan(actor, "api_token.manage");
   const input = parseInput(apiTokenCreateSchema, raw);
   await confirmAdminPassword(knex, actor.id, input.currentPassword);
   const token = `${TOKEN_PREFIX}${randomBytes(32).toString("base64url")}`;
@@ -96,7 +96,7 @@ export async function revokeApiToken(
   raw: ApiTokenRevokeInput,
   now: Date = new Date(),
 ): Promise<ApiTokenSummary> {
-  assertRole(actor, ["admin"]);
+  assertCan(actor, "api_token.manage");
   const input = parseInput(apiTokenRevokeSchema, raw);
   await confirmAdminPassword(knex, actor.id, input.currentPassword);
   return knex.transaction(async (trx) => {

@@ -5,6 +5,7 @@ import type { Actor } from "./actor";
 import { assertRole, loadActor } from "./actor-queries";
 import { authOptions } from "./options";
 import type { Role } from "./roles";
+import { rolesFor, type Permission } from "./permissions";
 import { checkSession } from "./sessions";
 
 /**
@@ -25,4 +26,9 @@ export async function requireRole(...roles: Role[]): Promise<Actor> {
 /** Any signed-in, active user. */
 export function requireActor(): Promise<Actor> {
   return requireRole();
+}
+
+/** The guard for one action of the permission table (lib/auth/permissions.ts). */
+export function requirePermission(permission: Permission): Promise<Actor> {
+  return requireRole(...rolesFor(permission));
 }

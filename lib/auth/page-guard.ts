@@ -3,6 +3,7 @@ import { ForbiddenError, UnauthenticatedError } from "../errors";
 import type { Actor } from "./actor";
 import { requireRole } from "./guard";
 import type { Role } from "./roles";
+import { rolesFor, type Permission } from "./permissions";
 import { SessionEndedError } from "./sessions";
 
 /**
@@ -18,4 +19,9 @@ export async function pageActor(...roles: Role[]): Promise<Actor> {
     if (error instanceof ForbiddenError) forbidden();
     throw error;
   }
+}
+
+/** pageActor for one action of the permission table. */
+export function pagePermission(permission: Permission): Promise<Actor> {
+  return pageActor(...rolesFor(permission));
 }

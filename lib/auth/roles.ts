@@ -10,9 +10,6 @@ export const ROLE_LABELS: Record<Role, string> = {
   admin: "Administrator",
 };
 
-/** Roles that work at the bedside (may chart readings, blood gases, acknowledge alerts). */
-export const CLINICAL_ROLES: readonly Role[] = ["physician", "therapist", "nurse"];
-
 export function isRole(value: unknown): value is Role {
   return typeof value === "string" && (ROLES as readonly string[]).includes(value);
 }

@@ -1,6 +1,5 @@
 import type { Knex } from "knex";
 import type { Actor } from "../auth/actor";
-import { assertRole } from "../auth/actor-queries";
 import { ValidationError } from "../errors";
 import { once } from "../idempotency";
 import { afterBloodGasRecorded } from "../alerts/service";
@@ -16,6 +15,7 @@ import { findOpenAdmission, type OpenAdmission } from "../patients/access";
 import { resolveFio2 } from "../readings/service";
 import { parseInput } from "../validation";
 import { bloodGasSchema, type BloodGasInput } from "./schema";
+import { assertCan } from "../auth/permissions";
 
 export type BloodGasView = {
   id: number;
@@ -147,7 +147,7 @@ export async function recordBloodGas(
   raw: BloodGasInput,
   now: Date = new Date(),
 ): Promise<BloodGasView> {
-  assertRole(actor, ["physician", "therapist", "nurse"]);
+  assertCan(actor, "blood_gas.record");
   const input = parseInput(bloodGasSchema, raw);
   if (
     input.sampledAt.getTime() > now.getTime() + 5 * 60_000 ||

@@ -4,8 +4,6 @@ import { z } from "zod";
 import { afterBloodGasRecorded, afterReadingsCharted } from "../alerts/service";
 import type { TokenActor } from "../api-tokens/service";
 import type { Actor } from "../auth/actor";
-import { assertRole } from "../auth/actor-queries";
-import type { Role } from "../auth/roles";
 import { insertBloodGas } from "../blood-gases/service";
 import { duplicateIndex } from "../db-errors";
 import { ConflictError, DomainError, NotFoundError, type FieldErrors } from "../errors";
@@ -31,9 +29,9 @@ import { IMPORT_KINDS, IMPORT_LEDGER_ACTIONS, type ImportKind, type RejectedRow 
 import type { MatchedPatient } from "./matching";
 import { getImportRow, toPreview, type ImportRow } from "./queries";
 import type { ImportPreview, StoredReport } from "./report";
+import { assertCan } from "../auth/permissions";
 
 /** Who may upload in the app: the therapist enters blood gases; the admin runs interfaces. */
-export const IMPORT_ROLES: readonly Role[] = ["therapist", "admin"];
 
 /** Size caps per kind: a day of 1 Hz monitor data is about 2.5 MB. */
 export const MAX_IMPORT_BYTES: Record<ImportKind, number> = {
@@ -196,7 +194,7 @@ export async function uploadForPreview(
   content: Buffer,
   now: Date = new Date(),
 ): Promise<ImportPreview> {
-  assertRole(actor, IMPORT_ROLES);
+  assertCan(actor, "import.upload");
   const input = parseInput(uploadSchema, raw);
   assertSize(input.kind, content.length);
   const unit = await actorUnit(knex, actor, input.unitId);
@@ -289,7 +287,7 @@ export async function remapImport(
   mapping: unknown,
   now: Date = new Date(),
 ): Promise<ImportPreview> {
-  assertRole(actor, IMPORT_ROLES);
+  assertCan(actor, "import.upload");
   const row = await accessibleImport(knex, actor, importId);
   if (row.kind !== "blood_gas_csv") throw new DomainError("Only CSV blood gas files have a column mapping.", 400);
   if (row.status !== "previewed") return toPreview(row, { alreadyImported: true });
@@ -329,7 +327,7 @@ export async function confirmImport(
   raw: ConfirmInput,
   now: Date = new Date(),
 ): Promise<ImportPreview> {
-  assertRole(actor, IMPORT_ROLES);
+  assertCan(actor, "import.upload");
   const input = parseInput(confirmSchema, raw);
   await accessibleImport(knex, actor, input.importId);
   const who: Importer = { kind: "user", actor };

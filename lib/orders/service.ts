@@ -1,6 +1,5 @@
 import type { Knex } from "knex";
 import type { Actor } from "../auth/actor";
-import { assertRole } from "../auth/actor-queries";
 import { confirmPassword } from "../auth/reauth";
 import { ConflictError, ForbiddenError, NotFoundError, ValidationError } from "../errors";
 import { once } from "../idempotency";
@@ -33,6 +32,7 @@ import {
   ORDER_SUPERSEDED_PURPOSE,
   orderSupersededMessageId,
 } from "./supersede-email";
+import { assertCan } from "../auth/permissions";
 
 type ParsedOrder = ReturnType<typeof orderInputSchema.parse>;
 
@@ -50,7 +50,7 @@ export async function writeOrder(
   raw: OrderInput,
   now: Date = new Date(),
 ): Promise<OrderView> {
-  assertRole(actor, ["physician", "therapist", "nurse"]);
+  assertCan(actor, "order.write");
   const input = parseInput(orderInputSchema, raw);
   if (actor.role === "physician" && input.entryMode !== "written") {
     throw new ValidationError("Physicians write and sign orders themselves.", {
@@ -352,7 +352,7 @@ async function lockOrder(
  * designates, co-signs it; it becomes active.
  */
 export async function cosignOrder(knex: Knex, actor: Actor, raw: CosignInput): Promise<OrderView> {
-  assertRole(actor, ["physician"]);
+  assertCan(actor, "order.cosign");
   const input = parseInput(cosignSchema, raw);
   await confirmPassword(knex, actor.id, input.password);
   return knex.transaction(async (trx) => {
@@ -409,7 +409,7 @@ export async function discontinueOrder(
   actor: Actor,
   raw: DiscontinueInput,
 ): Promise<OrderView> {
-  assertRole(actor, ["physician"]);
+  assertCan(actor, "order.discontinue");
   const input = parseInput(discontinueSchema, raw);
   await confirmPassword(knex, actor.id, input.password);
   return knex.transaction(async (trx) => {

@@ -1,6 +1,5 @@
 import type { Knex } from "knex";
 import type { Actor } from "../auth/actor";
-import { assertRole } from "../auth/actor-queries";
 import { ValidationError } from "../errors";
 import { once } from "../idempotency";
 import { afterReadingsCharted } from "../alerts/service";
@@ -9,6 +8,7 @@ import { DEVICE_PROFILES, estimateFio2, type Device } from "../orders/devices";
 import { findOpenAdmission } from "../patients/access";
 import { parseInput } from "../validation";
 import { readingSchema, type ReadingInput } from "./schema";
+import { assertCan } from "../auth/permissions";
 
 export type ReadingView = {
   id: number;
@@ -53,7 +53,7 @@ export async function chartReading(
   raw: ReadingInput,
   now: Date = new Date(),
 ): Promise<ReadingView> {
-  assertRole(actor, ["physician", "therapist", "nurse"]);
+  assertCan(actor, "reading.chart");
   const input = parseInput(readingSchema, raw);
   if (
     input.takenAt.getTime() > now.getTime() + 5 * 60_000 ||

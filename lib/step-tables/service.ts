@@ -1,7 +1,6 @@
 import { randomUUID } from "node:crypto";
 import type { Knex } from "knex";
 import type { Actor } from "../auth/actor";
-import { assertRole } from "../auth/actor-queries";
 import { ConflictError, NotFoundError, ValidationError } from "../errors";
 import { appendLedger } from "../ledger/service";
 import { parseInput } from "../validation";
@@ -14,6 +13,7 @@ import {
   type StepTableCreateInput,
   type StepTableUpdateInput,
 } from "./schema";
+import { assertCan } from "../auth/permissions";
 
 type Rows = ReturnType<typeof stepTableCreateSchema.parse>["rows"];
 
@@ -47,7 +47,7 @@ export async function createStepTable(
   actor: Actor,
   raw: StepTableCreateInput,
 ): Promise<StepTableView> {
-  assertRole(actor, ["admin"]);
+  assertCan(actor, "step_table.manage");
   const input = parseInput(stepTableCreateSchema, raw);
   return knex.transaction(async (trx) => {
     await assertUnit(trx, input.unitId);
@@ -104,7 +104,7 @@ export async function updateStepTable(
   actor: Actor,
   raw: StepTableUpdateInput,
 ): Promise<StepTableView> {
-  assertRole(actor, ["admin"]);
+  assertCan(actor, "step_table.manage");
   const input = parseInput(stepTableUpdateSchema, raw);
   return knex.transaction(async (trx) => {
     const before = await lockEditable(trx, input.id, input.version);
@@ -139,7 +139,7 @@ export async function setStepTableActive(
   actor: Actor,
   raw: StepTableActiveInput,
 ): Promise<StepTableView> {
-  assertRole(actor, ["admin"]);
+  assertCan(actor, "step_table.manage");
   const input = parseInput(stepTableActiveSchema, raw);
   return knex.transaction(async (trx) => {
     const before = await lockEditable(trx, input.id, input.version);

@@ -1,6 +1,5 @@
 import type { Knex } from "knex";
 import type { Actor } from "../auth/actor";
-import { assertRole } from "../auth/actor-queries";
 import { confirmAdminPassword } from "../auth/reauth";
 import { hashPassword } from "../auth/password";
 import { endUserSessions } from "../auth/sessions";
@@ -17,6 +16,7 @@ import {
   type UserCreateInput,
   type UserUpdateInput,
 } from "./schema";
+import { assertCan } from "../auth/permissions";
 
 /** What the ledger records of a user: never the password hash. */
 function ledgerView(u: UserSummary) {
@@ -56,7 +56,7 @@ export async function createUser(
   actor: Actor,
   raw: UserCreateInput,
 ): Promise<UserSummary> {
-  assertRole(actor, ["admin"]);
+  assertCan(actor, "user.manage");
   const input = parseInput(userCreateSchema, raw);
   await confirmAdminPassword(knex, actor.id, input.currentPassword);
   const passwordHash = await hashPassword(input.password);
@@ -107,7 +107,7 @@ export async function updateUser(
   actor: Actor,
   raw: UserUpdateInput,
 ): Promise<UserSummary> {
-  assertRole(actor, ["admin"]);
+  assertCan(actor, "user.manage");
   const input = parseInput(userUpdateSchema, raw);
   await confirmAdminPassword(knex, actor.id, input.currentPassword);
   if (input.id === actor.id && input.role !== "admin") {
@@ -168,7 +168,7 @@ export async function setUserActive(
   actor: Actor,
   raw: UserActiveInput,
 ): Promise<UserSummary> {
-  assertRole(actor, ["admin"]);
+  assertCan(actor, "user.manage");
   const input = parseInput(userActiveSchema, raw);
   await confirmAdminPassword(knex, actor.id, input.currentPassword);
   if (input.id === actor.id && !input.active) {

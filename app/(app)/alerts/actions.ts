@@ -10,7 +10,7 @@ import {
   type EmailPreferences,
 } from "@/lib/alerts/schema";
 import { acknowledgeAlert, resolveAlert, type AlertStepResult } from "@/lib/alerts/service";
-import { requireRole } from "@/lib/auth/guard";
+import { requireRole, requirePermission } from "@/lib/auth/guard";
 import { db } from "@/lib/db";
 import { parseInput } from "@/lib/validation";
 
@@ -27,7 +27,7 @@ export async function acknowledgeAlertAction(
   input: unknown,
 ): Promise<ActionResult<AlertStepResult>> {
   return runAction(async () => {
-    const actor = await requireRole("physician", "therapist", "nurse");
+    const actor = await requirePermission("alert.act");
     const result = await acknowledgeAlert(db(), actor, parseInput(acknowledgeSchema, input));
     revalidateAlerts();
     return result;
@@ -36,7 +36,7 @@ export async function acknowledgeAlertAction(
 
 export async function resolveAlertAction(input: unknown): Promise<ActionResult<AlertStepResult>> {
   return runAction(async () => {
-    const actor = await requireRole("physician", "therapist", "nurse");
+    const actor = await requirePermission("alert.act");
     const result = await resolveAlert(db(), actor, parseInput(resolveSchema, input));
     revalidateAlerts();
     return result;

@@ -8,7 +8,7 @@ import { ALERT_KINDS, ALERT_KIND_LABELS } from "@/lib/alerts/kinds";
 import { getEmailPreferences, listAlerts } from "@/lib/alerts/queries";
 import { alertFilterSchema } from "@/lib/alerts/schema";
 import { pageActor } from "@/lib/auth/page-guard";
-import { CLINICAL_ROLES } from "@/lib/auth/roles";
+import { can } from "@/lib/auth/permissions";
 import { db } from "@/lib/db";
 import { listUnits } from "@/lib/units/queries";
 
@@ -56,7 +56,7 @@ export default async function AlertsPage({
   if (filter.unitId) query.set("unitId", String(filter.unitId));
   if (filter.patientId) query.set("patientId", String(filter.patientId));
   if (filter.alertId) query.set("alertId", String(filter.alertId));
-  const canAct = CLINICAL_ROLES.includes(actor.role);
+  const canAct = can(actor, "alert.act");
 
   return (
     <div className="space-y-4">

@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
 import { ImportWorkbench } from "@/components/imports/ImportWorkbench";
 import { RecentImports } from "@/components/imports/RecentImports";
-import { pageActor } from "@/lib/auth/page-guard";
+import { pagePermission } from "@/lib/auth/page-guard";
 import { db } from "@/lib/db";
 import { listImports } from "@/lib/imports/queries";
 import { listUnits } from "@/lib/units/queries";
@@ -9,7 +9,7 @@ import { listUnits } from "@/lib/units/queries";
 export const metadata: Metadata = { title: "Uploads" };
 
 export default async function ImportsPage() {
-  const actor = await pageActor("therapist", "admin");
+  const actor = await pagePermission("import.upload");
   const [units, recent] = await Promise.all([listUnits(db(), actor.unitIds), listImports(db(), actor)]);
   return (
     <div className="space-y-6">

@@ -2,7 +2,7 @@
 
 import { revalidatePath } from "next/cache";
 import { runAction, type ActionResult } from "@/lib/action-result";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePermission } from "@/lib/auth/guard";
 import { db } from "@/lib/db";
 import type { OrderView } from "@/lib/orders/queries";
 import { cosignSchema, discontinueSchema, orderInputSchema } from "@/lib/orders/schema";
@@ -24,7 +24,7 @@ function revalidateOrder(order: OrderView): void {
 /** A physician's signed order, or a nurse's/therapist's verbal or telephone order. */
 export async function writeOrderAction(input: unknown): Promise<ActionResult<OrderView>> {
   return runAction(async () => {
-    const actor = await requireRole("physician", "therapist", "nurse");
+    const actor = await requirePermission("order.write");
     const parsed = parseInput(orderInputSchema, input);
     const order = await writeOrder(db(), actor, parsed);
     revalidateOrder(order);
@@ -38,7 +38,7 @@ export async function writeOrderAction(input: unknown): Promise<ActionResult<Ord
 /** A physician co-signs a verbal or telephone order with their password. */
 export async function cosignOrderAction(input: unknown): Promise<ActionResult<OrderView>> {
   return runAction(async () => {
-    const actor = await requireRole("physician");
+    const actor = await requirePermission("order.cosign");
     const order = await cosignOrder(db(), actor, parseInput(cosignSchema, input));
     revalidateOrder(order);
     return order;
@@ -48,7 +48,7 @@ export async function cosignOrderAction(input: unknown): Promise<ActionResult<Or
 /** A physician discontinues the order in effect, with a reason and their password. */
 export async function discontinueOrderAction(input: unknown): Promise<ActionResult<OrderView>> {
   return runAction(async () => {
-    const actor = await requireRole("physician");
+    const actor = await requirePermission("order.discontinue");
     const order = await discontinueOrder(db(), actor, parseInput(discontinueSchema, input));
     revalidateOrder(order);
     return order;

@@ -5,7 +5,7 @@ import { runAction, type ActionResult } from "@/lib/action-result";
 import type { ApiTokenSummary } from "@/lib/api-tokens/queries";
 import { apiTokenCreateSchema, apiTokenRevokeSchema } from "@/lib/api-tokens/schema";
 import { createApiToken, revokeApiToken } from "@/lib/api-tokens/service";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePermission } from "@/lib/auth/guard";
 import { db } from "@/lib/db";
 import { parseInput } from "@/lib/validation";
 
@@ -17,7 +17,7 @@ export async function createApiTokenAction(
   input: unknown,
 ): Promise<ActionResult<{ token: string; summary: ApiTokenSummary }>> {
   return runAction(async () => {
-    const actor = await requireRole("admin");
+    const actor = await requirePermission("api_token.manage");
     const created = await createApiToken(db(), actor, parseInput(apiTokenCreateSchema, input));
     revalidatePath("/admin/api-tokens");
     return created;
@@ -26,7 +26,7 @@ export async function createApiTokenAction(
 
 export async function revokeApiTokenAction(input: unknown): Promise<ActionResult<ApiTokenSummary>> {
   return runAction(async () => {
-    const actor = await requireRole("admin");
+    const actor = await requirePermission("api_token.manage");
     const revoked = await revokeApiToken(db(), actor, parseInput(apiTokenRevokeSchema, input));
     revalidatePath("/admin/api-tokens");
     return revoked;

@@ -2,14 +2,14 @@ import type { Metadata } from "next";
 import { ApiTokenForm } from "@/components/api-tokens/ApiTokenForm";
 import { ApiTokensTable } from "@/components/api-tokens/ApiTokensTable";
 import { listApiTokens } from "@/lib/api-tokens/queries";
-import { pageActor } from "@/lib/auth/page-guard";
+import { pagePermission } from "@/lib/auth/page-guard";
 import { db } from "@/lib/db";
 import { listUnits } from "@/lib/units/queries";
 
 export const metadata: Metadata = { title: "API tokens" };
 
 export default async function ApiTokensPage() {
-  await pageActor("admin");
+  await pagePermission("api_token.manage");
   const [tokens, units] = await Promise.all([listApiTokens(db()), listUnits(db())]);
   return (
     <div className="space-y-6">

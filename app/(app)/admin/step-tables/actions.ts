@@ -2,7 +2,7 @@
 
 import { revalidatePath } from "next/cache";
 import { runAction, type ActionResult } from "@/lib/action-result";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePermission } from "@/lib/auth/guard";
 import { db } from "@/lib/db";
 import type { StepTableView } from "@/lib/step-tables/queries";
 import {
@@ -15,7 +15,7 @@ import { parseInput } from "@/lib/validation";
 
 export async function createStepTableAction(input: unknown): Promise<ActionResult<StepTableView>> {
   return runAction(async () => {
-    const actor = await requireRole("admin");
+    const actor = await requirePermission("step_table.manage");
     const table = await createStepTable(db(), actor, parseInput(stepTableCreateSchema, input));
     revalidatePath("/admin/step-tables");
     return table;
@@ -24,7 +24,7 @@ export async function createStepTableAction(input: unknown): Promise<ActionResul
 
 export async function updateStepTableAction(input: unknown): Promise<ActionResult<StepTableView>> {
   return runAction(async () => {
-    const actor = await requireRole("admin");
+    const actor = await requirePermission("step_table.manage");
     const table = await updateStepTable(db(), actor, parseInput(stepTableUpdateSchema, input));
     revalidatePath("/admin/step-tables");
     return table;
@@ -35,7 +35,7 @@ export async function setStepTableActiveAction(
   input: unknown,
 ): Promise<ActionResult<StepTableView>> {
   return runAction(async () => {
-    const actor = await requireRole("admin");
+    const actor = await requirePermission("step_table.manage");
     const table = await setStepTableActive(db(), actor, parseInput(stepTableActiveSchema, input));
     revalidatePath("/admin/step-tables");
     return table;

@@ -3,7 +3,7 @@ import Link from "next/link";
 import { StepRowsTable } from "@/components/step-tables/StepRowsTable";
 import { buttonClasses } from "@/components/ui/Button";
 import { StatusBadge } from "@/components/ui/StatusBadge";
-import { pageActor } from "@/lib/auth/page-guard";
+import { pagePermission } from "@/lib/auth/page-guard";
 import { db } from "@/lib/db";
 import { listStepTables } from "@/lib/step-tables/queries";
 import { listUnits } from "@/lib/units/queries";
@@ -11,7 +11,7 @@ import { listUnits } from "@/lib/units/queries";
 export const metadata: Metadata = { title: "Step tables" };
 
 export default async function StepTablesPage() {
-  await pageActor("admin");
+  await pagePermission("step_table.manage");
   const units = await listUnits(db());
   const tables = await listStepTables(
     db(),

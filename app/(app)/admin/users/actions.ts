@@ -2,7 +2,7 @@
 
 import { revalidatePath } from "next/cache";
 import { runAction, type ActionResult } from "@/lib/action-result";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePermission } from "@/lib/auth/guard";
 import { db } from "@/lib/db";
 import type { UserSummary } from "@/lib/users/queries";
 import { createUser, setUserActive, updateUser } from "@/lib/users/service";
@@ -15,7 +15,7 @@ import { parseInput } from "@/lib/validation";
 
 export async function createUserAction(input: unknown): Promise<ActionResult<UserSummary>> {
   return runAction(async () => {
-    const actor = await requireRole("admin");
+    const actor = await requirePermission("user.manage");
     const user = await createUser(db(), actor, parseInput(userCreateSchema, input));
     revalidatePath("/admin/users");
     return user;
@@ -24,7 +24,7 @@ export async function createUserAction(input: unknown): Promise<ActionResult<Use
 
 export async function updateUserAction(input: unknown): Promise<ActionResult<UserSummary>> {
   return runAction(async () => {
-    const actor = await requireRole("admin");
+    const actor = await requirePermission("user.manage");
     const user = await updateUser(db(), actor, parseInput(userUpdateSchema, input));
     revalidatePath("/admin/users");
     return user;
@@ -33,7 +33,7 @@ export async function updateUserAction(input: unknown): Promise<ActionResult<Use
 
 export async function setUserActiveAction(input: unknown): Promise<ActionResult<UserSummary>> {
   return runAction(async () => {
-    const actor = await requireRole("admin");
+    const actor = await requirePermission("user.manage");
     const user = await setUserActive(db(), actor, parseInput(userActiveSchema, input));
     revalidatePath("/admin/users");
     return user;

@@ -2,14 +2,14 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { buttonClasses } from "@/components/ui/Button";
 import { UsersTable } from "@/components/users/UsersTable";
-import { pageActor } from "@/lib/auth/page-guard";
+import { pagePermission } from "@/lib/auth/page-guard";
 import { db } from "@/lib/db";
 import { listUsers } from "@/lib/users/queries";
 
 export const metadata: Metadata = { title: "Users" };
 
 export default async function UsersPage() {
-  const actor = await pageActor("admin");
+  const actor = await pagePermission("user.manage");
   const users = await listUsers(db());
   return (
     <div className="space-y-4">

@@ -3,7 +3,7 @@ import Link from "next/link";
 import { formatDuration, formatOrderTime } from "@/components/orders/OrderFacts";
 import { EmptyState } from "@/components/ui/EmptyState";
 import { StatusBadge } from "@/components/ui/StatusBadge";
-import { pageActor } from "@/lib/auth/page-guard";
+import { pagePermission } from "@/lib/auth/page-guard";
 import { db } from "@/lib/db";
 import { mayCosign } from "@/lib/orders/cosigners";
 import { DEVICE_PROFILES } from "@/lib/orders/devices";
@@ -15,7 +15,7 @@ const MODE_WORDS = { verbal: "Verbal", telephone: "Telephone", written: "Written
 
 /** Verbal and telephone orders in the physician's units waiting for a co-signature, oldest first. */
 export default async function CosignQueuePage() {
-  const actor = await pageActor("physician");
+  const actor = await pagePermission("order.cosign");
   const queue = await listCosignQueue(db(), actor.unitIds);
   const now = new Date();
 

@@ -4,7 +4,7 @@ import { revalidatePath } from "next/cache";
 import { runAction, type ActionResult } from "@/lib/action-result";
 import { adjustmentSchema } from "@/lib/adjustments/schema";
 import { recordAdjustment, type AdjustmentView } from "@/lib/adjustments/service";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePermission } from "@/lib/auth/guard";
 import { bloodGasSchema } from "@/lib/blood-gases/schema";
 import { recordBloodGas, type BloodGasView } from "@/lib/blood-gases/service";
 import { db } from "@/lib/db";
@@ -28,7 +28,7 @@ export async function recordAdjustmentAction(
   input: unknown,
 ): Promise<ActionResult<AdjustmentView>> {
   return runAction(async () => {
-    const actor = await requireRole("physician", "therapist", "nurse");
+    const actor = await requirePermission("adjustment.record");
     const adjustment = await recordAdjustment(db(), actor, parseInput(adjustmentSchema, input));
     revalidatePatient(adjustment.patientId);
     return adjustment;
@@ -38,7 +38,7 @@ export async function recordAdjustmentAction(
 /** One charted reading: SpO2 with the device and oxygen in use. */
 export async function chartReadingAction(input: unknown): Promise<ActionResult<ReadingView>> {
   return runAction(async () => {
-    const actor = await requireRole("physician", "therapist", "nurse");
+    const actor = await requirePermission("reading.chart");
     const reading = await chartReading(db(), actor, parseInput(readingSchema, input));
     revalidatePatient(reading.patientId);
     return reading;
@@ -48,7 +48,7 @@ export async function chartReadingAction(input: unknown): Promise<ActionResult<R
 /** One blood gas (mmHg, g/dL), with its computed indices for an arterial sample. */
 export async function recordBloodGasAction(input: unknown): Promise<ActionResult<BloodGasView>> {
   return runAction(async () => {
-    const actor = await requireRole("physician", "therapist", "nurse");
+    const actor = await requirePermission("blood_gas.record");
     const gas = await recordBloodGas(db(), actor, parseInput(bloodGasSchema, input));
     revalidatePatient(gas.patientId);
     return gas;

@@ -10,7 +10,7 @@ import { BloodGasEvaluator } from "@/components/oxygenation/BloodGasEvaluator";
 import { buttonClasses } from "@/components/ui/Button";
 import { listAlerts } from "@/lib/alerts/queries";
 import { pageActor } from "@/lib/auth/page-guard";
-import { CLINICAL_ROLES } from "@/lib/auth/roles";
+import { can } from "@/lib/auth/permissions";
 import { db } from "@/lib/db";
 import { NotFoundError } from "@/lib/errors";
 import { getBedsideContext } from "@/lib/patients/bedside";
@@ -97,7 +97,7 @@ export default async function ChartPage({ params }: { params: Promise<{ patientI
         <AlertList
           initial={alerts}
           apiUrl={`/api/v1/alerts?status=open&patientId=${patient.id}`}
-          canAct={CLINICAL_ROLES.includes(actor.role)}
+          canAct={can(actor, "alert.act")}
           compactEmpty="No open alerts for this patient."
         />
       </section>

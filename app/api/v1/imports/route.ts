@@ -1,17 +1,17 @@
 import { NextResponse } from "next/server";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePermission } from "@/lib/auth/guard";
 import { db } from "@/lib/db";
 import { DomainError } from "@/lib/errors";
 import { getEnv } from "@/lib/env";
 import { handleRoute, readBodyBytes } from "@/lib/http";
 import { listImports } from "@/lib/imports/queries";
-import { IMPORT_ROLES, MAX_IMPORT_BYTES, uploadForPreview } from "@/lib/imports/service";
+import { MAX_IMPORT_BYTES, uploadForPreview } from "@/lib/imports/service";
 import { allowedOrigins, refuseCrossSiteWrite } from "@/lib/request-guard";
 
 /** The latest imports of the caller's units. */
 export function GET() {
   return handleRoute(async () => {
-    const actor = await requireRole(...IMPORT_ROLES);
+    const actor = await requirePermission("import.upload");
     return NextResponse.json({ imports: await listImports(db(), actor) });
   });
 }
@@ -35,7 +35,7 @@ export function POST(request: Request) {
       allowedOrigins(env.NEXTAUTH_URL, env.ALLOWED_ORIGINS),
     );
     if (refusal) throw new DomainError(refusal.message, refusal.status);
-    const actor = await requireRole(...IMPORT_ROLES);
+    const actor = await requirePermission("import.upload");
     // Counted while it streams in: a 50 MB upload is refused at the cap, not read whole first.
     const body = await readBodyBytes(request, MAX_IMPORT_BYTES.monitor_csv + 64 * 1024);
     let form: FormData;

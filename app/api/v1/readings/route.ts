@@ -1,5 +1,5 @@
 import { NextResponse } from "next/server";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePermission } from "@/lib/auth/guard";
 import { db } from "@/lib/db";
 import { handleRoute, readWriteBody } from "@/lib/http";
 import type { ReadingInput } from "@/lib/readings/schema";
@@ -8,7 +8,7 @@ import { chartReading } from "@/lib/readings/service";
 /** Charts an SpO2 reading with the device and oxygen in use. */
 export function POST(request: Request) {
   return handleRoute(async () => {
-    const actor = await requireRole("physician", "therapist", "nurse");
+    const actor = await requirePermission("reading.chart");
     const reading = await chartReading(db(), actor, (await readWriteBody(request)) as ReadingInput);
     return NextResponse.json({ reading }, { status: 201 });
   });

@@ -2,7 +2,7 @@ import type { Metadata } from "next";
 import { notFound } from "next/navigation";
 import { z } from "zod";
 import { StepTableActiveToggle, StepTableForm } from "@/components/step-tables/StepTableForm";
-import { pageActor } from "@/lib/auth/page-guard";
+import { pagePermission } from "@/lib/auth/page-guard";
 import { db } from "@/lib/db";
 import { getStepTable } from "@/lib/step-tables/queries";
 import { listUnits } from "@/lib/units/queries";
@@ -16,7 +16,7 @@ export default async function EditStepTablePage({
 }: {
   params: Promise<{ tableId: string }>;
 }) {
-  await pageActor("admin");
+  await pagePermission("step_table.manage");
   const parsed = paramsSchema.safeParse(await params);
   if (!parsed.success) notFound();
   const [table, units] = await Promise.all([

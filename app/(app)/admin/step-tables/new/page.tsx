@@ -1,13 +1,13 @@
 import type { Metadata } from "next";
 import { StepTableForm } from "@/components/step-tables/StepTableForm";
-import { pageActor } from "@/lib/auth/page-guard";
+import { pagePermission } from "@/lib/auth/page-guard";
 import { db } from "@/lib/db";
 import { listUnits } from "@/lib/units/queries";
 
 export const metadata: Metadata = { title: "New step table" };
 
 export default async function NewStepTablePage() {
-  await pageActor("admin");
+  await pagePermission("step_table.manage");
   const units = await listUnits(db());
   return (
     <div className="max-w-4xl space-y-4">

@@ -3,7 +3,7 @@ import { notFound } from "next/navigation";
 import { z } from "zod";
 import { UserActivePanel } from "@/components/users/UserActivePanel";
 import { UserForm } from "@/components/users/UserForm";
-import { pageActor } from "@/lib/auth/page-guard";
+import { pagePermission } from "@/lib/auth/page-guard";
 import { db } from "@/lib/db";
 import { listUnits } from "@/lib/units/queries";
 import { getUser } from "@/lib/users/queries";
@@ -13,7 +13,7 @@ export const metadata: Metadata = { title: "Edit user" };
 const paramsSchema = z.object({ userId: z.coerce.number().int().positive() });
 
 export default async function EditUserPage({ params }: { params: Promise<{ userId: string }> }) {
-  const actor = await pageActor("admin");
+  const actor = await pagePermission("user.manage");
   const parsed = paramsSchema.safeParse(await params);
   if (!parsed.success) notFound();
   const [user, units] = await Promise.all([getUser(db(), parsed.data.userId), listUnits(db())]);

@@ -1,13 +1,13 @@
 import type { Metadata } from "next";
 import { UserForm } from "@/components/users/UserForm";
-import { pageActor } from "@/lib/auth/page-guard";
+import { pagePermission } from "@/lib/auth/page-guard";
 import { db } from "@/lib/db";
 import { listUnits } from "@/lib/units/queries";
 
 export const metadata: Metadata = { title: "New user" };
 
 export default async function NewUserPage() {
-  await pageActor("admin");
+  await pagePermission("user.manage");
   const units = await listUnits(db());
   return (
     <div className="max-w-2xl space-y-4">

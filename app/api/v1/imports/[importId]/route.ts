@@ -1,9 +1,9 @@
 import { NextResponse } from "next/server";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePermission } from "@/lib/auth/guard";
 import { db } from "@/lib/db";
 import { handleRoute, idParam, readJson } from "@/lib/http";
 import { getImportPreview } from "@/lib/imports/queries";
-import { IMPORT_ROLES, remapImport } from "@/lib/imports/service";
+import { remapImport } from "@/lib/imports/service";
 import { parseInput } from "@/lib/validation";
 
 type Params = { params: Promise<{ importId: string }> };
@@ -11,7 +11,7 @@ type Params = { params: Promise<{ importId: string }> };
 /** An import's preview or, once imported, its report (JSON). */
 export function GET(_request: Request, { params }: Params) {
   return handleRoute(async () => {
-    const actor = await requireRole(...IMPORT_ROLES);
+    const actor = await requirePermission("import.upload");
     const { importId } = parseInput(idParam("importId"), await params) as { importId: number };
     return NextResponse.json({ import: await getImportPreview(db(), actor, importId) });
   });
@@ -20,7 +20,7 @@ export function GET(_request: Request, { params }: Params) {
 /** The mapping step of a CSV blood gas file: body `{ delimiter, columns, units }`; answers the new preview. */
 export function PUT(request: Request, { params }: Params) {
   return handleRoute(async () => {
-    const actor = await requireRole(...IMPORT_ROLES);
+    const actor = await requirePermission("import.upload");
     const { importId } = parseInput(idParam("importId"), await params) as { importId: number };
     const preview = await remapImport(db(), actor, importId, await readJson(request));
     return NextResponse.json({ import: preview });

@@ -1,6 +1,6 @@
 import { NextResponse } from "next/server";
 import { z } from "zod";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePermission } from "@/lib/auth/guard";
 import { db } from "@/lib/db";
 import { NotFoundError } from "@/lib/errors";
 import { handleRoute, readJson } from "@/lib/http";
@@ -14,7 +14,7 @@ type Ctx = { params: Promise<{ userId: string }> };
 
 export function GET(_request: Request, { params }: Ctx) {
   return handleRoute(async () => {
-    await requireRole("admin");
+    await requirePermission("user.manage");
     const { userId } = parseInput(paramsSchema, await params);
     const user = await getUser(db(), userId);
     if (!user) throw new NotFoundError("That user does not exist.");
@@ -25,7 +25,7 @@ export function GET(_request: Request, { params }: Ctx) {
 /** Full update; the body names the version it was based on (409 if stale). */
 export function PATCH(request: Request, { params }: Ctx) {
   return handleRoute(async () => {
-    const actor = await requireRole("admin");
+    const actor = await requirePermission("user.manage");
     const { userId } = parseInput(paramsSchema, await params);
     const body = await readJson(request);
     const input = parseInput(userUpdateSchema, { ...(body as object), id: userId });

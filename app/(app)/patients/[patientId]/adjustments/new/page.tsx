@@ -4,7 +4,8 @@ import { AdjustmentForm } from "@/components/adjustments/AdjustmentForm";
 import { BedsideFormHeader, loadBedsidePage } from "@/components/adjustments/BedsideFormPage";
 import { buttonClasses } from "@/components/ui/Button";
 import { EmptyState } from "@/components/ui/EmptyState";
-import { pageActor } from "@/lib/auth/page-guard";
+import { pagePermission } from "@/lib/auth/page-guard";
+import { mayAdjustDevice } from "@/lib/auth/permissions";
 import { DEVICE_PROFILES } from "@/lib/orders/devices";
 
 export const metadata: Metadata = { title: "Record adjustment" };
@@ -15,7 +16,7 @@ export default async function NewAdjustmentPage({
 }: {
   params: Promise<{ patientId: string }>;
 }) {
-  const actor = await pageActor("physician", "therapist", "nurse");
+  const actor = await pagePermission("adjustment.record");
   const { patient, context, timeZone } = await loadBedsidePage(actor, params);
   const chart = `/patients/${patient.id}`;
   const { order } = context;
@@ -38,7 +39,7 @@ export default async function NewAdjustmentPage({
         </span>
       </EmptyState>
     );
-  } else if (actor.role === "nurse" && !DEVICE_PROFILES[order.device].lowFlow) {
+  } else if (!mayAdjustDevice(actor, DEVICE_PROFILES[order.device])) {
     const device = DEVICE_PROFILES[order.device].label;
     body = (
       <EmptyState title={`${device} changes are recorded by a therapist or physician`}>

@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
 import { BedsideFormHeader, loadBedsidePage } from "@/components/adjustments/BedsideFormPage";
 import { BloodGasForm } from "@/components/blood-gases/BloodGasForm";
-import { pageActor } from "@/lib/auth/page-guard";
+import { pagePermission } from "@/lib/auth/page-guard";
 
 export const metadata: Metadata = { title: "Enter blood gas" };
 
@@ -11,7 +11,7 @@ export default async function NewBloodGasPage({
 }: {
   params: Promise<{ patientId: string }>;
 }) {
-  const actor = await pageActor("physician", "therapist", "nurse");
+  const actor = await pagePermission("blood_gas.record");
   const { patient, context, timeZone } = await loadBedsidePage(actor, params);
   return (
     <div className="space-y-4">

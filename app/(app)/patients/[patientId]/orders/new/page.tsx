@@ -4,7 +4,7 @@ import { notFound } from "next/navigation";
 import { z } from "zod";
 import { OrderComposer } from "@/components/orders/OrderComposer";
 import { buttonClasses } from "@/components/ui/Button";
-import { pageActor } from "@/lib/auth/page-guard";
+import { pagePermission } from "@/lib/auth/page-guard";
 import { db } from "@/lib/db";
 import { NotFoundError } from "@/lib/errors";
 import { getCurrentOrder } from "@/lib/orders/queries";
@@ -33,7 +33,7 @@ export default async function NewOrderPage({
 }: {
   params: Promise<{ patientId: string }>;
 }) {
-  const actor = await pageActor("physician", "therapist", "nurse");
+  const actor = await pagePermission("order.write");
   const parsed = paramsSchema.safeParse(await params);
   if (!parsed.success) notFound();
   const patient = await loadPatient(db(), actor, parsed.data.patientId);

@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
 import { BedsideFormHeader, loadBedsidePage } from "@/components/adjustments/BedsideFormPage";
 import { ReadingForm } from "@/components/readings/ReadingForm";
-import { pageActor } from "@/lib/auth/page-guard";
+import { pagePermission } from "@/lib/auth/page-guard";
 
 export const metadata: Metadata = { title: "Chart reading" };
 
@@ -11,7 +11,7 @@ export default async function NewReadingPage({
 }: {
   params: Promise<{ patientId: string }>;
 }) {
-  const actor = await pageActor("physician", "therapist", "nurse");
+  const actor = await pagePermission("reading.chart");
   const { patient, context, timeZone } = await loadBedsidePage(actor, params);
   return (
     <div className="space-y-4">

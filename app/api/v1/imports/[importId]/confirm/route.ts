@@ -1,8 +1,8 @@
 import { NextResponse } from "next/server";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePermission } from "@/lib/auth/guard";
 import { db } from "@/lib/db";
 import { handleRoute, idParam, readJson } from "@/lib/http";
-import { confirmImport, IMPORT_ROLES } from "@/lib/imports/service";
+import { confirmImport } from "@/lib/imports/service";
 import { parseInput } from "@/lib/validation";
 
 /**
@@ -11,7 +11,7 @@ import { parseInput } from "@/lib/validation";
  */
 export function POST(request: Request, { params }: { params: Promise<{ importId: string }> }) {
   return handleRoute(async () => {
-    const actor = await requireRole(...IMPORT_ROLES);
+    const actor = await requirePermission("import.upload");
     const { importId } = parseInput(idParam("importId"), await params) as { importId: number };
     const body = (await readJson(request)) as { expectedAccepted?: unknown };
     const preview = await confirmImport(db(), actor, {

@@ -1,14 +1,13 @@
-import { requireRole } from "@/lib/auth/guard";
+import { requirePermission } from "@/lib/auth/guard";
 import { db } from "@/lib/db";
 import { handleRoute, idParam } from "@/lib/http";
 import { importReportCsv } from "@/lib/imports/queries";
-import { IMPORT_ROLES } from "@/lib/imports/service";
 import { parseInput } from "@/lib/validation";
 
 /** The import report as a CSV download: every rejected row with its reasons. */
 export function GET(_request: Request, { params }: { params: Promise<{ importId: string }> }) {
   return handleRoute(async () => {
-    const actor = await requireRole(...IMPORT_ROLES);
+    const actor = await requirePermission("import.upload");
     const { importId } = parseInput(idParam("importId"), await params) as { importId: number };
     const { fileName, csv } = await importReportCsv(db(), actor, importId);
     return new Response(csv, {

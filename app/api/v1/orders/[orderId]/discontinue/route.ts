@@ -1,5 +1,5 @@
 import { NextResponse } from "next/server";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePermission } from "@/lib/auth/guard";
 import { db } from "@/lib/db";
 import { handleRoute, idParam, readWriteBody } from "@/lib/http";
 import { discontinueOrder } from "@/lib/orders/service";
@@ -9,7 +9,7 @@ import { parseInput } from "@/lib/validation";
 /** A physician discontinues an order: `{ version, reason, password }`. */
 export function POST(request: Request, { params }: { params: Promise<{ orderId: string }> }) {
   return handleRoute(async () => {
-    const actor = await requireRole("physician");
+    const actor = await requirePermission("order.discontinue");
     const { orderId } = parseInput(idParam("orderId"), await params) as { orderId: number };
     const body = await readWriteBody(request);
     return NextResponse.json({ order: await discontinueOrder(db(), actor, { ...body, orderId } as DiscontinueInput) });

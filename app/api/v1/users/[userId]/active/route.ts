@@ -1,6 +1,6 @@
 import { NextResponse } from "next/server";
 import { z } from "zod";
-import { requireRole } from "@/lib/auth/guard";
+import { requirePermission } from "@/lib/auth/guard";
 import { db } from "@/lib/db";
 import { handleRoute, readJson } from "@/lib/http";
 import { setUserActive } from "@/lib/users/service";
@@ -12,7 +12,7 @@ const paramsSchema = z.object({ userId: z.coerce.number().int().positive() });
 /** Deactivate or reactivate: `{ version, active, rationale }`. */
 export function POST(request: Request, { params }: { params: Promise<{ userId: string }> }) {
   return handleRoute(async () => {
-    const actor = await requireRole("admin");
+    const actor = await requirePermission("user.manage");
     const { userId } = parseInput(paramsSchema, await params);
     const body = await readJson(request);
     const input = parseInput(userActiveSchema, { ...(body as object), id: userId });
