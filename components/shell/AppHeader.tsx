@@ -8,19 +8,20 @@ import { NavLinks } from "./NavLinks";
 import { SignOutButton } from "./SignOutButton";
 import { ThemeSwitcher } from "./ThemeSwitcher";
 import { UnitSwitcher } from "./UnitSwitcher";
+import { can } from "@/lib/auth/permissions";
 
 export type NavItem = { href: string; label: string };
 
 function navFor(role: Role): NavItem[] {
   const items: NavItem[] = [{ href: "/board", label: "Board" }];
-  if (role === "physician") items.push({ href: "/orders/cosign", label: "Co-sign" });
+  if (can({ role }, "order.cosign")) items.push({ href: "/orders/cosign", label: "Co-sign" });
   items.push({ href: "/ledger", label: "Ledger" });
-  if (role === "therapist" || role === "admin") items.push({ href: "/imports", label: "Uploads" });
-  if (role === "admin") {
-    items.push({ href: "/admin/users", label: "Users" });
+  if (can({ role }, "import.upload")) items.push({ href: "/imports", label: "Uploads" });
+  if (can({ role }, "user.manage")) items.push({ href: "/admin/users", label: "Users" });
+  if (can({ role }, "step_table.manage"))
     items.push({ href: "/admin/step-tables", label: "Step tables" });
+  if (can({ role }, "api_token.manage"))
     items.push({ href: "/admin/api-tokens", label: "API tokens" });
-  }
   return items;
 }
 

@@ -23,6 +23,8 @@ const EVERYONE = [
 export const PERMISSIONS = {
   /** Physicians write and sign; nurses and therapists enter verbal or telephone orders with read-back. */
   "order.write": CLINICAL,
+  /** Write and sign an order directly (the others enter verbal or telephone orders). */
+  "order.sign": ["physician"],
   /** Only the named prescriber or a designated co-signer (lib/orders/cosigners). */
   "order.cosign": ["physician"],
   "order.discontinue": ["physician"],
@@ -37,6 +39,8 @@ export const PERMISSIONS = {
   "step_table.manage": ["admin"],
   /** The records of one's own units: Board, Chart, ledger, alerts, FHIR export. */
   "record.read": EVERYONE,
+  /** Ledger rows and breaks outside any one unit (administration, every unit). */
+  "ledger.oversee": ["reviewer", "admin"],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Permission = keyof typeof PERMISSIONS;

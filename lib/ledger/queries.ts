@@ -3,6 +3,7 @@ import { z } from "zod";
 import type { Actor } from "../auth/actor";
 import { queryTime } from "../validation";
 import { LEDGER_ACTIONS, type LedgerEntityType } from "./actions";
+import { can } from "../auth/permissions";
 
 export const ledgerFilterSchema = z.object({
   patientId: z.coerce.number().int().positive().optional(),
@@ -42,7 +43,7 @@ function scoped(
   // Clinical rows of the actor's units; administration rows only for those who oversee it.
   q.where((w) => {
     w.whereIn("l.unit_id", actor.unitIds.length ? actor.unitIds : [0]);
-    if (actor.role === "admin" || actor.role === "reviewer") w.orWhereNull("l.unit_id");
+    if (can(actor, "ledger.oversee")) w.orWhereNull("l.unit_id");
   });
   if (f.patientId) q.where("l.patient_id", f.patientId);
   if (f.actorId) q.where("l.actor_user_id", f.actorId);

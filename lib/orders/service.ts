@@ -32,7 +32,7 @@ import {
   ORDER_SUPERSEDED_PURPOSE,
   orderSupersededMessageId,
 } from "./supersede-email";
-import { assertCan } from "../auth/permissions";
+import { assertCan, can } from "../auth/permissions";
 
 type ParsedOrder = ReturnType<typeof orderInputSchema.parse>;
 
@@ -52,14 +52,14 @@ export async function writeOrder(
 ): Promise<OrderView> {
   assertCan(actor, "order.write");
   const input = parseInput(orderInputSchema, raw);
-  if (actor.role === "physician" && input.entryMode !== "written") {
+  if (can(actor, "order.sign") && input.entryMode !== "written") {
     throw new ValidationError("Physicians write and sign orders themselves.", {
       entryMode: [
         "Physicians write orders directly; verbal and telephone entry is for nurses and therapists.",
       ],
     });
   }
-  if (actor.role !== "physician" && input.entryMode === "written") {
+  if (!can(actor, "order.sign") && input.entryMode === "written") {
     throw new ValidationError("Only a physician can write and sign an order.", {
       entryMode: ["Enter it as a verbal or telephone order from the physician, with read-back."],
     });

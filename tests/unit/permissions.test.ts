@@ -6,6 +6,7 @@ import { DEVICE_PROFILES } from "@/lib/orders/devices";
 // The roles table of DEVELOPERS.md, written out independently of the code.
 const TABLE: Record<Permission, Role[]> = {
   "order.write": ["physician", "therapist", "nurse"],
+  "order.sign": ["physician"],
   "order.cosign": ["physician"],
   "order.discontinue": ["physician"],
   "adjustment.record": ["physician", "therapist", "nurse"],
@@ -17,6 +18,7 @@ const TABLE: Record<Permission, Role[]> = {
   "api_token.manage": ["admin"],
   "step_table.manage": ["admin"],
   "record.read": ["physician", "therapist", "nurse", "reviewer", "admin"],
+  "ledger.oversee": ["reviewer", "admin"],
 };
 
 describe("the permission table", () => {

@@ -6,6 +6,7 @@ import { pageActor } from "@/lib/auth/page-guard";
 import { db } from "@/lib/db";
 import { listUnits } from "@/lib/units/queries";
 import { listUsers } from "@/lib/users/queries";
+import { can } from "@/lib/auth/permissions";
 
 export const metadata: Metadata = { title: "Ledger" };
 
@@ -18,7 +19,7 @@ export default async function LedgerPage() {
   const actor = await pageActor();
   const [units, users] = await Promise.all([listUnits(db(), actor.unitIds), listUsers(db())]);
   // Those who oversee administration see its rows, so they may filter by anyone.
-  const oversees = actor.role === "admin" || actor.role === "reviewer";
+  const oversees = can(actor, "ledger.oversee");
   const actors = users
     .filter((u) => oversees || u.units.some((unit) => actor.unitIds.includes(unit.id)))
     .map((u) => ({ id: u.id, name: u.name, role: u.role, active: u.active }));

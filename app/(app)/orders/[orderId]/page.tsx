@@ -25,6 +25,7 @@ import { getAdmissionPatient } from "@/lib/patients/queries";
 import { getStepTableName } from "@/lib/step-tables/queries";
 import { listUnits } from "@/lib/units/queries";
 import { wallTimeToInstant, zoneOffsetMs } from "@/lib/time/zone";
+import { can } from "@/lib/auth/permissions";
 
 export const metadata: Metadata = { title: "Order" };
 
@@ -130,7 +131,7 @@ export default async function OrderPage({
       ? await getStepTableName(db(), past.stepTableId)
       : tableName;
 
-  const physician = actor.role === "physician";
+  const physician = can(actor, "order.sign");
   // Only the prescriber named on the order, or a designated co-signer, is offered the co-signature.
   const cosigners =
     physician && order.status === "awaiting_cosign" ? await cosignersFor(db(), order) : null;

@@ -6,6 +6,7 @@ import { handleRoute } from "@/lib/http";
 import { chainUnitId, verifyLedger, type LedgerProblem } from "@/lib/ledger/verify";
 import { parseInput } from "@/lib/validation";
 import { consumeQuota } from "@/lib/rate-limit";
+import { can } from "@/lib/auth/permissions";
 
 const querySchema = z.object({ mode: z.enum(["full", "incremental"]).default("full") });
 
@@ -22,8 +23,7 @@ export function GET(request: Request) {
     const { mode } = parseInput(querySchema, Object.fromEntries(new URL(request.url).searchParams));
     const result = await verifyLedger(db(), { mode });
     const broken = result.firstBroken;
-    if (!broken || actor.role === "admin" || actor.role === "reviewer")
-      return NextResponse.json(result);
+    if (!broken || can(actor, "ledger.oversee")) return NextResponse.json(result);
     const visible = async (p: LedgerProblem) => {
       const unitId = await chainUnitId(db(), p.chainKey);
       return unitId !== null && actor.unitIds.includes(unitId);

@@ -12,6 +12,7 @@ import { type ChartPatient, getPatientForActor } from "@/lib/patients/queries";
 import { getStepTableName, listStepTables } from "@/lib/step-tables/queries";
 import { listUnits } from "@/lib/units/queries";
 import { listUnitPhysicians } from "@/lib/users/queries";
+import { can } from "@/lib/auth/permissions";
 
 export const metadata: Metadata = { title: "Order" };
 
@@ -38,7 +39,7 @@ export default async function NewOrderPage({
   if (!parsed.success) notFound();
   const patient = await loadPatient(db(), actor, parsed.data.patientId);
   const { unit, bed } = patient.admission;
-  const physician = actor.role === "physician";
+  const physician = can(actor, "order.sign");
   const [currentOrder, stepTables, physicians, units] = await Promise.all([
     getCurrentOrder(db(), patient.id),
     listStepTables(db(), [unit.id]),
