@@ -15,6 +15,7 @@ import {
   type ApiTokenScope,
 } from "@/lib/api-tokens/schema";
 import { UnitCheckboxes } from "@/components/units/UnitCheckboxes";
+import { OwnPasswordField } from "@/components/ui/OwnPasswordField";
 
 type Values = {
   name: string;
@@ -179,24 +180,13 @@ export function ApiTokenForm({ units }: { units: { id: number; label: string }[]
               />
             )}
           />
-          <Field
+          <OwnPasswordField
             id="token-current-password"
-            label="Your password"
             hint="Token changes are confirmed with your own password; a wrong one is recorded."
             error={errors.currentPassword?.message}
-          >
-            {(d, invalid) => (
-              <input
-                id="token-current-password"
-                type="password"
-                autoComplete="current-password"
-                className={`${inputClasses} sm:max-w-xs`}
-                aria-invalid={invalid}
-                aria-describedby={d}
-                {...register("currentPassword")}
-              />
-            )}
-          </Field>
+            className="sm:max-w-xs"
+            input={register("currentPassword")}
+          />
           <div className="flex flex-wrap items-center gap-3">
             <Button type="submit" disabled={isSubmitting}>
               {isSubmitting ? "Creating…" : "Create token"}

@@ -9,6 +9,7 @@ import { EmptyState } from "@/components/ui/EmptyState";
 import { Field, inputClasses } from "@/components/ui/Field";
 import { StatusBadge } from "@/components/ui/StatusBadge";
 import type { ApiTokenSummary } from "@/lib/api-tokens/queries";
+import { OwnPasswordField } from "@/components/ui/OwnPasswordField";
 
 const when = (iso: string | null) => (iso ? `${iso.slice(0, 16).replace("T", " ")} UTC` : "never");
 
@@ -125,25 +126,12 @@ export function ApiTokensTable({ tokens }: { tokens: ApiTokenSummary[] }) {
                   />
                 )}
               </Field>
-              <Field
+              <OwnPasswordField
                 id="revoke-password"
-                label="Your password"
                 hint="Confirms the revocation; a wrong one is recorded."
                 error={passwordError ?? undefined}
-              >
-                {(d, invalid) => (
-                  <input
-                    id="revoke-password"
-                    type="password"
-                    autoComplete="current-password"
-                    value={password}
-                    onChange={(e) => setPassword(e.target.value)}
-                    className={inputClasses}
-                    aria-invalid={invalid}
-                    aria-describedby={d}
-                  />
-                )}
-              </Field>
+                input={{ value: password, onChange: (e) => setPassword(e.target.value) }}
+              />
               <div className="flex justify-end gap-2">
                 <Button variant="secondary" onClick={close}>
                   Cancel

@@ -8,6 +8,7 @@ import { Button } from "@/components/ui/Button";
 import { Field, inputClasses } from "@/components/ui/Field";
 import { StatusBadge } from "@/components/ui/StatusBadge";
 import type { UserSummary } from "@/lib/users/queries";
+import { OwnPasswordField } from "@/components/ui/OwnPasswordField";
 
 /** Deactivate or reactivate an account, with a required reason for the ledger. */
 export function UserActivePanel({ user, isSelf }: { user: UserSummary; isSelf: boolean }) {
@@ -86,25 +87,12 @@ export function UserActivePanel({ user, isSelf }: { user: UserSummary; isSelf: b
                   />
                 )}
               </Field>
-              <Field
+              <OwnPasswordField
                 id="active-password"
-                label="Your password"
                 hint="Confirms the change; a wrong one is recorded."
                 error={passwordError ?? undefined}
-              >
-                {(d, invalid) => (
-                  <input
-                    id="active-password"
-                    type="password"
-                    autoComplete="current-password"
-                    value={password}
-                    onChange={(e) => setPassword(e.target.value)}
-                    className={inputClasses}
-                    aria-invalid={invalid}
-                    aria-describedby={d}
-                  />
-                )}
-              </Field>
+                input={{ value: password, onChange: (e) => setPassword(e.target.value) }}
+              />
               <div className="flex justify-end gap-2">
                 <Button variant="secondary" onClick={() => setOpen(false)}>
                   Cancel

@@ -17,6 +17,7 @@ import {
   userUpdateSchema,
   type UserFormValues,
 } from "@/lib/users/schema";
+import { OwnPasswordField } from "@/components/ui/OwnPasswordField";
 
 type Props =
   | { mode: "create"; units: { id: number; label: string }[]; user?: undefined }
@@ -209,24 +210,13 @@ export function UserForm({ mode, units, user }: Props) {
           </Field>
         </div>
 
-        <Field
+        <OwnPasswordField
           id="currentPassword"
-          label="Your password"
           hint="Account changes are confirmed with your own password; a wrong one is recorded."
           error={errors.currentPassword?.message}
-        >
-          {(d, invalid) => (
-            <input
-              id="currentPassword"
-              type="password"
-              autoComplete="current-password"
-              className={`${inputClasses} sm:max-w-xs`}
-              aria-invalid={invalid}
-              aria-describedby={d}
-              {...register("currentPassword")}
-            />
-          )}
-        </Field>
+          className="sm:max-w-xs"
+          input={register("currentPassword")}
+        />
 
         <div className="flex flex-wrap items-center gap-3">
           <Button type="submit" disabled={isSubmitting || (mode === "edit" && !isDirty)}>
