@@ -83,12 +83,13 @@ export const authOptions: NextAuthOptions = {
     async signOut({ token }) {
       const sid = token?.sid;
       const uid = token?.uid;
-      if (typeof sid !== "string" || typeof uid !== "number" || !isRole(token.role)) return;
+      const role = token?.role;
+      if (typeof sid !== "string" || typeof uid !== "number" || !isRole(role)) return;
       await endSession(db(), sid, "sign_out");
       await db().transaction((trx) =>
         appendLedger(
           trx,
-          { id: uid, role: token.role as never },
+          { id: uid, role },
           {
             action: "user.sign_out",
             entityType: "user",
