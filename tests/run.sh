@@ -7,10 +7,20 @@ set -uo pipefail
 source "$(dirname "${BASH_SOURCE[0]}")/../db/scripts/prepare.sh"
 set +e
 
+PREPARE_START=$SECONDS
 prepare --browser || { echo "preparation failed"; echo "0 passed, 1 failed"; exit 1; }
 
 RESULTS="$ROOT/tests/artifacts/results"
 rm -rf "$RESULTS" && mkdir -p "$RESULTS"
+# How long each part took, printed before the result line.
+TIMINGS="$RESULTS/timings.txt"
+printf '%-22s %5d s\n' "preparation" $((SECONDS - PREPARE_START)) > "$TIMINGS"
+timed() {
+  local name="$1" start=$SECONDS; shift
+  "$@"; local rc=$?
+  printf '%-22s %5d s\n' "$name" $((SECONDS - start)) >> "$TIMINGS"
+  return $rc
+}
 export TEST_DB="tidemark_test_$$"
 export DATABASE_NAME="$TEST_DB"
 export TIDEMARK_DEMO=1
@@ -28,14 +38,14 @@ trap cleanup EXIT
 check() {
   local name="$1"; shift
   say "$name"
-  if "$@"; then echo "{\"name\":\"$name\",\"ok\":true}" > "$RESULTS/check-$name.json"
+  if timed "$name" "$@"; then echo "{\"name\":\"$name\",\"ok\":true}" > "$RESULTS/check-$name.json"
   else echo "{\"name\":\"$name\",\"ok\":false}" > "$RESULTS/check-$name.json"; fi
 }
 
 vitest_project() {
   local name="$1"; shift
   say "vitest: $name"
-  npx vitest run --config tests/vitest.config.mts "$@" \
+  timed "vitest $name" npx vitest run --config tests/vitest.config.mts "$@" \
     --reporter=default --reporter=json --outputFile.json="$RESULTS/vitest-$name.json"
   [ -f "$RESULTS/vitest-$name.json" ] || echo "{\"name\":\"vitest-$name\",\"ok\":false}" > "$RESULTS/check-vitest-$name.json"
 }
@@ -58,4 +68,7 @@ else
   echo '{"name":"e2e","ok":false}' > "$RESULTS/check-e2e.json"
 fi
 
+say "Time per part"
+cat "$TIMINGS"
+printf '%-22s %5d s\n' "total" "$SECONDS"
 node tests/summary.mjs "$RESULTS"
