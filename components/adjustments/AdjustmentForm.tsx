@@ -6,7 +6,6 @@ import { useRouter } from "next/navigation";
 import { useCallback, useId, useMemo, useRef, useState } from "react";
 import { useForm, useWatch, type Resolver } from "react-hook-form";
 import useSWR, { SWRConfig } from "swr";
-import { z } from "zod";
 import { recordAdjustmentAction } from "@/app/(app)/patients/[patientId]/actions";
 import {
   describeDeviceFio2,
@@ -17,7 +16,6 @@ import {
   type FormNotice,
   FormStatus,
   fromZonedLocalInput,
-  localDateTimeSchema,
   NumberField,
   refusalNotice,
   toZonedLocalInput,
@@ -29,140 +27,25 @@ import { Button, buttonClasses } from "@/components/ui/Button";
 import { Caution } from "@/components/ui/Caution";
 import { EmptyState } from "@/components/ui/EmptyState";
 import { Field, inputClasses } from "@/components/ui/Field";
-import {
-  ADJUSTMENT_REASONS,
-  adjustmentSchema,
-  type AdjustmentReason,
-} from "@/lib/adjustments/schema";
+import { ADJUSTMENT_REASONS } from "@/lib/adjustments/schema";
 import type { PressureUnit, ProposalDirection, ProposedSetting } from "@/lib/oxygen";
-import { DEVICE_PROFILES, type Device } from "@/lib/orders/devices";
+import { DEVICE_PROFILES } from "@/lib/orders/devices";
 import type { OrderView } from "@/lib/orders/queries";
 import type { BedsideContext, BedsideSettings } from "@/lib/patients/bedside";
-import { classifySpo2 } from "@/lib/time-in-band";
 import { AdjustmentForecast } from "./AdjustmentForecast";
 import { BedsideContextCards } from "./BedsideContextCards";
+import {
+  adjustmentFormSchema,
+  asNumber,
+  FIELDS,
+  limitWarnings,
+  reasonFor,
+  type FormInput,
+  type FormOutput,
+} from "./adjustment-form-rules";
 import { ProposalCard } from "./ProposalCard";
 
-const emptyToUndefined = (v: unknown) =>
-  v === "" || v === null || (typeof v === "number" && Number.isNaN(v)) ? undefined : v;
-
-const SAME = 1e-9;
-
-/**
- * The adjustment form's schema: the shared adjustmentSchema's fields and
- * messages, with the settings the order's device uses required, the FiO2 left
- * to the flow for low-flow devices, and the time in the unit's wall clock.
- */
-export function adjustmentFormSchema(device: Device, current: BedsideSettings | null) {
-  const uses = DEVICE_PROFILES[device].uses;
-  const shared = adjustmentSchema.shape;
-  return z
-    .object({
-      toFio2: z.preprocess(emptyToUndefined, shared.toFio2.optional()),
-      toPeep: shared.toPeep,
-      toFlow: shared.toFlow,
-      reason: shared.reason,
-      rationale: shared.rationale,
-      appliedAt: localDateTimeSchema("Time applied"),
-    })
-    .superRefine(
-      (raw, ctx) => {
-        // Runs even when other fields failed, so every field shows its error at once.
-        const v = raw as { toFio2?: unknown; toPeep?: unknown; toFlow?: unknown };
-        const given = (value: unknown): value is number =>
-          typeof value === "number" && Number.isFinite(value);
-        const issue = (path: string, message: string) =>
-          ctx.addIssue({ code: "custom", path: [path], message });
-        if (uses.fio2 === "set" && v.toFio2 === undefined)
-          issue("toFio2", "New FiO2 must be a number between 0.21 and 1.00.");
-        if (uses.peep && v.toPeep === undefined)
-          issue("toPeep", "New PEEP is required for this device.");
-        if (uses.flow && v.toFlow === undefined)
-          issue("toFlow", "New flow is required for this device.");
-        if (!current) return;
-        const same = (a: unknown, b: number | null) =>
-          (b === null && a === undefined) || (given(a) && b !== null && Math.abs(a - b) < SAME);
-        const unchanged =
-          (uses.fio2 !== "set" || same(v.toFio2, current.fio2)) &&
-          (!uses.peep || same(v.toPeep, current.peep)) &&
-          (!uses.flow || same(v.toFlow, current.flow));
-        if (unchanged && (uses.fio2 === "set" || uses.flow || uses.peep)) {
-          issue(
-            uses.fio2 === "set" ? "toFio2" : "toFlow",
-            "These are the settings in effect now: change at least one value (to record a reassessment, chart a reading).",
-          );
-        }
-      },
-      { when: () => true },
-    );
-}
-type FormInput = z.input<ReturnType<typeof adjustmentFormSchema>>;
-type FormOutput = z.output<ReturnType<typeof adjustmentFormSchema>>;
-type FieldName = "toFio2" | "toPeep" | "toFlow" | "reason" | "rationale" | "appliedAt";
-const FIELDS: readonly FieldName[] = [
-  "toFio2",
-  "toPeep",
-  "toFlow",
-  "reason",
-  "rationale",
-  "appliedAt",
-];
-
-const NEW_ORDER = "ask the physician for a new order.";
-
-/**
- * Warnings shown while typing, before anything is sent, when a value lies
- * outside the order's limits. They do not block: the server refuses, in the
- * same words, beside the same field.
- */
-export function limitWarnings(
-  order: OrderView,
-  typed: { fio2?: number; peep?: number; flow?: number },
-  fio2Estimated: boolean,
-): Partial<Record<"toFio2" | "toPeep" | "toFlow", string>> {
-  const out: Partial<Record<"toFio2" | "toPeep" | "toFlow", string>> = {};
-  const { limits } = order;
-  const finite = (v: number | undefined): v is number => v !== undefined && Number.isFinite(v);
-  const label = fio2Estimated ? "Estimated FiO2" : "FiO2";
-  if (finite(typed.fio2)) {
-    if (typed.fio2 > 1 && !fio2Estimated) {
-      const percent = Math.round(typed.fio2);
-      out.toFio2 = `FiO2 is a fraction between 0.21 and 1.00: type ${formatFio2Value(percent / 100)} for ${percent} %.`;
-    } else if (typed.fio2 > limits.fio2Max) {
-      out.toFio2 = `${label} ${formatFio2Value(typed.fio2)} is above this order's maximum of ${formatFio2Value(limits.fio2Max)} — ${NEW_ORDER}`;
-    } else if (typed.fio2 < limits.fio2Min) {
-      out.toFio2 = `${label} ${formatFio2Value(typed.fio2)} is below this order's minimum of ${formatFio2Value(limits.fio2Min)} — ${NEW_ORDER}`;
-    }
-  }
-  const pair = (
-    key: "toPeep" | "toFlow",
-    value: number | undefined,
-    min: number | null,
-    max: number | null,
-    name: string,
-    unit: string,
-  ) => {
-    if (!finite(value) || min === null || max === null) return;
-    if (value > max)
-      out[key] =
-        `${name} ${value} ${unit} is above this order's maximum of ${max} ${unit} — ${NEW_ORDER}`;
-    else if (value < min)
-      out[key] =
-        `${name} ${value} ${unit} is below this order's minimum of ${min} ${unit} — ${NEW_ORDER}`;
-  };
-  pair("toPeep", typed.peep, limits.peepMin, limits.peepMax, "PEEP", "cmH2O");
-  pair("toFlow", typed.flow, limits.flowMin, limits.flowMax, "Flow", "L/min");
-  return out;
-}
-
-function reasonFor(context: BedsideContext): AdjustmentReason | undefined {
-  const { order, latestReading } = context;
-  if (!order || !latestReading) return undefined;
-  const side = classifySpo2(latestReading.spo2, latestReading, order.spo2Band);
-  return side === "below" ? "below_band" : side === "above" ? "above_band" : undefined;
-}
-
-const asNumber = (v: unknown): number | undefined => (typeof v === "number" ? v : undefined);
+export { adjustmentFormSchema, limitWarnings } from "./adjustment-form-rules";
 
 /**
  * Record one applied settings change: the order in effect, the applied
