@@ -31,8 +31,6 @@ import { getImportRow, toPreview, type ImportRow } from "./queries";
 import type { ImportPreview, StoredReport } from "./report";
 import { assertCan } from "../auth/permissions";
 
-/** Who may upload in the app: the therapist enters blood gases; the admin runs interfaces. */
-
 /** Size caps per kind: a day of 1 Hz monitor data is about 2.5 MB. */
 export const MAX_IMPORT_BYTES: Record<ImportKind, number> = {
   blood_gas_csv: 5 * 1024 * 1024,
