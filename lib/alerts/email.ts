@@ -122,18 +122,37 @@ export function composeAlertEmail(input: AlertEmailInput): AlertEmail {
     "",
     "Decision support only: local protocols and the licensed clinicians at the bedside decide.",
   ];
-  const html = `<!doctype html><html><body style="font-family:sans-serif">
-<p><strong>${escapeHtml(lines[0]!)}</strong></p>
-<ul>
-<li>${escapeHtml(lines[1]!)}</li>
-<li>${escapeHtml(lines[2]!)}</li>
-<li>${escapeHtml(lines[3]!)}</li>
-</ul>
-<p>${escapeHtml(lines[4]!)}</p>
-<p><a href="${escapeHtml(link)}">Open and acknowledge in Tidemark</a></p>
-<p style="color:#555">${escapeHtml(lines[8]!)}</p>
-</body></html>`;
+  const html = noticeHtml({
+    title: lines[0]!,
+    facts: lines.slice(1, 4),
+    note: lines[4]!,
+    link,
+    linkText: "Open and acknowledge in Tidemark",
+    footer: lines[8]!,
+  });
   return { subject, text: lines.join("\n"), html };
+}
+
+/**
+ * The HTML part of a Tidemark notice: a title, the facts as a list, a note, the
+ * link and an optional footer — every text escaped. Alerts and order notices share it.
+ */
+export function noticeHtml(n: {
+  title: string;
+  facts: readonly string[];
+  note: string;
+  link: string;
+  linkText: string;
+  footer?: string;
+}): string {
+  return `<!doctype html><html><body style="font-family:sans-serif">
+<p><strong>${escapeHtml(n.title)}</strong></p>
+<ul>
+${n.facts.map((f) => `<li>${escapeHtml(f)}</li>`).join("\n")}
+</ul>
+<p>${escapeHtml(n.note)}</p>
+<p><a href="${escapeHtml(n.link)}">${escapeHtml(n.linkText)}</a></p>
+${n.footer ? `<p style="color:#555">${escapeHtml(n.footer)}</p>\n` : ""}</body></html>`;
 }
 
 /** Stable per alert, purpose and recipient: a retry sends the same Message-ID. */

@@ -1,4 +1,4 @@
-import { escapeHtml, when } from "../alerts/email";
+import { noticeHtml, when } from "../alerts/email";
 
 /** The outbox purpose of the e-mail telling a prescriber their signed order was replaced. */
 export const ORDER_SUPERSEDED_PURPOSE = "order_superseded";
@@ -46,16 +46,13 @@ export function composeOrderSupersededEmail(input: OrderSupersededEmailInput): {
     "",
     `Open the new order: ${link}`,
   ];
-  const html = `<!doctype html><html><body style="font-family:sans-serif">
-<p><strong>${escapeHtml(lines[0]!)}</strong></p>
-<ul>
-<li>${escapeHtml(lines[1]!)}</li>
-<li>${escapeHtml(lines[2]!)}</li>
-<li>${escapeHtml(lines[3]!)}</li>
-</ul>
-<p>${escapeHtml(lines[4]!)}</p>
-<p><a href="${escapeHtml(link)}">Open the new order in Tidemark</a></p>
-</body></html>`;
+  const html = noticeHtml({
+    title: lines[0]!,
+    facts: lines.slice(1, 4),
+    note: lines[4]!,
+    link,
+    linkText: "Open the new order in Tidemark",
+  });
   return { subject: subject.slice(0, 200), text: lines.join("\n"), html };
 }
 
