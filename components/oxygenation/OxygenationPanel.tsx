@@ -1,19 +1,14 @@
 "use client";
 
-import { type ReactNode, useId, useMemo, useState } from "react";
+import { useId, useMemo, useState } from "react";
 import { Caution } from "@/components/ui/Caution";
 import { IconWarning } from "@/components/ui/icons";
 import {
   ASSUMED_HEMOGLOBIN,
-  type Basis,
-  type BerlinCategory,
   type BloodGasAssessment,
   type BloodGasInput,
-  type ClassificationResult,
   type Fio2Forecast,
   forecastFio2Change,
-  type GlobalCategory,
-  type IndexValue,
   OxygenInputError,
   PEEP_NOT_FORECAST,
   type PressureUnit,
@@ -27,6 +22,8 @@ import { BasisDisclosure } from "./BasisDisclosure";
 import { type CurvePoint, DissociationChart } from "./DissociationChart";
 import { ForecastChart, forecastSamples, Marker, MODELS, ModelSwatch } from "./ForecastChart";
 import { formatFio2, formatNumber, formatPressureNumber } from "./format";
+import { OxygenationCriteria } from "./OxygenationCriteria";
+import { OxygenationIndices } from "./OxygenationIndices";
 
 export interface OxygenationPanelProps {
   /** The engine's assessment of the blood gas (assessBloodGas). */
@@ -35,63 +32,6 @@ export interface OxygenationPanelProps {
   input: BloodGasInput;
   /** The user's preferred pressure unit; every pressure is shown in it. */
   pressureUnit: PressureUnit;
-}
-
-const BERLIN_WORDS: Record<BerlinCategory, string> = {
-  none: "Outside the Berlin bands",
-  mild: "Mild",
-  moderate: "Moderate",
-  severe: "Severe",
-  "not-classifiable": "Not classifiable",
-};
-
-const GLOBAL_WORDS: Record<GlobalCategory, string> = {
-  none: "Outside the oxygenation criterion",
-  ards: "Within the criterion, non-intubated (no severity bands)",
-  mild: "Mild",
-  moderate: "Moderate",
-  severe: "Severe",
-  "not-classifiable": "Not classifiable",
-};
-
-/**
- * Which ratio set the global category. P/F and S/F are alternatives there; with
- * both, the worse band is reported and the criterion line names the other.
- */
-const CLASSIFIED_BY_WORDS: Record<NonNullable<ClassificationResult<string>["classifiedBy"]>, string> = {
-  "P/F": "P/F ratio",
-  "S/F": "S/F ratio",
-  both: "P/F and S/F ratios (same band)",
-};
-
-const CRITERION_VALUES: Record<string, { label: string; unit: string }> = {
-  pfRatio: { label: "P/F", unit: "mmHg" },
-  adjustedPfRatio: { label: "P/F × PB/760", unit: "mmHg" },
-  sfRatio: { label: "S/F", unit: "ratio" },
-  spo2: { label: "SpO2", unit: "%" },
-  peep: { label: "PEEP/CPAP", unit: "cmH2O" },
-  flow: { label: "Flow", unit: "L/min" },
-  barometricPressure: { label: "PB", unit: "mmHg" },
-};
-
-function criterionBasis(
-  name: string,
-  formula: string,
-  result: ClassificationResult<string>,
-  note: string,
-): Basis {
-  return {
-    name,
-    formula,
-    inputs: Object.fromEntries(
-      Object.entries(result.values).map(([key, value]) => {
-        const known = CRITERION_VALUES[key] ?? { label: key, unit: "" };
-        return [known.label, { value, unit: known.unit }];
-      }),
-    ),
-    source: result.source,
-    assumptions: [note],
-  };
 }
 
 // Weaning is the usual question: start one step of 0.10 below the measured FiO2.
@@ -104,38 +44,6 @@ type ForecastOutcome =
   | { ok: true; fio2: number; forecast: Fio2Forecast }
   | { ok: false; message: string };
 
-function IndexCard({
-  label,
-  value,
-  unit,
-  basis,
-  pressureUnit,
-  children,
-  wide = false,
-}: {
-  label: string;
-  value: string;
-  unit: string;
-  basis: Basis;
-  pressureUnit: PressureUnit;
-  children?: ReactNode;
-  wide?: boolean;
-}) {
-  return (
-    <li
-      className={`rounded-card border border-border bg-surface p-3 ${wide ? "sm:col-span-2" : ""}`}
-      data-testid="oxygenation-index"
-    >
-      <p className="text-xs font-medium uppercase tracking-wide text-ink-muted">{label}</p>
-      <p className="mt-0.5 tabular">
-        <span className="text-value">{value}</span> <span className="text-sm text-ink-muted">{unit}</span>
-      </p>
-      {children}
-      <BasisDisclosure basis={basis} pressureUnit={pressureUnit} />
-    </li>
-  );
-}
-
 /**
  * The oxygenation panel of the Chart: the indices of one blood gas, each with
  * its basis; the Berlin and global ARDS oxygenation categories; a three-model
@@ -146,7 +54,6 @@ export function OxygenationPanel({ assessment, input, pressureUnit }: Oxygenatio
   const id = useId();
   const unit = pressureUnit;
   const { indices, classification } = assessment;
-  const pressure = (v: IndexValue) => formatPressureNumber(v.value, unit);
 
   const baseline = useMemo(
     () => ({
@@ -214,7 +121,6 @@ export function OxygenationPanel({ assessment, input, pressureUnit }: Oxygenatio
   ];
   const uniqueCaveats = [...new Set(caveats)];
 
-  const content = indices.oxygenContent;
   return (
     <div className="space-y-5" data-testid="oxygenation-panel">
       {assessment.inconsistent ? (
@@ -227,136 +133,9 @@ export function OxygenationPanel({ assessment, input, pressureUnit }: Oxygenatio
         </p>
       ) : null}
 
-      <section aria-labelledby={`${id}-indices`} className="space-y-2">
-        <h3 id={`${id}-indices`} className="text-base font-semibold">
-          Indices
-        </h3>
-        <ul className="grid grid-cols-1 items-start gap-3 sm:grid-cols-2 lg:grid-cols-4">
-          <IndexCard label="P/F ratio" value={pressure(indices.pfRatio)} unit={unit} basis={indices.pfRatio.basis} pressureUnit={unit} />
-          {indices.sfRatio ? (
-            <IndexCard
-              label="S/F ratio"
-              value={formatNumber(indices.sfRatio.value, 0)}
-              unit="SpO2 % / FiO2"
-              basis={indices.sfRatio.basis}
-              pressureUnit={unit}
-            />
-          ) : null}
-          <IndexCard
-            label="Alveolar PO2 (PAO2)"
-            value={pressure(indices.alveolarPO2)}
-            unit={unit}
-            basis={indices.alveolarPO2.basis}
-            pressureUnit={unit}
-          />
-          <IndexCard
-            label="A–a gradient"
-            value={pressure(indices.alveolarArterialGradient)}
-            unit={unit}
-            basis={indices.alveolarArterialGradient.basis}
-            pressureUnit={unit}
-          >
-            {indices.expectedAlveolarArterialGradient ? (
-              <p className="text-xs text-ink-muted">
-                Expected for age on room air ≈{" "}
-                <span className="tabular">
-                  {pressure(indices.expectedAlveolarArterialGradient)} {unit}
-                </span>{" "}
-                (age/4 + 4)
-              </p>
-            ) : null}
-          </IndexCard>
-          <IndexCard
-            label="a/A ratio"
-            value={formatNumber(indices.arterialAlveolarRatio.value, 2)}
-            unit="PaO2 / PAO2"
-            basis={indices.arterialAlveolarRatio.basis}
-            pressureUnit={unit}
-          />
-          {content ? (
-            <IndexCard
-              label="Arterial O2 content (CaO2)"
-              value={formatNumber(content.total.value, 1)}
-              unit={content.total.unit}
-              basis={content.total.basis}
-              pressureUnit={unit}
-            >
-              <dl className="mt-1 grid grid-cols-[auto_auto] justify-start gap-x-3 text-xs tabular">
-                <dt className="text-ink-muted">Bound to Hb</dt>
-                <dd>
-                  {formatNumber(content.bound.value, 1)} {content.bound.unit}
-                </dd>
-                <dt className="text-ink-muted">Dissolved</dt>
-                <dd>
-                  {formatNumber(content.dissolved.value, 2)} {content.dissolved.unit}
-                </dd>
-                <dt className="text-ink-muted">Bound : dissolved</dt>
-                <dd>{formatNumber(content.boundToDissolvedRatio.value, 0)} : 1</dd>
-              </dl>
-            </IndexCard>
-          ) : null}
-          {[
-            { label: "O2 delivery (DO2)", index: indices.oxygenDelivery, digits: 0 },
-            { label: "Oxygenation index (OI)", index: indices.oxygenationIndex, digits: 1 },
-            { label: "O2 saturation index (OSI)", index: indices.oxygenSaturationIndex, digits: 1 },
-            { label: "ROX index", index: indices.roxIndex, digits: 2 },
-          ].map(({ label, index, digits }) =>
-            // Shown only when the inputs it needs were given.
-            index ? (
-              <IndexCard
-                key={label}
-                label={label}
-                value={formatNumber(index.value, digits)}
-                unit={index.unit}
-                basis={index.basis}
-                pressureUnit={unit}
-              />
-            ) : null,
-          )}
-        </ul>
-      </section>
+      <OxygenationIndices id={id} indices={indices} pressureUnit={unit} />
 
-      <section aria-labelledby={`${id}-criteria`} className="space-y-2">
-        <h3 id={`${id}-criteria`} className="text-base font-semibold">
-          ARDS oxygenation criterion
-        </h3>
-        <ul className="grid grid-cols-1 items-start gap-3 md:grid-cols-2">
-          <li className="rounded-card border border-border bg-surface p-3" data-testid="berlin-category">
-            <p className="text-xs font-medium uppercase tracking-wide text-ink-muted">Berlin definition 2012</p>
-            <p className="text-lg font-semibold">{BERLIN_WORDS[classification.berlin.category]}</p>
-            <p className="text-sm text-ink-muted">Decided by: {classification.berlin.criterion}</p>
-            <BasisDisclosure
-              pressureUnit={unit}
-              basis={criterionBasis(
-                "Berlin definition 2012",
-                "P/F with PEEP/CPAP ≥ 5 cmH2O: mild 200–300, moderate 100–200, severe ≤ 100 mmHg (non-invasive CPAP for mild only); P/F × PB/760 above 1000 m",
-                classification.berlin,
-                classification.note,
-              )}
-            />
-          </li>
-          <li className="rounded-card border border-border bg-surface p-3" data-testid="global-category">
-            <p className="text-xs font-medium uppercase tracking-wide text-ink-muted">Global definition 2023</p>
-            <p className="text-lg font-semibold">{GLOBAL_WORDS[classification.global.category]}</p>
-            {classification.global.classifiedBy ? (
-              <p className="text-sm font-medium" data-testid="global-classified-by">
-                Classified by: {CLASSIFIED_BY_WORDS[classification.global.classifiedBy]}
-              </p>
-            ) : null}
-            <p className="text-sm text-ink-muted">Decided by: {classification.global.criterion}</p>
-            <BasisDisclosure
-              pressureUnit={unit}
-              basis={criterionBasis(
-                "Global definition 2023",
-                "HFNC ≥ 30 L/min, NIV/CPAP ≥ 5 cmH2O or intubated; P/F ≤ 300 mmHg, or S/F ≤ 315 with SpO2 ≤ 97 %; intubated bands P/F 300/200/100, S/F 315/235/148. With both ratios the worse band is reported (Tidemark's reading: the definition lists them as alternatives)",
-                classification.global,
-                classification.note,
-              )}
-            />
-          </li>
-        </ul>
-        <p className="text-xs text-ink-muted">{classification.note}</p>
-      </section>
+      <OxygenationCriteria id={id} classification={classification} pressureUnit={unit} />
 
       <section aria-labelledby={`${id}-forecast`} className="space-y-2">
         <h3 id={`${id}-forecast`} className="text-base font-semibold">
