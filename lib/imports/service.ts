@@ -1,113 +1,51 @@
-import { createHash } from "node:crypto";
 import type { Knex } from "knex";
 import { z } from "zod";
-import { afterBloodGasRecorded, afterReadingsCharted } from "../alerts/service";
 import type { TokenActor } from "../api-tokens/service";
 import type { Actor } from "../auth/actor";
-import { insertBloodGas } from "../blood-gases/service";
 import { duplicateIndex } from "../db-errors";
-import { ConflictError, DomainError, NotFoundError, type FieldErrors } from "../errors";
-import { appendLedger, type LedgerActor } from "../ledger/service";
+import { ConflictError, DomainError, NotFoundError } from "../errors";
 import { parseInput } from "../validation";
-import { ImportFileError, type BloodGasMapping } from "./csv";
 import {
-  alertAdmissionOf,
-  chartedReadings,
   fileStream,
   loadUnit,
   planBloodGasCsv,
   planHl7,
-  readingInsertRow,
-  sampleOf,
   streamMonitorCsv,
   type ImportUnit,
-  type MonitorOutcome,
-  type SmallPlan,
 } from "./evaluate";
-import { Hl7MessageError } from "./hl7";
-import { IMPORT_KINDS, IMPORT_LEDGER_ACTIONS, type ImportKind, type RejectedRow } from "./kinds";
-import type { MatchedPatient } from "./matching";
+import type { ImportKind } from "./kinds";
 import { getImportRow, toPreview, type ImportRow } from "./queries";
 import type { ImportPreview, StoredReport } from "./report";
+import {
+  asDomain,
+  assertSize,
+  checkedFromMonitor,
+  checkedFromPlan,
+  confirmSchema,
+  dedupeKey,
+  hl7SourceId,
+  ImportRefusedError,
+  sha256,
+  uploadSchema,
+  type Checked,
+  type ConfirmInput,
+  type Importer,
+  type Options,
+  type UploadInput,
+} from "./upload-rules";
+import { writeImport } from "./write";
 import { assertCan } from "../auth/permissions";
 
-/** Size caps per kind: a day of 1 Hz monitor data is about 2.5 MB. */
-export const MAX_IMPORT_BYTES: Record<ImportKind, number> = {
-  blood_gas_csv: 5 * 1024 * 1024,
-  hl7: 1024 * 1024,
-  monitor_csv: 12 * 1024 * 1024,
-};
-
-/** A signed-in user uploading in the app, or an interface engine with an API token. */
-export type Importer = { kind: "user"; actor: Actor } | { kind: "token"; token: TokenActor };
-
-const ledgerActorOf = (who: Importer): LedgerActor =>
-  who.kind === "user" ? { id: who.actor.id, role: who.actor.role } : { id: null, role: "interface" };
-const recordedByOf = (who: Importer) => (who.kind === "user" ? who.actor.id : null);
-
-/** Refusal of an import with its rejected rows, as field errors keyed by row ("line 7", "OBR 2"). */
-export class ImportRefusedError extends DomainError {
-  constructor(
-    message: string,
-    readonly rejected: RejectedRow[],
-  ) {
-    super(message, 422, rowsAsFieldErrors(rejected));
-  }
-}
-
-function rowsAsFieldErrors(rows: RejectedRow[]): FieldErrors {
-  const out: FieldErrors = {};
-  for (const r of rows) (out[r.label] ??= []).push(...r.reasons.map((x) => x.message));
-  return out;
-}
-
-/** File-level problems (not CSV, truncated HL7, unknown monitor patient) become a 422 naming the problem. */
-function asDomain(error: unknown): unknown {
-  if (error instanceof ImportFileError || error instanceof Hl7MessageError) {
-    return new DomainError(`${error.message}`, 422, { file: [error.message] });
-  }
-  return error;
-}
-
-const sha256 = (data: Buffer | string) => createHash("sha256").update(data).digest("hex");
-
-function dedupeKey(kind: ImportKind, unitId: number, scope: string, contentSha: string): string {
-  return sha256([kind, unitId, scope, contentSha].join("\n"));
-}
-
-const fileName = z
-  .string()
-  .trim()
-  .max(255, "File name must be at most 255 characters.")
-  .transform((s) => s.replace(/[\u0000-\u001f]/g, "") || "upload");
-
-/** The fields of an upload besides the file; monitor files name the patient's MRN and bed. */
-export const uploadSchema = z
-  .object({
-    kind: z.enum(IMPORT_KINDS, { error: "Choose what the file holds." }),
-    unitId: z.coerce.number({ error: "Choose the unit." }).int().positive("Choose the unit."),
-    fileName,
-    delimiter: z.enum([",", ";", "\t"]).default(","),
-    mrn: z.string().trim().max(20, "MRN must be at most 20 characters.").optional(),
-    bed: z.string().trim().max(16, "Bed must be at most 16 characters.").optional(),
-  })
-  .superRefine((v, ctx) => {
-    if (v.kind === "monitor_csv") {
-      if (!v.mrn) ctx.addIssue({ code: "custom", path: ["mrn"], message: "Give the MRN of the patient the monitor was on." });
-      if (!v.bed) ctx.addIssue({ code: "custom", path: ["bed"], message: "Give the bed of the monitor." });
-    }
-  });
-export type UploadInput = z.input<typeof uploadSchema>;
-
-// The mapping is validated again each time the file is checked (planBloodGasCsv).
-type Options = { delimiter?: BloodGasMapping["delimiter"]; mapping?: unknown; mrn?: string; bed?: string };
-
-function assertSize(kind: ImportKind, bytes: number): void {
-  if (bytes === 0) throw new DomainError("The file is empty.", 422, { file: ["The file is empty."] });
-  if (bytes > MAX_IMPORT_BYTES[kind]) {
-    throw new DomainError(`The file is larger than ${MAX_IMPORT_BYTES[kind] / 1024 / 1024} MB.`, 413);
-  }
-}
+// The upload rules (schemas, size caps, Importer) live in ./upload-rules; re-exported for callers.
+export {
+  confirmSchema,
+  ImportRefusedError,
+  MAX_IMPORT_BYTES,
+  uploadSchema,
+  type ConfirmInput,
+  type Importer,
+  type UploadInput,
+} from "./upload-rules";
 
 /** The unit an upload names, if it is one of the actor's (else "not found", no leak). */
 async function actorUnit(knex: Knex, actor: Actor, unitId: number): Promise<ImportUnit> {
@@ -115,42 +53,6 @@ async function actorUnit(knex: Knex, actor: Actor, unitId: number): Promise<Impo
   if (!unit) throw new NotFoundError("No unit with that id on your units.");
   return unit;
 }
-
-type Checked = {
-  report: StoredReport;
-  counts: { total: number; accepted: number; rejected: number };
-  sourceMessageId: string | null;
-  unitId: number;
-};
-
-function checkedFromPlan(plan: SmallPlan): Checked {
-  const accepted = plan.gases.length + plan.readings.length;
-  return {
-    report: {
-      rejected: plan.rejected,
-      sample: sampleOf(plan),
-      notes: plan.notes,
-      ...(plan.header ? { header: plan.header } : {}),
-      ...(plan.mapping ? { mapping: plan.mapping } : {}),
-      ...(plan.mappingErrors ? { mappingErrors: plan.mappingErrors } : {}),
-    },
-    counts: { total: plan.total, accepted, rejected: plan.total - accepted },
-    sourceMessageId: plan.hl7 ? hl7SourceId(plan.hl7) : null,
-    unitId: plan.unit.id,
-  };
-}
-
-function checkedFromMonitor(outcome: MonitorOutcome, unitId: number): Checked {
-  return {
-    report: { rejected: outcome.rejected, sample: outcome.sample, notes: [] },
-    counts: { total: outcome.total, accepted: outcome.accepted, rejected: outcome.rejected.length },
-    sourceMessageId: null,
-    unitId,
-  };
-}
-
-const hl7SourceId = (m: NonNullable<SmallPlan["hl7"]>) =>
-  `${m.sendingApplication}|${m.sendingFacility}|${m.controlId}`.slice(0, 255);
 
 /** Checks a stored or uploaded file without writing rows: the preview. */
 async function checkFile(
@@ -307,13 +209,6 @@ async function accessibleImport(knex: Knex | Knex.Transaction, actor: Actor, imp
   return row;
 }
 
-export const confirmSchema = z.object({
-  importId: z.number().int().positive(),
-  /** The number of good rows the person saw in the preview; a different count now means the preview is stale. */
-  expectedAccepted: z.number().int().min(0),
-});
-export type ConfirmInput = z.input<typeof confirmSchema>;
-
 /**
  * Confirm in the app: derives the rows again from the stored file (never from
  * what the browser sends) and imports the good ones, in one transaction with
@@ -355,120 +250,6 @@ export async function confirmImport(
     return toPreview(row, { alreadyImported: id === null });
   } catch (error) {
     throw asDomain(error);
-  }
-}
-
-/**
- * Writes the good rows of a stored import, with the import's report and one
- * ledger row per patient touched, inside the caller's transaction.
- *
- * One ledger row per patient (not one per import) because the ledger chains
- * per patient: each patient's chain then holds the data that entered their
- * record, and reading a patient's history never needs another chain. A blood
- * gas file touches a handful of patients; HL7 and monitor imports one.
- */
-async function writeImport(
-  trx: Knex.Transaction,
-  who: Importer,
-  row: ImportRow,
-  unit: ImportUnit,
-  options: Options,
-  now: Date,
-  gate: (accepted: number, rejected: number) => void,
-): Promise<void> {
-  const recordedBy = recordedByOf(who);
-  const ledgerActor = ledgerActorOf(who);
-  const action = IMPORT_LEDGER_ACTIONS[row.kind];
-  const base = { importId: row.id, kind: row.kind, fileName: row.file_name, sha256: row.content_sha256 };
-  let checked: Checked;
-  const touched = new Map<number, { patient: MatchedPatient; after: Record<string, unknown> }>();
-
-  if (row.kind === "monitor_csv") {
-    const outcome = await streamMonitorCsv(trx, fileStream(row.original_content), unit, { mrn: options.mrn!, bed: options.bed! }, now, {
-      trx,
-      importId: row.id,
-      recordedBy,
-      ledgerActor,
-    });
-    checked = checkedFromMonitor(outcome, unit.id);
-    gate(checked.counts.accepted, checked.counts.rejected);
-    touched.set(outcome.patient.patientId, {
-      patient: outcome.patient,
-      after: {
-        readings: outcome.accepted,
-        from: outcome.firstAt?.toISOString() ?? null,
-        to: outcome.lastAt?.toISOString() ?? null,
-      },
-    });
-  } else {
-    const plan =
-      row.kind === "hl7"
-        ? await planHl7(trx, row.original_content, who.kind === "token" ? who.token.unitIds : [unit.id], unit, now)
-        : await planBloodGasCsv(trx, row.original_content, unit, { delimiter: options.delimiter ?? ",", mapping: options.mapping }, now);
-    if (plan.mappingErrors) {
-      throw new DomainError("Complete the column mapping first.", 400, plan.mappingErrors);
-    }
-    checked = checkedFromPlan(plan);
-    gate(checked.counts.accepted, checked.counts.rejected);
-    for (const g of plan.gases) {
-      const view = await insertBloodGas(trx, { admissionId: g.patient.admissionId }, g.values, g.evaluated, {
-        recordedBy,
-        importId: row.id,
-      });
-      await afterBloodGasRecorded(
-        trx,
-        ledgerActor,
-        alertAdmissionOf(g.patient),
-        { sampledAt: g.values.sampledAt, sampleType: g.values.sampleType, pao2: g.values.pao2, fio2: view.fio2, flow: g.values.flow ?? null },
-        now,
-      );
-      const entry = touched.get(g.patient.patientId) ?? { patient: g.patient, after: { bloodGasIds: [] as number[], readings: 0 } };
-      (entry.after.bloodGasIds as number[]).push(view.id);
-      touched.set(g.patient.patientId, entry);
-    }
-    const byPatient = new Map<number, typeof plan.readings>();
-    for (const r of plan.readings) byPatient.set(r.patient.patientId, [...(byPatient.get(r.patient.patientId) ?? []), r]);
-    for (const [patientId, readings] of byPatient) {
-      const rows = readings.map((r) => readingInsertRow(r, row.id, recordedBy));
-      await trx("readings").insert(rows);
-      const patient = readings[0]!.patient;
-      await afterReadingsCharted(trx, ledgerActor, alertAdmissionOf(patient), chartedReadings(rows), now);
-      const entry = touched.get(patientId) ?? { patient, after: { bloodGasIds: [] as number[], readings: 0 } };
-      entry.after.readings = rows.length;
-      touched.set(patientId, entry);
-    }
-  }
-  await trx("imports")
-    .where({ id: row.id })
-    .update({
-      status: "imported",
-      imported_at: now,
-      imported_by: recordedBy,
-      rows_total: checked.counts.total,
-      rows_accepted: checked.counts.accepted,
-      rows_rejected: checked.counts.rejected,
-      report_json: JSON.stringify({ ...JSON.parse(row.report_json || "{}"), ...checked.report } as StoredReport),
-    });
-  for (const { patient, after } of [...touched.values()].sort((a, b) => a.patient.patientId - b.patient.patientId)) {
-    await appendLedger(
-      trx,
-      ledgerActor,
-      {
-        action,
-        entityType: "import",
-        entityId: row.id,
-        patientId: patient.patientId,
-        unitId: patient.unitId,
-        after: {
-          ...base,
-          ...after,
-          rowsInFile: checked.counts.total,
-          rowsRejected: checked.counts.rejected,
-          ...(who.kind === "token" ? { apiTokenId: who.token.tokenId, apiTokenName: who.token.name } : {}),
-        },
-      },
-      now,
-    );
   }
 }
 
