@@ -82,7 +82,21 @@ export async function readJson(request: Request, maxBytes = 64 * 1024): Promise<
 
 /** Reads a JSON object body and folds in an `Idempotency-Key` header, if sent. */
 export async function readWriteBody(request: Request): Promise<Record<string, unknown>> {
-  const body = await readJson(request);
+  return asWriteBody(request, await readJson(request));
+}
+
+/** As readWriteBody, but an empty body reads as `{}` (steps whose fields are all optional). */
+export async function readOptionalWriteBody(request: Request): Promise<Record<string, unknown>> {
+  const text = (await readBodyBytes(request, 64 * 1024)).toString("utf8");
+  if (!text.trim()) return asWriteBody(request, {});
+  try {
+    return asWriteBody(request, JSON.parse(text) as unknown);
+  } catch {
+    throw new DomainError("Request body is not valid JSON.", 400);
+  }
+}
+
+function asWriteBody(request: Request, body: unknown): Record<string, unknown> {
   if (typeof body !== "object" || body === null || Array.isArray(body)) {
     throw new DomainError("Request body must be a JSON object.", 400);
   }

@@ -6,7 +6,7 @@ import { useRouter } from "next/navigation";
 import { useCallback, useId, useMemo, useRef, useState } from "react";
 import { useForm, useWatch, type Resolver } from "react-hook-form";
 import useSWR, { SWRConfig } from "swr";
-import { recordAdjustmentAction } from "@/app/(app)/patients/[patientId]/actions";
+import { recordAdjustmentAction } from "@/lib/adjustments/actions";
 import {
   describeDeviceFio2,
   estimateFromFlow,

@@ -4,7 +4,7 @@ import { zodResolver } from "@hookform/resolvers/zod";
 import { useId, useState } from "react";
 import { useForm } from "react-hook-form";
 import { useSWRConfig } from "swr";
-import { acknowledgeAlertAction, resolveAlertAction } from "@/app/(app)/alerts/actions";
+import { acknowledgeAlertAction, resolveAlertAction } from "@/lib/alerts/actions";
 import { ALERT_SUMMARY_URL } from "@/components/shell/AlertBell";
 import { Button } from "@/components/ui/Button";
 import { Field, inputClasses } from "@/components/ui/Field";

@@ -3,7 +3,7 @@
 import { zodResolver } from "@hookform/resolvers/zod";
 import { useState } from "react";
 import { useForm } from "react-hook-form";
-import { saveEmailPreferencesAction } from "@/app/(app)/alerts/actions";
+import { saveEmailPreferencesAction } from "@/lib/alerts/actions";
 import { Button } from "@/components/ui/Button";
 import { ALERT_KINDS, ALERT_KIND_LABELS } from "@/lib/alerts/kinds";
 import { emailPreferencesSchema, type EmailPreferences } from "@/lib/alerts/schema";

@@ -4,7 +4,7 @@ import { zodResolver } from "@hookform/resolvers/zod";
 import { useRouter } from "next/navigation";
 import { useState } from "react";
 import { Controller, useForm, type Resolver } from "react-hook-form";
-import { createApiTokenAction } from "@/app/(app)/admin/api-tokens/actions";
+import { createApiTokenAction } from "@/lib/api-tokens/actions";
 import { useHydrated } from "@/components/bedside/BedsideFormParts";
 import { Button } from "@/components/ui/Button";
 import { Field, inputClasses } from "@/components/ui/Field";

@@ -3,7 +3,7 @@
 import { Dialog, DialogPanel, DialogTitle } from "@headlessui/react";
 import { useRouter } from "next/navigation";
 import { useState } from "react";
-import { revokeApiTokenAction } from "@/app/(app)/admin/api-tokens/actions";
+import { revokeApiTokenAction } from "@/lib/api-tokens/actions";
 import { Button } from "@/components/ui/Button";
 import { EmptyState } from "@/components/ui/EmptyState";
 import { Field, inputClasses } from "@/components/ui/Field";

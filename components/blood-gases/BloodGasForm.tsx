@@ -5,7 +5,7 @@ import Link from "next/link";
 import { useId, useMemo, useState } from "react";
 import { useForm, useWatch, type Resolver } from "react-hook-form";
 import { z } from "zod";
-import { recordBloodGasAction } from "@/app/(app)/patients/[patientId]/actions";
+import { recordBloodGasAction } from "@/lib/blood-gases/actions";
 import {
   formatFio2Value,
   type FormNotice,

@@ -6,7 +6,7 @@ import { useForm } from "react-hook-form";
 import { z } from "zod";
 import { Button } from "@/components/ui/Button";
 import { Field, inputClasses } from "@/components/ui/Field";
-import { LEDGER_ACTIONS } from "@/lib/ledger/actions";
+import { LEDGER_ACTIONS } from "@/lib/ledger/vocabulary";
 import { actionLabel, roleLabel } from "./LedgerLabels";
 import { LOCAL_DATE_TIME, utcToZonedLocal, zonedLocalToUtc } from "./LedgerTime";
 

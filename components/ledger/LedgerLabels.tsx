@@ -1,5 +1,5 @@
 import { isRole, ROLE_LABELS } from "@/lib/auth/roles";
-import type { LedgerAction, LedgerEntityType } from "@/lib/ledger/actions";
+import type { LedgerAction, LedgerEntityType } from "@/lib/ledger/vocabulary";
 
 // Every action in the vocabulary must have a label (a missing one fails the
 // type check); codes written by a newer release still read, as their code.

@@ -2,7 +2,7 @@
 
 import { zodResolver } from "@hookform/resolvers/zod";
 import { useForm } from "react-hook-form";
-import { discontinueOrderAction } from "@/app/(app)/orders/actions";
+import { discontinueOrderAction } from "@/lib/orders/actions";
 import { Field, inputClasses } from "@/components/ui/Field";
 import { discontinueSchema } from "@/lib/orders/schema";
 import { SignedStepFooter, SignPasswordField, useSignedOrderStep } from "./SignedOrderStep";

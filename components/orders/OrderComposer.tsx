@@ -9,7 +9,7 @@ import {
   type FieldErrors,
   type Resolver,
 } from "react-hook-form";
-import { writeOrderAction } from "@/app/(app)/orders/actions";
+import { writeOrderAction } from "@/lib/orders/actions";
 import { Button } from "@/components/ui/Button";
 import { IconWarning } from "@/components/ui/icons";
 import { DEVICE_PROFILES, estimateFio2, type Device } from "@/lib/orders/devices";

@@ -6,7 +6,7 @@ import { useRouter } from "next/navigation";
 import { useId, useMemo, useState } from "react";
 import { useForm, useWatch, type Resolver } from "react-hook-form";
 import type { z } from "zod";
-import { chartReadingAction } from "@/app/(app)/patients/[patientId]/actions";
+import { chartReadingAction } from "@/lib/readings/actions";
 import { spo2Status } from "@/components/adjustments/BedsideContextCards";
 import {
   estimateFromFlow,

@@ -3,7 +3,7 @@
 import { Listbox, ListboxButton, ListboxOption, ListboxOptions } from "@headlessui/react";
 import { useRouter } from "next/navigation";
 import { useState, useTransition } from "react";
-import { selectUnitAction } from "@/app/(app)/actions";
+import { selectUnitAction } from "@/lib/preferences/actions";
 import { IconChevronDown } from "@/components/ui/icons";
 
 type UnitOption = { id: number; code: string; name: string };

@@ -8,7 +8,7 @@ import {
   createStepTableAction,
   setStepTableActiveAction,
   updateStepTableAction,
-} from "@/app/(app)/admin/step-tables/actions";
+} from "@/lib/step-tables/actions";
 import { Button } from "@/components/ui/Button";
 import { Field, inputClasses } from "@/components/ui/Field";
 import type { StepTableView } from "@/lib/step-tables/queries";

@@ -3,7 +3,7 @@
 import { Dialog, DialogPanel, DialogTitle } from "@headlessui/react";
 import { useRouter } from "next/navigation";
 import { useState } from "react";
-import { setUserActiveAction } from "@/app/(app)/admin/users/actions";
+import { setUserActiveAction } from "@/lib/users/actions";
 import { Button } from "@/components/ui/Button";
 import { Field, inputClasses } from "@/components/ui/Field";
 import { StatusBadge } from "@/components/ui/StatusBadge";

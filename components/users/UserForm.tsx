@@ -4,7 +4,7 @@ import { zodResolver } from "@hookform/resolvers/zod";
 import { useRouter } from "next/navigation";
 import { useState } from "react";
 import { Controller, useForm, type Resolver } from "react-hook-form";
-import { createUserAction, updateUserAction } from "@/app/(app)/admin/users/actions";
+import { createUserAction, updateUserAction } from "@/lib/users/actions";
 import { useHydrated } from "@/components/bedside/BedsideFormParts";
 import { Button } from "@/components/ui/Button";
 import { Field, inputClasses } from "@/components/ui/Field";

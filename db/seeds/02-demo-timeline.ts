@@ -8,7 +8,23 @@ import type { OrderInput } from "../../lib/orders/schema";
 import { writeOrder } from "../../lib/orders/service";
 import { po2FromSaturation } from "../../lib/oxygen";
 import { chartReading } from "../../lib/readings/service";
+import { adjustmentSchema, type AdjustmentInput } from "../../lib/adjustments/schema";
+import { bloodGasSchema, type BloodGasInput } from "../../lib/blood-gases/schema";
+import { orderInputSchema } from "../../lib/orders/schema";
+import { readingSchema, type ReadingInput } from "../../lib/readings/schema";
+import { parseInput } from "../../lib/validation";
 import { DEMO_PASSWORD } from "../demo/people";
+
+// The seed backdates its writes, so it calls the services with a clock of its
+// own; the input is parsed with each noun's schema, as the boundary would.
+const seedOrder = (knex: Knex, actor: Actor, raw: OrderInput, at: Date) =>
+  writeOrder(knex, actor, parseInput(orderInputSchema, raw), at);
+const seedReading = (knex: Knex, actor: Actor, raw: ReadingInput, at?: Date) =>
+  chartReading(knex, actor, parseInput(readingSchema, raw), at);
+const seedBloodGas = (knex: Knex, actor: Actor, raw: BloodGasInput, at?: Date) =>
+  recordBloodGas(knex, actor, parseInput(bloodGasSchema, raw), at);
+const seedAdjustment = (knex: Knex, actor: Actor, raw: AdjustmentInput, at?: Date) =>
+  recordAdjustment(knex, actor, parseInput(adjustmentSchema, raw), at);
 
 // Invented clinical course for the demo: about two days of orders, readings,
 // adjustments and blood gases, written through the same services as the app,
@@ -267,7 +283,7 @@ export async function seed(knex: Knex): Promise<void> {
     const team = staff[p.code];
     if (!plan) continue; // the last ward patients have no order yet (the empty state)
     const orderAt = new Date(start + index * 7 * 60_000);
-    await writeOrder(
+    await seedOrder(
       knex,
       team.physician,
       orderInput(plan, p.patient_id, plan.stepTable ? tables[plan.stepTable] : undefined),
@@ -297,7 +313,7 @@ export async function seed(knex: Knex): Promise<void> {
       if (t + 2 * 3600_000 > stopAt && index % 9 === 1) spo2 = plan.band[0] - 3;
       if (t + 2 * 3600_000 > stopAt && index % 9 === 4) spo2 = Math.min(100, plan.band[1] + 2);
       const shownSpo2 = Math.round(spo2);
-      const reading = await chartReading(
+      const reading = await seedReading(
         knex,
         team.nurse,
         {
@@ -317,7 +333,7 @@ export async function seed(knex: Knex): Promise<void> {
       if (p.code === "MICU" && step % 6 === 0 && profile.uses.fio2 === "set") {
         const sao2 = clamp(shownSpo2 + (random() - 0.5) * 2, 80, 99.5);
         const pao2 = round(po2FromSaturation(sao2 / 100) * (0.95 + random() * 0.1), 1);
-        await recordBloodGas(
+        await seedBloodGas(
           knex,
           team.therapist,
           {
@@ -360,7 +376,7 @@ export async function seed(knex: Knex): Promise<void> {
         }
         if (nextFio2 !== fio2 || nextFlow !== flow) {
           const appliedAt = new Date(t + 15 * 60_000);
-          await recordAdjustment(
+          await seedAdjustment(
             knex,
             profile.lowFlow ? team.nurse : team.therapist,
             {
@@ -390,7 +406,7 @@ export async function seed(knex: Knex): Promise<void> {
   // One verbal order, entered by a nurse on the ward, waits for the physician's co-signature.
   const waiting = patients.filter((x) => x.code === "RESP")[WARD_PLANS.length];
   if (waiting) {
-    await writeOrder(
+    await seedOrder(
       knex,
       staff.RESP.nurse,
       {

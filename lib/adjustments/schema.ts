@@ -55,3 +55,6 @@ export const adjustmentSchema = z.object({
   idempotencyKey: idempotencyKeySchema,
 });
 export type AdjustmentInput = z.input<typeof adjustmentSchema>;
+
+/** Parsed input, as the services receive it from the boundary (lib/boundary). */
+export type AdjustmentData = z.output<typeof adjustmentSchema>;

@@ -2,17 +2,10 @@ import type { Knex } from "knex";
 import type { Actor } from "../auth/actor";
 import { ConflictError, NotFoundError } from "../errors";
 import { appendLedger, lockPatientChain } from "../ledger/service";
-import { parseInput } from "../validation";
 import { restartWatch } from "./detect";
 import { closeAlert, lockWatch, saveWatch, type OpenAlertRow } from "./lifecycle";
 import { cancelPendingMail } from "./outbox";
-import {
-  acknowledgeSchema,
-  resolveSchema,
-  type AcknowledgeInput,
-  type ResolveInput,
-} from "./schema";
-import { assertCan } from "../auth/permissions";
+import { type AcknowledgeData, type ResolveData } from "./schema";
 
 // The steps a clinician takes on an alert: acknowledge it, or close it with a reason.
 
@@ -63,11 +56,9 @@ export type AlertStepResult = { id: number; state: "acknowledged" | "resolved"; 
 export async function acknowledgeAlert(
   knex: Knex,
   actor: Actor,
-  raw: AcknowledgeInput,
+  input: AcknowledgeData,
   now: Date = new Date(),
 ): Promise<AlertStepResult> {
-  assertCan(actor, "alert.act");
-  const input = parseInput(acknowledgeSchema, raw);
   return knex.transaction(async (trx) => {
     const alert = await lockAlertForActor(trx, actor, input.alertId);
     if (alert.state === "resolved") throw new ConflictError("This alert is already resolved.");
@@ -119,11 +110,9 @@ export async function acknowledgeAlert(
 export async function resolveAlert(
   knex: Knex,
   actor: Actor,
-  raw: ResolveInput,
+  input: ResolveData,
   now: Date = new Date(),
 ): Promise<AlertStepResult> {
-  assertCan(actor, "alert.act");
-  const input = parseInput(resolveSchema, raw);
   return knex.transaction(async (trx) => {
     const alert = await lockAlertForActor(trx, actor, input.alertId);
     if (alert.state === "resolved") throw new ConflictError("This alert is already resolved.");

@@ -1,9 +1,8 @@
 import type { Knex } from "knex";
 import type { Actor } from "../auth/actor";
 import { appendLedger } from "../ledger/service";
-import { parseInput } from "../validation";
 import { ALERT_KINDS, type AlertKind, type AlertState } from "./kinds";
-import { alertFilterSchema, emailPreferencesSchema, type EmailPreferences } from "./schema";
+import type { AlertFilter, EmailPreferences } from "./schema";
 
 export type AlertView = {
   id: number;
@@ -146,8 +145,13 @@ const COLUMNS = [
 ];
 
 /** Alerts on the actor's units; open ones first, urgent first, newest first. */
-export async function listAlerts(knex: Knex, actor: Actor, raw: unknown): Promise<AlertView[]> {
-  const f = parseInput(alertFilterSchema, raw);
+/** Callers pass a parsed filter (the API) or their own fixed one (pages); defaults as the schema's. */
+export async function listAlerts(
+  knex: Knex,
+  actor: Actor,
+  filter: Partial<AlertFilter>,
+): Promise<AlertView[]> {
+  const f: AlertFilter = { status: "open", limit: 100, ...filter };
   const q = scoped(knex, actor);
   if (f.status === "open") q.whereNot("a.state", "resolved");
   if (f.status === "unacknowledged") q.whereIn("a.state", ["opened", "notified", "escalated"]);
@@ -250,10 +254,9 @@ export async function getEmailPreferences(knex: Knex, userId: number): Promise<E
 export async function setEmailPreferences(
   knex: Knex,
   actor: Actor,
-  raw: unknown,
+  prefs: EmailPreferences,
   now: Date = new Date(),
 ): Promise<EmailPreferences> {
-  const prefs = parseInput(emailPreferencesSchema, raw);
   return knex.transaction(async (trx) => {
     const before = await getEmailPreferences(trx, actor.id);
     for (const kind of ALERT_KINDS) {

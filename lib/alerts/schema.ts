@@ -44,3 +44,7 @@ export const emailPreferencesSchema = z.object({
   pao2_above_band: z.boolean(),
 });
 export type EmailPreferences = z.infer<typeof emailPreferencesSchema>;
+
+/** Parsed input, as the services receive it from the boundary (lib/boundary). */
+export type AcknowledgeData = z.output<typeof acknowledgeSchema>;
+export type ResolveData = z.output<typeof resolveSchema>;

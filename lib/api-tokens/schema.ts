@@ -42,3 +42,7 @@ export const apiTokenRevokeSchema = z.object({
   currentPassword,
 });
 export type ApiTokenRevokeInput = z.input<typeof apiTokenRevokeSchema>;
+
+/** Parsed input, as the services receive it from the boundary (lib/boundary). */
+export type ApiTokenCreateData = z.output<typeof apiTokenCreateSchema>;
+export type ApiTokenRevokeData = z.output<typeof apiTokenRevokeSchema>;

@@ -41,6 +41,8 @@ export const PERMISSIONS = {
   "record.read": EVERYONE,
   /** Ledger rows and breaks outside any one unit (administration, every unit). */
   "ledger.oversee": ["reviewer", "admin"],
+  /** One's own settings: e-mail choices, the unit the Board shows. */
+  "account.self": EVERYONE,
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Permission = keyof typeof PERMISSIONS;

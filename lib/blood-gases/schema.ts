@@ -85,3 +85,6 @@ export const bloodGasSchema = z
     if (message) ctx.addIssue({ code: "custom", path: ["sao2"], message });
   });
 export type BloodGasInput = z.input<typeof bloodGasSchema>;
+
+/** Parsed input, as the services receive it from the boundary (lib/boundary). */
+export type BloodGasData = z.output<typeof bloodGasSchema>;

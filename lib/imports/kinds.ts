@@ -1,4 +1,4 @@
-import type { LedgerAction } from "../ledger/actions";
+import type { LedgerAction } from "../ledger/vocabulary";
 
 // What can be imported and with which units. Pure data, safe for the browser
 // (the upload page builds its column-mapping step from it).

@@ -4,7 +4,6 @@ import type { TokenActor } from "../api-tokens/service";
 import type { Actor } from "../auth/actor";
 import { duplicateIndex } from "../db-errors";
 import { ConflictError, DomainError, NotFoundError } from "../errors";
-import { parseInput } from "../validation";
 import {
   fileStream,
   loadUnit,
@@ -16,23 +15,7 @@ import {
 import type { ImportKind } from "./kinds";
 import { getImportRow, toPreview, type ImportRow } from "./queries";
 import type { ImportPreview, StoredReport } from "./report";
-import {
-  asDomain,
-  assertSize,
-  checkedFromMonitor,
-  checkedFromPlan,
-  confirmSchema,
-  dedupeKey,
-  hl7SourceId,
-  ImportRefusedError,
-  sha256,
-  uploadSchema,
-  type Checked,
-  type ConfirmInput,
-  type Importer,
-  type Options,
-  type UploadInput,
-} from "./upload-rules";
+import { asDomain, assertSize, checkedFromMonitor, checkedFromPlan, dedupeKey, hl7SourceId, ImportRefusedError, sha256, type Checked, type ConfirmData, type Importer, type Options, type UploadData } from "./upload-rules";
 import { writeImport } from "./write";
 import { assertCan } from "../auth/permissions";
 
@@ -42,7 +25,7 @@ export {
   ImportRefusedError,
   MAX_IMPORT_BYTES,
   uploadSchema,
-  type ConfirmInput,
+  type ConfirmData,
   type Importer,
   type UploadInput,
 } from "./upload-rules";
@@ -90,12 +73,10 @@ async function checkFile(
 export async function uploadForPreview(
   knex: Knex,
   actor: Actor,
-  raw: UploadInput,
+  input: UploadData,
   content: Buffer,
   now: Date = new Date(),
 ): Promise<ImportPreview> {
-  assertCan(actor, "import.upload");
-  const input = parseInput(uploadSchema, raw);
   assertSize(input.kind, content.length);
   const unit = await actorUnit(knex, actor, input.unitId);
   const options: Options =
@@ -217,11 +198,9 @@ async function accessibleImport(knex: Knex | Knex.Transaction, actor: Actor, imp
 export async function confirmImport(
   knex: Knex,
   actor: Actor,
-  raw: ConfirmInput,
+  input: ConfirmData,
   now: Date = new Date(),
 ): Promise<ImportPreview> {
-  assertCan(actor, "import.upload");
-  const input = parseInput(confirmSchema, raw);
   await accessibleImport(knex, actor, input.importId);
   const who: Importer = { kind: "user", actor };
   try {

@@ -125,3 +125,7 @@ export const confirmSchema = z.object({
   expectedAccepted: z.number().int().min(0),
 });
 export type ConfirmInput = z.input<typeof confirmSchema>;
+
+/** Parsed input, as the services receive it from the boundary (lib/boundary). */
+export type ConfirmData = z.output<typeof confirmSchema>;
+export type UploadData = z.output<typeof uploadSchema>;

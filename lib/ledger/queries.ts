@@ -2,7 +2,7 @@ import type { Knex } from "knex";
 import { z } from "zod";
 import type { Actor } from "../auth/actor";
 import { queryTime } from "../validation";
-import { LEDGER_ACTIONS, type LedgerEntityType } from "./actions";
+import { LEDGER_ACTIONS, type LedgerEntityType } from "./vocabulary";
 import { can } from "../auth/permissions";
 
 export const ledgerFilterSchema = z.object({

@@ -1,6 +1,6 @@
 import type { Knex } from "knex";
 import type { Actor } from "../auth/actor";
-import type { LedgerAction, LedgerEntityType } from "./actions";
+import type { LedgerAction, LedgerEntityType } from "./vocabulary";
 import { GENESIS_HASH, keyedLedgerHash } from "./hash";
 import { ledgerKeys } from "./keys";
 

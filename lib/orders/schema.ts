@@ -201,3 +201,8 @@ export const discontinueSchema = z.object({
   password: z.string().min(1, "Re-enter your password to sign.").max(200),
 });
 export type DiscontinueInput = z.input<typeof discontinueSchema>;
+
+/** Parsed input, as the services receive it from the boundary (lib/boundary). */
+export type OrderData = z.output<typeof orderInputSchema>;
+export type CosignData = z.output<typeof cosignSchema>;
+export type DiscontinueData = z.output<typeof discontinueSchema>;

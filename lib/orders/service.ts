@@ -8,7 +8,6 @@ import { afterOrderChanged } from "../alerts/service";
 import { appendLedger } from "../ledger/service";
 import { duplicateIndex, isLockConflict } from "../db-errors";
 import { findOpenAdmission, type OpenAdmission } from "../patients/access";
-import { parseInput } from "../validation";
 import {
   DESIGNATED_COSIGN_MEANING,
   DEVICE_PROFILES,
@@ -19,20 +18,13 @@ import {
 } from "./devices";
 import { cosignersFor, cosignersText, mayCosign } from "./cosigners";
 import { getCurrentOrder, getOrder, type OrderView } from "./queries";
-import {
-  cosignSchema,
-  discontinueSchema,
-  orderInputSchema,
-  type CosignInput,
-  type DiscontinueInput,
-  type OrderInput,
-} from "./schema";
+import { type orderInputSchema, type CosignData, type DiscontinueData, type OrderData } from "./schema";
 import {
   composeOrderSupersededEmail,
   ORDER_SUPERSEDED_PURPOSE,
   orderSupersededMessageId,
 } from "./supersede-email";
-import { assertCan, can } from "../auth/permissions";
+import { can } from "../auth/permissions";
 
 type ParsedOrder = ReturnType<typeof orderInputSchema.parse>;
 
@@ -47,11 +39,9 @@ type ParsedOrder = ReturnType<typeof orderInputSchema.parse>;
 export async function writeOrder(
   knex: Knex,
   actor: Actor,
-  raw: OrderInput,
+  input: OrderData,
   now: Date = new Date(),
 ): Promise<OrderView> {
-  assertCan(actor, "order.write");
-  const input = parseInput(orderInputSchema, raw);
   if (can(actor, "order.sign") && input.entryMode !== "written") {
     throw new ValidationError("Physicians write and sign orders themselves.", {
       entryMode: [
@@ -351,9 +341,7 @@ async function lockOrder(
  * The prescriber named on a verbal or telephone order, or a physician its unit
  * designates, co-signs it; it becomes active.
  */
-export async function cosignOrder(knex: Knex, actor: Actor, raw: CosignInput): Promise<OrderView> {
-  assertCan(actor, "order.cosign");
-  const input = parseInput(cosignSchema, raw);
+export async function cosignOrder(knex: Knex, actor: Actor, input: CosignData): Promise<OrderView> {
   await confirmPassword(knex, actor.id, input.password);
   return knex.transaction(async (trx) => {
     const before = await lockOrder(trx, actor, input.orderId, input.version);
@@ -407,10 +395,8 @@ export async function cosignOrder(knex: Knex, actor: Actor, raw: CosignInput): P
 export async function discontinueOrder(
   knex: Knex,
   actor: Actor,
-  raw: DiscontinueInput,
+  input: DiscontinueData,
 ): Promise<OrderView> {
-  assertCan(actor, "order.discontinue");
-  const input = parseInput(discontinueSchema, raw);
   await confirmPassword(knex, actor.id, input.password);
   return knex.transaction(async (trx) => {
     const before = await lockOrder(trx, actor, input.orderId, input.version);

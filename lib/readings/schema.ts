@@ -59,3 +59,6 @@ export const readingSchema = z.object({
   idempotencyKey: idempotencyKeySchema,
 });
 export type ReadingInput = z.input<typeof readingSchema>;
+
+/** Parsed input, as the services receive it from the boundary (lib/boundary). */
+export type ReadingData = z.output<typeof readingSchema>;

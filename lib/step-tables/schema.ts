@@ -127,3 +127,8 @@ export const stepTableActiveSchema = z.object({
     .max(500, "Give a reason (3 to 500 characters)."),
 });
 export type StepTableActiveInput = z.input<typeof stepTableActiveSchema>;
+
+/** Parsed input, as the services receive it from the boundary (lib/boundary). */
+export type StepTableCreateData = z.output<typeof stepTableCreateSchema>;
+export type StepTableUpdateData = z.output<typeof stepTableUpdateSchema>;
+export type StepTableActiveData = z.output<typeof stepTableActiveSchema>;

@@ -3,17 +3,8 @@ import type { Knex } from "knex";
 import type { Actor } from "../auth/actor";
 import { ConflictError, NotFoundError, ValidationError } from "../errors";
 import { appendLedger } from "../ledger/service";
-import { parseInput } from "../validation";
 import { getStepTable, type StepTableView } from "./queries";
-import {
-  stepTableActiveSchema,
-  stepTableCreateSchema,
-  stepTableUpdateSchema,
-  type StepTableActiveInput,
-  type StepTableCreateInput,
-  type StepTableUpdateInput,
-} from "./schema";
-import { assertCan } from "../auth/permissions";
+import { type stepTableCreateSchema, type StepTableActiveData, type StepTableCreateData, type StepTableUpdateData } from "./schema";
 
 type Rows = ReturnType<typeof stepTableCreateSchema.parse>["rows"];
 
@@ -45,10 +36,8 @@ async function assertUnit(trx: Knex.Transaction, unitId: number): Promise<void> 
 export async function createStepTable(
   knex: Knex,
   actor: Actor,
-  raw: StepTableCreateInput,
+  input: StepTableCreateData,
 ): Promise<StepTableView> {
-  assertCan(actor, "step_table.manage");
-  const input = parseInput(stepTableCreateSchema, raw);
   return knex.transaction(async (trx) => {
     await assertUnit(trx, input.unitId);
     const [id] = await trx("step_tables").insert({
@@ -102,10 +91,8 @@ async function lockEditable(
 export async function updateStepTable(
   knex: Knex,
   actor: Actor,
-  raw: StepTableUpdateInput,
+  input: StepTableUpdateData,
 ): Promise<StepTableView> {
-  assertCan(actor, "step_table.manage");
-  const input = parseInput(stepTableUpdateSchema, raw);
   return knex.transaction(async (trx) => {
     const before = await lockEditable(trx, input.id, input.version);
     await assertUnit(trx, input.unitId);
@@ -137,10 +124,8 @@ export async function updateStepTable(
 export async function setStepTableActive(
   knex: Knex,
   actor: Actor,
-  raw: StepTableActiveInput,
+  input: StepTableActiveData,
 ): Promise<StepTableView> {
-  assertCan(actor, "step_table.manage");
-  const input = parseInput(stepTableActiveSchema, raw);
   return knex.transaction(async (trx) => {
     const before = await lockEditable(trx, input.id, input.version);
     await trx("step_tables")

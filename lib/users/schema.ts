@@ -83,3 +83,8 @@ export type UserActiveInput = z.input<typeof userActiveSchema>;
 
 export const USER_SORT_KEYS = ["name", "email", "role", "active", "updatedAt"] as const;
 export type UserSortKey = (typeof USER_SORT_KEYS)[number];
+
+/** Parsed input, as the services receive it from the boundary (lib/boundary). */
+export type UserCreateData = z.output<typeof userCreateSchema>;
+export type UserUpdateData = z.output<typeof userUpdateSchema>;
+export type UserActiveData = z.output<typeof userActiveSchema>;

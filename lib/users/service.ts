@@ -6,17 +6,8 @@ import { endUserSessions } from "../auth/sessions";
 import { duplicateIndex } from "../db-errors";
 import { ConflictError, NotFoundError, ValidationError } from "../errors";
 import { appendLedger } from "../ledger/service";
-import { parseInput } from "../validation";
 import { getUser, type UserSummary } from "./queries";
-import {
-  userActiveSchema,
-  userCreateSchema,
-  userUpdateSchema,
-  type UserActiveInput,
-  type UserCreateInput,
-  type UserUpdateInput,
-} from "./schema";
-import { assertCan } from "../auth/permissions";
+import { type UserActiveData, type UserCreateData, type UserUpdateData } from "./schema";
 
 /** What the ledger records of a user: never the password hash. */
 function ledgerView(u: UserSummary) {
@@ -54,10 +45,8 @@ function rethrowDuplicate(error: unknown): never {
 export async function createUser(
   knex: Knex,
   actor: Actor,
-  raw: UserCreateInput,
+  input: UserCreateData,
 ): Promise<UserSummary> {
-  assertCan(actor, "user.manage");
-  const input = parseInput(userCreateSchema, raw);
   await confirmAdminPassword(knex, actor.id, input.currentPassword);
   const passwordHash = await hashPassword(input.password);
   try {
@@ -105,10 +94,8 @@ async function lockForChange(trx: Knex.Transaction, id: number, version: number)
 export async function updateUser(
   knex: Knex,
   actor: Actor,
-  raw: UserUpdateInput,
+  input: UserUpdateData,
 ): Promise<UserSummary> {
-  assertCan(actor, "user.manage");
-  const input = parseInput(userUpdateSchema, raw);
   await confirmAdminPassword(knex, actor.id, input.currentPassword);
   if (input.id === actor.id && input.role !== "admin") {
     throw new ValidationError("You cannot remove your own administrator role.", {
@@ -166,10 +153,8 @@ export async function updateUser(
 export async function setUserActive(
   knex: Knex,
   actor: Actor,
-  raw: UserActiveInput,
+  input: UserActiveData,
 ): Promise<UserSummary> {
-  assertCan(actor, "user.manage");
-  const input = parseInput(userActiveSchema, raw);
   await confirmAdminPassword(knex, actor.id, input.currentPassword);
   if (input.id === actor.id && !input.active) {
     throw new ValidationError("You cannot deactivate your own account.", {

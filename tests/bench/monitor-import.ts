@@ -62,7 +62,7 @@ async function main() {
   const { connectionConfig, closeDb, db } = await import("../../lib/db");
   const { importFromToken } = await import("../../lib/imports/service");
   const { loadUnit } = await import("../../lib/imports/evaluate");
-  const { uploadForPreview, confirmImport } = await import("../../lib/imports/service");
+  const { confirmImportOperation, previewUpload } = await import("../../lib/imports/operations");
   const { loadActor } = await import("../../lib/auth/actor-queries");
   const owner = knex({ client: "mysql2", connection: connectionConfig("owner", DB) });
 
@@ -131,10 +131,10 @@ async function main() {
   const actor = await loadActor(db(), Number(userId));
   const who = await patient("C");
   const preview = await measured("App preview, 86,400 rows", () =>
-    uploadForPreview(db(), actor, { kind: "monitor_csv", unitId: Number(unitId), fileName: "day.csv", ...who }, day, now),
+    previewUpload(db(), actor, { kind: "monitor_csv", unitId: Number(unitId), fileName: "day.csv", ...who }, day, now),
   );
   await measured("App confirm, 86,400 rows", () =>
-    confirmImport(db(), actor, { importId: preview.id, expectedAccepted: preview.counts.accepted }, now),
+    confirmImportOperation.invoke(db(), actor, { importId: preview.id, expectedAccepted: preview.counts.accepted }, now),
   );
   await owner.destroy();
   await closeDb();

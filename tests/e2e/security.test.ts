@@ -1,8 +1,8 @@
+import { updateUserOperation } from "@/lib/users/operations";
 import { afterAll, describe, expect, it } from "vitest";
 import { hashPassword } from "@/lib/auth/password";
 import { SIGN_IN_FAILED } from "@/lib/auth/sign-in";
 import { closeDb } from "@/lib/db";
-import { updateUser } from "@/lib/users/service";
 import { DEMO_PASSWORD } from "../helpers/browser";
 import { actorByEmail, appDb, SEEDED, uniqueEmail } from "../helpers/db";
 import { Session } from "../helpers/http";
@@ -108,7 +108,7 @@ describe("sessions that end", () => {
     const { version } = (await appDb()("users").where({ id: user.id }).first("version")) as {
       version: number;
     };
-    await updateUser(appDb(), admin, {
+    await updateUserOperation.invoke(appDb(), admin, {
       id: user.id,
       version,
       email: user.email,

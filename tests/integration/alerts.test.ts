@@ -1,26 +1,26 @@
+import { recordAdjustmentOperation } from "@/lib/adjustments/operations";
+import { acknowledgeAlertOperation, resolveAlertOperation, saveEmailPreferencesOperation } from "@/lib/alerts/operations";
+import { recordBloodGasOperation } from "@/lib/blood-gases/operations";
+import { confirmImportOperation, previewUpload } from "@/lib/imports/operations";
+import { writeOrderOperation } from "@/lib/orders/operations";
+import { chartReadingOperation } from "@/lib/readings/operations";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { recordAdjustment } from "@/lib/adjustments/service";
 import { DEFAULT_DETECTION } from "@/lib/alerts/detect";
 import type { AlertConfig } from "@/lib/alerts/config";
-import { getEmailPreferences, listAlerts, setEmailPreferences } from "@/lib/alerts/queries";
+import { getEmailPreferences, listAlerts, } from "@/lib/alerts/queries";
 import {
-  acknowledgeAlert,
   afterReadingsCharted,
   openOverdueReassessments,
   raiseSignalLosses,
-  resolveAlert,
-} from "@/lib/alerts/service";
+  } from "@/lib/alerts/service";
 import { runAlertWork } from "@/lib/alerts/worker";
 import type { Actor } from "@/lib/auth/actor";
-import { recordBloodGas } from "@/lib/blood-gases/service";
 import { closeDb } from "@/lib/db";
-import { confirmImport, uploadForPreview, type UploadInput } from "@/lib/imports/service";
+import { type UploadInput } from "@/lib/imports/service";
 import { SYSTEM_ACTOR } from "@/lib/ledger/service";
 import { startFakeInbox, type FakeInbox } from "@/lib/mail/fake-inbox";
 import { createMailTransport } from "@/lib/mail/transport";
 import type { OrderInput } from "@/lib/orders/schema";
-import { writeOrder } from "@/lib/orders/service";
-import { chartReading } from "@/lib/readings/service";
 import { SEEDED, actorByEmail, admitTestPatient, appDb } from "../helpers/db";
 import { hfncOrder } from "../helpers/orders";
 
@@ -83,7 +83,7 @@ async function assignedPatient(order: Partial<OrderInput> = {}) {
       ends_at: new Date(now + 12 * 3600_000),
     })),
   );
-  await writeOrder(
+  await writeOrderOperation.invoke(
     appDb(),
     physician,
     hfncOrder(admitted.patientId, {
@@ -96,7 +96,7 @@ async function assignedPatient(order: Partial<OrderInput> = {}) {
 }
 
 async function chartLow(patientId: number, spo2 = 88, at = new Date(), by = colleague) {
-  return chartReading(
+  return chartReadingOperation.invoke(
     appDb(),
     by,
     { patientId, takenAt: at.toISOString(), spo2, device: "hfnc", fio2: 0.4, flow: 40 },
@@ -177,7 +177,7 @@ describe("an excursion charted at the bedside", () => {
     await chartLow(patientId, 89, t0);
     const [alert] = await openAlertsOf(patientId);
     await runAlertWork(appDb(), sender(), new Date(t0.getTime() + 1000), cfg);
-    await acknowledgeAlert(
+    await acknowledgeAlertOperation.invoke(
       appDb(),
       nurse,
       { alertId: alert!.id, note: "Suctioned, repositioned" },
@@ -389,14 +389,14 @@ describe("monitor series", () => {
       "time,spo2",
       ...values.map((v, i) => `${new Date(from + i * 1000).toISOString()},${v}`),
     ].join("\n");
-    const preview = await uploadForPreview(
+    const preview = await previewUpload(
       appDb(),
       therapist,
       { kind: "monitor_csv", unitId, fileName: "blips.csv", mrn, bed: label } as UploadInput,
       Buffer.from(csv, "utf8"),
       now,
     );
-    await confirmImport(appDb(), therapist, { importId: preview.id, expectedAccepted: 600 }, now);
+    await confirmImportOperation.invoke(appDb(), therapist, { importId: preview.id, expectedAccepted: 600 }, now);
 
     const alerts = await listAlerts(appDb(), nurse, { patientId, status: "all" });
     expect(alerts.map((a) => [a.kind, a.grade, a.state])).toEqual([
@@ -543,7 +543,7 @@ describe("PaO2 above the order's band", () => {
   it("opens on an arterial gas above the band on oxygen, and closes when the settings are weaned", async () => {
     const { patientId } = await assignedPatient({ pao2Lower: 60, pao2Upper: 100 });
     const t0 = new Date(Date.now() - 5 * MIN);
-    await recordBloodGas(
+    await recordBloodGasOperation.invoke(
       appDb(),
       therapist,
       {
@@ -567,7 +567,7 @@ describe("PaO2 above the order's band", () => {
       .join("admissions", "admissions.id", "bedside_settings.admission_id")
       .where({ "admissions.patient_id": patientId })
       .first("bedside_settings.version")) as { version: number };
-    await recordAdjustment(appDb(), therapist, {
+    await recordAdjustmentOperation.invoke(appDb(), therapist, {
       patientId,
       settingsVersion: version,
       toFio2: 0.35,
@@ -605,7 +605,7 @@ describe("limits, reassessment and closing by hand", () => {
     expect(to).toEqual([physician.id]);
 
     // A new order with room to titrate answers it.
-    await writeOrder(
+    await writeOrderOperation.invoke(
       appDb(),
       physician,
       hfncOrder(patientId, {
@@ -641,21 +641,21 @@ describe("limits, reassessment and closing by hand", () => {
     await chartLow(patientId, 88);
     const [alert] = await openAlertsOf(patientId);
     const reviewer = await actorByEmail(SEEDED.reviewer);
-    await expect(acknowledgeAlert(appDb(), reviewer, { alertId: alert!.id })).rejects.toMatchObject(
+    await expect(acknowledgeAlertOperation.invoke(appDb(), reviewer, { alertId: alert!.id })).rejects.toMatchObject(
       { status: 403 },
     );
-    await acknowledgeAlert(appDb(), therapist, { alertId: alert!.id });
-    await expect(acknowledgeAlert(appDb(), nurse, { alertId: alert!.id })).rejects.toMatchObject({
+    await acknowledgeAlertOperation.invoke(appDb(), therapist, { alertId: alert!.id });
+    await expect(acknowledgeAlertOperation.invoke(appDb(), nurse, { alertId: alert!.id })).rejects.toMatchObject({
       status: 409,
       message: expect.stringContaining(`Already acknowledged by ${therapist.name}`) as unknown,
     });
     await expect(
-      resolveAlert(appDb(), nurse, { alertId: alert!.id, reason: "" }),
+      resolveAlertOperation.invoke(appDb(), nurse, { alertId: alert!.id, reason: "" }),
     ).rejects.toMatchObject({
       status: 400,
       fieldErrors: { reason: [expect.stringContaining("at least 3 characters") as unknown] },
     });
-    await resolveAlert(appDb(), nurse, {
+    await resolveAlertOperation.invoke(appDb(), nurse, {
       alertId: alert!.id,
       reason: "Probe off the finger, rechecked 95 %",
     });
@@ -684,7 +684,7 @@ describe("limits, reassessment and closing by hand", () => {
 
   it("does not e-mail a user who turned e-mail off for that kind, and still shows the alert", async () => {
     const before = await getEmailPreferences(appDb(), nurse.id);
-    await setEmailPreferences(appDb(), nurse, { ...before, below_band: false });
+    await saveEmailPreferencesOperation.invoke(appDb(), nurse, { ...before, below_band: false });
     try {
       const { patientId } = await assignedPatient();
       await chartLow(patientId, 88);
@@ -694,7 +694,7 @@ describe("limits, reassessment and closing by hand", () => {
         [{ n: 0 }],
       );
     } finally {
-      await setEmailPreferences(appDb(), nurse, before);
+      await saveEmailPreferencesOperation.invoke(appDb(), nurse, before);
     }
   });
 });

@@ -1,3 +1,5 @@
+import { createApiTokenOperation, revokeApiTokenOperation } from "@/lib/api-tokens/operations";
+import { writeOrderOperation } from "@/lib/orders/operations";
 import { createHash, randomUUID } from "node:crypto";
 import { readFileSync } from "node:fs";
 import { afterAll, describe, expect, it } from "vitest";
@@ -5,11 +7,9 @@ import { POST as postHl7 } from "@/app/api/v1/imports/hl7/route";
 import { POST as postMonitor } from "@/app/api/v1/imports/monitor/route";
 import { GET as getFhir } from "@/app/api/v1/patients/[patientId]/fhir/route";
 import { TOKEN_DAYS_MAX } from "@/lib/api-tokens/schema";
-import { createApiToken, revokeApiToken } from "@/lib/api-tokens/service";
 import { listApiTokens } from "@/lib/api-tokens/queries";
 import { closeDb } from "@/lib/db";
 import { ForbiddenError, ValidationError } from "@/lib/errors";
-import { writeOrder } from "@/lib/orders/service";
 import { actorByEmail, admitTestPatient, appDb, SEEDED } from "../helpers/db";
 import { hfncOrder } from "../helpers/orders";
 
@@ -25,7 +25,7 @@ const stamp = (d: Date) => d.toISOString().replace(/[-:T]/g, "").slice(0, 12);
 async function patientOnHfnc(unit: "MICU" | "RESP" = "MICU") {
   const p = await admitTestPatient(unit);
   const physician = await actorByEmail(SEEDED.physician);
-  await writeOrder(
+  await writeOrderOperation.invoke(
     appDb(),
     physician,
     hfncOrder(p.patientId, { initialFio2: 0.45, rationale: "API token test" }),
@@ -59,7 +59,7 @@ function hl7(name: string, mrn: string, msgId: string): string {
 async function token(scope: "read" | "write", units: ("MICU" | "RESP")[] = ["MICU"]) {
   const admin = await actorByEmail(SEEDED.admin);
   const unitIds = (await appDb()("units").whereIn("code", units).pluck("id")) as number[];
-  return createApiToken(appDb(), admin, {
+  return createApiTokenOperation.invoke(appDb(), admin, {
     currentPassword: "tidemark-demo",
     name: `Engine ${randomUUID().slice(0, 6)}`,
     scope,
@@ -117,7 +117,7 @@ describe("API tokens", () => {
     });
     const therapist = await actorByEmail(SEEDED.therapist);
     await expect(
-      createApiToken(appDb(), therapist, { name: "Nope", scope: "write", unitIds: [1], currentPassword: "tidemark-demo" }),
+      createApiTokenOperation.invoke(appDb(), therapist, { name: "Nope", scope: "write", unitIds: [1], currentPassword: "tidemark-demo" }),
     ).rejects.toBeInstanceOf(ForbiddenError);
   });
 
@@ -217,7 +217,7 @@ describe("API tokens", () => {
 
     const admin = await actorByEmail(SEEDED.admin);
     const { token: revoked, summary } = await token("write");
-    await revokeApiToken(appDb(), admin, {
+    await revokeApiTokenOperation.invoke(appDb(), admin, {
       currentPassword: "tidemark-demo",
       id: summary.id,
       rationale: "Interface engine replaced",
@@ -277,7 +277,7 @@ describe("API tokens", () => {
     expect((await get(respOnly)).status).toBe(404);
     const admin = await actorByEmail(SEEDED.admin);
     const { token: revoked, summary } = await token("read");
-    await revokeApiToken(appDb(), admin, { id: summary.id, rationale: "No longer used", currentPassword: "tidemark-demo" });
+    await revokeApiTokenOperation.invoke(appDb(), admin, { id: summary.id, rationale: "No longer used", currentPassword: "tidemark-demo" });
     expect((await get(revoked)).status).toBe(401);
   });
 
@@ -318,7 +318,7 @@ describe("API tokens", () => {
   it("writes no part of the secret to the ledger when a token is created or revoked", async () => {
     const admin = await actorByEmail(SEEDED.admin);
     const { token: secret, summary } = await token("write");
-    await revokeApiToken(appDb(), admin, { id: summary.id, rationale: "Rotated for the test", currentPassword: "tidemark-demo" });
+    await revokeApiTokenOperation.invoke(appDb(), admin, { id: summary.id, rationale: "Rotated for the test", currentPassword: "tidemark-demo" });
     const rows = (await appDb()("ledger_entries")
       .where({ entity_type: "api_token", entity_id: String(summary.id) })
       .orderBy("id")
@@ -338,21 +338,21 @@ describe("API tokens", () => {
     const admin = await actorByEmail(SEEDED.admin);
     const micu = (await appDb()("units").where({ code: "MICU" }).pluck("id")) as number[];
     const now = new Date("2026-12-03T10:00:00.000Z");
-    const { summary: year } = await createApiToken(
+    const { summary: year } = await createApiTokenOperation.invoke(
       appDb(),
       admin,
       { name: `Default ${randomUUID().slice(0, 6)}`, scope: "read", unitIds: micu, currentPassword: "tidemark-demo" },
       now,
     );
     expect(year.expiresAt).toBe("2027-12-03T10:00:00.000Z");
-    const { summary: month } = await createApiToken(
+    const { summary: month } = await createApiTokenOperation.invoke(
       appDb(),
       admin,
       { name: `Month ${randomUUID().slice(0, 6)}`, scope: "read", unitIds: micu, validDays: 30, currentPassword: "tidemark-demo" },
       now,
     );
     expect(month.expiresAt).toBe("2027-01-02T10:00:00.000Z");
-    const tooLong = (await createApiToken(appDb(), admin, {
+    const tooLong = (await createApiTokenOperation.invoke(appDb(), admin, {
       currentPassword: "tidemark-demo",
       name: "Too long",
       scope: "read",

@@ -1,14 +1,14 @@
+import { recordAdjustmentOperation } from "@/lib/adjustments/operations";
+import { recordBloodGasOperation } from "@/lib/blood-gases/operations";
+import { writeOrderOperation } from "@/lib/orders/operations";
+import { chartReadingOperation } from "@/lib/readings/operations";
 import { afterAll, describe, expect, it } from "vitest";
-import { recordAdjustment } from "@/lib/adjustments/service";
-import { recordBloodGas } from "@/lib/blood-gases/service";
 import { closeDb } from "@/lib/db";
 import { ConflictError, ForbiddenError, NotFoundError, ValidationError } from "@/lib/errors";
 import { ledgerCsv, listLedger } from "@/lib/ledger/queries";
 import { verifyLedger } from "@/lib/ledger/verify";
 import type { OrderInput } from "@/lib/orders/schema";
-import { writeOrder } from "@/lib/orders/service";
 import { getBedsideContext } from "@/lib/patients/bedside";
-import { chartReading } from "@/lib/readings/service";
 import { actorByEmail, admitTestPatient, appDb, SEEDED } from "../helpers/db";
 
 afterAll(async () => {
@@ -18,7 +18,7 @@ afterAll(async () => {
 async function patientWithHfncOrder(unit: "MICU" | "RESP" = "MICU") {
   const { patientId } = await admitTestPatient(unit);
   const physician = await actorByEmail(SEEDED.physician);
-  const order = await writeOrder(appDb(), physician, {
+  const order = await writeOrderOperation.invoke(appDb(), physician, {
     entryMode: "written",
     password: "tidemark-demo",
     patientId,
@@ -44,7 +44,7 @@ describe("bedside adjustments", () => {
   it("records a change within limits with the engine's forecast from the latest arterial gas", async () => {
     const { patientId, order } = await patientWithHfncOrder();
     const therapist = await actorByEmail(SEEDED.therapist);
-    await recordBloodGas(appDb(), therapist, {
+    await recordBloodGasOperation.invoke(appDb(), therapist, {
       patientId,
       sampledAt: minutesAgo(10),
       sampleType: "arterial",
@@ -55,7 +55,7 @@ describe("bedside adjustments", () => {
       flow: 40,
       fio2: 0.4,
     });
-    const adjustment = await recordAdjustment(appDb(), therapist, {
+    const adjustment = await recordAdjustmentOperation.invoke(appDb(), therapist, {
       patientId,
       settingsVersion: 1,
       toFio2: 0.5,
@@ -89,7 +89,7 @@ describe("bedside adjustments", () => {
   it("refuses a change outside the order's limits, naming the limit and the way to a new order", async () => {
     const { patientId } = await patientWithHfncOrder();
     const therapist = await actorByEmail(SEEDED.therapist);
-    const error = (await recordAdjustment(appDb(), therapist, {
+    const error = (await recordAdjustmentOperation.invoke(appDb(), therapist, {
       patientId,
       settingsVersion: 1,
       toFio2: 0.7,
@@ -119,8 +119,8 @@ describe("bedside adjustments", () => {
       appliedAt: minutesAgo(1),
     });
     const results = await Promise.allSettled([
-      recordAdjustment(appDb(), therapist, change(0.45)),
-      recordAdjustment(appDb(), physician, change(0.5)),
+      recordAdjustmentOperation.invoke(appDb(), therapist, change(0.45)),
+      recordAdjustmentOperation.invoke(appDb(), physician, change(0.5)),
     ]);
     expect(results.filter((r) => r.status === "fulfilled")).toHaveLength(1);
     const loser = results.find((r) => r.status === "rejected") as PromiseRejectedResult;
@@ -142,8 +142,8 @@ describe("bedside adjustments", () => {
       idempotencyKey: `adj-${patientId}-double-click`,
     };
     const [a, b] = await Promise.all([
-      recordAdjustment(appDb(), therapist, input),
-      recordAdjustment(appDb(), therapist, input),
+      recordAdjustmentOperation.invoke(appDb(), therapist, input),
+      recordAdjustmentOperation.invoke(appDb(), therapist, input),
     ]);
     expect(a.id).toBe(b.id);
     const count = (await appDb()("adjustments")
@@ -165,11 +165,11 @@ describe("bedside adjustments", () => {
       rationale: "x".repeat(5),
       appliedAt: minutesAgo(1),
     };
-    await expect(recordAdjustment(appDb(), nurse, change)).rejects.toBeInstanceOf(ForbiddenError);
+    await expect(recordAdjustmentOperation.invoke(appDb(), nurse, change)).rejects.toBeInstanceOf(ForbiddenError);
     const { patientId: noOrder } = await admitTestPatient();
     const therapist = await actorByEmail(SEEDED.therapist);
     await expect(
-      recordAdjustment(appDb(), therapist, { ...change, patientId: noOrder }),
+      recordAdjustmentOperation.invoke(appDb(), therapist, { ...change, patientId: noOrder }),
     ).rejects.toThrow(/no oxygen order in effect/i);
   });
 });
@@ -178,7 +178,7 @@ describe("readings and blood gases", () => {
   it("charts a low-flow reading with its FiO2 marked as an estimate", async () => {
     const { patientId } = await admitTestPatient();
     const nurse = await actorByEmail(SEEDED.nurse);
-    const reading = await chartReading(appDb(), nurse, {
+    const reading = await chartReadingOperation.invoke(appDb(), nurse, {
       patientId,
       takenAt: minutesAgo(2),
       spo2: 93,
@@ -193,14 +193,14 @@ describe("readings and blood gases", () => {
   it("refuses out-of-range and missing values naming each field, and another unit's patient as not found", async () => {
     const { patientId } = await admitTestPatient();
     const nurse = await actorByEmail(SEEDED.nurse);
-    const error = (await chartReading(appDb(), nurse, {
+    const error = (await chartReadingOperation.invoke(appDb(), nurse, {
       patientId,
       takenAt: minutesAgo(2),
       spo2: 140,
       device: "hfnc",
     }).catch((e: unknown) => e)) as ValidationError;
     expect(error.fieldErrors?.spo2).toEqual(["SpO2 must be between 0 and 100 %."]);
-    const missing = (await chartReading(appDb(), nurse, {
+    const missing = (await chartReadingOperation.invoke(appDb(), nurse, {
       patientId,
       takenAt: minutesAgo(2),
       spo2: 90,
@@ -209,7 +209,7 @@ describe("readings and blood gases", () => {
     expect(Object.keys(missing.fieldErrors ?? {}).sort()).toEqual(["fio2", "flow"]);
     const { patientId: other } = await admitTestPatient("RESP");
     await expect(
-      chartReading(appDb(), nurse, {
+      chartReadingOperation.invoke(appDb(), nurse, {
         patientId: other,
         takenAt: minutesAgo(2),
         spo2: 90,
@@ -221,7 +221,7 @@ describe("readings and blood gases", () => {
   it("stores a blood gas with its computed indices; a venous sample gets none", async () => {
     const { patientId } = await admitTestPatient();
     const therapist = await actorByEmail(SEEDED.therapist);
-    const gas = await recordBloodGas(appDb(), therapist, {
+    const gas = await recordBloodGasOperation.invoke(appDb(), therapist, {
       patientId,
       sampledAt: minutesAgo(5),
       sampleType: "arterial",
@@ -245,7 +245,7 @@ describe("readings and blood gases", () => {
     expect(row.cao2_ml_dl).toBeCloseTo(18.1, 1);
     expect(JSON.parse(row.indices_json)).toHaveProperty("classification");
 
-    const venous = await recordBloodGas(appDb(), therapist, {
+    const venous = await recordBloodGasOperation.invoke(appDb(), therapist, {
       patientId,
       sampledAt: minutesAgo(4),
       sampleType: "venous",
@@ -264,13 +264,13 @@ describe("ledger reads", () => {
     const { patientId: micuPatient } = await admitTestPatient("MICU");
     const { patientId: respPatient } = await admitTestPatient("RESP");
     const physician = await actorByEmail(SEEDED.physician);
-    await chartReading(appDb(), physician, {
+    await chartReadingOperation.invoke(appDb(), physician, {
       patientId: micuPatient,
       takenAt: minutesAgo(1),
       spo2: 95,
       device: "room_air",
     });
-    await chartReading(appDb(), physician, {
+    await chartReadingOperation.invoke(appDb(), physician, {
       patientId: respPatient,
       takenAt: minutesAgo(1),
       spo2: 95,

@@ -1,13 +1,13 @@
+import { recordAdjustmentOperation } from "@/lib/adjustments/operations";
+import { recordBloodGasOperation } from "@/lib/blood-gases/operations";
+import { writeOrderOperation } from "@/lib/orders/operations";
+import { chartReadingOperation } from "@/lib/readings/operations";
 import type * as fhir4 from "fhir/r4";
 import { afterAll, describe, expect, it } from "vitest";
-import { recordAdjustment } from "@/lib/adjustments/service";
-import { recordBloodGas } from "@/lib/blood-gases/service";
 import { closeDb } from "@/lib/db";
 import { NotFoundError } from "@/lib/errors";
 import { exportPatientFhir } from "@/lib/fhir/queries";
 import type { OrderInput } from "@/lib/orders/schema";
-import { writeOrder } from "@/lib/orders/service";
-import { chartReading } from "@/lib/readings/service";
 import { actorByEmail, admitTestPatient, appDb, SEEDED } from "../helpers/db";
 import { hfncOrder } from "../helpers/orders";
 import { exportProblems, loincCodes, r4SchemaProblems, resourcesOf } from "../helpers/fhir";
@@ -25,13 +25,13 @@ async function patientWithCare() {
   const physician = await actorByEmail(SEEDED.physician);
   const therapist = await actorByEmail(SEEDED.therapist);
   const nurse = await actorByEmail(SEEDED.nurse);
-  const first = await writeOrder(
+  const first = await writeOrderOperation.invoke(
     appDb(),
     physician,
     hfncOrder(patientId, { rationale: "Hypoxaemic after aspiration, trial of high flow" }),
     minutesAgo(50),
   );
-  const reading = await chartReading(appDb(), nurse, {
+  const reading = await chartReadingOperation.invoke(appDb(), nurse, {
     patientId,
     takenAt: minutesAgo(40).toISOString(),
     spo2: 90,
@@ -41,7 +41,7 @@ async function patientWithCare() {
     flow: 40,
     fio2: 0.4,
   });
-  const gas = await recordBloodGas(appDb(), therapist, {
+  const gas = await recordBloodGasOperation.invoke(appDb(), therapist, {
     patientId,
     sampledAt: minutesAgo(35).toISOString(),
     sampleType: "arterial",
@@ -56,7 +56,7 @@ async function patientWithCare() {
     flow: 40,
     fio2: 0.4,
   });
-  const adjustment = await recordAdjustment(appDb(), therapist, {
+  const adjustment = await recordAdjustmentOperation.invoke(appDb(), therapist, {
     patientId,
     settingsVersion: 1,
     toFio2: 0.5,
@@ -65,7 +65,7 @@ async function patientWithCare() {
     rationale: "SpO2 90 % on 0.40 and PaO2 61",
     appliedAt: minutesAgo(30).toISOString(),
   });
-  const second = await writeOrder(
+  const second = await writeOrderOperation.invoke(
     appDb(),
     physician,
     {

@@ -1,3 +1,5 @@
+import { confirmImportOperation, previewUpload } from "@/lib/imports/operations";
+import { writeOrderOperation } from "@/lib/orders/operations";
 import { createHash, randomUUID } from "node:crypto";
 import { readFileSync } from "node:fs";
 import { afterAll, describe, expect, it } from "vitest";
@@ -5,13 +7,10 @@ import { closeDb } from "@/lib/db";
 import { ConflictError, DomainError, ForbiddenError } from "@/lib/errors";
 import { getImportPreview, importReportCsv } from "@/lib/imports/queries";
 import {
-  confirmImport,
   remapImport,
-  uploadForPreview,
   type UploadInput,
 } from "@/lib/imports/service";
 import { verifyLedger } from "@/lib/ledger/verify";
-import { writeOrder } from "@/lib/orders/service";
 import { actorByEmail, admitTestPatient, appDb, SEEDED } from "../helpers/db";
 import { hfncOrder } from "../helpers/orders";
 
@@ -27,7 +26,7 @@ const ADMITTED = new Date("2026-11-19T00:00:00Z");
 async function patientOnHfnc(unit: "MICU" | "RESP" = "MICU") {
   const p = await admitTestPatient(unit);
   const physician = await actorByEmail(SEEDED.physician);
-  await writeOrder(
+  await writeOrderOperation.invoke(
     appDb(),
     physician,
     hfncOrder(p.patientId, { initialFio2: 0.45, rationale: "Imported results test" }),
@@ -74,7 +73,7 @@ describe("blood gas CSV", () => {
     const b = await patientOnHfnc();
     const therapist = await actorByEmail(SEEDED.therapist);
     const file = fixture("blood-gas-valid.csv", { MRN: a.mrn, MRN2: b.mrn });
-    const preview = await uploadForPreview(
+    const preview = await previewUpload(
       appDb(),
       therapist,
       upload("blood_gas_csv", a.unitId, "gases.csv"),
@@ -94,7 +93,7 @@ describe("blood gas CSV", () => {
     // Nothing is written before the confirm.
     expect(await count("blood_gases", { patient_id: a.patientId })).toBe(0);
 
-    const done = await confirmImport(
+    const done = await confirmImportOperation.invoke(
       appDb(),
       therapist,
       { importId: preview.id, expectedAccepted: 3 },
@@ -176,7 +175,7 @@ describe("blood gas CSV", () => {
     const therapist = await actorByEmail(SEEDED.therapist);
     const stranger = unknownMrn();
     const file = fixture("blood-gas-bad-rows.csv", { MRN: p.mrn, UNKNOWN: stranger });
-    const preview = await uploadForPreview(
+    const preview = await previewUpload(
       appDb(),
       therapist,
       upload("blood_gas_csv", p.unitId, "mixed.csv"),
@@ -215,7 +214,7 @@ describe("blood gas CSV", () => {
     expect(byLine[8]?.[0]?.message).toContain("'yesterday morning' is not a date and time");
 
     // Confirm imports the two good rows only; the report keeps every rejected one.
-    await confirmImport(appDb(), therapist, { importId: preview.id, expectedAccepted: 2 }, NOW);
+    await confirmImportOperation.invoke(appDb(), therapist, { importId: preview.id, expectedAccepted: 2 }, NOW);
     const times = (await appDb()("blood_gases")
       .where({ patient_id: p.patientId })
       .orderBy("sampled_at")
@@ -237,7 +236,7 @@ describe("blood gas CSV", () => {
   it("converts kPa and g/L columns with UCUM, taking the units from the headers", async () => {
     const p = await patientOnHfnc();
     const therapist = await actorByEmail(SEEDED.therapist);
-    const preview = await uploadForPreview(
+    const preview = await previewUpload(
       appDb(),
       therapist,
       upload("blood_gas_csv", p.unitId, "kpa.csv"),
@@ -250,7 +249,7 @@ describe("blood gas CSV", () => {
       hemoglobin: "g/L",
       fio2: "%",
     });
-    await confirmImport(appDb(), therapist, { importId: preview.id, expectedAccepted: 1 }, NOW);
+    await confirmImportOperation.invoke(appDb(), therapist, { importId: preview.id, expectedAccepted: 1 }, NOW);
     const gas = (await appDb()("blood_gases")
       .where({ patient_id: p.patientId })
       .first("pao2_mmhg", "paco2_mmhg", "hb_g_dl", "fio2")) as Record<string, number>;
@@ -261,7 +260,7 @@ describe("blood gas CSV", () => {
   it("lets the mapping step change a column's unit and checks the stored file again", async () => {
     const p = await patientOnHfnc();
     const therapist = await actorByEmail(SEEDED.therapist);
-    const preview = await uploadForPreview(
+    const preview = await previewUpload(
       appDb(),
       therapist,
       upload("blood_gas_csv", p.unitId, "kpa.csv"),
@@ -295,7 +294,7 @@ describe("blood gas CSV", () => {
     const p = await patientOnHfnc();
     const therapist = await actorByEmail(SEEDED.therapist);
     const file = fixture("blood-gas-semicolon.csv", { MRN: p.mrn });
-    const error = (await uploadForPreview(
+    const error = (await previewUpload(
       appDb(),
       therapist,
       upload("blood_gas_csv", p.unitId, "semi.csv"),
@@ -308,7 +307,7 @@ describe("blood gas CSV", () => {
     const sha = createHash("sha256").update(file).digest("hex");
     expect(await count("imports", { content_sha256: sha })).toBe(0);
     // With the delimiter chosen, the same file reads.
-    const ok = await uploadForPreview(
+    const ok = await previewUpload(
       appDb(),
       therapist,
       upload("blood_gas_csv", p.unitId, "semi.csv", { delimiter: ";" }),
@@ -323,20 +322,20 @@ describe("blood gas CSV", () => {
     const q = await patientOnHfnc();
     const therapist = await actorByEmail(SEEDED.therapist);
     const file = fixture("blood-gas-valid.csv", { MRN: p.mrn, MRN2: q.mrn });
-    const first = await uploadForPreview(
+    const first = await previewUpload(
       appDb(),
       therapist,
       upload("blood_gas_csv", p.unitId, "a.csv"),
       file,
       NOW,
     );
-    await confirmImport(appDb(), therapist, { importId: first.id, expectedAccepted: 3 }, NOW);
+    await confirmImportOperation.invoke(appDb(), therapist, { importId: first.id, expectedAccepted: 3 }, NOW);
     const ledgerBefore = await count("ledger_entries", {
       entity_type: "import",
       entity_id: String(first.id),
       patient_id: p.patientId,
     });
-    const again = await uploadForPreview(
+    const again = await previewUpload(
       appDb(),
       therapist,
       upload("blood_gas_csv", p.unitId, "renamed.csv"),
@@ -349,7 +348,7 @@ describe("blood gas CSV", () => {
       alreadyImported: true,
       fileName: "a.csv",
     });
-    const confirmedAgain = await confirmImport(
+    const confirmedAgain = await confirmImportOperation.invoke(
       appDb(),
       therapist,
       { importId: first.id, expectedAccepted: 3 },
@@ -371,7 +370,7 @@ describe("blood gas CSV", () => {
     const p = await patientOnHfnc();
     const q = await patientOnHfnc();
     const therapist = await actorByEmail(SEEDED.therapist);
-    const preview = await uploadForPreview(
+    const preview = await previewUpload(
       appDb(),
       therapist,
       upload("blood_gas_csv", p.unitId, "stale.csv"),
@@ -381,13 +380,13 @@ describe("blood gas CSV", () => {
     // One patient is discharged between preview and confirm: the preview no longer holds.
     await appDb()("admissions").where({ patient_id: q.patientId }).update({ discharged_at: NOW });
     await expect(
-      confirmImport(appDb(), therapist, { importId: preview.id, expectedAccepted: 3 }, NOW),
+      confirmImportOperation.invoke(appDb(), therapist, { importId: preview.id, expectedAccepted: 3 }, NOW),
     ).rejects.toBeInstanceOf(ConflictError);
     expect(await count("blood_gases", { patient_id: p.patientId })).toBe(0);
     expect((await getImportPreview(appDb(), therapist, preview.id)).status).toBe("previewed");
     const nurse = await actorByEmail(SEEDED.nurse);
     await expect(
-      uploadForPreview(
+      previewUpload(
         appDb(),
         nurse,
         upload("blood_gas_csv", p.unitId, "x.csv"),
@@ -403,7 +402,7 @@ describe("HL7 v2 ORU^R01", () => {
     const p = await patientOnHfnc();
     const therapist = await actorByEmail(SEEDED.therapist);
     const msgId = `T${randomUUID().slice(0, 12)}`;
-    const preview = await uploadForPreview(
+    const preview = await previewUpload(
       appDb(),
       therapist,
       upload("hl7", p.unitId, "result.hl7"),
@@ -412,7 +411,7 @@ describe("HL7 v2 ORU^R01", () => {
     );
     expect(preview.counts).toEqual({ total: 2, accepted: 2, rejected: 0 });
     expect(preview.notes).toEqual([expect.stringContaining("33437-0")]);
-    await confirmImport(appDb(), therapist, { importId: preview.id, expectedAccepted: 2 }, NOW);
+    await confirmImportOperation.invoke(appDb(), therapist, { importId: preview.id, expectedAccepted: 2 }, NOW);
     const gas = (await appDb()("blood_gases")
       .where({ patient_id: p.patientId })
       .first(
@@ -458,7 +457,7 @@ describe("HL7 v2 ORU^R01", () => {
     const p = await patientOnHfnc();
     const therapist = await actorByEmail(SEEDED.therapist);
     const msgId = `T${randomUUID().slice(0, 12)}`;
-    const error = (await uploadForPreview(
+    const error = (await previewUpload(
       appDb(),
       therapist,
       upload("hl7", p.unitId, "cut.hl7"),
@@ -475,7 +474,7 @@ describe("HL7 v2 ORU^R01", () => {
   it("lists each bad OBR with its reason: kPa-looking mmHg, preliminary status, out of range", async () => {
     const p = await patientOnHfnc();
     const therapist = await actorByEmail(SEEDED.therapist);
-    const preview = await uploadForPreview(
+    const preview = await previewUpload(
       appDb(),
       therapist,
       upload("hl7", p.unitId, "bad.hl7"),
@@ -500,7 +499,7 @@ describe("monitor CSV", () => {
   it("imports a monitor series with the bedside device and FiO2, source monitor", async () => {
     const p = await patientOnHfnc();
     const therapist = await actorByEmail(SEEDED.therapist);
-    const preview = await uploadForPreview(
+    const preview = await previewUpload(
       appDb(),
       therapist,
       upload("monitor_csv", p.unitId, "bed.csv", { mrn: p.mrn, bed: p.bed }),
@@ -511,7 +510,7 @@ describe("monitor CSV", () => {
       counts: { total: 6, accepted: 6, rejected: 0 },
       monitor: { mrn: p.mrn, bed: p.bed },
     });
-    await confirmImport(appDb(), therapist, { importId: preview.id, expectedAccepted: 6 }, NOW);
+    await confirmImportOperation.invoke(appDb(), therapist, { importId: preview.id, expectedAccepted: 6 }, NOW);
     const rows = (await appDb()("readings")
       .where({ patient_id: p.patientId })
       .orderBy("taken_at")
@@ -560,14 +559,14 @@ describe("monitor CSV", () => {
       "time,spo2",
       ...values.map((v, i) => `${new Date(start + i * 1000).toISOString()},${v}`),
     ].join("\n");
-    const preview = await uploadForPreview(
+    const preview = await previewUpload(
       appDb(),
       therapist,
       upload("monitor_csv", p.unitId, "dips.csv", { mrn: p.mrn, bed: p.bed }),
       Buffer.from(csv, "utf8"),
       NOW,
     );
-    await confirmImport(
+    await confirmImportOperation.invoke(
       appDb(),
       therapist,
       { importId: preview.id, expectedAccepted: values.length },
@@ -589,7 +588,7 @@ describe("monitor CSV", () => {
   it("lists bad monitor rows — out of range, missing, fraction in %, bad pulse, duplicate time, future — and an overlapping file's stored times as duplicates", async () => {
     const p = await patientOnHfnc();
     const therapist = await actorByEmail(SEEDED.therapist);
-    const preview = await uploadForPreview(
+    const preview = await previewUpload(
       appDb(),
       therapist,
       upload("monitor_csv", p.unitId, "bad.csv", { mrn: p.mrn, bed: p.bed }),
@@ -615,10 +614,10 @@ describe("monitor CSV", () => {
       ],
       [10, "time", "Time 2027-01-01T00:00:00Z is in the future."],
     ]);
-    await confirmImport(appDb(), therapist, { importId: preview.id, expectedAccepted: 3 }, NOW);
+    await confirmImportOperation.invoke(appDb(), therapist, { importId: preview.id, expectedAccepted: 3 }, NOW);
     // A second file overlapping the first: its rows at stored times are duplicates.
     const overlap = Buffer.from("time,spo2\n2026-11-20T09:00:00Z,96\n2026-11-20T09:00:06Z,95\n");
-    const second = await uploadForPreview(
+    const second = await previewUpload(
       appDb(),
       therapist,
       upload("monitor_csv", p.unitId, "overlap.csv", { mrn: p.mrn, bed: p.bed }),
@@ -633,7 +632,7 @@ describe("monitor CSV", () => {
     const p = await patientOnHfnc();
     const therapist = await actorByEmail(SEEDED.therapist);
     const attempt = (file: Buffer, mrn: string, bed: string) =>
-      uploadForPreview(
+      previewUpload(
         appDb(),
         therapist,
         upload("monitor_csv", p.unitId, "m.csv", { mrn, bed }),

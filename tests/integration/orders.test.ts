@@ -1,3 +1,5 @@
+import { cosignOrderOperation, discontinueOrderOperation, writeOrderOperation } from "@/lib/orders/operations";
+import { createStepTableOperation } from "@/lib/step-tables/operations";
 import { afterAll, describe, expect, it } from "vitest";
 import { hashPassword } from "@/lib/auth/password";
 import { closeDb } from "@/lib/db";
@@ -12,8 +14,6 @@ import {
 import { getBedsideContext } from "@/lib/patients/bedside";
 import { getOrder, listCosignQueue } from "@/lib/orders/queries";
 import { PAO2_BAND_INCOMPLETE, type OrderInput } from "@/lib/orders/schema";
-import { cosignOrder, discontinueOrder, writeOrder } from "@/lib/orders/service";
-import { createStepTable } from "@/lib/step-tables/service";
 import { actorByEmail, admitTestPatient, appDb, SEEDED, uniqueEmail } from "../helpers/db";
 
 afterAll(async () => {
@@ -118,7 +118,7 @@ describe("orders", () => {
   it("a physician writes and signs an order: active, bedside settings started, ledger row with rationale", async () => {
     const { patientId } = await admitTestPatient();
     const physician = await actorByEmail(SEEDED.physician);
-    const order = await writeOrder(appDb(), physician, ventilatorOrder(patientId));
+    const order = await writeOrderOperation.invoke(appDb(), physician, ventilatorOrder(patientId));
     expect(order).toMatchObject({
       status: "active",
       device: "invasive",
@@ -140,7 +140,7 @@ describe("orders", () => {
   it("refuses a wrong signing password and writes nothing", async () => {
     const { patientId } = await admitTestPatient();
     const physician = await actorByEmail(SEEDED.physician);
-    const error = await writeOrder(
+    const error = await writeOrderOperation.invoke(
       appDb(),
       physician,
       ventilatorOrder(patientId, { password: "nope" }),
@@ -153,7 +153,7 @@ describe("orders", () => {
   it("refuses limits that do not fit the device, naming the field and range", async () => {
     const { patientId } = await admitTestPatient();
     const physician = await actorByEmail(SEEDED.physician);
-    const error = (await writeOrder(
+    const error = (await writeOrderOperation.invoke(
       appDb(),
       physician,
       ventilatorOrder(patientId, {
@@ -175,14 +175,14 @@ describe("orders", () => {
     const { patientId } = await admitTestPatient();
     const physician = await actorByEmail(SEEDED.physician);
     await expect(
-      writeOrder(appDb(), physician, ventilatorOrder(patientId, { pao2Lower: 60 })),
+      writeOrderOperation.invoke(appDb(), physician, ventilatorOrder(patientId, { pao2Lower: 60 })),
     ).rejects.toMatchObject({ fieldErrors: { pao2Upper: [PAO2_BAND_INCOMPLETE] } });
     await expect(
-      writeOrder(appDb(), physician, ventilatorOrder(patientId, { pao2Upper: 80 })),
+      writeOrderOperation.invoke(appDb(), physician, ventilatorOrder(patientId, { pao2Upper: 80 })),
     ).rejects.toMatchObject({ fieldErrors: { pao2Lower: [PAO2_BAND_INCOMPLETE] } });
     expect(await appDb()("orders").where({ patient_id: patientId }).first()).toBeUndefined();
 
-    const order = await writeOrder(
+    const order = await writeOrderOperation.invoke(
       appDb(),
       physician,
       ventilatorOrder(patientId, { pao2Lower: 60, pao2Upper: 80 }),
@@ -197,12 +197,12 @@ describe("orders", () => {
     // A FiO2/PEEP table for a device without PEEP.
     const ardsnet = await stepTableByCode("ardsnet-lower-peep");
     await expect(
-      writeOrder(appDb(), physician, hfncOrder(patientId, { stepTableId: ardsnet.id })),
+      writeOrderOperation.invoke(appDb(), physician, hfncOrder(patientId, { stepTableId: ardsnet.id })),
     ).rejects.toMatchObject({
       fieldErrors: { stepTableId: [stepTableMismatchMessage(ardsnet, "hfnc")] },
     });
     // A flow/FiO2 table for a device without flow.
-    const ladder = await createStepTable(appDb(), admin, {
+    const ladder = await createStepTableOperation.invoke(appDb(), admin, {
       unitId,
       name: `HFNC ladder ${patientId}`,
       kind: "flow_fio2",
@@ -213,7 +213,7 @@ describe("orders", () => {
       ],
       rationale: "unit ladder for a test",
     });
-    const refusal = (await writeOrder(
+    const refusal = (await writeOrderOperation.invoke(
       appDb(),
       physician,
       ventilatorOrder(patientId, { stepTableId: ladder.id }),
@@ -225,12 +225,12 @@ describe("orders", () => {
     expect(await appDb()("orders").where({ patient_id: patientId }).first()).toBeUndefined();
 
     // Each kind is accepted where it fits.
-    const first = await writeOrder(
+    const first = await writeOrderOperation.invoke(
       appDb(),
       physician,
       hfncOrder(patientId, { stepTableId: ladder.id }),
     );
-    const second = await writeOrder(
+    const second = await writeOrderOperation.invoke(
       appDb(),
       physician,
       ventilatorOrder(patientId, { stepTableId: ardsnet.id, supersedesOrderId: first.id }),
@@ -241,8 +241,8 @@ describe("orders", () => {
   it("an order names who signed it, what it replaced and what replaced it; its history stays on its unit", async () => {
     const { patientId } = await admitTestPatient("RESP");
     const physician = await actorByEmail(SEEDED.physician);
-    const first = await writeOrder(appDb(), physician, ventilatorOrder(patientId));
-    const second = await writeOrder(
+    const first = await writeOrderOperation.invoke(appDb(), physician, ventilatorOrder(patientId));
+    const second = await writeOrderOperation.invoke(
       appDb(),
       physician,
       ventilatorOrder(patientId, { supersedesOrderId: first.id }),
@@ -271,7 +271,7 @@ describe("orders", () => {
     const { patientId } = await admitTestPatient();
     const nurse = await actorByEmail(SEEDED.nurse);
     const physician = await actorByEmail(SEEDED.physician);
-    await expect(writeOrder(appDb(), nurse, ventilatorOrder(patientId))).rejects.toMatchObject({
+    await expect(writeOrderOperation.invoke(appDb(), nurse, ventilatorOrder(patientId))).rejects.toMatchObject({
       fieldErrors: { entryMode: [expect.stringMatching(/verbal or telephone/)] },
     });
     const verbal = {
@@ -280,10 +280,10 @@ describe("orders", () => {
       prescriberId: physician.id,
       readBackConfirmed: false,
     } as unknown as OrderInput;
-    await expect(writeOrder(appDb(), nurse, verbal)).rejects.toMatchObject({
+    await expect(writeOrderOperation.invoke(appDb(), nurse, verbal)).rejects.toMatchObject({
       fieldErrors: { readBackConfirmed: [expect.any(String)] },
     });
-    const order = await writeOrder(appDb(), nurse, {
+    const order = await writeOrderOperation.invoke(appDb(), nurse, {
       ...verbal,
       readBackConfirmed: true,
     } as OrderInput);
@@ -297,13 +297,13 @@ describe("orders", () => {
 
     // Only a physician co-signs, with the password re-asked.
     await expect(
-      cosignOrder(appDb(), nurse, {
+      cosignOrderOperation.invoke(appDb(), nurse, {
         orderId: order.id,
         version: order.version,
         password: PASSWORD,
       }),
     ).rejects.toBeInstanceOf(ForbiddenError);
-    const signed = await cosignOrder(appDb(), physician, {
+    const signed = await cosignOrderOperation.invoke(appDb(), physician, {
       orderId: order.id,
       version: order.version,
       password: PASSWORD,
@@ -320,11 +320,11 @@ describe("orders", () => {
   it("a new order supersedes the one in effect; a writer who saw a different order gets a conflict", async () => {
     const { patientId } = await admitTestPatient();
     const physician = await actorByEmail(SEEDED.physician);
-    const first = await writeOrder(appDb(), physician, ventilatorOrder(patientId));
-    await expect(writeOrder(appDb(), physician, ventilatorOrder(patientId))).rejects.toBeInstanceOf(
+    const first = await writeOrderOperation.invoke(appDb(), physician, ventilatorOrder(patientId));
+    await expect(writeOrderOperation.invoke(appDb(), physician, ventilatorOrder(patientId))).rejects.toBeInstanceOf(
       ConflictError,
     );
-    const second = await writeOrder(
+    const second = await writeOrderOperation.invoke(
       appDb(),
       physician,
       ventilatorOrder(patientId, { supersedesOrderId: first.id, fio2Max: 0.9 }),
@@ -341,8 +341,8 @@ describe("orders", () => {
     const { patientId } = await admitTestPatient();
     const physician = await actorByEmail(SEEDED.physician);
     const results = await Promise.allSettled([
-      writeOrder(appDb(), physician, ventilatorOrder(patientId)),
-      writeOrder(appDb(), physician, ventilatorOrder(patientId)),
+      writeOrderOperation.invoke(appDb(), physician, ventilatorOrder(patientId)),
+      writeOrderOperation.invoke(appDb(), physician, ventilatorOrder(patientId)),
     ]);
     expect(results.filter((r) => r.status === "fulfilled")).toHaveLength(1);
     expect(
@@ -355,8 +355,8 @@ describe("orders", () => {
     const physician = await actorByEmail(SEEDED.physician);
     const input = ventilatorOrder(patientId, { idempotencyKey: `order-${patientId}-key` });
     const [a, b] = await Promise.all([
-      writeOrder(appDb(), physician, input),
-      writeOrder(appDb(), physician, input),
+      writeOrderOperation.invoke(appDb(), physician, input),
+      writeOrderOperation.invoke(appDb(), physician, input),
     ]);
     expect(a.id).toBe(b.id);
     expect(
@@ -367,10 +367,10 @@ describe("orders", () => {
   it("discontinues with a reason; another unit's order answers not found", async () => {
     const { patientId } = await admitTestPatient("RESP");
     const physician = await actorByEmail(SEEDED.physician);
-    const order = await writeOrder(appDb(), physician, ventilatorOrder(patientId));
+    const order = await writeOrderOperation.invoke(appDb(), physician, ventilatorOrder(patientId));
     const micuOnly = await actorByEmail("tobias.renwick@kestrel.example");
     await expect(
-      discontinueOrder(appDb(), micuOnly, {
+      discontinueOrderOperation.invoke(appDb(), micuOnly, {
         orderId: order.id,
         version: order.version,
         reason: "not mine",
@@ -378,14 +378,14 @@ describe("orders", () => {
       }),
     ).rejects.toBeInstanceOf(NotFoundError);
     await expect(
-      discontinueOrder(appDb(), physician, {
+      discontinueOrderOperation.invoke(appDb(), physician, {
         orderId: order.id,
         version: order.version,
         reason: "",
         password: PASSWORD,
       }),
     ).rejects.toMatchObject({ fieldErrors: { reason: [expect.any(String)] } });
-    const done = await discontinueOrder(appDb(), physician, {
+    const done = await discontinueOrderOperation.invoke(appDb(), physician, {
       orderId: order.id,
       version: order.version,
       reason: "Extubated to room air",
@@ -405,10 +405,10 @@ describe("who co-signs a verbal order", () => {
     const nurse = await actorByEmail(SEEDED.nurse);
     const prescriber = await newPhysician(unitId);
     const colleague = await newPhysician(unitId);
-    const order = await writeOrder(appDb(), nurse, verbalOrder(patientId, prescriber.id));
+    const order = await writeOrderOperation.invoke(appDb(), nurse, verbalOrder(patientId, prescriber.id));
 
     for (const physician of [colleague, await actorByEmail(SEEDED.physician)]) {
-      const error = (await cosignOrder(appDb(), physician, {
+      const error = (await cosignOrderOperation.invoke(appDb(), physician, {
         orderId: order.id,
         version: order.version,
         password: PASSWORD,
@@ -440,8 +440,8 @@ describe("who co-signs a verbal order", () => {
     const { patientId, unitId } = await admitTestPatient();
     const nurse = await actorByEmail(SEEDED.nurse);
     const prescriber = await newPhysician(unitId);
-    const order = await writeOrder(appDb(), nurse, verbalOrder(patientId, prescriber.id));
-    const signed = await cosignOrder(appDb(), prescriber, {
+    const order = await writeOrderOperation.invoke(appDb(), nurse, verbalOrder(patientId, prescriber.id));
+    const signed = await cosignOrderOperation.invoke(appDb(), prescriber, {
       orderId: order.id,
       version: order.version,
       password: PASSWORD,
@@ -463,16 +463,16 @@ describe("who co-signs a verbal order", () => {
     // Designated on RESP only (and assigned to MICU too): not a co-signer on MICU.
     const respCosigner = await newPhysician(resp.unitId, { designated: true });
     await appDb()("user_units").insert({ user_id: respCosigner.id, unit_id: unitId });
-    const order = await writeOrder(appDb(), nurse, verbalOrder(patientId, prescriber.id));
+    const order = await writeOrderOperation.invoke(appDb(), nurse, verbalOrder(patientId, prescriber.id));
 
     await expect(
-      cosignOrder(appDb(), await actorByEmail(respCosigner.email), {
+      cosignOrderOperation.invoke(appDb(), await actorByEmail(respCosigner.email), {
         orderId: order.id,
         version: order.version,
         password: PASSWORD,
       }),
     ).rejects.toBeInstanceOf(ForbiddenError);
-    const signed = await cosignOrder(appDb(), designated, {
+    const signed = await cosignOrderOperation.invoke(appDb(), designated, {
       orderId: order.id,
       version: order.version,
       password: PASSWORD,
@@ -498,7 +498,7 @@ describe("who co-signs a verbal order", () => {
     const prescriber = await newPhysician(unitId);
     const deactivated = await newPhysician(unitId, { designated: true });
     const moved = await newPhysician(unitId, { designated: true });
-    const order = await writeOrder(appDb(), nurse, verbalOrder(patientId, prescriber.id));
+    const order = await writeOrderOperation.invoke(appDb(), nurse, verbalOrder(patientId, prescriber.id));
     const designatedNow = async () =>
       (await listCosignQueue(appDb(), [unitId]))
         .find((o) => o.id === order.id)
@@ -517,11 +517,11 @@ describe("a verbal order superseding a signed one", () => {
     const { patientId, unitId } = await admitTestPatient();
     const nurse = await actorByEmail(SEEDED.nurse);
     const oldPrescriber = await newPhysician(unitId);
-    const signed = await writeOrder(appDb(), oldPrescriber, ventilatorOrder(patientId));
+    const signed = await writeOrderOperation.invoke(appDb(), oldPrescriber, ventilatorOrder(patientId));
     expect(await supersedeMail(signed.id)).toEqual([]);
 
     const ines = await actorByEmail(SEEDED.physician);
-    const verbal = await writeOrder(
+    const verbal = await writeOrderOperation.invoke(
       appDb(),
       nurse,
       verbalOrder(patientId, ines.id, { supersedesOrderId: signed.id, fio2Max: 0.9 }),
@@ -565,13 +565,13 @@ describe("a verbal order superseding a signed one", () => {
     const { patientId, unitId } = await admitTestPatient();
     const nurse = await actorByEmail(SEEDED.nurse);
     const prescriber = await newPhysician(unitId);
-    const first = await writeOrder(appDb(), prescriber, ventilatorOrder(patientId));
-    const written = await writeOrder(
+    const first = await writeOrderOperation.invoke(appDb(), prescriber, ventilatorOrder(patientId));
+    const written = await writeOrderOperation.invoke(
       appDb(),
       prescriber,
       ventilatorOrder(patientId, { supersedesOrderId: first.id }),
     );
-    const unsigned = await writeOrder(
+    const unsigned = await writeOrderOperation.invoke(
       appDb(),
       nurse,
       verbalOrder(patientId, prescriber.id, { supersedesOrderId: written.id }),
@@ -579,7 +579,7 @@ describe("a verbal order superseding a signed one", () => {
     expect((await supersedeMail(written.id)).map((m) => m.recipient_user_id)).toEqual([
       prescriber.id,
     ]);
-    await writeOrder(
+    await writeOrderOperation.invoke(
       appDb(),
       nurse,
       verbalOrder(patientId, prescriber.id, { supersedesOrderId: unsigned.id }),

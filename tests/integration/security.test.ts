@@ -1,3 +1,4 @@
+import { setUserActiveOperation, updateUserOperation } from "@/lib/users/operations";
 import { afterAll, describe, expect, it } from "vitest";
 import { clientAddress, INVALID_ADDRESS, parseTrustedProxies } from "@/lib/auth/client-address";
 import { hashPassword } from "@/lib/auth/password";
@@ -9,7 +10,6 @@ import { closeDb } from "@/lib/db";
 import { getEnv } from "@/lib/env";
 import { TooManyRequestsError, ValidationError } from "@/lib/errors";
 import { consumeQuota, QUOTAS } from "@/lib/rate-limit";
-import { updateUser, setUserActive } from "@/lib/users/service";
 import { actorByEmail, appDb, SEEDED, uniqueEmail } from "../helpers/db";
 
 afterAll(async () => {
@@ -202,7 +202,7 @@ describe("sessions that end", () => {
       version: number;
     };
     const unit = (await appDb()("units").where({ code: "MICU" }).first("id")) as { id: number };
-    await updateUser(appDb(), admin, {
+    await updateUserOperation.invoke(appDb(), admin, {
       id: user.id,
       version,
       email: user.email,
@@ -222,7 +222,7 @@ describe("sessions that end", () => {
     const v2 = (
       (await appDb()("users").where({ id: user.id }).first("version")) as { version: number }
     ).version;
-    await setUserActive(appDb(), admin, {
+    await setUserActiveOperation.invoke(appDb(), admin, {
       id: user.id,
       version: v2,
       active: false,

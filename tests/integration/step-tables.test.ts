@@ -1,9 +1,9 @@
+import { createStepTableOperation, setStepTableActiveOperation, updateStepTableOperation } from "@/lib/step-tables/operations";
 import { afterAll, describe, expect, it } from "vitest";
 import { closeDb } from "@/lib/db";
 import { ConflictError, ForbiddenError, ValidationError } from "@/lib/errors";
 import { ardsNetworkTable } from "@/lib/oxygen";
 import { listStepTables } from "@/lib/step-tables/queries";
-import { createStepTable, setStepTableActive, updateStepTable } from "@/lib/step-tables/service";
 import type { StepTableCreateInput } from "@/lib/step-tables/schema";
 import { actorByEmail, appDb, SEEDED } from "../helpers/db";
 
@@ -51,12 +51,12 @@ describe("step-table library", () => {
   it("lets an admin create, edit and retire a unit table, each with a ledger row; others are refused", async () => {
     const admin = await actorByEmail(SEEDED.admin);
     const physician = await actorByEmail(SEEDED.physician);
-    await expect(createStepTable(appDb(), physician, await hfncTable())).rejects.toBeInstanceOf(
+    await expect(createStepTableOperation.invoke(appDb(), physician, await hfncTable())).rejects.toBeInstanceOf(
       ForbiddenError,
     );
-    const created = await createStepTable(appDb(), admin, await hfncTable());
+    const created = await createStepTableOperation.invoke(appDb(), admin, await hfncTable());
     expect(created.rows).toHaveLength(3);
-    const edited = await updateStepTable(appDb(), admin, {
+    const edited = await updateStepTableOperation.invoke(appDb(), admin, {
       ...(await hfncTable({ name: created.name })),
       id: created.id,
       version: created.version,
@@ -64,13 +64,13 @@ describe("step-table library", () => {
     });
     expect(edited.rows).toHaveLength(4);
     await expect(
-      updateStepTable(appDb(), admin, {
+      updateStepTableOperation.invoke(appDb(), admin, {
         ...(await hfncTable()),
         id: created.id,
         version: created.version,
       }),
     ).rejects.toBeInstanceOf(ConflictError);
-    const retired = await setStepTableActive(appDb(), admin, {
+    const retired = await setStepTableActiveOperation.invoke(appDb(), admin, {
       id: created.id,
       version: edited.version,
       active: false,
@@ -86,7 +86,7 @@ describe("step-table library", () => {
 
   it("refuses steps that lose support from one row to the next, naming the row", async () => {
     const admin = await actorByEmail(SEEDED.admin);
-    const error = (await createStepTable(
+    const error = (await createStepTableOperation.invoke(
       appDb(),
       admin,
       await hfncTable({
@@ -109,7 +109,7 @@ describe("step-table library", () => {
     const admin = await actorByEmail(SEEDED.admin);
     const builtIn = (await listStepTables(appDb(), admin.unitIds)).find((t) => t.builtIn)!;
     await expect(
-      setStepTableActive(appDb(), admin, {
+      setStepTableActiveOperation.invoke(appDb(), admin, {
         id: builtIn.id,
         version: builtIn.version,
         active: false,

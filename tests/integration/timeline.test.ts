@@ -1,13 +1,13 @@
+import { recordAdjustmentOperation } from "@/lib/adjustments/operations";
+import { recordBloodGasOperation } from "@/lib/blood-gases/operations";
+import { writeOrderOperation } from "@/lib/orders/operations";
+import { chartReadingOperation } from "@/lib/readings/operations";
 import { afterAll, describe, expect, it } from "vitest";
-import { recordAdjustment } from "@/lib/adjustments/service";
-import { recordBloodGas } from "@/lib/blood-gases/service";
 import { closeDb } from "@/lib/db";
 import { NotFoundError, ValidationError } from "@/lib/errors";
 import type { OrderInput } from "@/lib/orders/schema";
-import { writeOrder } from "@/lib/orders/service";
 import { listTimeline, type TimelineItem } from "@/lib/patients/timeline";
 import { getTrend, TREND_MAX_POINTS } from "@/lib/patients/trend";
-import { chartReading } from "@/lib/readings/service";
 import { actorByEmail, admitTestPatient, appDb, SEEDED } from "../helpers/db";
 
 afterAll(async () => {
@@ -52,7 +52,7 @@ async function patientWithCare() {
   const physician = await actorByEmail(SEEDED.physician);
   const therapist = await actorByEmail(SEEDED.therapist);
   const nurse = await actorByEmail(SEEDED.nurse);
-  const order = await writeOrder(
+  const order = await writeOrderOperation.invoke(
     appDb(),
     physician,
     {
@@ -74,7 +74,7 @@ async function patientWithCare() {
     } as OrderInput,
     minutesAgo(30),
   );
-  await chartReading(appDb(), nurse, {
+  await chartReadingOperation.invoke(appDb(), nurse, {
     patientId,
     takenAt: minutesAgo(20).toISOString(),
     spo2: 89,
@@ -83,7 +83,7 @@ async function patientWithCare() {
     flow: 40,
     fio2: 0.4,
   });
-  await recordBloodGas(appDb(), therapist, {
+  await recordBloodGasOperation.invoke(appDb(), therapist, {
     patientId,
     sampledAt: minutesAgo(15).toISOString(),
     sampleType: "arterial",
@@ -94,7 +94,7 @@ async function patientWithCare() {
     flow: 40,
     fio2: 0.4,
   });
-  await recordAdjustment(appDb(), therapist, {
+  await recordAdjustmentOperation.invoke(appDb(), therapist, {
     patientId,
     settingsVersion: 1,
     toFio2: 0.5,

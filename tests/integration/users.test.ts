@@ -1,7 +1,7 @@
+import { createUserOperation, setUserActiveOperation, updateUserOperation } from "@/lib/users/operations";
 import { afterAll, describe, expect, it } from "vitest";
 import { closeDb } from "@/lib/db";
 import { ConflictError, ForbiddenError, ValidationError } from "@/lib/errors";
-import { createUser, setUserActive, updateUser } from "@/lib/users/service";
 import type { UserCreateInput } from "@/lib/users/schema";
 import { actorByEmail, appDb, SEEDED, uniqueEmail } from "../helpers/db";
 
@@ -41,7 +41,7 @@ describe("user administration", () => {
   it("creates a user and its ledger row in the same transaction, without the password hash", async () => {
     const admin = await actorByEmail(SEEDED.admin);
     const input = await newUserInput();
-    const user = await createUser(appDb(), admin, input);
+    const user = await createUserOperation.invoke(appDb(), admin, input);
     expect(user).toMatchObject({ email: input.email, role: "nurse", active: true, version: 1 });
     const rows = await ledgerRowsFor(user.id);
     expect(rows).toHaveLength(1);
@@ -53,14 +53,14 @@ describe("user administration", () => {
   it("refuses a nurse, and writes nothing", async () => {
     const nurse = await actorByEmail(SEEDED.nurse);
     const input = await newUserInput();
-    await expect(createUser(appDb(), nurse, input)).rejects.toBeInstanceOf(ForbiddenError);
+    await expect(createUserOperation.invoke(appDb(), nurse, input)).rejects.toBeInstanceOf(ForbiddenError);
     expect(await appDb()("users").where({ email: input.email }).first()).toBeUndefined();
   });
 
   it("refuses malformed and oversized fields, naming each field", async () => {
     const admin = await actorByEmail(SEEDED.admin);
     const input = await newUserInput({ email: "not-an-email", name: "x".repeat(121), password: "short", unitIds: [] });
-    const error = await createUser(appDb(), admin, input).catch((e: unknown) => e);
+    const error = await createUserOperation.invoke(appDb(), admin, input).catch((e: unknown) => e);
     expect(error).toBeInstanceOf(ValidationError);
     const fields = (error as ValidationError).fieldErrors ?? {};
     expect(Object.keys(fields).sort()).toEqual(["email", "name", "password", "unitIds"]);
@@ -70,7 +70,7 @@ describe("user administration", () => {
   it("refuses an unknown unit with a field error and leaves no half-written user", async () => {
     const admin = await actorByEmail(SEEDED.admin);
     const input = await newUserInput({ unitIds: [999_999] });
-    await expect(createUser(appDb(), admin, input)).rejects.toMatchObject({
+    await expect(createUserOperation.invoke(appDb(), admin, input)).rejects.toMatchObject({
       fieldErrors: { unitIds: [expect.stringMatching(/do not exist/)] },
     });
     expect(await appDb()("users").where({ email: input.email }).first()).toBeUndefined();
@@ -79,15 +79,15 @@ describe("user administration", () => {
   it("turns a duplicate e-mail into a conflict on the e-mail field", async () => {
     const admin = await actorByEmail(SEEDED.admin);
     const input = await newUserInput();
-    await createUser(appDb(), admin, input);
-    const again = await createUser(appDb(), admin, { ...input, email: input.email.toUpperCase() }).catch((e: unknown) => e);
+    await createUserOperation.invoke(appDb(), admin, input);
+    const again = await createUserOperation.invoke(appDb(), admin, { ...input, email: input.email.toUpperCase() }).catch((e: unknown) => e);
     expect(again).toBeInstanceOf(ConflictError);
     expect((again as ConflictError).fieldErrors?.email).toBeDefined();
   });
 
   it("lets exactly one of two edits from the same version win", async () => {
     const admin = await actorByEmail(SEEDED.admin);
-    const user = await createUser(appDb(), admin, await newUserInput());
+    const user = await createUserOperation.invoke(appDb(), admin, await newUserInput());
     const base = {
       id: user.id,
       version: user.version,
@@ -100,8 +100,8 @@ describe("user administration", () => {
       currentPassword: ADMIN_PASSWORD,
     };
     const results = await Promise.allSettled([
-      updateUser(appDb(), admin, { ...base, name: "First Editor" }),
-      updateUser(appDb(), admin, { ...base, name: "Second Editor" }),
+      updateUserOperation.invoke(appDb(), admin, { ...base, name: "First Editor" }),
+      updateUserOperation.invoke(appDb(), admin, { ...base, name: "Second Editor" }),
     ]);
     expect(results.filter((r) => r.status === "fulfilled")).toHaveLength(1);
     const rejected = results.find((r) => r.status === "rejected");
@@ -112,11 +112,11 @@ describe("user administration", () => {
 
   it("deactivates with a required reason; a deactivated user's actor no longer loads", async () => {
     const admin = await actorByEmail(SEEDED.admin);
-    const user = await createUser(appDb(), admin, await newUserInput());
+    const user = await createUserOperation.invoke(appDb(), admin, await newUserInput());
     await expect(
-      setUserActive(appDb(), admin, { id: user.id, version: 1, active: false, rationale: "", currentPassword: ADMIN_PASSWORD }),
+      setUserActiveOperation.invoke(appDb(), admin, { id: user.id, version: 1, active: false, rationale: "", currentPassword: ADMIN_PASSWORD }),
     ).rejects.toMatchObject({ fieldErrors: { rationale: [expect.any(String)] } });
-    const after = await setUserActive(appDb(), admin, {
+    const after = await setUserActiveOperation.invoke(appDb(), admin, {
       id: user.id,
       version: 1,
       active: false,
@@ -133,10 +133,10 @@ describe("user administration", () => {
     const admin = await actorByEmail(SEEDED.admin);
     const self = (await appDb()("users").where({ id: admin.id }).first("version")) as { version: number };
     await expect(
-      setUserActive(appDb(), admin, { id: admin.id, version: self.version, active: false, rationale: "oops", currentPassword: ADMIN_PASSWORD }),
+      setUserActiveOperation.invoke(appDb(), admin, { id: admin.id, version: self.version, active: false, rationale: "oops", currentPassword: ADMIN_PASSWORD }),
     ).rejects.toBeInstanceOf(ValidationError);
     await expect(
-      updateUser(appDb(), admin, {
+      updateUserOperation.invoke(appDb(), admin, {
         id: admin.id,
         version: self.version,
         email: admin.email,
@@ -154,7 +154,7 @@ describe("user administration", () => {
   it("asks the administrator's own password for every account change, and records a wrong one", async () => {
     const admin = await actorByEmail(SEEDED.admin);
     const input = await newUserInput({ currentPassword: "not-my-password" });
-    const error = (await createUser(appDb(), admin, input).catch((e: unknown) => e)) as ValidationError;
+    const error = (await createUserOperation.invoke(appDb(), admin, input).catch((e: unknown) => e)) as ValidationError;
     expect(error).toBeInstanceOf(ValidationError);
     expect(error.fieldErrors).toEqual({ currentPassword: ["The password does not match your account."] });
     expect(await appDb()("users").where({ email: input.email }).first("id")).toBeUndefined();
@@ -165,7 +165,7 @@ describe("user administration", () => {
     expect(Number(refused.n)).toBeGreaterThan(0);
     const withoutPassword: Partial<UserCreateInput> = await newUserInput();
     delete withoutPassword.currentPassword;
-    await expect(createUser(appDb(), admin, withoutPassword as UserCreateInput)).rejects.toMatchObject({
+    await expect(createUserOperation.invoke(appDb(), admin, withoutPassword as UserCreateInput)).rejects.toMatchObject({
       fieldErrors: { currentPassword: ["Enter your own password to confirm the change."] },
     });
   });

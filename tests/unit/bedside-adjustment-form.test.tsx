@@ -1,6 +1,6 @@
 import { fireEvent, render, screen, waitFor, within } from "@testing-library/react";
 import { afterEach, beforeEach, describe, expect, it, vi } from "vitest";
-import type { recordAdjustmentAction } from "@/app/(app)/patients/[patientId]/actions";
+import type { recordAdjustmentAction } from "@/lib/adjustments/actions";
 import {
   AdjustmentForm,
   adjustmentFormSchema,
@@ -15,10 +15,8 @@ const mocks = vi.hoisted(() => ({
   record: vi.fn<typeof recordAdjustmentAction>(),
   push: vi.fn<(href: string) => void>(),
 }));
-vi.mock("@/app/(app)/patients/[patientId]/actions", () => ({
+vi.mock("@/lib/adjustments/actions", () => ({
   recordAdjustmentAction: mocks.record,
-  chartReadingAction: vi.fn(),
-  recordBloodGasAction: vi.fn(),
 }));
 vi.mock("next/navigation", () => ({
   useRouter: () => ({ push: mocks.push, refresh: vi.fn(), replace: vi.fn(), prefetch: vi.fn() }),

@@ -1,6 +1,6 @@
 import { fireEvent, render, screen, waitFor } from "@testing-library/react";
 import { beforeEach, describe, expect, it, vi } from "vitest";
-import type { recordBloodGasAction } from "@/app/(app)/patients/[patientId]/actions";
+import type { recordBloodGasAction } from "@/lib/blood-gases/actions";
 import {
   BloodGasForm,
   bloodGasFormSchema,
@@ -13,9 +13,7 @@ import { assessBloodGas, ENGINE_VERSION } from "@/lib/oxygen";
 import type { BedsideContext } from "@/lib/patients/bedside";
 
 const mocks = vi.hoisted(() => ({ record: vi.fn<typeof recordBloodGasAction>() }));
-vi.mock("@/app/(app)/patients/[patientId]/actions", () => ({
-  recordAdjustmentAction: vi.fn(),
-  chartReadingAction: vi.fn(),
+vi.mock("@/lib/blood-gases/actions", () => ({
   recordBloodGasAction: mocks.record,
 }));
 

@@ -1,6 +1,6 @@
 import { fireEvent, render, screen, waitFor } from "@testing-library/react";
 import { beforeEach, describe, expect, it, vi } from "vitest";
-import type { chartReadingAction } from "@/app/(app)/patients/[patientId]/actions";
+import type { chartReadingAction } from "@/lib/readings/actions";
 import { fromZonedLocalInput, toZonedLocalInput } from "@/components/bedside/BedsideFormParts";
 import { ReadingForm } from "@/components/readings/ReadingForm";
 import type { BedsideContext } from "@/lib/patients/bedside";
@@ -10,10 +10,8 @@ const mocks = vi.hoisted(() => ({
   chart: vi.fn<typeof chartReadingAction>(),
   push: vi.fn<(href: string) => void>(),
 }));
-vi.mock("@/app/(app)/patients/[patientId]/actions", () => ({
-  recordAdjustmentAction: vi.fn(),
+vi.mock("@/lib/readings/actions", () => ({
   chartReadingAction: mocks.chart,
-  recordBloodGasAction: vi.fn(),
 }));
 vi.mock("next/navigation", () => ({
   useRouter: () => ({ push: mocks.push, refresh: vi.fn(), replace: vi.fn(), prefetch: vi.fn() }),

@@ -12,7 +12,7 @@ import { LedgerTable, prettyJson } from "@/components/ledger/LedgerTable";
 import { LedgerView } from "@/components/ledger/LedgerView";
 import { formatInZone, utcToZonedLocal, zonedLocalToUtc } from "@/components/ledger/LedgerTime";
 import { verificationMessage } from "@/components/ledger/VerifyChain";
-import { LEDGER_ACTIONS } from "@/lib/ledger/actions";
+import { LEDGER_ACTIONS } from "@/lib/ledger/vocabulary";
 import type { LedgerEntryView } from "@/lib/ledger/queries";
 
 // The page reads its filters from the address; here the address is a variable.

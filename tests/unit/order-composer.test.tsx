@@ -9,7 +9,7 @@ const writeOrderAction = vi.fn<(input: unknown) => Promise<ActionResult<OrderVie
 const push = vi.fn();
 const refresh = vi.fn();
 
-vi.mock("@/app/(app)/orders/actions", () => ({
+vi.mock("@/lib/orders/actions", () => ({
   writeOrderAction: (input: unknown) => writeOrderAction(input),
 }));
 vi.mock("next/navigation", () => ({ useRouter: () => ({ push, refresh }) }));

@@ -19,6 +19,7 @@ const TABLE: Record<Permission, Role[]> = {
   "step_table.manage": ["admin"],
   "record.read": ["physician", "therapist", "nurse", "reviewer", "admin"],
   "ledger.oversee": ["reviewer", "admin"],
+  "account.self": ["physician", "therapist", "nurse", "reviewer", "admin"],
 };
 
 describe("the permission table", () => {

@@ -4,17 +4,15 @@ import { db } from "@/lib/db";
 import { DomainError } from "@/lib/errors";
 import { getEnv } from "@/lib/env";
 import { handleRoute, readBodyBytes } from "@/lib/http";
-import { listImports } from "@/lib/imports/queries";
+import { listImportsOperation } from "@/lib/imports/operations";
+import { readRoute } from "@/lib/boundary/next";
 import { MAX_IMPORT_BYTES, uploadForPreview } from "@/lib/imports/service";
+import { uploadSchema } from "@/lib/imports/upload-rules";
+import { parseInput } from "@/lib/validation";
 import { allowedOrigins, refuseCrossSiteWrite } from "@/lib/request-guard";
 
 /** The latest imports of the caller's units. */
-export function GET() {
-  return handleRoute(async () => {
-    const actor = await requirePermission("import.upload");
-    return NextResponse.json({ imports: await listImports(db(), actor) });
-  });
-}
+export const GET = readRoute(listImportsOperation, { respond: (imports) => ({ imports }) });
 
 const field = (form: FormData, name: string) => {
   const v = form.get(name);
@@ -51,19 +49,15 @@ export function POST(request: Request) {
       throw new DomainError("Choose a file to upload.", 400, { file: ["Choose a file to upload."] });
     }
     const content = Buffer.from(await file.arrayBuffer());
-    const preview = await uploadForPreview(
-      db(),
-      actor,
-      {
-        kind: field(form, "kind") as "hl7",
-        unitId: field(form, "unitId") as unknown as number,
-        fileName: file instanceof File ? file.name : "upload",
-        delimiter: (field(form, "delimiter") ?? ",") as ",",
-        mrn: field(form, "mrn") || undefined,
-        bed: field(form, "bed") || undefined,
-      },
-      content,
-    );
+    const input = parseInput(uploadSchema, {
+      kind: field(form, "kind"),
+      unitId: field(form, "unitId"),
+      fileName: file instanceof File ? file.name : "upload",
+      delimiter: field(form, "delimiter"),
+      mrn: field(form, "mrn") || undefined,
+      bed: field(form, "bed") || undefined,
+    });
+    const preview = await uploadForPreview(db(), actor, input, content);
     return NextResponse.json({ import: preview }, { status: preview.alreadyImported ? 200 : 201 });
   });
 }

@@ -1,10 +1,5 @@
-import { NextResponse } from "next/server";
-import { requireRole } from "@/lib/auth/guard";
-import { db } from "@/lib/db";
-import { handleRoute, readJson } from "@/lib/http";
-import { evaluateBloodGas } from "@/lib/oxygenation/evaluate";
-import { assessRequestSchema } from "@/lib/oxygenation/schema";
-import { parseInput } from "@/lib/validation";
+import { writeRoute } from "@/lib/boundary/next";
+import { assessOperation } from "@/lib/oxygenation/operations";
 
 /**
  * POST /api/v1/oxygenation/assess — the oxygenation indices of one blood gas.
@@ -29,10 +24,6 @@ import { parseInput } from "@/lib/validation";
  *
  * 400: `{ error: { message, fieldErrors: { <field>: [message] } } }`, ranges stated in the unit typed.
  */
-export function POST(request: Request) {
-  return handleRoute(async () => {
-    const actor = await requireRole();
-    const body = parseInput(assessRequestSchema, await readJson(request));
-    return NextResponse.json(await evaluateBloodGas(db(), actor, body));
-  });
-}
+export const POST = writeRoute(assessOperation, {
+  respond: (result) => result,
+});

@@ -1,11 +1,5 @@
-import { NextResponse } from "next/server";
-import { requireRole } from "@/lib/auth/guard";
-import { db } from "@/lib/db";
-import { handleRoute, readJson } from "@/lib/http";
-import { forecastFio2 } from "@/lib/oxygenation/evaluate";
-import { forecastRequestSchema } from "@/lib/oxygenation/schema";
-import { parseInput } from "@/lib/validation";
-import { consumeQuota } from "@/lib/rate-limit";
+import { writeRoute } from "@/lib/boundary/next";
+import { forecastOperation } from "@/lib/oxygenation/operations";
 
 /**
  * POST /api/v1/oxygenation/forecast — PaO2 and SpO2 after a change of FiO2, by
@@ -27,11 +21,7 @@ import { consumeQuota } from "@/lib/rate-limit";
  *
  * 400: `{ error: { message, fieldErrors: { <field>: [message] } } }`, ranges stated in the unit typed.
  */
-export function POST(request: Request) {
-  return handleRoute(async () => {
-    const actor = await requireRole();
-    await consumeQuota(db(), `user:${actor.id}`, "forecast");
-    const body = parseInput(forecastRequestSchema, await readJson(request));
-    return NextResponse.json(await forecastFio2(db(), actor, body));
-  });
-}
+export const POST = writeRoute(forecastOperation, {
+  quota: "forecast",
+  respond: (result) => result,
+});

@@ -1,17 +1,20 @@
 "use server";
 
-import { cookies } from "next/headers";
 import { revalidatePath } from "next/cache";
-import { runAction, type ActionResult } from "@/lib/action-result";
-import { requireRole } from "@/lib/auth/guard";
-import { NotFoundError } from "@/lib/errors";
-import { UNIT_COOKIE, unitChoiceSchema } from "@/lib/preferences/unit";
-import { parseInput } from "@/lib/validation";
+import { cookies } from "next/headers";
+import { runAction, type ActionResult } from "../action-result";
+import { requirePermission } from "../auth/guard";
+import { NotFoundError } from "../errors";
+import { parseInput } from "../validation";
+import { UNIT_COOKIE, unitChoiceSchema } from "./unit";
 
-/** Switches the unit the Board and lists show; only units the user is assigned to. */
+/**
+ * Switches the unit the Board and lists show; only units the user is assigned
+ * to. A cookie, not a database row, so it is not an operation of its own.
+ */
 export async function selectUnitAction(value: unknown): Promise<ActionResult<{ unit: string }>> {
   return runAction(async () => {
-    const actor = await requireRole();
+    const actor = await requirePermission("account.self");
     const choice = parseInput(unitChoiceSchema, value);
     if (choice !== "all" && !actor.unitIds.includes(choice)) throw new NotFoundError("Unknown unit.");
     (await cookies()).set(UNIT_COOKIE, String(choice), {
