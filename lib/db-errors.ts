@@ -14,7 +14,7 @@ export function duplicateIndex(error: unknown): string | undefined {
   return /for key '(?:[^.']+\.)?([^']+)'/.exec(error.sqlMessage ?? "")?.[1];
 }
 
-/** Two writers locked each other out; InnoDB rolled one back. Same meaning as a lost race. */
-export function isLockConflict(error: unknown): boolean {
-  return isDbError(error) && (error.code === "ER_LOCK_DEADLOCK" || error.code === "ER_LOCK_WAIT_TIMEOUT");
+/** A writer waited too long for another's lock: same meaning as a lost race. */
+export function isLockWaitTimeout(error: unknown): boolean {
+  return isDbError(error) && error.code === "ER_LOCK_WAIT_TIMEOUT";
 }

@@ -6,7 +6,7 @@ import { once } from "../idempotency";
 import { queueUserMail } from "../alerts/outbox";
 import { afterOrderChanged } from "../alerts/service";
 import { appendLedger } from "../ledger/service";
-import { duplicateIndex, isLockConflict } from "../db-errors";
+import { duplicateIndex, isLockWaitTimeout } from "../db-errors";
 import { findOpenAdmission, type OpenAdmission } from "../patients/access";
 import {
   DESIGNATED_COSIGN_MEANING,
@@ -93,9 +93,10 @@ export async function writeOrder(
   }
 
   return once(knex, actor.id, input.idempotencyKey, "order.write", async (trx) => {
-    // Two writers who both saw "no order in effect" meet at the unique index.
+    // Two writers who both saw "no order in effect" meet at the unique index
+    // (a deadlock is not caught here: once() runs the victim again).
     return writeOrderInTransaction(trx, actor, input, admission, now).catch((error: unknown) => {
-      if (duplicateIndex(error) === "orders_current_patient_id_unique" || isLockConflict(error)) {
+      if (duplicateIndex(error) === "orders_current_patient_id_unique" || isLockWaitTimeout(error)) {
         throw new ConflictError(
           "Another order was just written for this patient. Review it, then write yours again if it is still needed.",
         );

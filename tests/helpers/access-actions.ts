@@ -139,10 +139,10 @@ const ACTIONS: Omit<ActionEntry, "via">[] = [
     ok: 200,
     arg: (w, c) => gasBody(w, c.unit),
   },
-  // Choosing a unit to show is a read of that unit; another unit's is "Unknown unit." (404).
+  // Choosing a unit to show is one's own setting; another unit's is "Unknown unit." (404).
   {
     name: "selectUnitAction",
-    permission: "record.read",
+    permission: "account.self",
     scope: "unit",
     ok: 200,
     arg: (w, c) => w.unitId[c.unit],
@@ -198,7 +198,7 @@ const ACTIONS: Omit<ActionEntry, "via">[] = [
   },
   {
     name: "saveEmailPreferencesAction",
-    permission: "record.read",
+    permission: "account.self",
     scope: "none",
     ok: 200,
     arg: () => ({

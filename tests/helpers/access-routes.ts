@@ -92,7 +92,7 @@ const patient = (w: World, cell: Cell, tail: string) =>
 const ROUTES: Omit<RouteEntry, "via">[] = [
   {
     name: "GET /api/v1/me",
-    permission: "record.read",
+    permission: "account.self",
     scope: "none",
     ok: 200,
     call: () => ({ path: "/api/v1/me" }),

@@ -137,6 +137,19 @@ describe("orders", () => {
     ]);
   });
 
+  it("writes the first orders of several patients at once: none is refused by a lock on a neighbouring patient", async () => {
+    // Two first orders insert into neighbouring gaps of the current-order index;
+    // InnoDB may pick one as a deadlock victim although they do not conflict.
+    const physician = await actorByEmail(SEEDED.physician);
+    const patients = await Promise.all(Array.from({ length: 6 }, () => admitTestPatient()));
+    const results = await Promise.allSettled(
+      patients.map(({ patientId }) =>
+        writeOrderOperation.invoke(appDb(), physician, ventilatorOrder(patientId)),
+      ),
+    );
+    expect(results.map((r) => r.status)).toEqual(patients.map(() => "fulfilled"));
+  });
+
   it("refuses a wrong signing password and writes nothing", async () => {
     const { patientId } = await admitTestPatient();
     const physician = await actorByEmail(SEEDED.physician);
