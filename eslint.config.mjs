@@ -1,4 +1,4 @@
-// ESLint for the whole project (run from the repository root with --config).
+// ESLint for the whole project: `npm run lint` (and `npm test`) from the repository root.
 import nextPlugin from "@next/eslint-plugin-next";
 import reactHooks from "eslint-plugin-react-hooks";
 import tseslint from "typescript-eslint";
@@ -42,6 +42,25 @@ export default tseslint.config(
           selector:
             "MemberExpression[object.name=/^(it|test|describe)$/][property.name=/^(only|skip|todo)$/]",
           message: "No focused, skipped or placeholder tests.",
+        },
+      ],
+    },
+  },
+  {
+    // The engine is pure: importable by the browser and by tests without a
+    // database, so it may import only its own modules.
+    files: ["lib/oxygen/**/*.ts"],
+    rules: {
+      "no-restricted-imports": [
+        "error",
+        {
+          patterns: [
+            {
+              regex: "^(?!\\./)",
+              message:
+                "lib/oxygen is pure: no framework, database, network or file imports, and nothing outside lib/oxygen.",
+            },
+          ],
         },
       ],
     },
