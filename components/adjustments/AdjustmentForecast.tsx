@@ -22,7 +22,7 @@ import {
 } from "@/lib/oxygen";
 import { formatAge, gasAgeCaveat } from "@/lib/blood-gases/freshness";
 import { forecastBasis } from "@/lib/oxygenation/forecast-basis";
-import type { BedsideContext } from "@/lib/patients/bedside";
+import type { BedsideContext } from "@/lib/chart/bedside";
 
 type Outcome =
   | { kind: "none"; message: string }

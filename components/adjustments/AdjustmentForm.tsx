@@ -31,7 +31,7 @@ import { ADJUSTMENT_REASONS } from "@/lib/adjustments/schema";
 import type { PressureUnit, ProposalDirection, ProposedSetting } from "@/lib/oxygen";
 import { DEVICE_PROFILES } from "@/lib/orders/devices";
 import type { OrderView } from "@/lib/orders/queries";
-import type { BedsideContext, BedsideSettings } from "@/lib/patients/bedside";
+import type { BedsideContext, BedsideSettings } from "@/lib/chart/bedside";
 import { AdjustmentForecast } from "./AdjustmentForecast";
 import { BedsideContextCards } from "./BedsideContextCards";
 import {

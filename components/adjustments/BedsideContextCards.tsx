@@ -4,7 +4,7 @@ import { formatFio2Value, formatUnitTime } from "@/components/bedside/BedsideFor
 import { StatusBadge, type Status } from "@/components/ui/StatusBadge";
 import type { PressureUnit } from "@/lib/oxygen";
 import { DEVICE_PROFILES } from "@/lib/orders/devices";
-import type { BedsideContext } from "@/lib/patients/bedside";
+import type { BedsideContext } from "@/lib/chart/bedside";
 import { classifySpo2 } from "@/lib/time-in-band";
 import { Spo2Value } from "@/components/readings/Spo2Value";
 

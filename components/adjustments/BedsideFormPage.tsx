@@ -6,8 +6,8 @@ import { buttonClasses } from "@/components/ui/Button";
 import type { Actor } from "@/lib/auth/actor";
 import { db } from "@/lib/db";
 import { NotFoundError } from "@/lib/errors";
-import { getBedsideContext, type BedsideContext } from "@/lib/patients/bedside";
-import { getPatientForActor, type ChartPatient } from "@/lib/patients/queries";
+import { getBedsideContext, type BedsideContext } from "@/lib/chart/bedside";
+import { getPatientForActor, type ChartPatient } from "@/lib/admissions/queries";
 
 // Server-side frame of the three bedside form pages (adjustment, reading,
 // blood gas): the patient with a 404 for other units, the bedside context (with

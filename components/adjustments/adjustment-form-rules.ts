@@ -3,7 +3,7 @@ import { formatFio2Value, localDateTimeSchema } from "@/components/bedside/Bedsi
 import { adjustmentSchema, type AdjustmentReason } from "@/lib/adjustments/schema";
 import { DEVICE_PROFILES, type Device } from "@/lib/orders/devices";
 import type { OrderView } from "@/lib/orders/queries";
-import type { BedsideContext, BedsideSettings } from "@/lib/patients/bedside";
+import type { BedsideContext, BedsideSettings } from "@/lib/chart/bedside";
 import { classifySpo2 } from "@/lib/time-in-band";
 
 // The adjustment form's rules apart from its screen: the schema it validates

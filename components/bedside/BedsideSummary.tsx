@@ -9,7 +9,7 @@ import type { Actor } from "@/lib/auth/actor";
 import { can, mayAdjustDevice } from "@/lib/auth/permissions";
 import { DEVICE_PROFILES } from "@/lib/orders/devices";
 import { formatPfRatio, formatPressure } from "@/lib/oxygen";
-import type { BedsideContext } from "@/lib/patients/bedside";
+import type { BedsideContext } from "@/lib/chart/bedside";
 
 function minutesSince(iso: string, now: Date): number {
   return Math.max(0, Math.round((now.getTime() - Date.parse(iso)) / 60_000));

@@ -9,7 +9,7 @@ import {
 } from "react-hook-form";
 import { Field, inputClasses } from "@/components/ui/Field";
 import { DEVICE_PROFILES, DEVICES, type Device } from "@/lib/orders/devices";
-import type { BedsideSettings } from "@/lib/patients/bedside";
+import type { BedsideSettings } from "@/lib/chart/bedside";
 import { describeDeviceFio2, DeviceOptions, flowHint, NumberField } from "./BedsideFormParts";
 
 /** The settings a device choice fills in. */

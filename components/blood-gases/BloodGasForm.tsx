@@ -39,7 +39,7 @@ import {
   rangeMessage,
 } from "@/lib/oxygenation/schema";
 import { DEVICE_PROFILES, DEVICES, RESPIRATORY_SUPPORT, type Device } from "@/lib/orders/devices";
-import type { BedsideContext } from "@/lib/patients/bedside";
+import type { BedsideContext } from "@/lib/chart/bedside";
 import { BloodGasResult } from "./BloodGasResult";
 
 const shared = bloodGasSchema.shape;

@@ -7,7 +7,7 @@ import { formatPressureNumber } from "@/components/oxygenation/format";
 import { Button } from "@/components/ui/Button";
 import { EmptyState } from "@/components/ui/EmptyState";
 import { formatPfRatio, type PressureUnit } from "@/lib/oxygen/units";
-import type { TimelineItem, TimelineKind, TimelinePage } from "@/lib/patients/timeline";
+import type { TimelineItem, TimelineKind, TimelinePage } from "@/lib/chart/timeline";
 import { type ChartRequestError, formatUnitTime, getChartJson } from "./chart-request";
 
 export const TIMELINE_PAGE_SIZE = 25;

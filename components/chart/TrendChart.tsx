@@ -5,7 +5,7 @@ import { type KeyboardEvent, type PointerEvent, useId, useMemo, useState } from 
 import useSWR from "swr";
 import { EmptyState } from "@/components/ui/EmptyState";
 import type { PressureUnit } from "@/lib/oxygen/units";
-import type { Trend } from "@/lib/patients/trend";
+import type { Trend } from "@/lib/chart/trend";
 import {
   type ChartRequestError,
   formatUnitTime,

@@ -1,5 +1,5 @@
 import type { PressureUnit } from "@/lib/oxygen/units";
-import type { Trend } from "@/lib/patients/trend";
+import type { Trend } from "@/lib/chart/trend";
 import { axisLabel } from "./TrendAxisLabel";
 import { GASES, M, PW, type TrendScales } from "./trend-geometry";
 

@@ -1,6 +1,6 @@
 import type { ReactNode } from "react";
 import type { PressureUnit } from "@/lib/oxygen/units";
-import type { Trend } from "@/lib/patients/trend";
+import type { Trend } from "@/lib/chart/trend";
 
 /** The details of the selected moment, announced politely: the chart's tooltip. */
 export function TrendDetailsBox({ details }: { details: string[] | null }) {

@@ -1,4 +1,4 @@
-import type { Trend } from "@/lib/patients/trend";
+import type { Trend } from "@/lib/chart/trend";
 import { axisLabel } from "./TrendAxisLabel";
 import { M, PW, SETTINGS, stepPath, type TrendScales } from "./trend-geometry";
 

@@ -1,6 +1,6 @@
 import { formatPressureNumber } from "@/components/oxygenation/format";
 import { formatPfRatio, type PressureUnit } from "@/lib/oxygen/units";
-import type { Trend } from "@/lib/patients/trend";
+import type { Trend } from "@/lib/chart/trend";
 import { formatUnitTime } from "./chart-request";
 import { bandAt, latestAtOrBefore } from "./trend-geometry";
 

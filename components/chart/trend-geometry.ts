@@ -1,6 +1,6 @@
 import { niceAxis, pressureIn } from "@/components/oxygenation/format";
 import type { PressureUnit } from "@/lib/oxygen/units";
-import type { Trend, TrendBand, TrendSettingsStep } from "@/lib/patients/trend";
+import type { Trend, TrendBand, TrendSettingsStep } from "@/lib/chart/trend";
 
 // Geometry and scales of the trend drawing: pure functions of a loaded trend,
 // no React. The panels in this folder draw with what these return.

@@ -26,7 +26,7 @@ import { DeviceSettingsFields, devicePrefill } from "@/components/bedside/Device
 import { Button, buttonClasses } from "@/components/ui/Button";
 import { StatusBadge } from "@/components/ui/StatusBadge";
 import { DEVICE_PROFILES, DEVICES, type Device } from "@/lib/orders/devices";
-import type { BedsideContext } from "@/lib/patients/bedside";
+import type { BedsideContext } from "@/lib/chart/bedside";
 import {
   BELOW_OXIMETER_ACCURACY_LABEL,
   belowOximeterAccuracy,

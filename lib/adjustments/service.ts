@@ -14,7 +14,7 @@ import {
   type Fio2Forecast,
 } from "../oxygen";
 import { gasAgeCaveat } from "../blood-gases/freshness";
-import { getBedsideContext } from "../patients/bedside";
+import { getBedsideContext } from "../chart/bedside";
 import { type AdjustmentData } from "./schema";
 import { mayAdjustDevice } from "../auth/permissions";
 

@@ -11,7 +11,7 @@ import {
   ENGINE_VERSION,
   type BloodGasAssessment,
 } from "../oxygen";
-import { findOpenAdmission, type OpenAdmission } from "../patients/access";
+import { findOpenAdmission, type OpenAdmission } from "../admissions/access";
 import { resolveFio2 } from "../readings/service";
 import { type BloodGasData } from "./schema";
 

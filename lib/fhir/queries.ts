@@ -4,7 +4,7 @@ import { ADJUSTMENT_REASONS } from "../adjustments/schema";
 import type { Actor } from "../auth/actor";
 import type { Device } from "../orders/devices";
 import { orderQuery, type OrderRow, toOrderView } from "../orders/queries";
-import { getPatientForActor } from "../patients/queries";
+import { getPatientForActor } from "../admissions/queries";
 import {
   buildPatientBundle,
   type FhirAdjustmentRow,

@@ -7,7 +7,7 @@ import { queueUserMail } from "../alerts/outbox";
 import { afterOrderChanged } from "../alerts/service";
 import { appendLedger } from "../ledger/service";
 import { duplicateIndex, isLockWaitTimeout } from "../db-errors";
-import { findOpenAdmission, type OpenAdmission } from "../patients/access";
+import { findOpenAdmission, type OpenAdmission } from "../admissions/access";
 import {
   DESIGNATED_COSIGN_MEANING,
   DEVICE_PROFILES,

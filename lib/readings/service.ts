@@ -5,7 +5,7 @@ import { once } from "../idempotency";
 import { afterReadingsCharted } from "../alerts/service";
 import { appendLedger } from "../ledger/service";
 import { DEVICE_PROFILES, estimateFio2, type Device } from "../orders/devices";
-import { findOpenAdmission } from "../patients/access";
+import { findOpenAdmission } from "../admissions/access";
 import { type ReadingData } from "./schema";
 
 export type ReadingView = {

@@ -16,7 +16,7 @@ import type { AddressInfo } from "node:net";
 import knex, { type Knex } from "knex";
 import mysql from "mysql2/promise";
 import { loadBoard } from "../../lib/board/queries";
-import { getTrend } from "../../lib/patients/trend";
+import { getTrend } from "../../lib/chart/trend";
 import { connectionConfig } from "../../lib/db";
 
 const DB = "tidemark_bench_board";

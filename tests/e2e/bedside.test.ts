@@ -2,7 +2,7 @@ import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { AdjustmentView } from "@/lib/adjustments/service";
 import type { OrderView } from "@/lib/orders/queries";
-import type { BedsideContext } from "@/lib/patients/bedside";
+import type { BedsideContext } from "@/lib/chart/bedside";
 import { ARTIFACTS, BASE_URL, launchBrowser, signInThroughForm } from "../helpers/browser";
 import { Session } from "../helpers/http";
 

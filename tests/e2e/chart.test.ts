@@ -1,7 +1,7 @@
 import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { TimelinePage } from "@/lib/patients/timeline";
-import type { Trend } from "@/lib/patients/trend";
+import type { TimelinePage } from "@/lib/chart/timeline";
+import type { Trend } from "@/lib/chart/trend";
 import { ARTIFACTS, BASE_URL, launchBrowser, signInThroughForm } from "../helpers/browser";
 import { Session } from "../helpers/http";
 

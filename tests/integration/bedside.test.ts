@@ -8,7 +8,7 @@ import { ConflictError, ForbiddenError, NotFoundError, ValidationError } from "@
 import { ledgerCsv, listLedger } from "@/lib/ledger/queries";
 import { verifyLedger } from "@/lib/ledger/verify";
 import type { OrderInput } from "@/lib/orders/schema";
-import { getBedsideContext } from "@/lib/patients/bedside";
+import { getBedsideContext } from "@/lib/chart/bedside";
 import { actorByEmail, admitTestPatient, appDb, SEEDED } from "../helpers/db";
 
 afterAll(async () => {

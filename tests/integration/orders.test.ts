@@ -11,7 +11,7 @@ import {
   SIGNATURE_MEANING,
   stepTableMismatchMessage,
 } from "@/lib/orders/devices";
-import { getBedsideContext } from "@/lib/patients/bedside";
+import { getBedsideContext } from "@/lib/chart/bedside";
 import { getOrder, listCosignQueue } from "@/lib/orders/queries";
 import { PAO2_BAND_INCOMPLETE, type OrderInput } from "@/lib/orders/schema";
 import { actorByEmail, admitTestPatient, appDb, SEEDED, uniqueEmail } from "../helpers/db";

@@ -6,8 +6,8 @@ import { afterAll, describe, expect, it } from "vitest";
 import { closeDb } from "@/lib/db";
 import { NotFoundError, ValidationError } from "@/lib/errors";
 import type { OrderInput } from "@/lib/orders/schema";
-import { listTimeline, type TimelineItem } from "@/lib/patients/timeline";
-import { getTrend, TREND_MAX_POINTS } from "@/lib/patients/trend";
+import { listTimeline, type TimelineItem } from "@/lib/chart/timeline";
+import { getTrend, TREND_MAX_POINTS } from "@/lib/chart/trend";
 import { actorByEmail, admitTestPatient, appDb, SEEDED } from "../helpers/db";
 
 afterAll(async () => {

@@ -9,7 +9,7 @@ import {
 import type { AdjustmentView } from "@/lib/adjustments/service";
 import type { Device } from "@/lib/orders/devices";
 import type { OrderView } from "@/lib/orders/queries";
-import type { BedsideContext } from "@/lib/patients/bedside";
+import type { BedsideContext } from "@/lib/chart/bedside";
 
 const mocks = vi.hoisted(() => ({
   record: vi.fn<typeof recordAdjustmentAction>(),

@@ -10,7 +10,7 @@ import {
 import type { BloodGasInput as BloodGasPayload } from "@/lib/blood-gases/schema";
 import type { BloodGasView } from "@/lib/blood-gases/service";
 import { assessBloodGas, ENGINE_VERSION } from "@/lib/oxygen";
-import type { BedsideContext } from "@/lib/patients/bedside";
+import type { BedsideContext } from "@/lib/chart/bedside";
 
 const mocks = vi.hoisted(() => ({ record: vi.fn<typeof recordBloodGasAction>() }));
 vi.mock("@/lib/blood-gases/actions", () => ({

@@ -3,7 +3,7 @@ import { beforeEach, describe, expect, it, vi } from "vitest";
 import type { chartReadingAction } from "@/lib/readings/actions";
 import { fromZonedLocalInput, toZonedLocalInput } from "@/components/bedside/BedsideFormParts";
 import { ReadingForm } from "@/components/readings/ReadingForm";
-import type { BedsideContext } from "@/lib/patients/bedside";
+import type { BedsideContext } from "@/lib/chart/bedside";
 import type { ReadingView } from "@/lib/readings/service";
 
 const mocks = vi.hoisted(() => ({

@@ -2,7 +2,7 @@ import { fireEvent, render, screen, within } from "@testing-library/react";
 import { SWRConfig } from "swr";
 import { afterEach, describe, expect, it, vi } from "vitest";
 import { pressureText, Timeline } from "@/components/chart/Timeline";
-import type { TimelineItem, TimelinePage } from "@/lib/patients/timeline";
+import type { TimelineItem, TimelinePage } from "@/lib/chart/timeline";
 
 const gas: TimelineItem = {
   cursor: "2026-03-04T08:30:00.000Z|blood_gas|7",

@@ -3,7 +3,7 @@ import { SWRConfig } from "swr";
 import { afterEach, describe, expect, it, vi } from "vitest";
 import { rangeBounds } from "@/components/chart/chart-request";
 import { TrendChart, trendDetails, TrendPlot } from "@/components/chart/TrendChart";
-import type { Trend } from "@/lib/patients/trend";
+import type { Trend } from "@/lib/chart/trend";
 
 const trend: Trend = {
   from: "2026-03-04T06:00:00.000Z",

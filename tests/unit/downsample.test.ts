@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { downsampleMinMax } from "@/lib/patients/downsample";
+import { downsampleMinMax } from "@/lib/chart/downsample";
 
 type P = { t: number; v: number };
 const series = (n: number, value: (i: number) => number): P[] =>

@@ -6,7 +6,7 @@ import {
   keyedLedgerHash,
   type HashedLedgerFields,
 } from "@/lib/ledger/hash";
-import { ageInYears, initialsOf } from "@/lib/patients/display";
+import { ageInYears, initialsOf } from "@/lib/admissions/display";
 import { resolveUnitChoice } from "@/lib/preferences/unit";
 import { userCreateSchema, userUpdateSchema } from "@/lib/users/schema";
 import { toFieldErrors } from "@/lib/validation";

@@ -21,7 +21,7 @@ import { NotFoundError } from "@/lib/errors";
 import { listLedgerForEntity } from "@/lib/ledger/queries";
 import { cosignersFor, cosignersText, mayCosign } from "@/lib/orders/cosigners";
 import { getOrder, type OrderView } from "@/lib/orders/queries";
-import { getAdmissionPatient } from "@/lib/patients/queries";
+import { getAdmissionPatient } from "@/lib/admissions/queries";
 import { getStepTableName } from "@/lib/step-tables/queries";
 import { listUnits } from "@/lib/units/queries";
 import { wallTimeToInstant, zoneOffsetMs } from "@/lib/time/zone";

@@ -13,9 +13,9 @@ import { pageActor } from "@/lib/auth/page-guard";
 import { can } from "@/lib/auth/permissions";
 import { db } from "@/lib/db";
 import { NotFoundError } from "@/lib/errors";
-import { getBedsideContext } from "@/lib/patients/bedside";
-import { ageInYears } from "@/lib/patients/display";
-import { type ChartPatient, getPatientForActor } from "@/lib/patients/queries";
+import { getBedsideContext } from "@/lib/chart/bedside";
+import { ageInYears } from "@/lib/admissions/display";
+import { type ChartPatient, getPatientForActor } from "@/lib/admissions/queries";
 
 export const metadata: Metadata = { title: "Chart" };
 

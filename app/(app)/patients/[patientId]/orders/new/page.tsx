@@ -8,7 +8,7 @@ import { pagePermission } from "@/lib/auth/page-guard";
 import { db } from "@/lib/db";
 import { NotFoundError } from "@/lib/errors";
 import { getCurrentOrder } from "@/lib/orders/queries";
-import { type ChartPatient, getPatientForActor } from "@/lib/patients/queries";
+import { type ChartPatient, getPatientForActor } from "@/lib/admissions/queries";
 import { getStepTableName, listStepTables } from "@/lib/step-tables/queries";
 import { listUnits } from "@/lib/units/queries";
 import { listUnitPhysicians } from "@/lib/users/queries";

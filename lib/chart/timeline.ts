@@ -4,7 +4,7 @@ import type { Actor } from "../auth/actor";
 import { ValidationError } from "../errors";
 import { DEVICE_PROFILES, type Device } from "../orders/devices";
 import { BELOW_OXIMETER_ACCURACY_LABEL, belowOximeterAccuracy } from "../oxygen/oximetry";
-import { findOpenAdmission } from "./access";
+import { findOpenAdmission } from "../admissions/access";
 
 // Alerts are a later issue: when they exist they join the timeline as a fifth kind.
 export const TIMELINE_KINDS = ["order", "adjustment", "reading", "blood_gas"] as const;

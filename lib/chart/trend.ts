@@ -1,7 +1,7 @@
 import type { Knex } from "knex";
 import type { Actor } from "../auth/actor";
 import { ValidationError } from "../errors";
-import { findOpenAdmission } from "./access";
+import { findOpenAdmission } from "../admissions/access";
 import { downsampleMinMax } from "./downsample";
 
 /** At most this many SpO2 points reach the chart; a denser series is thinned (see downsampleMinMax). */

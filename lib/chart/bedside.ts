@@ -12,7 +12,7 @@ import type { Device } from "../orders/devices";
 import { alertConfig } from "../alerts/config";
 import { gasAgeCaveat, gasFreshness, type GasFreshness } from "../blood-gases/freshness";
 import { getEnv } from "../env";
-import { findOpenAdmission, type OpenAdmission } from "./access";
+import { findOpenAdmission, type OpenAdmission } from "../admissions/access";
 
 export type BedsideSettings = {
   device: Device;
