@@ -105,22 +105,38 @@ export function keyedLedgerHash(keys: LedgerKeys, f: HashedLedgerFields): string
 }
 
 /**
- * The same HMAC-SHA256 for the verifier's hot loop, about twice as fast as
- * `createHmac` per row: the key is 64 ASCII hex characters, so K⊕ipad is an
- * ASCII string that can be prefixed to the message and hashed in one call,
- * and the outer hash reuses one buffer holding K⊕opad.
+ * The same HMAC-SHA256 for the verifier's hot loop, about three times as fast
+ * as `createHmac` per row. The key is 64 ASCII hex characters, exactly
+ * SHA-256's block size, so K⊕ipad and K⊕opad are fixed 64-byte prefixes: the
+ * row is UTF-8-encoded after K⊕ipad in one reused buffer, and the inner digest
+ * is written after K⊕opad in another. The inner digest comes back as a
+ * "binary" (latin1) string, one character per byte, because allocating a
+ * Buffer per row cost more than both hashes.
  */
 export function fastLedgerMac(entryKey: string): (canonical: string) => string {
   if (!/^[0-9a-f]{64}$/.test(entryKey)) throw new Error("entry key must be 64 hex characters");
-  let inner = "";
+  const inner = Buffer.alloc(16 * 1024);
   const outer = Buffer.alloc(96);
   for (let i = 0; i < 64; i++) {
     const c = entryKey.charCodeAt(i);
-    inner += String.fromCharCode(c ^ 0x36);
+    inner[i] = c ^ 0x36;
     outer[i] = c ^ 0x5c;
   }
+  // K⊕ipad is ASCII, so as a string prefix it encodes to the same 64 bytes.
+  const ipad = inner.toString("latin1", 0, 64);
+  // UTF-8 needs at most 3 bytes per UTF-16 code unit: longer rows take the string path.
+  const fits = Math.floor((inner.length - 64) / 3);
+  // One view per message length, made once, instead of a subarray per row.
+  const views = new Array<Buffer | undefined>(inner.length + 1);
   return (canonical) => {
-    hash("sha256", inner + canonical, "buffer").copy(outer, 64);
+    let digest: string;
+    if (canonical.length <= fits) {
+      const n = 64 + inner.write(canonical, 64, "utf8");
+      digest = hash("sha256", (views[n] ??= inner.subarray(0, n)), "binary");
+    } else {
+      digest = hash("sha256", ipad + canonical, "binary");
+    }
+    outer.write(digest, 64, "binary");
     return hash("sha256", outer, "hex");
   };
 }

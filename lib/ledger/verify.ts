@@ -26,7 +26,7 @@ export type VerifyOptions = {
   keys?: LedgerKeys;
   /** Default: {@link ledgerAnchorPath}; null compares with no anchor. */
   anchorPath?: string | null;
-  /** Rows per query when walking the whole ledger. */
+  /** Rows per query when walking the chains after the anchor (the full walk is one query). */
   batchSize?: number;
 };
 
@@ -34,9 +34,11 @@ export const MAX_PROBLEMS = 50;
 
 type Head = { seq: number; hash: string };
 
-// Read as arrays, the time as the stored text: no per-row objects or Date parsing.
+// Read as arrays, no per-row objects. The time comes as `Date.toISOString()`
+// writes it (the stored DATETIME is UTC; %f is microseconds, cut to
+// milliseconds), formatted on the database's thread rather than this one.
 const COLUMNS =
-  "id, chain_key, chain_seq, prev_hash, hash, actor_user_id, actor_role, occurred_at, action, entity_type, entity_id, patient_id, unit_id, before_json, after_json, rationale";
+  "id, chain_key, chain_seq, prev_hash, hash, actor_user_id, actor_role, CONCAT(LEFT(DATE_FORMAT(occurred_at, '%Y-%m-%dT%T.%f'), 23), 'Z'), action, entity_type, entity_id, patient_id, unit_id, before_json, after_json, rationale";
 type RawRow = [
   id: number,
   chainKey: string,
@@ -45,7 +47,7 @@ type RawRow = [
   hash: string,
   actorUserId: number | null,
   actorRole: string,
-  occurredAt: string,
+  occurredAtIso: string,
   action: string,
   entityType: string,
   entityId: string,
@@ -55,14 +57,7 @@ type RawRow = [
   afterJson: string | null,
   rationale: string | null,
 ];
-const ROW_OPTIONS = { rowsAsArray: true, dateStrings: true };
-
-/** "2026-12-01 10:00:00.123" (DATETIME(3), UTC) as `Date.toISOString()` writes it. */
-function isoOf(stored: string): string {
-  return stored.length === 23
-    ? `${stored.slice(0, 10)}T${stored.slice(11)}Z`
-    : new Date(`${stored.replace(" ", "T")}Z`).toISOString();
-}
+const ROW_OPTIONS = { rowsAsArray: true };
 
 async function rawRows(knex: Knex, sql: string, bindings: readonly unknown[]): Promise<RawRow[]> {
   const [rows] = (await knex
@@ -96,62 +91,65 @@ class ChainWalk {
     this.report({ id: Number(r[0]), chainKey: r[1], chainSeq: Number(r[2]), problem });
   }
 
-  /** No per-row closures or objects here: this loop is the verifier's whole cost. */
+  /** Rows of a page, in id order. */
   rows(batch: RawRow[]): void {
-    for (const r of batch) {
-      const chainKey = r[1];
-      if (this.broken.has(chainKey)) continue;
-      const seq = Number(r[2]);
-      let tail = this.tails.get(chainKey);
-      const prev = tail ?? { seq: 0, hash: GENESIS_HASH };
-      if (seq !== prev.seq + 1) {
-        this.at(r, `sequence jumps from ${prev.seq} to ${seq}`);
-        continue;
-      }
-      if (r[3] !== prev.hash) {
-        this.at(r, "previous-hash link does not match");
-        continue;
-      }
-      const canonical = canonicalLedgerEntry(
-        chainKey,
-        seq,
-        r[3],
-        r[5],
-        r[6],
-        isoOf(r[7]),
-        r[8],
-        r[9],
-        r[10],
-        r[11],
-        r[12],
-        r[13],
-        r[14],
-        r[15],
-      );
-      if (this.mac(canonical) !== r[4]) {
-        const unkeyed = createHash("sha256").update(canonical).digest("hex") === r[4];
-        this.at(
-          r,
-          unkeyed
-            ? "row was hashed without the ledger key: it was not written by the application"
-            : "row content does not match its keyed hash",
-        );
-        continue;
-      }
-      const a = this.anchored.size > 0 ? this.anchored.get(chainKey) : undefined;
-      if (a && a.seq === seq && a.hash !== r[4]) {
-        this.at(r, `row differs from the one anchored at ${this.anchorTime}: rewritten since`);
-        continue;
-      }
-      if (tail) {
-        tail.seq = seq;
-        tail.hash = r[4];
-      } else {
-        tail = { seq, hash: r[4] };
-        this.tails.set(chainKey, tail);
-      }
-      this.checked += 1;
+    for (const r of batch) this.row(r);
+  }
+
+  /** No closures or objects per row here: this is the verifier's whole cost. */
+  row(r: RawRow): void {
+    const chainKey = r[1];
+    if (this.broken.size > 0 && this.broken.has(chainKey)) return;
+    const seq = Number(r[2]);
+    let tail = this.tails.get(chainKey);
+    const prev = tail ?? { seq: 0, hash: GENESIS_HASH };
+    if (seq !== prev.seq + 1) {
+      this.at(r, `sequence jumps from ${prev.seq} to ${seq}`);
+      return;
     }
+    if (r[3] !== prev.hash) {
+      this.at(r, "previous-hash link does not match");
+      return;
+    }
+    const canonical = canonicalLedgerEntry(
+      chainKey,
+      seq,
+      r[3],
+      r[5],
+      r[6],
+      r[7],
+      r[8],
+      r[9],
+      r[10],
+      r[11],
+      r[12],
+      r[13],
+      r[14],
+      r[15],
+    );
+    if (this.mac(canonical) !== r[4]) {
+      const unkeyed = createHash("sha256").update(canonical).digest("hex") === r[4];
+      this.at(
+        r,
+        unkeyed
+          ? "row was hashed without the ledger key: it was not written by the application"
+          : "row content does not match its keyed hash",
+      );
+      return;
+    }
+    const a = this.anchored.size > 0 ? this.anchored.get(chainKey) : undefined;
+    if (a && a.seq === seq && a.hash !== r[4]) {
+      this.at(r, `row differs from the one anchored at ${this.anchorTime}: rewritten since`);
+      return;
+    }
+    if (tail) {
+      tail.seq = seq;
+      tail.hash = r[4];
+    } else {
+      tail = { seq, hash: r[4] };
+      this.tails.set(chainKey, tail);
+    }
+    this.checked += 1;
   }
 }
 
@@ -219,23 +217,48 @@ async function readHeads(knex: Knex): Promise<Map<string, Head>> {
   return new Map(rows.map(([k, seq, hash]) => [k, { seq: Number(seq), hash }]));
 }
 
-async function walkAll(knex: Knex, walk: ChainWalk, batchSize: number): Promise<void> {
-  const sql = `SELECT ${COLUMNS} FROM ledger_entries WHERE id > ? ORDER BY id LIMIT ?`;
-  // The next batch is asked for before this one is hashed, so the database and
-  // the hashing overlap.
-  let next = rawRows(knex, sql, [0, batchSize]);
+/** What this walk needs of mysql2's connection: a query whose rows arrive as events. */
+type RowEvents = {
+  on(event: "result", listener: (row: RawRow) => void): RowEvents;
+  on(event: "error", listener: (error: Error) => void): RowEvents;
+  on(event: "end", listener: () => void): RowEvents;
+};
+type RawConnection = {
+  query(options: { sql: string } & typeof ROW_OPTIONS): RowEvents;
+};
+type ConnectionSource = {
+  acquireConnection(): Promise<RawConnection>;
+  releaseConnection(connection: RawConnection): Promise<void>;
+};
+
+/**
+ * One query, each row checked as mysql2 parses it rather than pages collected
+ * into arrays: the database keeps sending while this thread hashes (the socket
+ * buffer is the only queue), rows die young so garbage collection stays cheap,
+ * and the event loop is never held for more than one socket read's rows.
+ */
+async function walkAll(knex: Knex, walk: ChainWalk): Promise<void> {
+  // In the verify transaction this is the transaction's connection, and releasing it is a no-op.
+  const client = knex.client as ConnectionSource;
+  const connection = await client.acquireConnection();
   try {
-    for (;;) {
-      const rows = await next;
-      if (rows.length === 0) return;
-      next =
-        rows.length < batchSize
-          ? Promise.resolve([])
-          : rawRows(knex, sql, [rows[rows.length - 1]![0], batchSize]);
-      walk.rows(rows);
-    }
+    await new Promise<void>((resolve, reject) => {
+      let failed: Error | null = null;
+      connection
+        .query({ sql: `SELECT ${COLUMNS} FROM ledger_entries ORDER BY id`, ...ROW_OPTIONS })
+        .on("result", (row) => {
+          if (failed) return;
+          try {
+            walk.row(row);
+          } catch (error) {
+            failed = error instanceof Error ? error : new Error(String(error));
+          }
+        })
+        .on("error", reject)
+        .on("end", () => (failed ? reject(failed) : resolve()));
+    });
   } finally {
-    await next.catch(() => undefined);
+    await client.releaseConnection(connection);
   }
 }
 
@@ -337,7 +360,7 @@ export async function verifySnapshot(
 
   const heads = await readHeads(knex);
   if (mode === "full") {
-    await walkAll(knex, walk, batchSize);
+    await walkAll(knex, walk);
     for (const [k, a] of anchored) {
       if (walk.broken.has(k)) continue;
       const found = anchorProblems(k, a, heads.get(k), walk.tails.get(k)?.seq ?? 0, anchorTime);

@@ -121,6 +121,38 @@ describe("chain heads are guarded at the database level", () => {
   });
 });
 
+describe("the full verify recomputes what the application wrote", () => {
+  it("at any millisecond, in any script, short rows and long ones", async () => {
+    const patientId = freshPatient();
+    const times = [
+      "2026-12-04T09:00:00.000Z",
+      "2026-12-04T09:00:00.009Z",
+      "2026-12-04T09:00:00.999Z",
+    ];
+    const notes = ["Sättigung 94 % — ok", '呼吸 😀 \u2028 "quoted" \\ \n', "x".repeat(6_000) + "é"];
+    for (const [i, at] of times.entries()) {
+      await appDb().transaction((trx) =>
+        appendLedger(
+          trx,
+          SYSTEM_ACTOR,
+          {
+            action: "reading.chart",
+            entityType: "reading",
+            entityId: i + 1,
+            patientId,
+            after: { note: notes[i] },
+            rationale: notes[i],
+          },
+          new Date(at),
+        ),
+      );
+    }
+    const result = await verifyLedger(appDb(), { anchorPath: null });
+    expect(problemsOf(result, chainKeyFor({ patientId }))).toEqual([]);
+    expect(result.ok).toBe(true);
+  });
+});
+
 describe("anchors outside the database", () => {
   it("anchors a verified ledger; the incremental verify checks only rows after the anchor", async () => {
     const file = anchorFile();

@@ -66,23 +66,38 @@ describe("ledger keys and entry MAC", () => {
 
   it("computes the same MAC on the verifier's fast path as createHmac, for any row", () => {
     const mac = fastLedgerMac(keys.entry);
-    const text = fc.option(fc.string({ unit: "grapheme", maxLength: 200 }), { nil: null });
+    // Any code point, and graphemes (combining marks, emoji with joiners).
+    const anyText = fc.oneof(
+      fc.string({ unit: "binary", maxLength: 300 }),
+      fc.string({ unit: "grapheme", maxLength: 200 }),
+    );
+    const text = fc.option(anyText, { nil: null });
     const id = fc.option(fc.integer({ min: 1, max: 2 ** 31 }), { nil: null });
     fc.assert(
       fc.property(
         fc.string({ maxLength: 64 }),
         fc.nat(),
+        fc.stringMatching(/^[0-9a-f]{64}$/),
         id,
+        fc.date({
+          min: new Date("1000-01-01Z"),
+          max: new Date("9999-12-31Z"),
+          noInvalidDate: true,
+        }),
         text,
         text,
-        (key, seq, actor, a, b) => {
+        text,
+        (key, seq, prevHash, actor, at, before, after, why) => {
           const f = {
             ...base,
             chainKey: key,
             chainSeq: seq,
+            prevHash,
             actorUserId: actor,
-            afterJson: a,
-            rationale: b,
+            occurredAt: at,
+            beforeJson: before,
+            afterJson: after,
+            rationale: why,
           };
           const canonical = canonicalLedgerEntry(
             f.chainKey,
@@ -103,6 +118,37 @@ describe("ledger keys and entry MAC", () => {
           expect(mac(canonical)).toBe(keyedLedgerHash(keys, f));
         },
       ),
+      { numRuns: 3000 },
+    );
+  });
+
+  it("matches createHmac for messages of every size, short and past its reused buffer, in any order", () => {
+    const mac = fastLedgerMac(keys.entry);
+    const hmac = (s: string) => createHmac("sha256", keys.entry).update(s).digest("hex");
+    // Around the buffer's limit (16 KiB less the 64-byte prefix, 3 bytes a unit).
+    const edge = Math.floor((16 * 1024 - 64) / 3);
+    for (const n of [0, 1, 55, 56, 64, 119, 120, edge - 1, edge, edge + 1, 20_000]) {
+      for (const ch of ["a", "é", "€", "😀"]) {
+        const s = ch.repeat(Math.ceil(n / ch.length)).slice(0, n);
+        expect(mac(s)).toBe(hmac(s));
+      }
+    }
+    // One instance, many messages: nothing of a longer message may stay behind in the buffer.
+    fc.assert(
+      fc.property(
+        fc.array(
+          fc.oneof(
+            fc.string({ unit: "binary", maxLength: 100 }),
+            fc.string({ unit: "binary", minLength: edge - 20, maxLength: edge + 20 }),
+            fc.string({ unit: "grapheme", maxLength: 9_000 }),
+          ),
+          { minLength: 1, maxLength: 8 },
+        ),
+        (messages) => {
+          for (const s of messages) expect(mac(s)).toBe(hmac(s));
+        },
+      ),
+      { numRuns: 300 },
     );
   });
 
