@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { formatFio2Value, localDateTimeSchema } from "@/components/bedside/BedsideFormParts";
 import { adjustmentSchema, type AdjustmentReason } from "@/lib/adjustments/schema";
+import { emptyToUndefined } from "@/lib/number-input";
 import { DEVICE_PROFILES, type Device } from "@/lib/orders/devices";
 import type { OrderView } from "@/lib/orders/queries";
 import type { BedsideContext, BedsideSettings } from "@/lib/patients/bedside";
@@ -8,9 +9,6 @@ import { classifySpo2 } from "@/lib/time-in-band";
 
 // The adjustment form's rules apart from its screen: the schema it validates
 // with, the limit warnings shown while typing, and the reason it starts from.
-
-const emptyToUndefined = (v: unknown) =>
-  v === "" || v === null || (typeof v === "number" && Number.isNaN(v)) ? undefined : v;
 
 const SAME = 1e-9;
 

@@ -6,22 +6,13 @@ import { z } from "zod";
 import { Field, inputClasses } from "@/components/ui/Field";
 import { IconCheck, IconWarning } from "@/components/ui/icons";
 import type { FieldErrors } from "@/lib/errors";
+import { toNumber } from "@/lib/number-input";
 import { DEVICE_PROFILES, DEVICES, estimateFio2, type Device } from "@/lib/orders/devices";
 import { wallTimeToInstant, zoneOffsetMs } from "@/lib/time/zone";
 
 // Pieces the bedside forms (adjustment, reading, blood gas) and the blood-gas
 // evaluator share: number inputs, the unit's wall-clock time, the idempotency
 // key, the hydration guard, refusals and the status line.
-
-/**
- * Text inputs (no scroll-wheel changes, a decimal comma accepted); empty is
- * "not given", anything else that is not a number stays NaN for the schema to name.
- */
-export function toNumber(value: unknown): number | undefined {
-  if (typeof value === "number") return value;
-  if (typeof value !== "string" || value.trim() === "") return undefined;
-  return Number(value.trim().replace(",", "."));
-}
 
 const noSubscription = () => () => {};
 

@@ -25,6 +25,7 @@ import { SelectField } from "@/components/ui/SelectField";
 import type { BloodGasInput as BloodGasPayload } from "@/lib/blood-gases/schema";
 import { bloodGasSchema, saturationIssue } from "@/lib/blood-gases/schema";
 import type { BloodGasView } from "@/lib/blood-gases/service";
+import { emptyToUndefined } from "@/lib/number-input";
 import {
   type BloodGasInput as EngineInput,
   type PressureUnit,
@@ -44,8 +45,6 @@ import { BloodGasResult } from "./BloodGasResult";
 
 const shared = bloodGasSchema.shape;
 
-const emptyToUndefined = (v: unknown) =>
-  v === "" || v === null || (typeof v === "number" && Number.isNaN(v)) ? undefined : v;
 const typedNumber = (label: string) =>
   z.number({
     error: (issue) =>

@@ -6,6 +6,7 @@ import {
   type Device,
 } from "@/lib/orders/devices";
 import type { OrderView } from "@/lib/orders/queries";
+import { toNumber } from "@/lib/number-input";
 import { fromMmHg, toMmHg, type PressureUnit } from "@/lib/oxygen";
 
 // ---------------------------------------------------------------------------
@@ -156,12 +157,6 @@ export function initialValues(
   };
 }
 
-// Text inputs (no scroll-wheel changes, a decimal comma accepted); empty is "not given".
-export function parseNumber(text: string): number | undefined {
-  const t = text.trim();
-  return t === "" ? undefined : Number(t.replace(",", "."));
-}
-
 const PAO2_RANGE_MMHG = { min: 40, max: 300 } as const;
 
 export type BuildContext = {
@@ -184,7 +179,7 @@ export function buildOrderInput(
   const errors: Partial<Record<FormField, string>> = {};
   const profile = values.device === "" ? null : DEVICE_PROFILES[values.device];
   const optional = (field: NumericField, label: string): number | undefined => {
-    const n = parseNumber(values[field]);
+    const n = toNumber(values[field]);
     if (n !== undefined && !Number.isFinite(n)) {
       errors[field] = `${label} must be a number.`;
       return undefined;
@@ -211,13 +206,13 @@ export function buildOrderInput(
   const input: Record<string, unknown> = {
     patientId: ctx.patientId,
     device: values.device === "" ? undefined : values.device,
-    spo2Lower: band ? band.lower : parseNumber(values.spo2Lower),
-    spo2Upper: band ? band.upper : parseNumber(values.spo2Upper),
+    spo2Lower: band ? band.lower : toNumber(values.spo2Lower),
+    spo2Upper: band ? band.upper : toNumber(values.spo2Upper),
     pao2Lower,
     pao2Upper,
-    fio2Min: parseNumber(values.fio2Min),
-    fio2Max: parseNumber(values.fio2Max),
-    initialFio2: parseNumber(values.initialFio2),
+    fio2Min: toNumber(values.fio2Min),
+    fio2Max: toNumber(values.fio2Max),
+    initialFio2: toNumber(values.initialFio2),
     peepMin: peep ? optional("peepMin", "PEEP minimum") : undefined,
     peepMax: peep ? optional("peepMax", "PEEP maximum") : undefined,
     initialPeep: peep ? optional("initialPeep", "Starting PEEP") : undefined,
@@ -227,7 +222,7 @@ export function buildOrderInput(
     stepTableId: values.stepTableId === "" ? undefined : Number(values.stepTableId),
     reassessMinutes:
       values.reassessChoice === CUSTOM
-        ? parseNumber(values.reassessCustom)
+        ? toNumber(values.reassessCustom)
         : Number(values.reassessChoice),
     rationale: values.rationale,
     supersedesOrderId: ctx.supersedesOrderId,
@@ -305,7 +300,7 @@ export function stepTableFits(kind: StepTableChoice["kind"], device: Device | ""
 }
 
 export const percentOf = (text: string): string => {
-  const n = parseNumber(text);
+  const n = toNumber(text);
   return n !== undefined && Number.isFinite(n) && n > 0 && n <= 1
     ? `${Math.round(n * 100)}\u00a0%`
     : "—";

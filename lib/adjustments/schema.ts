@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { optionalNumber } from "../number-input";
 import { idempotencyKeySchema } from "../orders/schema";
 
 export const ADJUSTMENT_REASONS = [
@@ -16,12 +17,6 @@ const reasonValues = ADJUSTMENT_REASONS.map((r) => r.value) as [
   ...AdjustmentReason[],
 ];
 
-const optional = (schema: z.ZodNumber) =>
-  z.preprocess(
-    (v) => (v === "" || v === null || (typeof v === "number" && Number.isNaN(v)) ? undefined : v),
-    schema.optional(),
-  );
-
 /** One applied settings change at the bedside. */
 export const adjustmentSchema = z.object({
   patientId: z.number().int().positive(),
@@ -31,13 +26,13 @@ export const adjustmentSchema = z.object({
     .number({ error: "New FiO2 must be a number between 0.21 and 1.00." })
     .min(0.21, "New FiO2 must be between 0.21 and 1.00.")
     .max(1, "New FiO2 must be between 0.21 and 1.00."),
-  toPeep: optional(
+  toPeep: optionalNumber(
     z
       .number()
       .min(0, "New PEEP must be between 0 and 30 cmH2O.")
       .max(30, "New PEEP must be between 0 and 30 cmH2O."),
   ),
-  toFlow: optional(
+  toFlow: optionalNumber(
     z
       .number()
       .min(0.5, "New flow must be between 0.5 and 70 L/min.")

@@ -1,12 +1,7 @@
 import { z } from "zod";
+import { optionalNumber } from "../number-input";
 import { DEVICES } from "../orders/devices";
 import { idempotencyKeySchema } from "../orders/schema";
-
-const optional = (schema: z.ZodNumber) =>
-  z.preprocess(
-    (v) => (v === "" || v === null || (typeof v === "number" && Number.isNaN(v)) ? undefined : v),
-    schema.optional(),
-  );
 
 /**
  * The accepted range of each blood gas value, in the unit it is stored in.
@@ -67,17 +62,17 @@ export const bloodGasSchema = z
     sampleType: z.enum(["arterial", "venous"], {
       error: "Sample type must be arterial or venous.",
     }),
-    ph: optional(between("ph")),
+    ph: optionalNumber(between("ph")),
     pao2: between("pao2"),
     paco2: between("paco2"),
-    hco3: optional(between("hco3")),
-    baseExcess: optional(between("baseExcess")),
-    sao2: optional(saturation),
-    hemoglobin: optional(between("hemoglobin")),
+    hco3: optionalNumber(between("hco3")),
+    baseExcess: optionalNumber(between("baseExcess")),
+    sao2: optionalNumber(saturation),
+    hemoglobin: optionalNumber(between("hemoglobin")),
     device: z.enum(DEVICES, { error: "Choose the device in use at sampling." }),
-    flow: optional(between("flow")),
-    fio2: optional(between("fio2")),
-    peep: optional(between("peep")),
+    flow: optionalNumber(between("flow")),
+    fio2: optionalNumber(between("fio2")),
+    peep: optionalNumber(between("peep")),
     idempotencyKey: idempotencyKeySchema,
   })
   .superRefine((v, ctx) => {

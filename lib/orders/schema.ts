@@ -1,13 +1,8 @@
 import { z } from "zod";
+import { optionalNumber } from "../number-input";
 import { DEVICE_PROFILES, DEVICES } from "./devices";
 
 // One schema per write, shared by the order composer and the server.
-
-const optionalNumber = (schema: z.ZodNumber) =>
-  z.preprocess(
-    (v) => (v === "" || v === null || (typeof v === "number" && Number.isNaN(v)) ? undefined : v),
-    schema.optional(),
-  );
 
 const fio2 = (label: string) =>
   z

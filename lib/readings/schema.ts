@@ -1,13 +1,8 @@
 import { z } from "zod";
+import { optionalNumber } from "../number-input";
 import { DEVICES } from "../orders/devices";
 import { idempotencyKeySchema } from "../orders/schema";
 import { SPO2_READING_RANGE } from "../oxygen/oximetry";
-
-const optional = (schema: z.ZodNumber) =>
-  z.preprocess(
-    (v) => (v === "" || v === null || (typeof v === "number" && Number.isNaN(v)) ? undefined : v),
-    schema.optional(),
-  );
 
 /**
  * Accepted ranges of a reading's numbers; shared with the monitor imports
@@ -29,14 +24,14 @@ export const readingSchema = z.object({
     .number({ error: SPO2_MESSAGE })
     .min(READING_RANGES.spo2.min, SPO2_MESSAGE)
     .max(READING_RANGES.spo2.max, SPO2_MESSAGE),
-  respiratoryRate: optional(
+  respiratoryRate: optionalNumber(
     z
       .number()
       .int("Respiratory rate must be a whole number.")
       .min(2, "Respiratory rate must be between 2 and 80 /min.")
       .max(80, "Respiratory rate must be between 2 and 80 /min."),
   ),
-  pulseRate: optional(
+  pulseRate: optionalNumber(
     z
       .number()
       .int("Pulse rate must be a whole number.")
@@ -44,13 +39,13 @@ export const readingSchema = z.object({
       .max(250, "Pulse rate must be between 20 and 250 /min."),
   ),
   device: z.enum(DEVICES, { error: "Choose the device in use." }),
-  flow: optional(
+  flow: optionalNumber(
     z
       .number()
       .min(0.5, "Flow must be between 0.5 and 70 L/min.")
       .max(70, "Flow must be between 0.5 and 70 L/min."),
   ),
-  fio2: optional(
+  fio2: optionalNumber(
     z
       .number()
       .min(0.21, "FiO2 must be between 0.21 and 1.00.")

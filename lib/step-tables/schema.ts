@@ -1,10 +1,5 @@
 import { z } from "zod";
-
-const optional = (schema: z.ZodNumber) =>
-  z.preprocess(
-    (v) => (v === "" || v === null || (typeof v === "number" && Number.isNaN(v)) ? undefined : v),
-    schema.optional(),
-  );
+import { optionalNumber } from "../number-input";
 
 const fio2 = (label: string) =>
   z
@@ -15,19 +10,19 @@ const fio2 = (label: string) =>
 export const stepRowSchema = z.object({
   fio2Min: fio2("FiO2"),
   fio2Max: fio2("FiO2 (upper end)"),
-  peepMin: optional(
+  peepMin: optionalNumber(
     z
       .number()
       .min(0, "PEEP must be between 0 and 30 cmH2O.")
       .max(30, "PEEP must be between 0 and 30 cmH2O."),
   ),
-  peepMax: optional(
+  peepMax: optionalNumber(
     z
       .number()
       .min(0, "PEEP must be between 0 and 30 cmH2O.")
       .max(30, "PEEP must be between 0 and 30 cmH2O."),
   ),
-  flow: optional(
+  flow: optionalNumber(
     z
       .number()
       .min(0.5, "Flow must be between 0.5 and 70 L/min.")
