@@ -2,7 +2,7 @@ import { z } from "zod";
 import { formatFio2Value, localDateTimeSchema } from "@/components/bedside/BedsideFormParts";
 import { adjustmentSchema, type AdjustmentReason } from "@/lib/adjustments/schema";
 import { emptyToUndefined } from "@/lib/number-input";
-import { DEVICE_PROFILES, type Device } from "@/lib/orders/devices";
+import { DEVICE_PROFILES, type Device } from "@/lib/devices";
 import type { OrderView } from "@/lib/orders/queries";
 import type { BedsideContext, BedsideSettings } from "@/lib/patients/bedside";
 import { classifySpo2 } from "@/lib/time-in-band";

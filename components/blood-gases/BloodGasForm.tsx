@@ -39,7 +39,7 @@ import {
   pressureRangeIn,
   rangeMessage,
 } from "@/lib/oxygenation/schema";
-import { DEVICE_PROFILES, DEVICES, RESPIRATORY_SUPPORT, type Device } from "@/lib/orders/devices";
+import { DEVICE_PROFILES, DEVICES, RESPIRATORY_SUPPORT, type Device } from "@/lib/devices";
 import type { BedsideContext } from "@/lib/patients/bedside";
 import { BloodGasResult } from "./BloodGasResult";
 

@@ -12,7 +12,7 @@ import {
 import { writeOrderAction } from "@/app/(app)/orders/actions";
 import { Button } from "@/components/ui/Button";
 import { IconWarning } from "@/components/ui/icons";
-import { DEVICE_PROFILES, estimateFio2, type Device } from "@/lib/orders/devices";
+import { DEVICE_PROFILES, estimateFio2, type Device } from "@/lib/devices";
 import type { OrderView } from "@/lib/orders/queries";
 import { orderInputSchema } from "@/lib/orders/schema";
 import { toNumber } from "@/lib/number-input";

@@ -3,7 +3,7 @@
 import type { ReactNode } from "react";
 import type { FieldErrors, UseFormRegister, UseFormRegisterReturn } from "react-hook-form";
 import { Field, inputClasses } from "@/components/ui/Field";
-import { DEVICE_PROFILES, DEVICES, type Device } from "@/lib/orders/devices";
+import { DEVICE_PROFILES, DEVICES, type Device } from "@/lib/devices";
 import type { PressureUnit } from "@/lib/oxygen";
 import {
   BAND_CHOICES,

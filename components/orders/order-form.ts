@@ -1,10 +1,5 @@
-import {
-  DEVICE_DEFAULTS,
-  DEVICE_PROFILES,
-  stepTableFitsDevice,
-  TARGET_BAND_PRESETS,
-  type Device,
-} from "@/lib/orders/devices";
+import { DEVICE_DEFAULTS, DEVICE_PROFILES, stepTableFitsDevice, type Device } from "@/lib/devices";
+import { TARGET_BAND_PRESETS } from "@/lib/orders/wording";
 import type { OrderView } from "@/lib/orders/queries";
 import { toNumber } from "@/lib/number-input";
 import { fromMmHg, toMmHg, type PressureUnit } from "@/lib/oxygen";

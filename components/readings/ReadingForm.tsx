@@ -9,7 +9,6 @@ import type { z } from "zod";
 import { chartReadingAction } from "@/app/(app)/patients/[patientId]/actions";
 import { spo2Status } from "@/components/adjustments/BedsideContextCards";
 import {
-  estimateFromFlow,
   formatFio2Value,
   type FormNotice,
   FormStatus,
@@ -25,7 +24,7 @@ import {
 import { DeviceSettingsFields, devicePrefill } from "@/components/bedside/DeviceSettingsFields";
 import { Button, buttonClasses } from "@/components/ui/Button";
 import { StatusBadge } from "@/components/ui/StatusBadge";
-import { DEVICE_PROFILES, DEVICES, type Device } from "@/lib/orders/devices";
+import { DEVICE_PROFILES, DEVICES, estimateFio2, type Device } from "@/lib/devices";
 import type { BedsideContext } from "@/lib/patients/bedside";
 import {
   BELOW_OXIMETER_ACCURACY_LABEL,
@@ -138,7 +137,7 @@ export function ReadingForm({
       ? asNumber(typedFio2)
       : profile.uses.fio2 === "fixed"
         ? 0.21
-        : (estimateFromFlow(chosen, asNumber(typedFlow)) ?? undefined);
+        : (estimateFio2(chosen, asNumber(typedFlow)) ?? undefined);
 
   const onSubmit = handleSubmit(async (values) => {
     setNotice(null);

@@ -4,7 +4,7 @@ import { ConflictError, ForbiddenError, ValidationError } from "../errors";
 import { once } from "../idempotency";
 import { afterSettingsChanged } from "../alerts/service";
 import { appendLedger } from "../ledger/service";
-import { DEVICE_PROFILES, estimateFio2 } from "../orders/devices";
+import { DEVICE_PROFILES, estimateFio2 } from "../devices";
 import type { OrderView } from "../orders/queries";
 import {
   ASSUMED_HEMOGLOBIN,

@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { optionalNumber } from "../number-input";
-import { DEVICES } from "../orders/devices";
+import { DEVICES } from "../devices";
 import { idempotencyKeySchema } from "../orders/schema";
 
 /**

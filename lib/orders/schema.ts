@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { optionalNumber } from "../number-input";
-import { DEVICE_PROFILES, DEVICES } from "./devices";
+import { DEVICE_PROFILES, DEVICES } from "../devices";
 
 // One schema per write, shared by the order composer and the server.
 

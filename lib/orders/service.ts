@@ -10,13 +10,12 @@ import { duplicateIndex, isLockConflict } from "../db-errors";
 import { findOpenAdmission, type OpenAdmission } from "../patients/access";
 import { parseInput } from "../validation";
 import {
-  DESIGNATED_COSIGN_MEANING,
   DEVICE_PROFILES,
   estimateFio2,
-  SIGNATURE_MEANING,
   stepTableFitsDevice,
   stepTableMismatchMessage,
-} from "./devices";
+} from "../devices";
+import { DESIGNATED_COSIGN_MEANING, SIGNATURE_MEANING } from "./wording";
 import { cosignersFor, cosignersText, mayCosign } from "./cosigners";
 import { getCurrentOrder, getOrder, type OrderView } from "./queries";
 import {
