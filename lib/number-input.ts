@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { betweenWords, rangeRefusal, type InputRange } from "./oxygen/ranges";
 
 // How an empty number field is read, in one place for the forms and the
 // shared schemas: "", whitespace, null, undefined and NaN (what an emptied
@@ -33,4 +34,17 @@ export function toNumber(value: unknown): number | undefined {
 /** A schema's optional number: an empty field is "not given", not a refusal. */
 export function optionalNumber<S extends z.ZodType>(schema: S) {
   return z.preprocess(emptyToUndefined, schema.optional());
+}
+
+/**
+ * A number inside a range of the range table, refused in the schemas' words:
+ * "PEEP minimum must be between 0 and 30 cmH2O." (and "… must be a number
+ * between …" when it is not a number at all).
+ */
+export function rangedNumber(label: string, range: InputRange) {
+  const refusal = rangeRefusal(label, range);
+  return z
+    .number({ error: `${label} must be a number ${betweenWords(range)}.` })
+    .min(range.min, refusal)
+    .max(range.max, refusal);
 }

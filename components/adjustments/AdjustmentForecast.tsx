@@ -13,6 +13,7 @@ import { formatFio2Value, formatUnitTime } from "@/components/bedside/BedsideFor
 import { IconInfo, IconWarning } from "@/components/ui/icons";
 import {
   ASSUMED_HEMOGLOBIN,
+  betweenWords,
   type Fio2Forecast,
   forecastFio2Change,
   OxygenInputError,
@@ -107,7 +108,7 @@ export function AdjustmentForecast({
     if (nextFio2 < RANGES.fio2.min || nextFio2 > RANGES.fio2.max) {
       return {
         kind: "refused",
-        message: "FiO2 must be a fraction between 0.21 and 1.00 (0.40 for 40 %) to be forecast.",
+        message: `FiO2 must be a fraction ${betweenWords(RANGES.fio2)} (0.40 for 40 %) to be forecast.`,
       };
     }
     try {

@@ -4,7 +4,7 @@ import type { ReactNode } from "react";
 import type { FieldErrors, UseFormRegister, UseFormRegisterReturn } from "react-hook-form";
 import { Field, inputClasses } from "@/components/ui/Field";
 import { DEVICE_PROFILES, DEVICES, type Device } from "@/lib/devices";
-import type { PressureUnit } from "@/lib/oxygen";
+import { RANGES, type PressureUnit } from "@/lib/oxygen";
 import {
   BAND_CHOICES,
   CUSTOM,
@@ -179,7 +179,9 @@ export function DeviceLimitsSection({
 
       {profile ? (
         <div className="mt-1 space-y-1">
-          <p className="text-sm font-medium">FiO2 (fraction, 0.21–1.00)</p>
+          <p className="text-sm font-medium">
+            FiO2 (fraction, {RANGES.fio2.min.toFixed(2)}–{RANGES.fio2.max.toFixed(2)})
+          </p>
           <div className="grid gap-x-4 sm:grid-cols-3">
             {fio2Input("fio2Min", "FiO2 minimum")}
             {fio2Input("fio2Max", "FiO2 maximum")}

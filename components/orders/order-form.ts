@@ -2,7 +2,7 @@ import { DEVICE_DEFAULTS, DEVICE_PROFILES, stepTableFitsDevice, type Device } fr
 import { TARGET_BAND_PRESETS } from "@/lib/orders/wording";
 import type { OrderView } from "@/lib/orders/queries";
 import { toNumber } from "@/lib/number-input";
-import { fromMmHg, toMmHg, type PressureUnit } from "@/lib/oxygen";
+import { betweenWords, fromMmHg, RANGES, toMmHg, type PressureUnit } from "@/lib/oxygen";
 
 // ---------------------------------------------------------------------------
 // Form values, defaults and the mapping onto the shared order schema
@@ -152,8 +152,6 @@ export function initialValues(
   };
 }
 
-const PAO2_RANGE_MMHG = { min: 40, max: 300 } as const;
-
 export type BuildContext = {
   signer: "physician" | "other";
   pressureUnit: PressureUnit;
@@ -234,10 +232,10 @@ export function buildOrderInput(
 }
 
 function pao2RangeMessage(label: string, unit: PressureUnit): string {
-  if (unit === "mmHg")
-    return `${label} must be between ${PAO2_RANGE_MMHG.min} and ${PAO2_RANGE_MMHG.max} mmHg.`;
+  const range = RANGES.pao2Target;
+  if (unit === "mmHg") return `${label} must be ${betweenWords(range)}.`;
   const kpa = (v: number) => fromMmHg(v, "kPa").toFixed(1);
-  return `${label} must be between ${kpa(PAO2_RANGE_MMHG.min)} and ${kpa(PAO2_RANGE_MMHG.max)} kPa (${PAO2_RANGE_MMHG.min}–${PAO2_RANGE_MMHG.max} mmHg).`;
+  return `${label} must be between ${kpa(range.min)} and ${kpa(range.max)} kPa (${range.min}–${range.max} mmHg).`;
 }
 
 const DIRECT_FIELDS = new Set<string>([
@@ -275,7 +273,7 @@ export function restate(path: string, message: string, unit: PressureUnit): stri
   if (
     unit === "kPa" &&
     (path === "pao2Lower" || path === "pao2Upper") &&
-    /between 40 and 300 mmHg/.test(message)
+    message.includes(betweenWords(RANGES.pao2Target))
   ) {
     return pao2RangeMessage(path === "pao2Lower" ? "PaO2 lower bound" : "PaO2 upper bound", "kPa");
   }

@@ -1,7 +1,7 @@
 "use client";
 
 import { useId } from "react";
-import { MMHG_PER_KPA, type PressureUnit, saturationFromPO2 } from "@/lib/oxygen";
+import { MMHG_PER_KPA, type PressureUnit, RANGES, saturationFromPO2 } from "@/lib/oxygen";
 import { formatNumber, formatPressureNumber, niceAxis, pressureIn } from "./format";
 
 /** A patient's point on the curve: PO2 in mmHg, saturation in %. */
@@ -36,7 +36,7 @@ export function DissociationChart({
   const id = useId();
   const unit = pressureUnit;
   const text = (mmHg: number) => formatPressureNumber(mmHg, unit);
-  const highestMmHg = Math.min(700, Math.max(120, ...points.map((p) => p.po2 * 1.15), (forecastRange?.high ?? 0) * 1.1));
+  const highestMmHg = Math.min(RANGES.pao2.max, Math.max(120, ...points.map((p) => p.po2 * 1.15), (forecastRange?.high ?? 0) * 1.1));
   const axis = niceAxis(pressureIn(highestMmHg, unit));
   const axisMaxMmHg = unit === "kPa" ? axis.max * MMHG_PER_KPA : axis.max;
   const x = (mmHg: number) => M.left + (pressureIn(mmHg, unit) / axis.max) * PW;
@@ -45,7 +45,7 @@ export function DissociationChart({
 
   const steps = 160;
   const curve = Array.from({ length: steps }, (_, i) => {
-    const po2 = 1 + ((Math.min(axisMaxMmHg, 800) - 1) * i) / (steps - 1);
+    const po2 = RANGES.po2.min + ((Math.min(axisMaxMmHg, RANGES.po2.max) - RANGES.po2.min) * i) / (steps - 1);
     return `${i === 0 ? "M" : "L"}${x(po2).toFixed(1)},${y(100 * saturationFromPO2(po2)).toFixed(1)}`;
   }).join(" ");
   const forecastPath = forecastRange

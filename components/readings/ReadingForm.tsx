@@ -31,7 +31,8 @@ import {
   belowOximeterAccuracy,
   OXIMETER_ACCURACY_NOTE,
 } from "@/lib/oxygen/oximetry";
-import { READING_RANGES, readingSchema } from "@/lib/readings/schema";
+import { RANGES } from "@/lib/oxygen/ranges";
+import { readingSchema } from "@/lib/readings/schema";
 
 /**
  * The reading form's schema: the shared readingSchema's fields and messages,
@@ -212,8 +213,8 @@ export function ReadingForm({
             <NumberField form={form} id={id} name="spo2" label="SpO2 (%)" />
             {spo2 !== undefined &&
             Number.isFinite(spo2) &&
-            spo2 >= READING_RANGES.spo2.min &&
-            spo2 <= READING_RANGES.spo2.max ? (
+            spo2 >= RANGES.spo2.min &&
+            spo2 <= RANGES.spo2.max ? (
               <span className="flex flex-wrap items-center gap-1">
                 {context.order ? (
                   <span data-testid="spo2-band">

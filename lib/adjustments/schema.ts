@@ -1,6 +1,7 @@
 import { z } from "zod";
-import { optionalNumber } from "../number-input";
+import { optionalNumber, rangedNumber } from "../number-input";
 import { idempotencyKeySchema } from "../orders/schema";
+import { RANGES } from "../oxygen";
 
 export const ADJUSTMENT_REASONS = [
   { value: "below_band", label: "SpO2 below the target band" },
@@ -22,22 +23,9 @@ export const adjustmentSchema = z.object({
   patientId: z.number().int().positive(),
   /** The bedside settings version the change starts from (conflict guard). */
   settingsVersion: z.number().int().positive(),
-  toFio2: z
-    .number({ error: "New FiO2 must be a number between 0.21 and 1.00." })
-    .min(0.21, "New FiO2 must be between 0.21 and 1.00.")
-    .max(1, "New FiO2 must be between 0.21 and 1.00."),
-  toPeep: optionalNumber(
-    z
-      .number()
-      .min(0, "New PEEP must be between 0 and 30 cmH2O.")
-      .max(30, "New PEEP must be between 0 and 30 cmH2O."),
-  ),
-  toFlow: optionalNumber(
-    z
-      .number()
-      .min(0.5, "New flow must be between 0.5 and 70 L/min.")
-      .max(70, "New flow must be between 0.5 and 70 L/min."),
-  ),
+  toFio2: rangedNumber("New FiO2", RANGES.fio2),
+  toPeep: optionalNumber(rangedNumber("New PEEP", RANGES.peep)),
+  toFlow: optionalNumber(rangedNumber("New flow", RANGES.flow)),
   reason: z.enum(reasonValues, { error: "Choose a reason from the list." }),
   rationale: z
     .string()

@@ -6,10 +6,18 @@
 export const ENGINE_VERSION = "1.0.0";
 
 export { OxygenInputError, type OxygenInputErrorDetails } from "./errors";
-export { RANGES, MIN_ALVEOLAR_PO2, type InputRange } from "./ranges";
+export {
+  RANGES,
+  MIN_ALVEOLAR_PO2,
+  betweenWords,
+  rangeRefusal,
+  unitSuffix,
+  type InputRange,
+  type ClinicalRange,
+  type RangeKey,
+} from "./ranges";
 export { SOURCES } from "./sources";
 export {
-  SPO2_READING_RANGE,
   OXIMETER_ACCURATE_FROM_PCT,
   BELOW_OXIMETER_ACCURACY_LABEL,
   belowOximeterAccuracy,

@@ -219,11 +219,11 @@ function checkOptional(field: string, value: number | undefined, min: number, ma
 function checkInput({ order, current, latestReading, latestBloodGas, barometricPressure }: ProposeStepInput): void {
   const { spo2Target, limits, steps, pao2Target } = order;
   if (pao2Target) {
-    checkRange("order.pao2Target.lower", pao2Target.lower, RANGES.pao2);
-    checkBetween("order.pao2Target.upper", pao2Target.upper, pao2Target.lower, RANGES.pao2.max, RANGES.pao2.unit);
+    checkRange("order.pao2Target.lower", pao2Target.lower, RANGES.pao2Target);
+    checkBetween("order.pao2Target.upper", pao2Target.upper, pao2Target.lower, RANGES.pao2Target.max, RANGES.pao2Target.unit);
   }
-  checkRange("order.spo2Target.lower", spo2Target.lower, RANGES.spo2);
-  checkBetween("order.spo2Target.upper", spo2Target.upper, spo2Target.lower, RANGES.spo2.max, RANGES.spo2.unit);
+  checkRange("order.spo2Target.lower", spo2Target.lower, RANGES.spo2Target);
+  checkBetween("order.spo2Target.upper", spo2Target.upper, spo2Target.lower, RANGES.spo2Target.max, RANGES.spo2Target.unit);
   checkRange("order.limits.fio2Min", limits.fio2Min, RANGES.fio2);
   checkBetween("order.limits.fio2Max", limits.fio2Max, limits.fio2Min, RANGES.fio2.max, RANGES.fio2.unit);
   checkOptional("order.limits.peepMin", limits.peepMin, RANGES.peep.min, RANGES.peep.max, RANGES.peep.unit);
@@ -238,7 +238,7 @@ function checkInput({ order, current, latestReading, latestBloodGas, barometricP
   checkRange("current.fio2", current.fio2, RANGES.fio2);
   if (current.peep !== undefined) checkRange("current.peep", current.peep, RANGES.peep);
   if (current.flow !== undefined) checkRange("current.flow", current.flow, RANGES.flow);
-  checkRange("latestReading.spo2", latestReading.spo2, RANGES.spo2Reading);
+  checkRange("latestReading.spo2", latestReading.spo2, RANGES.spo2);
   if (latestReading.fio2 !== undefined) checkRange("latestReading.fio2", latestReading.fio2, RANGES.fio2);
   if (latestBloodGas) {
     checkRange("latestBloodGas.pao2", latestBloodGas.pao2, RANGES.pao2);

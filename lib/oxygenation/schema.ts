@@ -66,13 +66,8 @@ const PRESSURE_RANGES: Record<PressureField, InputRange> = {
   barometricPressure: RANGES.barometricPressure,
 };
 
-// Percent ranges for the form and the API, derived from the engine's fractions.
+// The form types FiO2 as a percentage: the table's fraction range, in %.
 const FIO2_PERCENT: InputRange = { min: RANGES.fio2.min * 100, max: RANGES.fio2.max * 100, unit: "%" };
-const SAO2_PERCENT: InputRange = {
-  min: RANGES.saturationFraction.min * 100,
-  max: RANGES.saturationFraction.max * 100,
-  unit: "%",
-};
 
 /** `rangeMessage("PaO2", 1.34, 93.32, "kPa")` → "PaO2 must be between 1.34 and 93.32 kPa." */
 export function rangeMessage(label: string, min: number, max: number, unit: string): string {
@@ -162,7 +157,7 @@ const bloodGasFields = {
   paco2: inUnit("paco2"),
   hemoglobin: inUnit("hemoglobin").optional(),
   spo2: measured("spo2", RANGES.spo2).optional(),
-  sao2: measured("sao2", SAO2_PERCENT).optional(),
+  sao2: measured("sao2", RANGES.sao2).optional(),
   support: z
     .enum(RESPIRATORY_SUPPORTS, { error: `Support must be one of: ${RESPIRATORY_SUPPORTS.join(", ")}.` })
     .optional(),
