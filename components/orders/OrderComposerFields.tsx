@@ -4,7 +4,7 @@ import type { ReactNode } from "react";
 import type { FieldErrors, UseFormRegister, UseFormRegisterReturn } from "react-hook-form";
 import { Field, inputClasses } from "@/components/ui/Field";
 import { DEVICE_PROFILES, DEVICES, type Device } from "@/lib/devices";
-import { RANGES, type PressureUnit } from "@/lib/oxygen";
+import { MMHG_PER_KPA, RANGES, type PressureUnit } from "@/lib/oxygen";
 import {
   BAND_CHOICES,
   CUSTOM,
@@ -288,7 +288,7 @@ export function TargetBandSection({
           </div>
           {pressureUnit === "kPa" ? (
             <p className="text-xs text-ink-muted">
-              Typed in kPa; stored in mmHg (1 kPa = 7.50062 mmHg).
+              Typed in kPa; stored in mmHg (1 kPa = {MMHG_PER_KPA} mmHg).
             </p>
           ) : (
             <p className="text-xs text-ink-muted">Leave both empty for no PaO2 band.</p>

@@ -2,7 +2,14 @@ import { DEVICE_DEFAULTS, DEVICE_PROFILES, stepTableFitsDevice, type Device } fr
 import { TARGET_BAND_PRESETS } from "@/lib/orders/wording";
 import type { OrderView } from "@/lib/orders/queries";
 import { toNumber } from "@/lib/number-input";
-import { betweenWords, fromMmHg, RANGES, toMmHg, type PressureUnit } from "@/lib/oxygen";
+import {
+  betweenWords,
+  fromMmHg,
+  RANGES,
+  restatePressureRange,
+  toMmHg,
+  type PressureUnit,
+} from "@/lib/oxygen";
 
 // ---------------------------------------------------------------------------
 // Form values, defaults and the mapping onto the shared order schema
@@ -234,8 +241,9 @@ export function buildOrderInput(
 function pao2RangeMessage(label: string, unit: PressureUnit): string {
   const range = RANGES.pao2Target;
   if (unit === "mmHg") return `${label} must be ${betweenWords(range)}.`;
-  const kpa = (v: number) => fromMmHg(v, "kPa").toFixed(1);
-  return `${label} must be between ${kpa(range.min)} and ${kpa(range.max)} kPa (${range.min}–${range.max} mmHg).`;
+  // To the one decimal the field takes, rounded inward so every value it allows is accepted.
+  const kpa = restatePressureRange(range, "kPa", 1);
+  return `${label} must be between ${kpa.min.toFixed(1)} and ${kpa.max.toFixed(1)} kPa (${range.min}–${range.max} mmHg).`;
 }
 
 const DIRECT_FIELDS = new Set<string>([

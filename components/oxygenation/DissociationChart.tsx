@@ -1,8 +1,8 @@
 "use client";
 
 import { useId } from "react";
-import { MMHG_PER_KPA, type PressureUnit, RANGES, saturationFromPO2 } from "@/lib/oxygen";
-import { formatNumber, formatPressureNumber, niceAxis, pressureIn } from "./format";
+import { convertPressure, pressureIn, type PressureUnit, RANGES, saturationFromPO2 } from "@/lib/oxygen";
+import { formatNumber, formatPressureNumber, niceAxis } from "./format";
 
 /** A patient's point on the curve: PO2 in mmHg, saturation in %. */
 export interface CurvePoint {
@@ -38,7 +38,7 @@ export function DissociationChart({
   const text = (mmHg: number) => formatPressureNumber(mmHg, unit);
   const highestMmHg = Math.min(RANGES.pao2.max, Math.max(120, ...points.map((p) => p.po2 * 1.15), (forecastRange?.high ?? 0) * 1.1));
   const axis = niceAxis(pressureIn(highestMmHg, unit));
-  const axisMaxMmHg = unit === "kPa" ? axis.max * MMHG_PER_KPA : axis.max;
+  const axisMaxMmHg = convertPressure(axis.max, unit, "mmHg");
   const x = (mmHg: number) => M.left + (pressureIn(mmHg, unit) / axis.max) * PW;
   const y = (percent: number) => M.top + PH - (percent / 100) * PH;
   const xTicks = Array.from({ length: Math.round(axis.max / axis.step) + 1 }, (_, i) => i * axis.step);

@@ -6,10 +6,11 @@ import {
   forecastFio2Change,
   type ForecastInput,
   OxygenInputError,
+  pressureIn,
   type PressureUnit,
   RANGES,
 } from "@/lib/oxygen";
-import { formatFio2, formatPressureNumber, niceAxis, pressureIn } from "./format";
+import { formatFio2, formatPressureNumber, niceAxis } from "./format";
 
 export type ModelKey = keyof Fio2Forecast["models"];
 type MarkerShape = "circle" | "square" | "triangle";
