@@ -8,6 +8,7 @@ import {
   type BloodGasAssessment,
   type BloodGasInput,
   type Fio2Forecast,
+  forecastBaseline,
   forecastFio2Change,
   OxygenInputError,
   PEEP_NOT_FORECAST,
@@ -59,13 +60,11 @@ export function OxygenationPanel({ assessment, input, pressureUnit }: Oxygenatio
   const { indices, classification } = assessment;
 
   const baseline = useMemo(
-    () => ({
-      fio2: input.fio2,
-      pao2: input.pao2,
-      paco2: input.paco2,
-      hemoglobin: input.hemoglobin ?? ASSUMED_HEMOGLOBIN,
-      barometricPressure: input.barometricPressure,
-    }),
+    () =>
+      forecastBaseline(
+        { fio2: input.fio2, pao2: input.pao2, paco2: input.paco2, hemoglobin: input.hemoglobin },
+        input.barometricPressure,
+      ),
     [input.fio2, input.pao2, input.paco2, input.hemoglobin, input.barometricPressure],
   );
   const samples = useMemo(() => forecastSamples(baseline), [baseline]);

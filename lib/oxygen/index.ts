@@ -82,6 +82,10 @@ export {
   type ClassifyOxygenationInput,
 } from "./classification";
 export {
+  ASSUMED_HEMOGLOBIN,
+  HEMOGLOBIN_ASSUMED_CAVEAT,
+  forecastBaseline,
+  type BaselineGas,
   ASSUMED_ARTERIOVENOUS_DIFFERENCE,
   FORECAST_ASSUMPTIONS,
   PEEP_NOT_FORECAST,
@@ -99,7 +103,6 @@ export {
   type ArdsNetworkTableName,
 } from "./step-tables";
 export {
-  ASSUMED_HEMOGLOBIN,
   ASSUMED_PACO2,
   HIGHEST_SPO2_FOR_IMPUTING,
   DEFAULT_URGENCY,

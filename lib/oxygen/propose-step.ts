@@ -1,6 +1,14 @@
 import { po2FromSaturation, saturationFromPO2 } from "./dissociation";
 import { OxygenInputError } from "./errors";
-import { forecastFio2Change, PEEP_NOT_FORECAST, type Fio2Forecast } from "./forecast";
+import {
+  ASSUMED_HEMOGLOBIN,
+  forecastBaseline,
+  forecastFio2Change,
+  HEMOGLOBIN_ASSUMED_CAVEAT,
+  PEEP_NOT_FORECAST,
+  type Fio2Forecast,
+  type ForecastInput,
+} from "./forecast";
 import { checkBetween, checkRange, RANGES } from "./ranges";
 import type { SettingValue } from "./step-tables";
 
@@ -113,8 +121,6 @@ export interface Proposal {
   caveats: string[];
 }
 
-/** Used only when the blood gas lacks it, and said so in the caveats. */
-export const ASSUMED_HEMOGLOBIN = 12;
 /** Used only when PaO2 is imputed from SpO2 without a blood gas, and said so. */
 export const ASSUMED_PACO2 = 40;
 /** Above this SpO2 the curve is too flat to impute PaO2 from it. */
@@ -259,10 +265,10 @@ function forecastFor(input: ProposeStepInput, step: ProposedSetting, caveats: st
       `PEEP changes from ${format(current.peep ?? 0, 1)} to ${format(step.peep ?? 0, 1)} cmH2O: its effect is not forecast — re-measure after the change.`,
     );
   }
-  let baseline: { fio2: number; pao2: number; paco2: number; hemoglobin: number };
+  let baseline: Omit<ForecastInput, "nextFio2">;
   if (latestBloodGas) {
-    const { fio2, pao2, paco2, hemoglobin, peep } = latestBloodGas;
-    if (hemoglobin === undefined) caveats.push(`The blood gas has no haemoglobin: ${ASSUMED_HEMOGLOBIN} g/dL assumed for the shunt model.`);
+    const { fio2, pao2, hemoglobin, peep } = latestBloodGas;
+    if (hemoglobin === undefined) caveats.push(HEMOGLOBIN_ASSUMED_CAVEAT);
     if (Math.abs(fio2 - current.fio2) > SAME.fio2) {
       caveats.push(`The blood gas was taken at FiO2 ${format(fio2)}, not the current ${format(current.fio2)}: the forecast starts from the blood gas.`);
     }
@@ -276,7 +282,7 @@ function forecastFor(input: ProposeStepInput, step: ProposedSetting, caveats: st
           "the patient has worsened since the gas, so the forecast is likely optimistic.",
       );
     }
-    baseline = { fio2, pao2, paco2, hemoglobin: hemoglobin ?? ASSUMED_HEMOGLOBIN };
+    baseline = forecastBaseline(latestBloodGas);
   } else if (latestReading.spo2 / 100 < RANGES.saturation.min) {
     caveats.push(`No blood gas, and SpO2 ${latestReading.spo2} % gives no PaO2 to impute: no forecast.`);
     return null;
