@@ -12,9 +12,11 @@ import { formatNumber, formatPressureNumber } from "@/components/oxygenation/for
 import { formatFio2Value, formatUnitTime } from "@/components/bedside/BedsideFormParts";
 import { IconInfo, IconWarning } from "@/components/ui/icons";
 import {
-  ASSUMED_HEMOGLOBIN,
+  betweenWords,
   type Fio2Forecast,
+  forecastBaseline,
   forecastFio2Change,
+  HEMOGLOBIN_ASSUMED_CAVEAT,
   OxygenInputError,
   PEEP_NOT_FORECAST,
   type PressureUnit,
@@ -69,13 +71,7 @@ export function AdjustmentForecast({
   const baseline = useMemo(
     () =>
       arterial
-        ? {
-            fio2: arterial.fio2,
-            pao2: arterial.pao2,
-            paco2: arterial.paco2,
-            hemoglobin: arterial.hb ?? ASSUMED_HEMOGLOBIN,
-            barometricPressure,
-          }
+        ? forecastBaseline({ ...arterial, hemoglobin: arterial.hb }, barometricPressure)
         : null,
     [arterial, barometricPressure],
   );
@@ -107,7 +103,7 @@ export function AdjustmentForecast({
     if (nextFio2 < RANGES.fio2.min || nextFio2 > RANGES.fio2.max) {
       return {
         kind: "refused",
-        message: "FiO2 must be a fraction between 0.21 and 1.00 (0.40 for 40 %) to be forecast.",
+        message: `FiO2 must be a fraction ${betweenWords(RANGES.fio2)} (0.40 for 40 %) to be forecast.`,
       };
     }
     try {
@@ -130,11 +126,7 @@ export function AdjustmentForecast({
       : null;
   const caveats = [
     ...(gas ? [gasAgeCaveat(gas.freshness, arterial !== null)] : []),
-    ...(arterial && arterial.hb === null
-      ? [
-          `The blood gas has no haemoglobin: ${ASSUMED_HEMOGLOBIN} g/dL is assumed for the shunt model.`,
-        ]
-      : []),
+    ...(arterial && arterial.hb === null ? [HEMOGLOBIN_ASSUMED_CAVEAT] : []),
     ...(arterial?.fio2Estimated
       ? [
           "The blood gas was taken on an estimated FiO2 (low-flow device): every model inherits that uncertainty.",

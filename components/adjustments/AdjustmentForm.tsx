@@ -9,7 +9,6 @@ import useSWR, { SWRConfig } from "swr";
 import { recordAdjustmentAction } from "@/lib/adjustments/actions";
 import {
   describeDeviceFio2,
-  estimateFromFlow,
   fetchJson,
   FieldWarning,
   formatFio2Value,
@@ -29,7 +28,7 @@ import { EmptyState } from "@/components/ui/EmptyState";
 import { Field, inputClasses } from "@/components/ui/Field";
 import { ADJUSTMENT_REASONS } from "@/lib/adjustments/schema";
 import type { PressureUnit, ProposalDirection, ProposedSetting } from "@/lib/oxygen";
-import { DEVICE_PROFILES } from "@/lib/orders/devices";
+import { DEVICE_PROFILES, estimateFio2 } from "@/lib/devices";
 import type { OrderView } from "@/lib/orders/queries";
 import type { BedsideContext, BedsideSettings } from "@/lib/chart/bedside";
 import { AdjustmentForecast } from "./AdjustmentForecast";
@@ -206,7 +205,7 @@ function AdjustmentFormBody({
       ? asNumber(typedFio2)
       : uses.fio2 === "fixed"
         ? profile.fio2.min
-        : (estimateFromFlow(device, asNumber(typedFlow)) ?? undefined);
+        : (estimateFio2(device, asNumber(typedFlow)) ?? undefined);
   const warnings = limitWarnings(
     order,
     { fio2: nextFio2, peep: asNumber(typedPeep), flow: asNumber(typedFlow) },
@@ -247,7 +246,7 @@ function AdjustmentFormBody({
         ? values.toFio2
         : uses.fio2 === "fixed"
           ? profile.fio2.min
-          : (estimateFromFlow(device, values.toFlow) ?? undefined);
+          : (estimateFio2(device, values.toFlow) ?? undefined);
     let result: Awaited<ReturnType<typeof recordAdjustmentAction>>;
     try {
       result = await recordAdjustmentAction({

@@ -3,7 +3,7 @@ import { formatPressureNumber } from "@/components/oxygenation/format";
 import { formatFio2Value, formatUnitTime } from "@/components/bedside/BedsideFormParts";
 import { StatusBadge, type Status } from "@/components/ui/StatusBadge";
 import type { PressureUnit } from "@/lib/oxygen";
-import { DEVICE_PROFILES } from "@/lib/orders/devices";
+import { DEVICE_PROFILES } from "@/lib/devices";
 import type { BedsideContext } from "@/lib/chart/bedside";
 import { classifySpo2 } from "@/lib/time-in-band";
 import { Spo2Value } from "@/components/readings/Spo2Value";

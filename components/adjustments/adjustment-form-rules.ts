@@ -1,16 +1,15 @@
 import { z } from "zod";
 import { formatFio2Value, localDateTimeSchema } from "@/components/bedside/BedsideFormParts";
 import { adjustmentSchema, type AdjustmentReason } from "@/lib/adjustments/schema";
-import { DEVICE_PROFILES, type Device } from "@/lib/orders/devices";
+import { emptyToUndefined } from "@/lib/number-input";
+import { betweenWords, RANGES } from "@/lib/oxygen";
+import { DEVICE_PROFILES, type Device } from "@/lib/devices";
 import type { OrderView } from "@/lib/orders/queries";
 import type { BedsideContext, BedsideSettings } from "@/lib/chart/bedside";
 import { classifySpo2 } from "@/lib/time-in-band";
 
 // The adjustment form's rules apart from its screen: the schema it validates
 // with, the limit warnings shown while typing, and the reason it starts from.
-
-const emptyToUndefined = (v: unknown) =>
-  v === "" || v === null || (typeof v === "number" && Number.isNaN(v)) ? undefined : v;
 
 const SAME = 1e-9;
 
@@ -40,7 +39,7 @@ export function adjustmentFormSchema(device: Device, current: BedsideSettings | 
         const issue = (path: string, message: string) =>
           ctx.addIssue({ code: "custom", path: [path], message });
         if (uses.fio2 === "set" && v.toFio2 === undefined)
-          issue("toFio2", "New FiO2 must be a number between 0.21 and 1.00.");
+          issue("toFio2", `New FiO2 must be a number ${betweenWords(RANGES.fio2)}.`);
         if (uses.peep && v.toPeep === undefined)
           issue("toPeep", "New PEEP is required for this device.");
         if (uses.flow && v.toFlow === undefined)
@@ -93,7 +92,7 @@ export function limitWarnings(
   if (finite(typed.fio2)) {
     if (typed.fio2 > 1 && !fio2Estimated) {
       const percent = Math.round(typed.fio2);
-      out.toFio2 = `FiO2 is a fraction between 0.21 and 1.00: type ${formatFio2Value(percent / 100)} for ${percent} %.`;
+      out.toFio2 = `FiO2 is a fraction ${betweenWords(RANGES.fio2)}: type ${formatFio2Value(percent / 100)} for ${percent} %.`;
     } else if (typed.fio2 > limits.fio2Max) {
       out.toFio2 = `${label} ${formatFio2Value(typed.fio2)} is above this order's maximum of ${formatFio2Value(limits.fio2Max)} — ${NEW_ORDER}`;
     } else if (typed.fio2 < limits.fio2Min) {

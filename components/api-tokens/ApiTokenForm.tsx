@@ -15,6 +15,7 @@ import {
   type ApiTokenScope,
 } from "@/lib/api-tokens/schema";
 import { UnitCheckboxes } from "@/components/units/UnitCheckboxes";
+import { toNumber } from "@/lib/number-input";
 import { OwnPasswordField } from "@/components/ui/OwnPasswordField";
 
 type Values = {
@@ -160,9 +161,7 @@ export function ApiTokenForm({ units }: { units: { id: number; label: string }[]
                 className={`${inputClasses} tabular sm:w-40`}
                 aria-invalid={invalid}
                 aria-describedby={d}
-                {...register("validDays", {
-                  setValueAs: (v: unknown) => (v === "" || v === null ? undefined : Number(v)),
-                })}
+                {...register("validDays", { setValueAs: toNumber })}
               />
             )}
           </Field>

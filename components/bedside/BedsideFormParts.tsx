@@ -6,22 +6,13 @@ import { z } from "zod";
 import { Field, inputClasses } from "@/components/ui/Field";
 import { IconCheck, IconWarning } from "@/components/ui/icons";
 import type { FieldErrors } from "@/lib/errors";
-import { DEVICE_PROFILES, DEVICES, estimateFio2, type Device } from "@/lib/orders/devices";
+import { toNumber } from "@/lib/number-input";
+import { DEVICE_PROFILES, DEVICES, estimateFio2, type Device } from "@/lib/devices";
 import { wallTimeToInstant, zoneOffsetMs } from "@/lib/time/zone";
 
 // Pieces the bedside forms (adjustment, reading, blood gas) and the blood-gas
 // evaluator share: number inputs, the unit's wall-clock time, the idempotency
 // key, the hydration guard, refusals and the status line.
-
-/**
- * Text inputs (no scroll-wheel changes, a decimal comma accepted); empty is
- * "not given", anything else that is not a number stays NaN for the schema to name.
- */
-export function toNumber(value: unknown): number | undefined {
-  if (typeof value === "number") return value;
-  if (typeof value !== "string" || value.trim() === "") return undefined;
-  return Number(value.trim().replace(",", "."));
-}
 
 const noSubscription = () => () => {};
 
@@ -336,18 +327,12 @@ export function describeDeviceFio2(device: Device, flow: number | undefined): st
       return `${formatFio2Value(profile.fio2.min)} (room air)`;
     case "estimated": {
       if (flow === undefined || !Number.isFinite(flow)) return "— (type the flow to estimate it)";
-      const estimate = estimateFromFlow(device, flow);
+      const estimate = estimateFio2(device, flow);
       return estimate === null ? "—" : `≈ ${formatFio2Value(estimate)} (estimate)`;
     }
     case "set":
       return "";
   }
-}
-
-/** The same rule of thumb the server applies (lib/orders/devices.ts estimateFio2). */
-export function estimateFromFlow(device: Device, flow: number | undefined): number | null {
-  if (flow === undefined || !Number.isFinite(flow)) return null;
-  return estimateFio2(device, flow);
 }
 
 /** A stored instant as the unit's wall-clock time: "02 Dec 14:05". Deterministic on server and client. */

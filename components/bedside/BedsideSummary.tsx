@@ -7,7 +7,7 @@ import { Spo2Value } from "@/components/readings/Spo2Value";
 import { StatusBadge } from "@/components/ui/StatusBadge";
 import type { Actor } from "@/lib/auth/actor";
 import { can, mayAdjustDevice } from "@/lib/auth/permissions";
-import { DEVICE_PROFILES } from "@/lib/orders/devices";
+import { DEVICE_PROFILES } from "@/lib/devices";
 import { formatPfRatio, formatPressure } from "@/lib/oxygen";
 import type { BedsideContext } from "@/lib/chart/bedside";
 

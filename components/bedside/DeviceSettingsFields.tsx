@@ -8,7 +8,7 @@ import {
   type UseFormReturn,
 } from "react-hook-form";
 import { Field, inputClasses } from "@/components/ui/Field";
-import { DEVICE_PROFILES, DEVICES, type Device } from "@/lib/orders/devices";
+import { DEVICE_PROFILES, DEVICES, type Device } from "@/lib/devices";
 import type { BedsideSettings } from "@/lib/chart/bedside";
 import { describeDeviceFio2, DeviceOptions, flowHint, NumberField } from "./BedsideFormParts";
 

@@ -25,6 +25,7 @@ import { SelectField } from "@/components/ui/SelectField";
 import type { BloodGasInput as BloodGasPayload } from "@/lib/blood-gases/schema";
 import { bloodGasSchema, saturationIssue } from "@/lib/blood-gases/schema";
 import type { BloodGasView } from "@/lib/blood-gases/service";
+import { emptyToUndefined } from "@/lib/number-input";
 import {
   type BloodGasInput as EngineInput,
   type PressureUnit,
@@ -38,14 +39,12 @@ import {
   pressureRangeIn,
   rangeMessage,
 } from "@/lib/oxygenation/schema";
-import { DEVICE_PROFILES, DEVICES, RESPIRATORY_SUPPORT, type Device } from "@/lib/orders/devices";
+import { DEVICE_PROFILES, DEVICES, RESPIRATORY_SUPPORT, type Device } from "@/lib/devices";
 import type { BedsideContext } from "@/lib/chart/bedside";
 import { BloodGasResult } from "./BloodGasResult";
 
 const shared = bloodGasSchema.shape;
 
-const emptyToUndefined = (v: unknown) =>
-  v === "" || v === null || (typeof v === "number" && Number.isNaN(v)) ? undefined : v;
 const typedNumber = (label: string) =>
   z.number({
     error: (issue) =>

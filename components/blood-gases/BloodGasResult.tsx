@@ -9,7 +9,7 @@ import { Button, buttonClasses } from "@/components/ui/Button";
 import { IconCheck } from "@/components/ui/icons";
 import type { BloodGasView } from "@/lib/blood-gases/service";
 import type { BloodGasInput, PressureUnit } from "@/lib/oxygen";
-import { DEVICE_PROFILES } from "@/lib/orders/devices";
+import { DEVICE_PROFILES } from "@/lib/devices";
 
 /**
  * A saved blood gas: what was stored, and for an arterial sample the indices

@@ -1,5 +1,5 @@
-import { niceAxis, pressureIn } from "@/components/oxygenation/format";
-import type { PressureUnit } from "@/lib/oxygen/units";
+import { niceAxis } from "@/components/oxygenation/format";
+import { pressureIn, type PressureUnit } from "@/lib/oxygen/units";
 import type { Trend, TrendBand, TrendSettingsStep } from "@/lib/chart/trend";
 
 // Geometry and scales of the trend drawing: pure functions of a loaded trend,

@@ -3,7 +3,7 @@
 import { zodResolver } from "@hookform/resolvers/zod";
 import { useForm } from "react-hook-form";
 import { cosignOrderAction } from "@/lib/orders/actions";
-import { DESIGNATED_COSIGN_MEANING, SIGNATURE_MEANING } from "@/lib/orders/devices";
+import { DESIGNATED_COSIGN_MEANING, SIGNATURE_MEANING } from "@/lib/orders/wording";
 import { cosignSchema } from "@/lib/orders/schema";
 import { SignedStepFooter, SignPasswordField, useSignedOrderStep } from "./SignedOrderStep";
 

@@ -12,9 +12,10 @@ import {
 import { writeOrderAction } from "@/lib/orders/actions";
 import { Button } from "@/components/ui/Button";
 import { IconWarning } from "@/components/ui/icons";
-import { DEVICE_PROFILES, estimateFio2, type Device } from "@/lib/orders/devices";
+import { DEVICE_PROFILES, estimateFio2, type Device } from "@/lib/devices";
 import type { OrderView } from "@/lib/orders/queries";
 import { orderInputSchema } from "@/lib/orders/schema";
+import { toNumber } from "@/lib/number-input";
 import type { PressureUnit } from "@/lib/oxygen";
 import {
   buildOrderInput,
@@ -22,7 +23,6 @@ import {
   formFieldOf,
   initialValues,
   limitValuesFor,
-  parseNumber,
   restate,
   stepTableFits,
   type ComposerValues,
@@ -156,7 +156,7 @@ export function OrderComposer({
   // A low-flow device delivers what the flow gives: the starting FiO2 follows the flow.
   const followFlow = (flowText: string) => {
     if (device === "" || !estimated) return;
-    const n = parseNumber(flowText);
+    const n = toNumber(flowText);
     const fio2 = n !== undefined && Number.isFinite(n) ? estimateFio2(device, n) : null;
     if (fio2 !== null) setValue("initialFio2", fio2Text(fio2));
   };

@@ -1,7 +1,7 @@
 "use client";
 
 import Link from "next/link";
-import { DEVICE_PROFILES } from "@/lib/orders/devices";
+import { DEVICE_PROFILES } from "@/lib/devices";
 import type { OrderView } from "@/lib/orders/queries";
 import type { PressureUnit } from "@/lib/oxygen";
 import {

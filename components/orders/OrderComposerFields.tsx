@@ -3,8 +3,8 @@
 import type { ReactNode } from "react";
 import type { FieldErrors, UseFormRegister, UseFormRegisterReturn } from "react-hook-form";
 import { Field, inputClasses } from "@/components/ui/Field";
-import { DEVICE_PROFILES, DEVICES, type Device } from "@/lib/orders/devices";
-import type { PressureUnit } from "@/lib/oxygen";
+import { DEVICE_PROFILES, DEVICES, type Device } from "@/lib/devices";
+import { MMHG_PER_KPA, RANGES, type PressureUnit } from "@/lib/oxygen";
 import {
   BAND_CHOICES,
   CUSTOM,
@@ -179,7 +179,9 @@ export function DeviceLimitsSection({
 
       {profile ? (
         <div className="mt-1 space-y-1">
-          <p className="text-sm font-medium">FiO2 (fraction, 0.21–1.00)</p>
+          <p className="text-sm font-medium">
+            FiO2 (fraction, {RANGES.fio2.min.toFixed(2)}–{RANGES.fio2.max.toFixed(2)})
+          </p>
           <div className="grid gap-x-4 sm:grid-cols-3">
             {fio2Input("fio2Min", "FiO2 minimum")}
             {fio2Input("fio2Max", "FiO2 maximum")}
@@ -286,7 +288,7 @@ export function TargetBandSection({
           </div>
           {pressureUnit === "kPa" ? (
             <p className="text-xs text-ink-muted">
-              Typed in kPa; stored in mmHg (1 kPa = 7.50062 mmHg).
+              Typed in kPa; stored in mmHg (1 kPa = {MMHG_PER_KPA} mmHg).
             </p>
           ) : (
             <p className="text-xs text-ink-muted">Leave both empty for no PaO2 band.</p>

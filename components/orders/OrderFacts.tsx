@@ -1,6 +1,6 @@
 import type { ReactNode } from "react";
 import { StatusBadge, type Status } from "@/components/ui/StatusBadge";
-import { DEVICE_PROFILES } from "@/lib/orders/devices";
+import { DEVICE_PROFILES } from "@/lib/devices";
 import type { OrderStatus, OrderView } from "@/lib/orders/queries";
 import { fromMmHg, type PressureUnit } from "@/lib/oxygen";
 

@@ -2,7 +2,7 @@
 
 import type { FieldErrors, UseFormRegister } from "react-hook-form";
 import { Field, inputClasses } from "@/components/ui/Field";
-import { SIGNATURE_MEANING } from "@/lib/orders/devices";
+import { SIGNATURE_MEANING } from "@/lib/orders/wording";
 import type { ComposerValues, PhysicianChoice } from "./order-form";
 import { ChoiceGroup, Section } from "./OrderComposerFields";
 

@@ -1,12 +1,15 @@
-import {
-  DEVICE_DEFAULTS,
-  DEVICE_PROFILES,
-  stepTableFitsDevice,
-  TARGET_BAND_PRESETS,
-  type Device,
-} from "@/lib/orders/devices";
+import { DEVICE_DEFAULTS, DEVICE_PROFILES, stepTableFitsDevice, type Device } from "@/lib/devices";
+import { TARGET_BAND_PRESETS } from "@/lib/orders/wording";
 import type { OrderView } from "@/lib/orders/queries";
-import { fromMmHg, toMmHg, type PressureUnit } from "@/lib/oxygen";
+import { toNumber } from "@/lib/number-input";
+import {
+  betweenWords,
+  fromMmHg,
+  RANGES,
+  restatePressureRange,
+  toMmHg,
+  type PressureUnit,
+} from "@/lib/oxygen";
 
 // ---------------------------------------------------------------------------
 // Form values, defaults and the mapping onto the shared order schema
@@ -156,14 +159,6 @@ export function initialValues(
   };
 }
 
-// Text inputs (no scroll-wheel changes, a decimal comma accepted); empty is "not given".
-export function parseNumber(text: string): number | undefined {
-  const t = text.trim();
-  return t === "" ? undefined : Number(t.replace(",", "."));
-}
-
-const PAO2_RANGE_MMHG = { min: 40, max: 300 } as const;
-
 export type BuildContext = {
   signer: "physician" | "other";
   pressureUnit: PressureUnit;
@@ -184,7 +179,7 @@ export function buildOrderInput(
   const errors: Partial<Record<FormField, string>> = {};
   const profile = values.device === "" ? null : DEVICE_PROFILES[values.device];
   const optional = (field: NumericField, label: string): number | undefined => {
-    const n = parseNumber(values[field]);
+    const n = toNumber(values[field]);
     if (n !== undefined && !Number.isFinite(n)) {
       errors[field] = `${label} must be a number.`;
       return undefined;
@@ -211,13 +206,13 @@ export function buildOrderInput(
   const input: Record<string, unknown> = {
     patientId: ctx.patientId,
     device: values.device === "" ? undefined : values.device,
-    spo2Lower: band ? band.lower : parseNumber(values.spo2Lower),
-    spo2Upper: band ? band.upper : parseNumber(values.spo2Upper),
+    spo2Lower: band ? band.lower : toNumber(values.spo2Lower),
+    spo2Upper: band ? band.upper : toNumber(values.spo2Upper),
     pao2Lower,
     pao2Upper,
-    fio2Min: parseNumber(values.fio2Min),
-    fio2Max: parseNumber(values.fio2Max),
-    initialFio2: parseNumber(values.initialFio2),
+    fio2Min: toNumber(values.fio2Min),
+    fio2Max: toNumber(values.fio2Max),
+    initialFio2: toNumber(values.initialFio2),
     peepMin: peep ? optional("peepMin", "PEEP minimum") : undefined,
     peepMax: peep ? optional("peepMax", "PEEP maximum") : undefined,
     initialPeep: peep ? optional("initialPeep", "Starting PEEP") : undefined,
@@ -227,7 +222,7 @@ export function buildOrderInput(
     stepTableId: values.stepTableId === "" ? undefined : Number(values.stepTableId),
     reassessMinutes:
       values.reassessChoice === CUSTOM
-        ? parseNumber(values.reassessCustom)
+        ? toNumber(values.reassessCustom)
         : Number(values.reassessChoice),
     rationale: values.rationale,
     supersedesOrderId: ctx.supersedesOrderId,
@@ -244,10 +239,11 @@ export function buildOrderInput(
 }
 
 function pao2RangeMessage(label: string, unit: PressureUnit): string {
-  if (unit === "mmHg")
-    return `${label} must be between ${PAO2_RANGE_MMHG.min} and ${PAO2_RANGE_MMHG.max} mmHg.`;
-  const kpa = (v: number) => fromMmHg(v, "kPa").toFixed(1);
-  return `${label} must be between ${kpa(PAO2_RANGE_MMHG.min)} and ${kpa(PAO2_RANGE_MMHG.max)} kPa (${PAO2_RANGE_MMHG.min}–${PAO2_RANGE_MMHG.max} mmHg).`;
+  const range = RANGES.pao2Target;
+  if (unit === "mmHg") return `${label} must be ${betweenWords(range)}.`;
+  // To the one decimal the field takes, rounded inward so every value it allows is accepted.
+  const kpa = restatePressureRange(range, "kPa", 1);
+  return `${label} must be between ${kpa.min.toFixed(1)} and ${kpa.max.toFixed(1)} kPa (${range.min}–${range.max} mmHg).`;
 }
 
 const DIRECT_FIELDS = new Set<string>([
@@ -285,7 +281,7 @@ export function restate(path: string, message: string, unit: PressureUnit): stri
   if (
     unit === "kPa" &&
     (path === "pao2Lower" || path === "pao2Upper") &&
-    /between 40 and 300 mmHg/.test(message)
+    message.includes(betweenWords(RANGES.pao2Target))
   ) {
     return pao2RangeMessage(path === "pao2Lower" ? "PaO2 lower bound" : "PaO2 upper bound", "kPa");
   }
@@ -305,7 +301,7 @@ export function stepTableFits(kind: StepTableChoice["kind"], device: Device | ""
 }
 
 export const percentOf = (text: string): string => {
-  const n = parseNumber(text);
+  const n = toNumber(text);
   return n !== undefined && Number.isFinite(n) && n > 0 && n <= 1
     ? `${Math.round(n * 100)}\u00a0%`
     : "—";

@@ -10,6 +10,7 @@ import { EmptyState } from "@/components/ui/EmptyState";
 import { IconWarning } from "@/components/ui/icons";
 import { SelectField } from "@/components/ui/SelectField";
 import type { FieldErrors } from "@/lib/errors";
+import { emptyToUndefined } from "@/lib/number-input";
 import type { PressureUnit } from "@/lib/oxygen";
 import type { AssessResponse } from "@/lib/oxygenation/evaluate";
 import {
@@ -89,8 +90,6 @@ async function postAssessment(
   }
   return body as AssessResponse;
 }
-
-const toOptional = (value: unknown): unknown => (value === "" ? undefined : value);
 
 /**
  * The Chart's "Evaluate a blood gas": a keyboard-complete form over the shared
@@ -200,7 +199,7 @@ export function BloodGasEvaluator({
               id={id}
               name="support"
               label="Support"
-              registerOptions={{ setValueAs: toOptional }}
+              registerOptions={{ setValueAs: emptyToUndefined }}
               options={RESPIRATORY_SUPPORTS.map((s) => ({ value: s, label: SUPPORT_LABELS[s] }))}
               emptyLabel="Not stated"
             />

@@ -1,8 +1,8 @@
 "use client";
 
 import { useId } from "react";
-import { MMHG_PER_KPA, type PressureUnit, saturationFromPO2 } from "@/lib/oxygen";
-import { formatNumber, formatPressureNumber, niceAxis, pressureIn } from "./format";
+import { convertPressure, pressureIn, type PressureUnit, RANGES, saturationFromPO2 } from "@/lib/oxygen";
+import { formatNumber, formatPressureNumber, niceAxis } from "./format";
 
 /** A patient's point on the curve: PO2 in mmHg, saturation in %. */
 export interface CurvePoint {
@@ -36,16 +36,16 @@ export function DissociationChart({
   const id = useId();
   const unit = pressureUnit;
   const text = (mmHg: number) => formatPressureNumber(mmHg, unit);
-  const highestMmHg = Math.min(700, Math.max(120, ...points.map((p) => p.po2 * 1.15), (forecastRange?.high ?? 0) * 1.1));
+  const highestMmHg = Math.min(RANGES.pao2.max, Math.max(120, ...points.map((p) => p.po2 * 1.15), (forecastRange?.high ?? 0) * 1.1));
   const axis = niceAxis(pressureIn(highestMmHg, unit));
-  const axisMaxMmHg = unit === "kPa" ? axis.max * MMHG_PER_KPA : axis.max;
+  const axisMaxMmHg = convertPressure(axis.max, unit, "mmHg");
   const x = (mmHg: number) => M.left + (pressureIn(mmHg, unit) / axis.max) * PW;
   const y = (percent: number) => M.top + PH - (percent / 100) * PH;
   const xTicks = Array.from({ length: Math.round(axis.max / axis.step) + 1 }, (_, i) => i * axis.step);
 
   const steps = 160;
   const curve = Array.from({ length: steps }, (_, i) => {
-    const po2 = 1 + ((Math.min(axisMaxMmHg, 800) - 1) * i) / (steps - 1);
+    const po2 = RANGES.po2.min + ((Math.min(axisMaxMmHg, RANGES.po2.max) - RANGES.po2.min) * i) / (steps - 1);
     return `${i === 0 ? "M" : "L"}${x(po2).toFixed(1)},${y(100 * saturationFromPO2(po2)).toFixed(1)}`;
   }).join(" ");
   const forecastPath = forecastRange

@@ -1,8 +1,16 @@
 "use client";
 
 import { useId } from "react";
-import { type Fio2Forecast, forecastFio2Change, type ForecastInput, OxygenInputError, type PressureUnit } from "@/lib/oxygen";
-import { formatFio2, formatPressureNumber, niceAxis, pressureIn } from "./format";
+import {
+  type Fio2Forecast,
+  forecastFio2Change,
+  type ForecastInput,
+  OxygenInputError,
+  pressureIn,
+  type PressureUnit,
+  RANGES,
+} from "@/lib/oxygen";
+import { formatFio2, formatPressureNumber, niceAxis } from "./format";
 
 export type ModelKey = keyof Fio2Forecast["models"];
 type MarkerShape = "circle" | "square" | "triangle";
@@ -44,7 +52,7 @@ export interface ForecastSample {
  */
 export function forecastSamples(baseline: Omit<ForecastInput, "nextFio2">): ForecastSample[] {
   const samples: ForecastSample[] = [];
-  for (let percent = 21; percent <= 100; percent++) {
+  for (let percent = RANGES.fio2.min * 100; percent <= RANGES.fio2.max * 100; percent++) {
     const fio2 = percent / 100;
     try {
       const f = forecastFio2Change({ ...baseline, nextFio2: fio2 });
@@ -92,8 +100,8 @@ const H = 290;
 const M = { left: 50, right: 56, top: 32, bottom: 40 };
 const PW = W - M.left - M.right;
 const PH = H - M.top - M.bottom;
-const X_MIN = 0.21;
-const X_MAX = 1;
+const X_MIN = RANGES.fio2.min;
+const X_MAX = RANGES.fio2.max;
 const X_TICKS = [0.21, 0.4, 0.6, 0.8, 1];
 const TABLE_FIO2 = [0.21, 0.3, 0.4, 0.5, 0.6, 0.7, 0.8, 0.9, 1];
 

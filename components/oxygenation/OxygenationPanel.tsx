@@ -8,6 +8,7 @@ import {
   type BloodGasAssessment,
   type BloodGasInput,
   type Fio2Forecast,
+  forecastBaseline,
   forecastFio2Change,
   OxygenInputError,
   PEEP_NOT_FORECAST,
@@ -35,9 +36,12 @@ export interface OxygenationPanelProps {
 }
 
 // Weaning is the usual question: start one step of 0.10 below the measured FiO2.
+// The proposed FiO2 is typed in %: the range table's FiO2 range, in %.
+const FIO2_PERCENT = { min: RANGES.fio2.min * 100, max: RANGES.fio2.max * 100 };
+
 function defaultProposalPercent(fio2: number): number {
   const percent = Math.round(fio2 * 100);
-  return percent - 10 >= 21 ? percent - 10 : Math.min(100, percent + 10);
+  return percent - 10 >= FIO2_PERCENT.min ? percent - 10 : Math.min(FIO2_PERCENT.max, percent + 10);
 }
 
 type ForecastOutcome =
@@ -56,13 +60,11 @@ export function OxygenationPanel({ assessment, input, pressureUnit }: Oxygenatio
   const { indices, classification } = assessment;
 
   const baseline = useMemo(
-    () => ({
-      fio2: input.fio2,
-      pao2: input.pao2,
-      paco2: input.paco2,
-      hemoglobin: input.hemoglobin ?? ASSUMED_HEMOGLOBIN,
-      barometricPressure: input.barometricPressure,
-    }),
+    () =>
+      forecastBaseline(
+        { fio2: input.fio2, pao2: input.pao2, paco2: input.paco2, hemoglobin: input.hemoglobin },
+        input.barometricPressure,
+      ),
     [input.fio2, input.pao2, input.paco2, input.hemoglobin, input.barometricPressure],
   );
   const samples = useMemo(() => forecastSamples(baseline), [baseline]);
@@ -70,8 +72,7 @@ export function OxygenationPanel({ assessment, input, pressureUnit }: Oxygenatio
 
   const outcome = useMemo<ForecastOutcome>(() => {
     const percent = proposedText.trim() === "" ? Number.NaN : Number(proposedText);
-    const min = RANGES.fio2.min * 100;
-    const max = RANGES.fio2.max * 100;
+    const { min, max } = FIO2_PERCENT;
     if (!Number.isFinite(percent) || percent < min || percent > max) {
       return { ok: false, message: `Proposed FiO2 must be between ${min} and ${max} %.` };
     }
@@ -152,8 +153,8 @@ export function OxygenationPanel({ assessment, input, pressureUnit }: Oxygenatio
                   id={`${id}-proposed`}
                   type="number"
                   inputMode="decimal"
-                  min={21}
-                  max={100}
+                  min={FIO2_PERCENT.min}
+                  max={FIO2_PERCENT.max}
                   step={1}
                   value={proposedText}
                   onChange={(e) => setProposedText(e.target.value)}
@@ -163,8 +164,8 @@ export function OxygenationPanel({ assessment, input, pressureUnit }: Oxygenatio
                 />
                 <input
                   type="range"
-                  min={21}
-                  max={100}
+                  min={FIO2_PERCENT.min}
+                  max={FIO2_PERCENT.max}
                   step={1}
                   value={sliderValue}
                   onChange={(e) => setProposedText(e.target.value)}

@@ -1,12 +1,7 @@
-import { MMHG_PER_KPA, type PressureUnit } from "@/lib/oxygen";
+import { pressureIn, type PressureUnit } from "@/lib/oxygen";
 
 // Display helpers for the oxygenation panel. The engine computes in mmHg;
 // pressures are shown in the user's unit: whole mmHg, or kPa to one decimal.
-
-/** A pressure in mmHg expressed in `unit` (no range check: gradients can be negative). */
-export function pressureIn(valueMmHg: number, unit: PressureUnit): number {
-  return unit === "kPa" ? valueMmHg / MMHG_PER_KPA : valueMmHg;
-}
 
 /** A pressure in mmHg as text in `unit`, without the unit. */
 export function formatPressureNumber(valueMmHg: number, unit: PressureUnit, extraDigits = 0): string {
@@ -27,7 +22,7 @@ export const formatFio2 = (fio2: number): string => fio2.toFixed(2);
 export function formatBasisInput(value: number, unit: string, pressureUnit: PressureUnit): string {
   if (unit === "mmHg") {
     const mmHg = `${formatNumber(value, Number.isInteger(value) ? 0 : 1)} mmHg`;
-    return pressureUnit === "kPa" ? `${formatNumber(value / MMHG_PER_KPA, 2)} kPa (${mmHg})` : mmHg;
+    return pressureUnit === "kPa" ? `${formatNumber(pressureIn(value, "kPa"), 2)} kPa (${mmHg})` : mmHg;
   }
   if (unit === "fraction") return formatNumber(value, 2);
   if (unit === "ratio") return formatNumber(value, Math.abs(value) >= 10 ? 0 : 2);

@@ -9,7 +9,6 @@ import type { z } from "zod";
 import { chartReadingAction } from "@/lib/readings/actions";
 import { spo2Status } from "@/components/adjustments/BedsideContextCards";
 import {
-  estimateFromFlow,
   formatFio2Value,
   type FormNotice,
   FormStatus,
@@ -25,14 +24,15 @@ import {
 import { DeviceSettingsFields, devicePrefill } from "@/components/bedside/DeviceSettingsFields";
 import { Button, buttonClasses } from "@/components/ui/Button";
 import { StatusBadge } from "@/components/ui/StatusBadge";
-import { DEVICE_PROFILES, DEVICES, type Device } from "@/lib/orders/devices";
+import { DEVICE_PROFILES, DEVICES, estimateFio2, type Device } from "@/lib/devices";
 import type { BedsideContext } from "@/lib/chart/bedside";
 import {
   BELOW_OXIMETER_ACCURACY_LABEL,
   belowOximeterAccuracy,
   OXIMETER_ACCURACY_NOTE,
 } from "@/lib/oxygen/oximetry";
-import { READING_RANGES, readingSchema } from "@/lib/readings/schema";
+import { RANGES } from "@/lib/oxygen/ranges";
+import { readingSchema } from "@/lib/readings/schema";
 
 /**
  * The reading form's schema: the shared readingSchema's fields and messages,
@@ -138,7 +138,7 @@ export function ReadingForm({
       ? asNumber(typedFio2)
       : profile.uses.fio2 === "fixed"
         ? 0.21
-        : (estimateFromFlow(chosen, asNumber(typedFlow)) ?? undefined);
+        : (estimateFio2(chosen, asNumber(typedFlow)) ?? undefined);
 
   const onSubmit = handleSubmit(async (values) => {
     setNotice(null);
@@ -213,8 +213,8 @@ export function ReadingForm({
             <NumberField form={form} id={id} name="spo2" label="SpO2 (%)" />
             {spo2 !== undefined &&
             Number.isFinite(spo2) &&
-            spo2 >= READING_RANGES.spo2.min &&
-            spo2 <= READING_RANGES.spo2.max ? (
+            spo2 >= RANGES.spo2.min &&
+            spo2 <= RANGES.spo2.max ? (
               <span className="flex flex-wrap items-center gap-1">
                 {context.order ? (
                   <span data-testid="spo2-band">

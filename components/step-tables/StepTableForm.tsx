@@ -11,13 +11,12 @@ import {
 } from "@/lib/step-tables/actions";
 import { Button } from "@/components/ui/Button";
 import { Field, inputClasses } from "@/components/ui/Field";
+import { toNumber } from "@/lib/number-input";
 import type { StepTableView } from "@/lib/step-tables/queries";
 import { stepTableCreateSchema, type StepTableCreateInput } from "@/lib/step-tables/schema";
 
 type Values = StepTableCreateInput;
-const numberInput = {
-  setValueAs: (v: unknown) => (v === "" || v === null ? undefined : Number(v)),
-};
+const numberInput = { setValueAs: toNumber };
 
 /** Create or edit a unit's step table; steps go from least to most support. */
 export function StepTableForm({

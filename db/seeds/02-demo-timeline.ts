@@ -3,7 +3,7 @@ import { recordAdjustment } from "../../lib/adjustments/service";
 import { loadActor } from "../../lib/auth/actor-queries";
 import type { Actor } from "../../lib/auth/actor";
 import { recordBloodGas } from "../../lib/blood-gases/service";
-import { DEVICE_PROFILES, estimateFio2, type Device } from "../../lib/orders/devices";
+import { DEVICE_PROFILES, estimateFio2, type Device } from "../../lib/devices";
 import type { OrderInput } from "../../lib/orders/schema";
 import { writeOrder } from "../../lib/orders/service";
 import { po2FromSaturation } from "../../lib/oxygen";

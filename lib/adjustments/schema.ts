@@ -1,5 +1,7 @@
 import { z } from "zod";
+import { optionalNumber, rangedNumber } from "../number-input";
 import { idempotencyKeySchema } from "../orders/schema";
+import { RANGES } from "../oxygen";
 
 export const ADJUSTMENT_REASONS = [
   { value: "below_band", label: "SpO2 below the target band" },
@@ -16,33 +18,14 @@ const reasonValues = ADJUSTMENT_REASONS.map((r) => r.value) as [
   ...AdjustmentReason[],
 ];
 
-const optional = (schema: z.ZodNumber) =>
-  z.preprocess(
-    (v) => (v === "" || v === null || (typeof v === "number" && Number.isNaN(v)) ? undefined : v),
-    schema.optional(),
-  );
-
 /** One applied settings change at the bedside. */
 export const adjustmentSchema = z.object({
   patientId: z.number().int().positive(),
   /** The bedside settings version the change starts from (conflict guard). */
   settingsVersion: z.number().int().positive(),
-  toFio2: z
-    .number({ error: "New FiO2 must be a number between 0.21 and 1.00." })
-    .min(0.21, "New FiO2 must be between 0.21 and 1.00.")
-    .max(1, "New FiO2 must be between 0.21 and 1.00."),
-  toPeep: optional(
-    z
-      .number()
-      .min(0, "New PEEP must be between 0 and 30 cmH2O.")
-      .max(30, "New PEEP must be between 0 and 30 cmH2O."),
-  ),
-  toFlow: optional(
-    z
-      .number()
-      .min(0.5, "New flow must be between 0.5 and 70 L/min.")
-      .max(70, "New flow must be between 0.5 and 70 L/min."),
-  ),
+  toFio2: rangedNumber("New FiO2", RANGES.fio2),
+  toPeep: optionalNumber(rangedNumber("New PEEP", RANGES.peep)),
+  toFlow: optionalNumber(rangedNumber("New flow", RANGES.flow)),
   reason: z.enum(reasonValues, { error: "Choose a reason from the list." }),
   rationale: z
     .string()

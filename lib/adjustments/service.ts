@@ -4,11 +4,11 @@ import { ConflictError, ForbiddenError, ValidationError } from "../errors";
 import { once } from "../idempotency";
 import { afterSettingsChanged } from "../alerts/service";
 import { appendLedger } from "../ledger/service";
-import { DEVICE_PROFILES, estimateFio2 } from "../orders/devices";
+import { DEVICE_PROFILES, estimateFio2 } from "../devices";
 import type { OrderView } from "../orders/queries";
 import {
-  ASSUMED_HEMOGLOBIN,
   ENGINE_VERSION,
+  forecastBaseline,
   forecastFio2Change,
   OxygenInputError,
   type Fio2Forecast,
@@ -138,12 +138,8 @@ export async function recordAdjustment(
   if (gas && toFio2 !== gas.fio2) {
     try {
       forecast = forecastFio2Change({
-        fio2: gas.fio2,
-        pao2: gas.pao2,
-        paco2: gas.paco2,
-        hemoglobin: gas.hb ?? ASSUMED_HEMOGLOBIN,
+        ...forecastBaseline({ ...gas, hemoglobin: gas.hb }, context.barometricPressure),
         nextFio2: toFio2,
-        barometricPressure: context.barometricPressure,
       });
       forecast.caveats.unshift(gasAgeCaveat(gas.freshness, true));
     } catch (error) {

@@ -1,41 +1,31 @@
 import { z } from "zod";
-import { DEVICES } from "../orders/devices";
+import { DEVICES } from "../devices";
+import { optionalNumber, rangedNumber } from "../number-input";
 import { idempotencyKeySchema } from "../orders/schema";
-
-const optional = (schema: z.ZodNumber) =>
-  z.preprocess(
-    (v) => (v === "" || v === null || (typeof v === "number" && Number.isNaN(v)) ? undefined : v),
-    schema.optional(),
-  );
+import { type ClinicalRange, RANGES, rangeRefusal } from "../oxygen";
 
 /**
- * The accepted range of each blood gas value, in the unit it is stored in.
- * Shared by the form, the server and the file imports (lib/imports).
+ * The blood gas values' ranges from the one table (lib/oxygen/ranges.ts), in
+ * the unit each is stored in; shared by the form, the server and the file
+ * imports (lib/imports).
  */
 export const BLOOD_GAS_RANGES = {
-  ph: { label: "pH", min: 6.5, max: 8, unit: "" },
-  pao2: { label: "PaO2", min: 10, max: 700, unit: "mmHg" },
-  paco2: { label: "PaCO2", min: 10, max: 150, unit: "mmHg" },
-  hco3: { label: "HCO3", min: 2, max: 60, unit: "mmol/L" },
-  baseExcess: { label: "Base excess", min: -30, max: 30, unit: "mmol/L" },
-  // Arterial saturation keeps a physiological floor; a venous (mixed or
-  // central) saturation is normally 60–80 % and falls far lower in shock.
-  sao2: { label: "SaO2", min: 40, max: 100, unit: "%" },
-  svo2: { label: "SvO2/ScvO2", min: 20, max: 100, unit: "%" },
-  hemoglobin: { label: "Haemoglobin", min: 3, max: 25, unit: "g/dL" },
-  flow: { label: "Flow", min: 0.5, max: 70, unit: "L/min" },
-  fio2: { label: "FiO2", min: 0.21, max: 1, unit: "" },
-  peep: { label: "PEEP", min: 0, max: 30, unit: "cmH2O" },
-} as const;
+  ph: RANGES.ph,
+  pao2: RANGES.pao2,
+  paco2: RANGES.paco2,
+  hco3: RANGES.hco3,
+  baseExcess: RANGES.baseExcess,
+  sao2: RANGES.sao2,
+  svo2: RANGES.svo2,
+  hemoglobin: RANGES.hemoglobin,
+  flow: RANGES.flow,
+  fio2: RANGES.fio2,
+  peep: RANGES.peep,
+} as const satisfies Record<string, ClinicalRange>;
 export type BloodGasRangeKey = keyof typeof BLOOD_GAS_RANGES;
 
-const between = (key: BloodGasRangeKey) => {
-  const { label, min, max, unit } = BLOOD_GAS_RANGES[key];
-  return z
-    .number({ error: `${label} must be a number between ${min} and ${max} ${unit}.` })
-    .min(min, `${label} must be between ${min} and ${max} ${unit}.`)
-    .max(max, `${label} must be between ${min} and ${max} ${unit}.`);
-};
+const between = (key: BloodGasRangeKey) =>
+  rangedNumber(BLOOD_GAS_RANGES[key].label, BLOOD_GAS_RANGES[key]);
 
 /** The saturation range of a sample: SaO2 for arterial blood, SvO2/ScvO2 for venous. */
 export function saturationRangeFor(sampleType: "arterial" | "venous") {
@@ -46,15 +36,19 @@ export function saturationRangeFor(sampleType: "arterial" | "venous") {
 export function saturationIssue(sampleType: unknown, value: unknown): string | null {
   if (typeof value !== "number" || !Number.isFinite(value)) return null;
   if (sampleType !== "arterial" && sampleType !== "venous") return null;
-  const { label, min, max, unit } = saturationRangeFor(sampleType);
-  return value < min || value > max ? `${label} must be between ${min} and ${max} ${unit}.` : null;
+  const range = saturationRangeFor(sampleType);
+  return value < range.min || value > range.max ? rangeRefusal(range.label, range) : null;
 }
 
-// Any saturation; the sample type's own range is checked on the whole object.
-const saturation = z
-  .number({ error: "Saturation must be a number between 0 and 100 %." })
-  .min(0, "Saturation must be between 0 and 100 %.")
-  .max(100, "Saturation must be between 0 and 100 %.");
+/** Any saturation in %, before the sample type's own range is checked on the whole gas. */
+export const ANY_SATURATION = {
+  ...RANGES.saturationFraction,
+  min: RANGES.saturationFraction.min * 100,
+  max: RANGES.saturationFraction.max * 100,
+  unit: "%",
+  why: "Any saturation in %; the sample type's range (SaO2 or SvO2/ScvO2) is checked after.",
+} as const satisfies ClinicalRange;
+const saturation = rangedNumber(ANY_SATURATION.label, ANY_SATURATION);
 
 /**
  * One blood gas, pressures in mmHg and haemoglobin in g/dL (the form converts
@@ -67,17 +61,17 @@ export const bloodGasSchema = z
     sampleType: z.enum(["arterial", "venous"], {
       error: "Sample type must be arterial or venous.",
     }),
-    ph: optional(between("ph")),
+    ph: optionalNumber(between("ph")),
     pao2: between("pao2"),
     paco2: between("paco2"),
-    hco3: optional(between("hco3")),
-    baseExcess: optional(between("baseExcess")),
-    sao2: optional(saturation),
-    hemoglobin: optional(between("hemoglobin")),
+    hco3: optionalNumber(between("hco3")),
+    baseExcess: optionalNumber(between("baseExcess")),
+    sao2: optionalNumber(saturation),
+    hemoglobin: optionalNumber(between("hemoglobin")),
     device: z.enum(DEVICES, { error: "Choose the device in use at sampling." }),
-    flow: optional(between("flow")),
-    fio2: optional(between("fio2")),
-    peep: optional(between("peep")),
+    flow: optionalNumber(between("flow")),
+    fio2: optionalNumber(between("fio2")),
+    peep: optionalNumber(between("peep")),
     idempotencyKey: idempotencyKeySchema,
   })
   .superRefine((v, ctx) => {

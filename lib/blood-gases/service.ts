@@ -4,7 +4,7 @@ import { ValidationError } from "../errors";
 import { once } from "../idempotency";
 import { afterBloodGasRecorded } from "../alerts/service";
 import { appendLedger } from "../ledger/service";
-import { RESPIRATORY_SUPPORT, type Device } from "../orders/devices";
+import { RESPIRATORY_SUPPORT, type Device } from "../devices";
 import {
   assessBloodGas,
   barometricPressureAtAltitude,

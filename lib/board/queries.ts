@@ -1,7 +1,7 @@
 import type { Knex } from "knex";
 import { openAlertsByAdmission, type AdmissionAlerts } from "../alerts/queries";
 import { belowOximeterAccuracy } from "../oxygen/oximetry";
-import { DEVICE_PROFILES, type Device } from "../orders/devices";
+import { DEVICE_PROFILES, type Device } from "../devices";
 import { ageInYears, initialsOf } from "../admissions/display";
 import { readingWindow, type WindowReading } from "./reading-window";
 import {

@@ -8,7 +8,7 @@ import {
   type Proposal,
   type SettingValue,
 } from "../oxygen";
-import type { Device } from "../orders/devices";
+import type { Device } from "../devices";
 import { alertConfig } from "../alerts/config";
 import { gasAgeCaveat, gasFreshness, type GasFreshness } from "../blood-gases/freshness";
 import { getEnv } from "../env";

@@ -2,7 +2,7 @@ import type { Knex } from "knex";
 import { ADJUSTMENT_REASONS } from "../adjustments/schema";
 import type { Actor } from "../auth/actor";
 import { ValidationError } from "../errors";
-import { DEVICE_PROFILES, type Device } from "../orders/devices";
+import { DEVICE_PROFILES, type Device } from "../devices";
 import { BELOW_OXIMETER_ACCURACY_LABEL, belowOximeterAccuracy } from "../oxygen/oximetry";
 import { findOpenAdmission } from "../admissions/access";
 

@@ -1,5 +1,5 @@
 import type * as fhir4 from "fhir/r4";
-import { DEVICE_PROFILES, type Device } from "../orders/devices";
+import { DEVICE_PROFILES, type Device } from "../devices";
 import { type Code, FHIR_SYSTEMS, type UcumUnit } from "./codes";
 
 // FHIR datatypes (Quantity, CodeableConcept, Reference) and value texts shared

@@ -1,5 +1,5 @@
 import type * as fhir4 from "fhir/r4";
-import { DEVICE_PROFILES, estimateFio2, type Device } from "../orders/devices";
+import { DEVICE_PROFILES, estimateFio2, type Device } from "../devices";
 import type { OrderView } from "../orders/queries";
 import type { BundleBuilder } from "./builder";
 import {

@@ -2,7 +2,7 @@ import type * as fhir4 from "fhir/r4";
 import type { Knex } from "knex";
 import { ADJUSTMENT_REASONS } from "../adjustments/schema";
 import type { Actor } from "../auth/actor";
-import type { Device } from "../orders/devices";
+import type { Device } from "../devices";
 import { orderQuery, type OrderRow, toOrderView } from "../orders/queries";
 import { getPatientForActor } from "../admissions/queries";
 import {

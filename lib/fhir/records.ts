@@ -1,4 +1,4 @@
-import type { Device } from "../orders/devices";
+import type { Device } from "../devices";
 import type { OrderView } from "../orders/queries";
 import type { ReadingView } from "../readings/service";
 

@@ -1,7 +1,7 @@
 import type { Knex } from "knex";
 import { evaluateBloodGas, type BloodGasValues, type EvaluatedBloodGas } from "../blood-gases/service";
 import { DomainError, fromEngineError } from "../errors";
-import { DEVICE_PROFILES, type Device } from "../orders/devices";
+import { DEVICE_PROFILES, type Device } from "../devices";
 import { resolveFio2 } from "../readings/service";
 import type { RowReason } from "./kinds";
 import type { ImportedBloodGas, ImportedReading } from "./rows";

@@ -1,6 +1,6 @@
 import { z } from "zod";
-import { BLOOD_GAS_RANGES, saturationIssue, type BloodGasRangeKey } from "../blood-gases/schema";
-import { READING_RANGES } from "../readings/schema";
+import { ANY_SATURATION, BLOOD_GAS_RANGES, saturationIssue, type BloodGasRangeKey } from "../blood-gases/schema";
+import { RANGES, unitSuffix } from "../oxygen";
 import {
   MEASURED_FIELDS,
   type BloodGasMeasuredColumn,
@@ -40,12 +40,12 @@ export type ReadingCandidate = {
 };
 
 const fmt = (v: number) => String(Math.round(v * 1000) / 1000);
-const rangeText = (min: number, max: number, unit: string) => `${min}–${max}${unit ? ` ${unit}` : ""}`;
 
-/** A number inside a range, refused with "PaO2 5 mmHg is outside 10–700 mmHg." */
+/** A number inside a range of the range table, refused with "PaO2 5 mmHg is outside 10–700 mmHg." */
 function measured(range: { label: string; min: number; max: number; unit: string }) {
+  const unit = unitSuffix(range.unit);
   const outside = (input: unknown) =>
-    `${range.label} ${typeof input === "number" ? fmt(input) : String(input)}${range.unit ? ` ${range.unit}` : ""} is outside ${rangeText(range.min, range.max, range.unit)}.`;
+    `${range.label} ${typeof input === "number" ? fmt(input) : String(input)}${unit} is outside ${range.min}–${range.max}${unit}.`;
   return z
     .number()
     .min(range.min, { error: (issue) => outside(issue.input) })
@@ -64,7 +64,7 @@ export const importedBloodGasSchema = z.object({
   hco3: gas("hco3").optional(),
   baseExcess: gas("baseExcess").optional(),
   // Any saturation here; the sample type's own range is checked below.
-  sao2: measured({ label: "Saturation", min: 0, max: 100, unit: "%" }).optional(),
+  sao2: measured(ANY_SATURATION).optional(),
   hemoglobin: gas("hemoglobin").optional(),
   fio2: gas("fio2").optional(),
 }).superRefine((v, ctx) => {
@@ -77,8 +77,8 @@ export type ImportedBloodGas = z.infer<typeof importedBloodGasSchema>;
 export const importedReadingSchema = z.object({
   mrn: z.string().min(1),
   takenAt: z.date(),
-  spo2: measured(READING_RANGES.spo2),
-  pulseRate: measured(READING_RANGES.pulseRate)
+  spo2: measured(RANGES.spo2),
+  pulseRate: measured(RANGES.pulseRate)
     .refine(Number.isInteger, { error: "Pulse rate must be a whole number of beats per minute." })
     .optional(),
 });

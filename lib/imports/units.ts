@@ -1,11 +1,27 @@
 import { UcumLhcUtils } from "@lhncbc/ucum-lhc";
-import { HEMOGLOBIN_MONOMER_MOLAR_MASS } from "../oxygen";
+import {
+  convertHemoglobin,
+  convertPressure,
+  type HemoglobinUnit,
+  type PressureUnit,
+  RANGES,
+} from "../oxygen";
 import { MEASURED_FIELDS, UNIT_LABELS, type MeasuredField, type RowReason, type UcumCode } from "./kinds";
 
-// Unit conversion of imported values through the NLM's UCUM implementation, so
-// an analyser's "kPa" or "g/L" is converted by the standard's definitions.
+// Unit conversion of imported values. Pressures and haemoglobin go through the
+// same edge as the forms (lib/oxygen/units.ts), so a value typed and the same
+// value imported are stored alike; that edge's factors are checked against the
+// UCUM standard in tests/reference/units-ucum.test.ts. Percentages and
+// fractions go through the NLM's UCUM implementation.
 
 const ucum = UcumLhcUtils.getInstance();
+
+const PRESSURE_UNITS: Partial<Record<UcumCode, PressureUnit>> = { "mm[Hg]": "mmHg", kPa: "kPa" };
+const HEMOGLOBIN_UNITS: Partial<Record<UcumCode, HemoglobinUnit>> = {
+  "g/dL": "g/dL",
+  "g/L": "g/L",
+  "mmol/L": "mmol/L",
+};
 
 /** Spellings analysers send that are not UCUM codes, mapped to the code meant. */
 const UNIT_ALIASES: Record<string, UcumCode> = {
@@ -64,7 +80,9 @@ export function unitMismatch(field: MeasuredField, value: number, unit: UcumCode
   if ((field === "sao2" || field === "spo2" || field === "fio2") && unit === "1" && value > 1) {
     return says("a percentage");
   }
-  if (field === "hemoglobin" && unit === "g/dL" && value > 30) return says("g/L");
+  if (field === "hemoglobin" && unit === "g/dL" && value > RANGES.hemoglobinGramsPerDecilitre.max) {
+    return says("g/L");
+  }
   return undefined;
 }
 
@@ -92,12 +110,18 @@ export function convertToStored(
   }
   const target = storedUnit(field);
   if (unit === target) return { ok: true, value };
-  const result = ucum.convertUnitTo(
-    unit,
-    value,
-    target,
-    field === "hemoglobin" ? { molecularWeight: HEMOGLOBIN_MONOMER_MOLAR_MASS } : {},
-  );
+  // Unchecked conversions: the row schema then checks the stored value against the range table.
+  const pressureFrom = PRESSURE_UNITS[unit];
+  const pressureTo = PRESSURE_UNITS[target];
+  if (pressureFrom && pressureTo) {
+    return { ok: true, value: convertPressure(value, pressureFrom, pressureTo) };
+  }
+  const hemoglobinFrom = HEMOGLOBIN_UNITS[unit];
+  const hemoglobinTo = HEMOGLOBIN_UNITS[target];
+  if (field === "hemoglobin" && hemoglobinFrom && hemoglobinTo) {
+    return { ok: true, value: convertHemoglobin(value, hemoglobinFrom, hemoglobinTo) };
+  }
+  const result = ucum.convertUnitTo(unit, value, target);
   if (result.status !== "succeeded" || result.toVal === null) {
     return {
       ok: false,

@@ -1,6 +1,6 @@
 import type { Knex } from "knex";
 import { unitCosigners, type Cosigners } from "./cosigners";
-import type { Device } from "./devices";
+import type { Device } from "../devices";
 
 export type OrderStatus = "draft" | "awaiting_cosign" | "active" | "superseded" | "discontinued";
 

@@ -1,34 +1,18 @@
 import { z } from "zod";
-import { DEVICE_PROFILES, DEVICES } from "./devices";
+import { optionalNumber, rangedNumber } from "../number-input";
+import { betweenWords, RANGES } from "../oxygen";
+import { DEVICE_PROFILES, DEVICES } from "../devices";
 
 // One schema per write, shared by the order composer and the server.
 
-const optionalNumber = (schema: z.ZodNumber) =>
-  z.preprocess(
-    (v) => (v === "" || v === null || (typeof v === "number" && Number.isNaN(v)) ? undefined : v),
-    schema.optional(),
+const fio2 = (label: string) => rangedNumber(label, RANGES.fio2);
+const peep = (label: string) => rangedNumber(label, RANGES.peep);
+const flow = (label: string) => rangedNumber(label, RANGES.flow);
+const pao2 = (label: string) => rangedNumber(label, RANGES.pao2Target);
+const spo2Bound = (label: string) =>
+  rangedNumber(label, RANGES.spo2Target).int(
+    `${label} must be a whole number ${betweenWords(RANGES.spo2Target)}.`,
   );
-
-const fio2 = (label: string) =>
-  z
-    .number({ error: `${label} must be a number between 0.21 and 1.00.` })
-    .min(0.21, `${label} must be between 0.21 and 1.00.`)
-    .max(1, `${label} must be between 0.21 and 1.00.`);
-const peep = (label: string) =>
-  z
-    .number({ error: `${label} must be a number between 0 and 30 cmH2O.` })
-    .min(0, `${label} must be between 0 and 30 cmH2O.`)
-    .max(30, `${label} must be between 0 and 30 cmH2O.`);
-const flow = (label: string) =>
-  z
-    .number({ error: `${label} must be a number between 0.5 and 70 L/min.` })
-    .min(0.5, `${label} must be between 0.5 and 70 L/min.`)
-    .max(70, `${label} must be between 0.5 and 70 L/min.`);
-const pao2 = (label: string) =>
-  z
-    .number()
-    .min(40, `${label} must be between 40 and 300 mmHg.`)
-    .max(300, `${label} must be between 40 and 300 mmHg.`);
 
 export const idempotencyKeySchema = z
   .string()
@@ -38,16 +22,8 @@ export const idempotencyKeySchema = z
 export const orderFieldsSchema = z.object({
   patientId: z.number().int().positive(),
   device: z.enum(DEVICES, { error: "Choose a delivery device." }),
-  spo2Lower: z
-    .number({ error: "SpO2 lower bound must be a whole number between 70 and 100 %." })
-    .int("SpO2 lower bound must be a whole number between 70 and 100 %.")
-    .min(70, "SpO2 lower bound must be between 70 and 100 %.")
-    .max(100, "SpO2 lower bound must be between 70 and 100 %."),
-  spo2Upper: z
-    .number({ error: "SpO2 upper bound must be a whole number between 70 and 100 %." })
-    .int("SpO2 upper bound must be a whole number between 70 and 100 %.")
-    .min(70, "SpO2 upper bound must be between 70 and 100 %.")
-    .max(100, "SpO2 upper bound must be between 70 and 100 %."),
+  spo2Lower: spo2Bound("SpO2 lower bound"),
+  spo2Upper: spo2Bound("SpO2 upper bound"),
   pao2Lower: optionalNumber(pao2("PaO2 lower bound")),
   pao2Upper: optionalNumber(pao2("PaO2 upper bound")),
   fio2Min: fio2("FiO2 minimum"),

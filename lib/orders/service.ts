@@ -9,13 +9,12 @@ import { appendLedger } from "../ledger/service";
 import { duplicateIndex, isLockWaitTimeout } from "../db-errors";
 import { findOpenAdmission, type OpenAdmission } from "../admissions/access";
 import {
-  DESIGNATED_COSIGN_MEANING,
   DEVICE_PROFILES,
   estimateFio2,
-  SIGNATURE_MEANING,
   stepTableFitsDevice,
   stepTableMismatchMessage,
-} from "./devices";
+} from "../devices";
+import { DESIGNATED_COSIGN_MEANING, SIGNATURE_MEANING } from "./wording";
 import { cosignersFor, cosignersText, mayCosign } from "./cosigners";
 import { getCurrentOrder, getOrder, type OrderView } from "./queries";
 import { type orderInputSchema, type CosignData, type DiscontinueData, type OrderData } from "./schema";

@@ -8,6 +8,7 @@ import {
   STANDARD_BAROMETRIC_PRESSURE,
 } from "./gas";
 import { expectedAaGradient, oxygenationIndex, oxygenSaturationIndex, pfRatio, roxIndex, sfRatio } from "./indices";
+import { BELOW_OXIMETER_ACCURACY_LABEL, belowOximeterAccuracy, OXIMETER_ACCURATE_FROM_PCT } from "./oximetry";
 import { checkRange, type InputRange, RANGES } from "./ranges";
 import { SOURCES } from "./sources";
 
@@ -186,15 +187,27 @@ export function assessBloodGas(input: BloodGasInput): BloodGasAssessment {
     });
   }
 
-  if (spo2 !== undefined) {
-    indices.sfRatio = index(sfRatio(spo2, fio2), "ratio", {
+  // Any SpO2 an oximeter shows is accepted; the indices built on it need one
+  // at or above their floor (RANGES.spo2Index), and are marked below 70 %.
+  const indexSpo2 = spo2 !== undefined && spo2 >= RANGES.spo2Index.min ? spo2 : undefined;
+  if (spo2 !== undefined && belowOximeterAccuracy(spo2)) {
+    caveats.push(
+      indexSpo2 === undefined
+        ? `SpO2 ${spo2} % is ${BELOW_OXIMETER_ACCURACY_LABEL} and under ${RANGES.spo2Index.min} %: S/F, OSI, ROX and the S/F criterion are not computed from it.`
+        : `SpO2 ${spo2} % is ${BELOW_OXIMETER_ACCURACY_LABEL} (under ${OXIMETER_ACCURATE_FROM_PCT} %): S/F, OSI and ROX carry its error; confirm with a measured SaO2.`,
+    );
+  }
+  if (indexSpo2 !== undefined) {
+    indices.sfRatio = index(sfRatio(indexSpo2, fio2), "ratio", {
       name: "S/F ratio",
       formula: "S/F = SpO2 (%) / FiO2",
-      inputs: { SpO2: { value: spo2, unit: "%" }, FiO2 },
+      inputs: { SpO2: { value: indexSpo2, unit: "%" }, FiO2 },
       source: SOURCES.sfRatio,
       assumptions: ["Valid only with SpO2 ≤ 97 %; above it the curve is flat and S/F says little."],
     });
-    if (spo2 > 97) caveats.push(`SpO2 ${spo2} % is above 97 %: the S/F ratio is not interpretable.`);
+    if (indexSpo2 > 97) caveats.push(`SpO2 ${indexSpo2} % is above 97 %: the S/F ratio is not interpretable.`);
+  }
+  if (spo2 !== undefined) {
     const expected = 100 * saturationFromPO2(pao2);
     if (Math.abs(expected - spo2) > 4) {
       caveats.push(
@@ -260,28 +273,29 @@ export function assessBloodGas(input: BloodGasInput): BloodGasAssessment {
       source: SOURCES.oxygenationIndex,
       assumptions: [percentAssumption, "Validated mainly in invasively ventilated children."],
     });
-    if (spo2 !== undefined) {
-      indices.oxygenSaturationIndex = index(oxygenSaturationIndex({ fio2, meanAirwayPressure, spo2 }), "index", {
+    if (indexSpo2 !== undefined) {
+      const osi = oxygenSaturationIndex({ fio2, meanAirwayPressure, spo2: indexSpo2 });
+      indices.oxygenSaturationIndex = index(osi, "index", {
         name: "Oxygen saturation index (OSI)",
         formula: "OSI = FiO2 (%) × MAP / SpO2 (%)",
-        inputs: { FiO2, MAP, SpO2: { value: spo2, unit: "%" } },
+        inputs: { FiO2, MAP, SpO2: { value: indexSpo2, unit: "%" } },
         source: SOURCES.oxygenSaturationIndex,
         assumptions: [percentAssumption, "Valid only with SpO2 ≤ 97 %."],
       });
     }
   }
 
-  if (spo2 !== undefined && respiratoryRate !== undefined) {
-    indices.roxIndex = index(roxIndex({ spo2, fio2, respiratoryRate }), "index", {
+  if (indexSpo2 !== undefined && respiratoryRate !== undefined) {
+    indices.roxIndex = index(roxIndex({ spo2: indexSpo2, fio2, respiratoryRate }), "index", {
       name: "ROX index",
       formula: "ROX = (SpO2 (%) / FiO2) / RR",
-      inputs: { SpO2: { value: spo2, unit: "%" }, FiO2, RR: { value: respiratoryRate, unit: "/min" } },
+      inputs: { SpO2: { value: indexSpo2, unit: "%" }, FiO2, RR: { value: respiratoryRate, unit: "/min" } },
       source: SOURCES.rox,
       assumptions: ["Validated in patients on high-flow nasal oxygen."],
     });
     if (support !== "hfnc") caveats.push("The ROX index is validated on high-flow nasal oxygen only.");
   }
 
-  const classification = classifyOxygenation({ pao2, spo2, fio2, peep, support, flow, barometricPressure });
+  const classification = classifyOxygenation({ pao2, spo2: indexSpo2, fio2, peep, support, flow, barometricPressure });
   return { indices, classification, inconsistent, caveats };
 }

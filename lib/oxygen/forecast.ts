@@ -9,6 +9,40 @@ import {
 } from "./gas";
 import { checkRange, MIN_ALVEOLAR_PO2, RANGES } from "./ranges";
 
+/** Used only when the blood gas lacks it, and said so in the caveats. */
+export const ASSUMED_HEMOGLOBIN = 12;
+
+/** The caveat of a forecast from a gas without haemoglobin. */
+export const HEMOGLOBIN_ASSUMED_CAVEAT = `The blood gas has no haemoglobin: ${ASSUMED_HEMOGLOBIN} g/dL assumed for the shunt model.`;
+
+/** The blood gas a forecast starts from, as the bedside and the forms hold it. */
+export interface BaselineGas {
+  /** FiO2 at which the gas was taken */
+  fio2: number;
+  /** mmHg */
+  pao2: number;
+  /** mmHg */
+  paco2: number;
+  /** g/dL; null or absent when not measured */
+  hemoglobin?: number | null;
+}
+
+/**
+ * The one baseline of every FiO2 forecast (the bedside proposal, the recorded
+ * adjustment, the adjustment form and the oxygenation panel): the arterial gas
+ * as measured, at the FiO2 it was taken at — not the setting now — with
+ * ASSUMED_HEMOGLOBIN where it has none, at the unit's barometric pressure.
+ */
+export function forecastBaseline(gas: BaselineGas, barometricPressure?: number): Omit<ForecastInput, "nextFio2"> {
+  return {
+    fio2: gas.fio2,
+    pao2: gas.pao2,
+    paco2: gas.paco2,
+    hemoglobin: gas.hemoglobin ?? ASSUMED_HEMOGLOBIN,
+    ...(barometricPressure !== undefined ? { barometricPressure } : {}),
+  };
+}
+
 /** Assumed arterio-venous O2 content difference for the shunt model, mL O2/dL. */
 export const ASSUMED_ARTERIOVENOUS_DIFFERENCE = 5;
 

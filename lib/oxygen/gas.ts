@@ -1,5 +1,5 @@
 import { checkBetween, checkRange, MIN_ALVEOLAR_PO2, RANGES } from "./ranges";
-import { MMHG_PER_KPA } from "./units";
+import { convertPressure } from "./units";
 
 export const STANDARD_BAROMETRIC_PRESSURE = 760;
 /** Saturated water vapour pressure at 37 °C, mmHg. */
@@ -71,5 +71,5 @@ export function alveolarPO2({
 export function barometricPressureAtAltitude(metres: number): number {
   checkRange("metres", metres, RANGES.altitude);
   const pascals = 101325 * (1 - 2.25577e-5 * metres) ** 5.25588;
-  return (pascals / 1000) * MMHG_PER_KPA;
+  return convertPressure(pascals / 1000, "kPa", "mmHg");
 }

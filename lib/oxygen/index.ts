@@ -6,10 +6,18 @@
 export const ENGINE_VERSION = "1.0.0";
 
 export { OxygenInputError, type OxygenInputErrorDetails } from "./errors";
-export { RANGES, MIN_ALVEOLAR_PO2, type InputRange } from "./ranges";
+export {
+  RANGES,
+  MIN_ALVEOLAR_PO2,
+  betweenWords,
+  rangeRefusal,
+  unitSuffix,
+  type InputRange,
+  type ClinicalRange,
+  type RangeKey,
+} from "./ranges";
 export { SOURCES } from "./sources";
 export {
-  SPO2_READING_RANGE,
   OXIMETER_ACCURATE_FROM_PCT,
   BELOW_OXIMETER_ACCURACY_LABEL,
   belowOximeterAccuracy,
@@ -20,6 +28,11 @@ export {
   HEMOGLOBIN_MONOMER_MOLAR_MASS,
   toMmHg,
   fromMmHg,
+  convertPressure,
+  pressureIn,
+  restatePressureRange,
+  convertHemoglobin,
+  roundInward,
   toGramsPerDecilitre,
   fromGramsPerDecilitre,
   formatPressure,
@@ -69,6 +82,10 @@ export {
   type ClassifyOxygenationInput,
 } from "./classification";
 export {
+  ASSUMED_HEMOGLOBIN,
+  HEMOGLOBIN_ASSUMED_CAVEAT,
+  forecastBaseline,
+  type BaselineGas,
   ASSUMED_ARTERIOVENOUS_DIFFERENCE,
   FORECAST_ASSUMPTIONS,
   PEEP_NOT_FORECAST,
@@ -86,7 +103,6 @@ export {
   type ArdsNetworkTableName,
 } from "./step-tables";
 export {
-  ASSUMED_HEMOGLOBIN,
   ASSUMED_PACO2,
   HIGHEST_SPO2_FOR_IMPUTING,
   DEFAULT_URGENCY,

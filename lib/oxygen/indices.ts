@@ -9,7 +9,7 @@ export function pfRatio(pao2: number, fio2: number): number {
 
 /** S/F ratio: SpO2 (%) / FiO2 (Rice et al. 2007). Uninformative above SpO2 97 %. */
 export function sfRatio(spo2: number, fio2: number): number {
-  checkRange("spo2", spo2, RANGES.spo2);
+  checkRange("spo2", spo2, RANGES.spo2Index);
   checkRange("fio2", fio2, RANGES.fio2);
   return spo2 / fio2;
 }
@@ -48,7 +48,7 @@ export function oxygenSaturationIndex({
 }): number {
   checkRange("fio2", fio2, RANGES.fio2);
   checkRange("meanAirwayPressure", meanAirwayPressure, RANGES.meanAirwayPressure);
-  checkRange("spo2", spo2, RANGES.spo2);
+  checkRange("spo2", spo2, RANGES.spo2Index);
   return (fio2 * 100 * meanAirwayPressure) / spo2;
 }
 

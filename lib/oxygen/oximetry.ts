@@ -4,12 +4,6 @@
  */
 
 /**
- * Any SpO2 a pulse oximeter can display. Nothing inside this range is refused:
- * the deepest desaturations are the ones that must be charted and alerted.
- */
-export const SPO2_READING_RANGE = { min: 0, max: 100, unit: "%" } as const;
-
-/**
  * Below this SpO2 a pulse oximeter is outside the range its accuracy is stated
  * for: the ISO 80601-2-61 accuracy requirement (Arms ≤ 4 %) covers SaO2
  * 70–100 % (recollection), and 70 % is the usual floor of the stated accuracy

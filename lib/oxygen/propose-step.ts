@@ -1,6 +1,14 @@
 import { po2FromSaturation, saturationFromPO2 } from "./dissociation";
 import { OxygenInputError } from "./errors";
-import { forecastFio2Change, PEEP_NOT_FORECAST, type Fio2Forecast } from "./forecast";
+import {
+  ASSUMED_HEMOGLOBIN,
+  forecastBaseline,
+  forecastFio2Change,
+  HEMOGLOBIN_ASSUMED_CAVEAT,
+  PEEP_NOT_FORECAST,
+  type Fio2Forecast,
+  type ForecastInput,
+} from "./forecast";
 import { checkBetween, checkRange, RANGES } from "./ranges";
 import type { SettingValue } from "./step-tables";
 
@@ -113,8 +121,6 @@ export interface Proposal {
   caveats: string[];
 }
 
-/** Used only when the blood gas lacks it, and said so in the caveats. */
-export const ASSUMED_HEMOGLOBIN = 12;
 /** Used only when PaO2 is imputed from SpO2 without a blood gas, and said so. */
 export const ASSUMED_PACO2 = 40;
 /** Above this SpO2 the curve is too flat to impute PaO2 from it. */
@@ -219,11 +225,11 @@ function checkOptional(field: string, value: number | undefined, min: number, ma
 function checkInput({ order, current, latestReading, latestBloodGas, barometricPressure }: ProposeStepInput): void {
   const { spo2Target, limits, steps, pao2Target } = order;
   if (pao2Target) {
-    checkRange("order.pao2Target.lower", pao2Target.lower, RANGES.pao2);
-    checkBetween("order.pao2Target.upper", pao2Target.upper, pao2Target.lower, RANGES.pao2.max, RANGES.pao2.unit);
+    checkRange("order.pao2Target.lower", pao2Target.lower, RANGES.pao2Target);
+    checkBetween("order.pao2Target.upper", pao2Target.upper, pao2Target.lower, RANGES.pao2Target.max, RANGES.pao2Target.unit);
   }
-  checkRange("order.spo2Target.lower", spo2Target.lower, RANGES.spo2);
-  checkBetween("order.spo2Target.upper", spo2Target.upper, spo2Target.lower, RANGES.spo2.max, RANGES.spo2.unit);
+  checkRange("order.spo2Target.lower", spo2Target.lower, RANGES.spo2Target);
+  checkBetween("order.spo2Target.upper", spo2Target.upper, spo2Target.lower, RANGES.spo2Target.max, RANGES.spo2Target.unit);
   checkRange("order.limits.fio2Min", limits.fio2Min, RANGES.fio2);
   checkBetween("order.limits.fio2Max", limits.fio2Max, limits.fio2Min, RANGES.fio2.max, RANGES.fio2.unit);
   checkOptional("order.limits.peepMin", limits.peepMin, RANGES.peep.min, RANGES.peep.max, RANGES.peep.unit);
@@ -238,7 +244,7 @@ function checkInput({ order, current, latestReading, latestBloodGas, barometricP
   checkRange("current.fio2", current.fio2, RANGES.fio2);
   if (current.peep !== undefined) checkRange("current.peep", current.peep, RANGES.peep);
   if (current.flow !== undefined) checkRange("current.flow", current.flow, RANGES.flow);
-  checkRange("latestReading.spo2", latestReading.spo2, RANGES.spo2Reading);
+  checkRange("latestReading.spo2", latestReading.spo2, RANGES.spo2);
   if (latestReading.fio2 !== undefined) checkRange("latestReading.fio2", latestReading.fio2, RANGES.fio2);
   if (latestBloodGas) {
     checkRange("latestBloodGas.pao2", latestBloodGas.pao2, RANGES.pao2);
@@ -259,10 +265,10 @@ function forecastFor(input: ProposeStepInput, step: ProposedSetting, caveats: st
       `PEEP changes from ${format(current.peep ?? 0, 1)} to ${format(step.peep ?? 0, 1)} cmH2O: its effect is not forecast — re-measure after the change.`,
     );
   }
-  let baseline: { fio2: number; pao2: number; paco2: number; hemoglobin: number };
+  let baseline: Omit<ForecastInput, "nextFio2">;
   if (latestBloodGas) {
-    const { fio2, pao2, paco2, hemoglobin, peep } = latestBloodGas;
-    if (hemoglobin === undefined) caveats.push(`The blood gas has no haemoglobin: ${ASSUMED_HEMOGLOBIN} g/dL assumed for the shunt model.`);
+    const { fio2, pao2, hemoglobin, peep } = latestBloodGas;
+    if (hemoglobin === undefined) caveats.push(HEMOGLOBIN_ASSUMED_CAVEAT);
     if (Math.abs(fio2 - current.fio2) > SAME.fio2) {
       caveats.push(`The blood gas was taken at FiO2 ${format(fio2)}, not the current ${format(current.fio2)}: the forecast starts from the blood gas.`);
     }
@@ -276,7 +282,7 @@ function forecastFor(input: ProposeStepInput, step: ProposedSetting, caveats: st
           "the patient has worsened since the gas, so the forecast is likely optimistic.",
       );
     }
-    baseline = { fio2, pao2, paco2, hemoglobin: hemoglobin ?? ASSUMED_HEMOGLOBIN };
+    baseline = forecastBaseline(latestBloodGas);
   } else if (latestReading.spo2 / 100 < RANGES.saturation.min) {
     caveats.push(`No blood gas, and SpO2 ${latestReading.spo2} % gives no PaO2 to impute: no forecast.`);
     return null;

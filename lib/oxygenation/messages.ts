@@ -1,9 +1,10 @@
 import {
-  fromGramsPerDecilitre,
+  convertHemoglobin,
   type HemoglobinUnit,
-  MMHG_PER_KPA,
   type OxygenInputError,
+  pressureIn,
   type PressureUnit,
+  roundInward,
 } from "../oxygen";
 import { FIELD_LABELS, rangeMessage } from "./schema";
 
@@ -15,11 +16,6 @@ export interface TypedUnits {
 
 const DECIMALS: Record<string, number> = { mmHg: 0, kPa: 2, "g/dL": 1, "g/L": 0, "mmol/L": 2, fraction: 3 };
 
-// Rounded inward: every value inside the stated range is accepted.
-function inward(min: number, max: number, unit: string): [number, number] {
-  const scale = 10 ** (DECIMALS[unit] ?? 2);
-  return [Math.ceil(min * scale - 1e-9) / scale, Math.floor(max * scale + 1e-9) / scale];
-}
 
 /**
  * An engine refusal (OxygenInputError, always in mmHg, g/dL and fractions)
@@ -31,12 +27,13 @@ export function describeInputError(error: OxygenInputError, units: TypedUnits): 
   const label = FIELD_LABELS[error.field] ?? error.field;
   let { min, max, unit } = error;
   if (unit === "mmHg" && units.pressureUnit === "kPa") {
-    [min, max, unit] = [min / MMHG_PER_KPA, max / MMHG_PER_KPA, "kPa"];
+    [min, max, unit] = [pressureIn(min, "kPa"), pressureIn(max, "kPa"), "kPa"];
   } else if (unit === "g/dL" && units.hemoglobinUnit !== "g/dL") {
-    const factor = fromGramsPerDecilitre(1, units.hemoglobinUnit);
-    [min, max, unit] = [min * factor, max * factor, units.hemoglobinUnit];
+    const to = units.hemoglobinUnit;
+    [min, max, unit] = [convertHemoglobin(min, "g/dL", to), convertHemoglobin(max, "g/dL", to), to];
   }
-  [min, max] = inward(min, max, unit);
+  // Rounded inward: every value inside the stated range is accepted.
+  [min, max] = roundInward(min, max, DECIMALS[unit] ?? 2);
   const base = rangeMessage(label, min, max, unit);
   // The engine's message is "<field> must be between … (unit); got v — reason".
   const reason = error.message.split(" — ")[1]?.replace(/\d+\.\d{3,}/g, (n) => Number(n).toFixed(1));

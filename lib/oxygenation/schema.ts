@@ -3,12 +3,13 @@ import {
   type BloodGasInput,
   type ForecastInput,
   fromGramsPerDecilitre,
-  fromMmHg,
   type HemoglobinUnit,
   type InputRange,
   type PressureUnit,
   RANGES,
+  restatePressureRange,
   type RespiratorySupport,
+  roundInward,
   toGramsPerDecilitre,
   toMmHg,
 } from "../oxygen";
@@ -66,13 +67,8 @@ const PRESSURE_RANGES: Record<PressureField, InputRange> = {
   barometricPressure: RANGES.barometricPressure,
 };
 
-// Percent ranges for the form and the API, derived from the engine's fractions.
+// The form types FiO2 as a percentage: the table's fraction range, in %.
 const FIO2_PERCENT: InputRange = { min: RANGES.fio2.min * 100, max: RANGES.fio2.max * 100, unit: "%" };
-const SAO2_PERCENT: InputRange = {
-  min: RANGES.saturationFraction.min * 100,
-  max: RANGES.saturationFraction.max * 100,
-  unit: "%",
-};
 
 /** `rangeMessage("PaO2", 1.34, 93.32, "kPa")` → "PaO2 must be between 1.34 and 93.32 kPa." */
 export function rangeMessage(label: string, min: number, max: number, unit: string): string {
@@ -82,15 +78,11 @@ export function rangeMessage(label: string, min: number, max: number, unit: stri
 
 // Bounds converted to kPa or mmol/L are rounded inward to two decimals, so any
 // value the message allows is also inside the engine's range once converted.
-const DECIMALS = 100;
-const roundUp = (value: number) => Math.ceil(value * DECIMALS - 1e-9) / DECIMALS;
-const roundDown = (value: number) => Math.floor(value * DECIMALS + 1e-9) / DECIMALS;
+const DECIMALS = 2;
 
 /** A pressure field's accepted range in `unit` (the engine's mmHg range, converted). */
 export function pressureRangeIn(field: PressureField, unit: PressureUnit): InputRange {
-  const range = PRESSURE_RANGES[field];
-  if (unit === "mmHg") return range;
-  return { min: roundUp(fromMmHg(range.min, unit)), max: roundDown(fromMmHg(range.max, unit)), unit };
+  return restatePressureRange(PRESSURE_RANGES[field], unit, DECIMALS);
 }
 
 /** Haemoglobin's accepted range in `unit` (the engine's g/dL range, converted). */
@@ -101,12 +93,14 @@ export function hemoglobinRangeIn(unit: HemoglobinUnit): InputRange {
       return range;
     case "g/L":
       return { min: fromGramsPerDecilitre(range.min, unit), max: fromGramsPerDecilitre(range.max, unit), unit };
-    case "mmol/L":
-      return {
-        min: roundUp(fromGramsPerDecilitre(range.min, unit)),
-        max: roundDown(fromGramsPerDecilitre(range.max, unit)),
-        unit,
-      };
+    case "mmol/L": {
+      const [min, max] = roundInward(
+        fromGramsPerDecilitre(range.min, unit),
+        fromGramsPerDecilitre(range.max, unit),
+        DECIMALS,
+      );
+      return { min, max, unit };
+    }
   }
 }
 
@@ -162,7 +156,7 @@ const bloodGasFields = {
   paco2: inUnit("paco2"),
   hemoglobin: inUnit("hemoglobin").optional(),
   spo2: measured("spo2", RANGES.spo2).optional(),
-  sao2: measured("sao2", SAO2_PERCENT).optional(),
+  sao2: measured("sao2", RANGES.sao2).optional(),
   support: z
     .enum(RESPIRATORY_SUPPORTS, { error: `Support must be one of: ${RESPIRATORY_SUPPORTS.join(", ")}.` })
     .optional(),

@@ -1,61 +1,29 @@
 import { z } from "zod";
-import { DEVICES } from "../orders/devices";
+import { DEVICES } from "../devices";
+import { optionalNumber, rangedNumber } from "../number-input";
 import { idempotencyKeySchema } from "../orders/schema";
-import { SPO2_READING_RANGE } from "../oxygen/oximetry";
+import { RANGES } from "../oxygen";
 
-const optional = (schema: z.ZodNumber) =>
-  z.preprocess(
-    (v) => (v === "" || v === null || (typeof v === "number" && Number.isNaN(v)) ? undefined : v),
-    schema.optional(),
-  );
-
-/**
- * Accepted ranges of a reading's numbers; shared with the monitor imports
- * (lib/imports). SpO2 takes anything an oximeter shows: the deepest
- * desaturations must be charted, never refused.
- */
-export const READING_RANGES = {
-  spo2: { label: "SpO2", ...SPO2_READING_RANGE },
-  pulseRate: { label: "Pulse rate", min: 20, max: 250, unit: "/min" },
-} as const;
-
-const SPO2_MESSAGE = `SpO2 must be between ${READING_RANGES.spo2.min} and ${READING_RANGES.spo2.max} %.`;
+// Ranges from the one table (lib/oxygen/ranges.ts), shared with the monitor
+// imports: SpO2 takes anything an oximeter shows, since the deepest
+// desaturations must be charted, never refused.
 
 /** One charted observation: SpO2 with the device and oxygen in use. */
 export const readingSchema = z.object({
   patientId: z.number().int().positive(),
   takenAt: z.coerce.date({ error: "Time taken must be a date and time." }),
-  spo2: z
-    .number({ error: SPO2_MESSAGE })
-    .min(READING_RANGES.spo2.min, SPO2_MESSAGE)
-    .max(READING_RANGES.spo2.max, SPO2_MESSAGE),
-  respiratoryRate: optional(
-    z
-      .number()
-      .int("Respiratory rate must be a whole number.")
-      .min(2, "Respiratory rate must be between 2 and 80 /min.")
-      .max(80, "Respiratory rate must be between 2 and 80 /min."),
+  spo2: rangedNumber("SpO2", RANGES.spo2),
+  respiratoryRate: optionalNumber(
+    rangedNumber("Respiratory rate", RANGES.respiratoryRate).int(
+      "Respiratory rate must be a whole number.",
+    ),
   ),
-  pulseRate: optional(
-    z
-      .number()
-      .int("Pulse rate must be a whole number.")
-      .min(20, "Pulse rate must be between 20 and 250 /min.")
-      .max(250, "Pulse rate must be between 20 and 250 /min."),
+  pulseRate: optionalNumber(
+    rangedNumber("Pulse rate", RANGES.pulseRate).int("Pulse rate must be a whole number."),
   ),
   device: z.enum(DEVICES, { error: "Choose the device in use." }),
-  flow: optional(
-    z
-      .number()
-      .min(0.5, "Flow must be between 0.5 and 70 L/min.")
-      .max(70, "Flow must be between 0.5 and 70 L/min."),
-  ),
-  fio2: optional(
-    z
-      .number()
-      .min(0.21, "FiO2 must be between 0.21 and 1.00.")
-      .max(1, "FiO2 must be between 0.21 and 1.00."),
-  ),
+  flow: optionalNumber(rangedNumber("Flow", RANGES.flow)),
+  fio2: optionalNumber(rangedNumber("FiO2", RANGES.fio2)),
   idempotencyKey: idempotencyKeySchema,
 });
 export type ReadingInput = z.input<typeof readingSchema>;

@@ -4,7 +4,7 @@ import { ValidationError } from "../errors";
 import { once } from "../idempotency";
 import { afterReadingsCharted } from "../alerts/service";
 import { appendLedger } from "../ledger/service";
-import { DEVICE_PROFILES, estimateFio2, type Device } from "../orders/devices";
+import { DEVICE_PROFILES, estimateFio2, type Device } from "../devices";
 import { findOpenAdmission } from "../admissions/access";
 import { type ReadingData } from "./schema";
 

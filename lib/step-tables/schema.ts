@@ -1,38 +1,15 @@
 import { z } from "zod";
+import { optionalNumber, rangedNumber } from "../number-input";
+import { RANGES } from "../oxygen";
 
-const optional = (schema: z.ZodNumber) =>
-  z.preprocess(
-    (v) => (v === "" || v === null || (typeof v === "number" && Number.isNaN(v)) ? undefined : v),
-    schema.optional(),
-  );
-
-const fio2 = (label: string) =>
-  z
-    .number({ error: `${label} must be a number between 0.21 and 1.00.` })
-    .min(0.21, `${label} must be between 0.21 and 1.00.`)
-    .max(1, `${label} must be between 0.21 and 1.00.`);
+const fio2 = (label: string) => rangedNumber(label, RANGES.fio2);
 
 export const stepRowSchema = z.object({
   fio2Min: fio2("FiO2"),
   fio2Max: fio2("FiO2 (upper end)"),
-  peepMin: optional(
-    z
-      .number()
-      .min(0, "PEEP must be between 0 and 30 cmH2O.")
-      .max(30, "PEEP must be between 0 and 30 cmH2O."),
-  ),
-  peepMax: optional(
-    z
-      .number()
-      .min(0, "PEEP must be between 0 and 30 cmH2O.")
-      .max(30, "PEEP must be between 0 and 30 cmH2O."),
-  ),
-  flow: optional(
-    z
-      .number()
-      .min(0.5, "Flow must be between 0.5 and 70 L/min.")
-      .max(70, "Flow must be between 0.5 and 70 L/min."),
-  ),
+  peepMin: optionalNumber(rangedNumber("PEEP", RANGES.peep)),
+  peepMax: optionalNumber(rangedNumber("PEEP", RANGES.peep)),
+  flow: optionalNumber(rangedNumber("Flow", RANGES.flow)),
 });
 export type StepRowInput = z.input<typeof stepRowSchema>;
 

@@ -2,7 +2,7 @@ import { readFileSync } from "node:fs";
 import { join } from "node:path";
 import { can, mayAdjustDevice } from "@/lib/auth/permissions";
 import type { Role } from "@/lib/auth/roles";
-import { DEVICE_PROFILES } from "@/lib/orders/devices";
+import { DEVICE_PROFILES } from "@/lib/devices";
 import {
   OWN,
   freshPatient,

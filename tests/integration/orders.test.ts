@@ -6,11 +6,8 @@ import { closeDb } from "@/lib/db";
 import { ConflictError, ForbiddenError, NotFoundError, ValidationError } from "@/lib/errors";
 import { listLedgerForEntity } from "@/lib/ledger/queries";
 import { verifyLedger } from "@/lib/ledger/verify";
-import {
-  DESIGNATED_COSIGN_MEANING,
-  SIGNATURE_MEANING,
-  stepTableMismatchMessage,
-} from "@/lib/orders/devices";
+import { stepTableMismatchMessage } from "@/lib/devices";
+import { DESIGNATED_COSIGN_MEANING, SIGNATURE_MEANING } from "@/lib/orders/wording";
 import { getBedsideContext } from "@/lib/chart/bedside";
 import { getOrder, listCosignQueue } from "@/lib/orders/queries";
 import { PAO2_BAND_INCOMPLETE, type OrderInput } from "@/lib/orders/schema";

@@ -7,7 +7,7 @@ import {
   limitWarnings,
 } from "@/components/adjustments/AdjustmentForm";
 import type { AdjustmentView } from "@/lib/adjustments/service";
-import type { Device } from "@/lib/orders/devices";
+import type { Device } from "@/lib/devices";
 import type { OrderView } from "@/lib/orders/queries";
 import type { BedsideContext } from "@/lib/chart/bedside";
 

@@ -169,7 +169,7 @@ describe("OrderComposer", () => {
     type("PaO2 lower (kPa)", "4");
     type("PaO2 upper (kPa)", "12");
     fireEvent.click(screen.getByRole("button", { name: "Sign order" }));
-    await screen.findByText("PaO2 lower bound must be between 5.3 and 40.0 kPa (40–300 mmHg).");
+    await screen.findByText("PaO2 lower bound must be between 5.4 and 39.9 kPa (40–300 mmHg).");
   });
 
   it("shows a conflict with a reload link, keeping what was typed", async () => {

@@ -118,11 +118,11 @@ describe("assess request: refusals name the field and the range in the unit type
   });
 
   it("names every refused field at once, including missing and non-numeric ones", () => {
-    const errors = fieldErrorsOf(assessRequestSchema, { pressureUnit: "kPa", pao2: "high", paco2: 30, spo2: 30 });
+    const errors = fieldErrorsOf(assessRequestSchema, { pressureUnit: "kPa", pao2: "high", paco2: 30, spo2: 130 });
     expect(errors.fio2).toEqual(["Enter FiO2."]);
     expect(errors.pao2).toEqual(["PaO2 must be a number."]);
     expect(errors.paco2).toEqual(["PaCO2 must be between 1.34 and 19.99 kPa."]);
-    expect(errors.spo2).toEqual(["SpO2 must be between 40 and 100 %."]);
+    expect(errors.spo2).toEqual(["SpO2 must be between 0 and 100 %."]);
   });
 
   it("refuses an unknown unit and unknown keys", () => {

@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { can, mayAdjustDevice, PERMISSIONS, type Permission } from "@/lib/auth/permissions";
 import { ROLES, type Role } from "@/lib/auth/roles";
-import { DEVICE_PROFILES } from "@/lib/orders/devices";
+import { DEVICE_PROFILES } from "@/lib/devices";
 
 // The roles table of DEVELOPERS.md, written out independently of the code.
 const TABLE: Record<Permission, Role[]> = {

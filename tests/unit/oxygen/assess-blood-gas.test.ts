@@ -84,6 +84,23 @@ describe("assessBloodGas", () => {
     expect(caveats).toContain("The ROX index is validated on high-flow nasal oxygen only.");
   });
 
+  it("accepts any SpO2 an oximeter shows: under 70 % marked, under 40 % no SpO2 indices", () => {
+    const marked = assessBloodGas({ ...full, spo2: 60 });
+    expect(marked.indices.sfRatio?.value).toBeCloseTo(60 / 0.6, 10);
+    expect(marked.caveats.filter((c) => c.includes("below oximeter accuracy"))).toHaveLength(1);
+    const deep = assessBloodGas({ ...full, spo2: 30 });
+    expect(deep.indices.sfRatio).toBeUndefined();
+    expect(deep.indices.oxygenSaturationIndex).toBeUndefined();
+    expect(deep.indices.roxIndex).toBeUndefined();
+    expect(deep.indices.pfRatio.value).toBeCloseTo(75 / 0.6, 10);
+    expect(deep.caveats).toContain(
+      "SpO2 30 % is below oximeter accuracy and under 40 %: S/F, OSI, ROX and the S/F criterion are not computed from it.",
+    );
+    expect(deep.classification.global.values.sfRatio).toBeUndefined();
+    expect(assessBloodGas({ ...full, spo2: 0 }).indices.sfRatio).toBeUndefined();
+    expect(assessBloodGas(full).caveats.some((c) => c.includes("below oximeter accuracy"))).toBe(false);
+  });
+
   it("includes the Berlin and global classification of the same inputs", () => {
     const { classification } = assessBloodGas(full);
     expect(classification).toEqual(

@@ -1,6 +1,8 @@
 import { describe, expect, it } from "vitest";
 import {
   ASSUMED_ARTERIOVENOUS_DIFFERENCE,
+  ASSUMED_HEMOGLOBIN,
+  forecastBaseline,
   forecastFio2Change,
   InconsistentBloodGasError,
   PEEP_NOT_FORECAST,
@@ -95,5 +97,13 @@ describe("forecastFio2Change", () => {
     expect(flat.caveats.some((caveat) => caveat.includes("flat part"))).toBe(true);
     const steep = forecastFio2Change({ fio2: 0.4, pao2: 50, paco2: 40, hemoglobin: 12, nextFio2: 0.45 });
     expect(steep.caveats.some((caveat) => caveat.includes("flat part"))).toBe(false);
+  });
+});
+
+describe("forecastBaseline", () => {
+  it("starts from the gas at its own FiO2, with the unit's pressure and the assumed haemoglobin when none was measured", () => {
+    const gas = { fio2: 0.45, pao2: 68, paco2: 44, hemoglobin: null, peep: 10 };
+    expect(forecastBaseline(gas, 700)).toEqual({ fio2: 0.45, pao2: 68, paco2: 44, hemoglobin: ASSUMED_HEMOGLOBIN, barometricPressure: 700 });
+    expect(forecastBaseline({ ...gas, hemoglobin: 9.5 })).toEqual({ fio2: 0.45, pao2: 68, paco2: 44, hemoglobin: 9.5 });
   });
 });

@@ -112,6 +112,7 @@ describe("properties", () => {
         bloodGas,
         fc.record({
           spo2: within(RANGES.spo2),
+          indexSpo2: within(RANGES.spo2Index),
           sao2: within(RANGES.saturationFraction),
           peep: within(RANGES.peep),
           meanAirwayPressure: within(RANGES.meanAirwayPressure),
@@ -128,10 +129,10 @@ describe("properties", () => {
           peakPressure: between(60, 80),
         }),
         (gas, extra) => {
-          const { nextFio2, metres, heightCm, tidalVolumeMl, plateauPressure, peakPressure, ...rest } = extra;
+          const { nextFio2, metres, heightCm, tidalVolumeMl, plateauPressure, peakPressure, indexSpo2, ...rest } = extra;
           expectAllFinite(assessBloodGas({ ...gas, ...rest }));
           expectAllFinite(forecastFio2Change({ ...gas, nextFio2 }));
-          expectAllFinite(classifyOxygenation({ ...gas, ...rest }));
+          expectAllFinite(classifyOxygenation({ ...gas, ...rest, spo2: indexSpo2 }));
           expectAllFinite(barometricPressureAtAltitude(metres));
           expectAllFinite(predictedBodyWeight({ heightCm, sex: "female" }));
           expectAllFinite(staticCompliance({ tidalVolumeMl, plateauPressure, peep: rest.peep }));
@@ -139,8 +140,8 @@ describe("properties", () => {
             mechanicalPower({ respiratoryRate: rest.respiratoryRate, tidalVolumeMl, peakPressure, plateauPressure, peep: rest.peep }),
           );
           expectAllFinite(oxygenContent({ hemoglobin: gas.hemoglobin, saturation: rest.sao2, po2: gas.pao2 }));
-          expectAllFinite(roxIndex({ spo2: rest.spo2, fio2: gas.fio2, respiratoryRate: rest.respiratoryRate }));
-          expectAllFinite(oxygenSaturationIndex({ spo2: rest.spo2, fio2: gas.fio2, meanAirwayPressure: rest.meanAirwayPressure }));
+          expectAllFinite(roxIndex({ spo2: indexSpo2, fio2: gas.fio2, respiratoryRate: rest.respiratoryRate }));
+          expectAllFinite(oxygenSaturationIndex({ spo2: indexSpo2, fio2: gas.fio2, meanAirwayPressure: rest.meanAirwayPressure }));
           expectAllFinite(
             proposeStep({
               order: { spo2Target: { lower: 88, upper: 95 }, limits: { fio2Min: 0.21, fio2Max: 1 }, steps: ardsNetworkTable("higher-peep") },
@@ -172,12 +173,12 @@ describe("properties", () => {
     ["so2", RANGES.saturation, (so2) => po2FromSaturation(so2)],
     ["hemoglobin", RANGES.hemoglobin, (hemoglobin) => forecastFio2Change({ fio2: 0.4, pao2: 70, paco2: 40, hemoglobin, nextFio2: 0.5 })],
     ["pao2", RANGES.pao2, (pao2) => assessBloodGas({ fio2: 0.4, pao2, paco2: 40 })],
-    ["spo2", RANGES.spo2, (spo2) => classifyOxygenation({ fio2: 0.4, spo2 })],
+    ["spo2", RANGES.spo2Index, (spo2) => classifyOxygenation({ fio2: 0.4, spo2 })],
     ["metres", RANGES.altitude, (metres) => barometricPressureAtAltitude(metres)],
     ["heightCm", RANGES.heightCm, (heightCm) => predictedBodyWeight({ heightCm, sex: "male" })],
     ["value", RANGES.pressureMmHg, (value) => toMmHg(value, "mmHg")],
     ["value", RANGES.hemoglobinGramsPerDecilitre, (value) => toGramsPerDecilitre(value, "g/dL")],
-    ["latestReading.spo2", RANGES.spo2Reading, (spo2) =>
+    ["latestReading.spo2", RANGES.spo2, (spo2) =>
       proposeStep({
         order: { spo2Target: { lower: 88, upper: 95 }, limits: { fio2Min: 0.21, fio2Max: 1 }, steps: [] },
         current: { fio2: 0.4 },

@@ -6,7 +6,7 @@ import { StatusBadge } from "@/components/ui/StatusBadge";
 import { pagePermission } from "@/lib/auth/page-guard";
 import { db } from "@/lib/db";
 import { mayCosign } from "@/lib/orders/cosigners";
-import { DEVICE_PROFILES } from "@/lib/orders/devices";
+import { DEVICE_PROFILES } from "@/lib/devices";
 import { listCosignQueue } from "@/lib/orders/queries";
 
 export const metadata: Metadata = { title: "Co-sign queue" };

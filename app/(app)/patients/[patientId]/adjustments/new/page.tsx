@@ -6,7 +6,7 @@ import { buttonClasses } from "@/components/ui/Button";
 import { EmptyState } from "@/components/ui/EmptyState";
 import { pagePermission } from "@/lib/auth/page-guard";
 import { mayAdjustDevice } from "@/lib/auth/permissions";
-import { DEVICE_PROFILES } from "@/lib/orders/devices";
+import { DEVICE_PROFILES } from "@/lib/devices";
 
 export const metadata: Metadata = { title: "Record adjustment" };
 

@@ -1,6 +1,12 @@
 import type { RespiratorySupport } from "../oxygen";
 import type { StepTableView } from "../step-tables/queries";
 
+// What Tidemark knows about oxygen delivery devices, in one place: which are
+// low-flow, what each can deliver, the limits a prescriber starts from, the
+// FiO2 a low-flow device gives at a flow, and which step tables fit. Pure data
+// and functions, safe for the browser; orders, bedside forms, readings, blood
+// gases, imports, the FHIR export and the seeds import it.
+
 /** Oxygen delivery devices an order can prescribe (DEVELOPERS.md, "The product's words"). */
 export const DEVICES = [
   "room_air",
@@ -141,6 +147,8 @@ export function stepTableMismatchMessage(
  * reservoir mask about 60–90 % at 10–15 L/min.
  */
 export function estimateFio2(device: Device, flowLMin: number | null | undefined): number | null {
+  // A flow still being typed (NaN) gives no estimate rather than a NaN FiO2.
+  if (flowLMin != null && !Number.isFinite(flowLMin)) return null;
   const clamp = (v: number, p: DeviceProfile) => Math.min(p.fio2.max, Math.max(p.fio2.min, v));
   const round = (v: number) => Math.round(v * 100) / 100;
   const profile = DEVICE_PROFILES[device];
@@ -160,20 +168,6 @@ export function estimateFio2(device: Device, flowLMin: number | null | undefined
       return null;
   }
 }
-
-/** SpO2 target bands commonly prescribed (BTS guideline for oxygen use in adults, 2017). */
-export const TARGET_BAND_PRESETS = [
-  { lower: 94, upper: 98, label: "94–98 % (most acutely ill adults)" },
-  { lower: 88, upper: 92, label: "88–92 % (risk of hypercapnic respiratory failure)" },
-  { lower: 92, upper: 96, label: "92–96 %" },
-] as const;
-
-export const SIGNATURE_MEANING =
-  "I am the prescriber of this oxygen order and I have reviewed it for this patient.";
-
-/** What a co-signature by a physician the unit designates, not the prescriber, states. */
-export const DESIGNATED_COSIGN_MEANING =
-  "I co-sign this oxygen order as a physician this unit designates, for its named prescriber, and I have reviewed it for this patient.";
 
 /** The kind of respiratory support each device is, as the ARDS definitions classify it. */
 export const RESPIRATORY_SUPPORT: Record<Device, RespiratorySupport> = {
