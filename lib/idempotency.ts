@@ -59,7 +59,13 @@ export async function once<T>(
           const stored = (await trx("idempotency_keys")
             .where({ user_id: userId, idem_key: key })
             .first("operation", "response_json")) as { operation: string; response_json: string };
-          if (stored.operation !== operation) throw error;
+          // The same key sent earlier with another kind of write: a client error, not a replay.
+          if (stored.operation !== operation) {
+            throw new ConflictError(
+              "This idempotency key was already used for a different kind of write; send a new key.",
+              { idempotencyKey: ["Already used for a different kind of write."] },
+            );
+          }
           throw new Replay(JSON.parse(stored.response_json));
         }
         throw error;

@@ -153,6 +153,39 @@ describe("bedside adjustments", () => {
     expect(Number(count.n)).toBe(1);
   });
 
+  it("refuses (409) a key reused for another kind of write, and writes nothing with it", async () => {
+    const { patientId } = await patientWithHfncOrder();
+    const therapist = await actorByEmail(SEEDED.therapist);
+    const idempotencyKey = `reuse-${patientId}`;
+    await chartReading(appDb(), therapist, {
+      patientId,
+      takenAt: minutesAgo(2),
+      spo2: 94,
+      device: "hfnc",
+      flow: 40,
+      fio2: 0.4,
+      idempotencyKey,
+    });
+    const change = {
+      patientId,
+      settingsVersion: 1,
+      toFio2: 0.35,
+      toFlow: 40,
+      reason: "wean" as const,
+      rationale: "SpO2 98 %",
+      appliedAt: minutesAgo(1),
+      idempotencyKey,
+    };
+    await expect(recordAdjustment(appDb(), therapist, change)).rejects.toBeInstanceOf(
+      ConflictError,
+    );
+    const count = (await appDb()("adjustments")
+      .where({ patient_id: patientId })
+      .count({ n: "*" })
+      .first()) as { n: number };
+    expect(Number(count.n)).toBe(0);
+  });
+
   it("refuses a nurse on a high-flow device and anyone on a patient without an order", async () => {
     const { patientId } = await patientWithHfncOrder();
     const nurse = await actorByEmail(SEEDED.nurse);

@@ -1,0 +1,333 @@
+import fc from "fast-check";
+import type { z } from "zod";
+import { ADJUSTMENT_REASONS, adjustmentSchema } from "@/lib/adjustments/schema";
+import { acknowledgeSchema, resolveSchema } from "@/lib/alerts/schema";
+import { ROLES } from "@/lib/auth/roles";
+import { BLOOD_GAS_RANGES, bloodGasSchema } from "@/lib/blood-gases/schema";
+import { confirmSchema } from "@/lib/imports/upload-rules";
+import { DEVICES } from "@/lib/orders/devices";
+import {
+  cosignSchema,
+  discontinueSchema,
+  verbalOrderSchema,
+  writtenOrderSchema,
+} from "@/lib/orders/schema";
+import { RANGES } from "@/lib/oxygen/ranges";
+import {
+  assessRequestSchema,
+  forecastRequestSchema,
+  HEMOGLOBIN_UNITS,
+  PRESSURE_UNITS,
+  RESPIRATORY_SUPPORTS,
+} from "@/lib/oxygenation/schema";
+import { READING_RANGES, readingSchema } from "@/lib/readings/schema";
+import { userActiveSchema, userCreateSchema, userUpdateSchema } from "@/lib/users/schema";
+import type { BodySpec, Field } from "./bodies";
+
+/**
+ * Each JSON write's body, field by field, after its zod schema in lib/<noun>/schema.ts.
+ * `schemaKeys(schema)` must equal the spec's keys (checked by the fuzz test), so
+ * a field added to a schema without a line here fails the run.
+ */
+
+/** Ids the valid-looking values point at, gathered from the test database. */
+export type Ids = {
+  patients: number[];
+  orders: number[];
+  units: number[];
+  physicians: number[];
+  orderVersion: number[];
+};
+
+const pick = (xs: number[]) => fc.constantFrom(...(xs.length ? xs : [1]));
+const num = (min: number, max: number, extra: Partial<Field> = {}): Field =>
+  ({
+    kind: "number",
+    min,
+    max,
+    required: true,
+    valid: fc.double({ min, max, noNaN: true }),
+    ...extra,
+  }) as Field;
+/** `max` only where the schema has one: a larger value must be one the schema refuses. */
+const int = (
+  min: number,
+  max?: number,
+  valid?: fc.Arbitrary<unknown>,
+): Extract<Field, { kind: "number" }> => ({
+  kind: "number",
+  min,
+  max,
+  int: true,
+  required: true,
+  valid: valid ?? fc.integer({ min, max: max ?? 2 ** 31 - 1 }),
+});
+const optional = (f: Field): Field => ({ ...f, required: false });
+const str = (min: number, max: number, trim = true, valid?: fc.Arbitrary<unknown>): Field => ({
+  kind: "string",
+  min,
+  max,
+  trim,
+  required: true,
+  valid:
+    valid ??
+    fc
+      .string({ minLength: Math.max(min, 1) + 1, maxLength: Math.min(max, 40) })
+      .map((s) => `ok ${s}`.slice(0, max)),
+});
+const oneOf = (values: readonly string[], required = true): Field => ({
+  kind: "enum",
+  values,
+  required,
+  valid: fc.constantFrom(...values),
+});
+const recent = (hours: number): Field => ({
+  kind: "coerced",
+  required: true,
+  valid: fc
+    .integer({ min: 1, max: hours * 60 - 1 })
+    .map((m) => new Date(Date.now() - m * 60_000).toISOString()),
+});
+const idempotencyKey: Field = {
+  kind: "string",
+  valid: fc.stringMatching(/^[A-Za-z0-9-]{8,64}$/),
+};
+/** Never the right password: should a body ever pass its schema, the signature is still refused. */
+const wrongPassword = (min: number) =>
+  str(min, 200, false, fc.constantFrom("not-the-password", "x".repeat(min || 1)));
+
+const ranged = (key: keyof typeof BLOOD_GAS_RANGES) => {
+  const { min, max } = BLOOD_GAS_RANGES[key];
+  return num(min, max);
+};
+const engine = (key: keyof typeof RANGES) => {
+  const { min, max } = RANGES[key];
+  return num(min, max);
+};
+
+/** A pressure or haemoglobin whose range depends on the unit beside it: broken by type only. */
+const inUnit = (key: "pao2" | "paco2" | "hemoglobin" | "barometricPressure"): Field => {
+  const { min, max } = RANGES[key];
+  return { kind: "number", required: true, valid: fc.double({ min, max, noNaN: true }) };
+};
+
+export function bodySpecs(ids: Ids) {
+  const patientId = int(1, undefined, pick(ids.patients));
+  const devices = oneOf(DEVICES);
+
+  const reading: BodySpec = {
+    fields: {
+      patientId,
+      takenAt: recent(72),
+      spo2: num(READING_RANGES.spo2.min, READING_RANGES.spo2.max),
+      respiratoryRate: optional(int(2, 80)),
+      pulseRate: optional(int(20, 250)),
+      device: devices,
+      flow: optional(num(0.5, 70)),
+      fio2: optional(num(0.21, 1)),
+      idempotencyKey,
+    },
+  };
+
+  const bloodGas: BodySpec = {
+    fields: {
+      patientId,
+      sampledAt: recent(72),
+      sampleType: oneOf(["arterial", "venous"]),
+      ph: optional(ranged("ph")),
+      pao2: ranged("pao2"),
+      paco2: ranged("paco2"),
+      hco3: optional(ranged("hco3")),
+      baseExcess: optional(ranged("baseExcess")),
+      sao2: optional(num(0, 100)),
+      hemoglobin: optional(ranged("hemoglobin")),
+      device: devices,
+      flow: optional(ranged("flow")),
+      fio2: optional(ranged("fio2")),
+      peep: optional(ranged("peep")),
+      idempotencyKey,
+    },
+  };
+
+  const adjustment: BodySpec = {
+    fields: {
+      patientId,
+      settingsVersion: int(1),
+      toFio2: num(0.21, 1),
+      toPeep: optional(num(0, 30)),
+      toFlow: optional(num(0.5, 70)),
+      reason: oneOf(ADJUSTMENT_REASONS.map((r) => r.value)),
+      rationale: str(3, 1000),
+      appliedAt: recent(24),
+      useStaleBloodGas: { kind: "boolean", valid: fc.boolean() },
+      idempotencyKey,
+    },
+  };
+
+  const orderFields: Record<string, Field> = {
+    patientId,
+    device: devices,
+    spo2Lower: int(70, 100, fc.integer({ min: 85, max: 94 })),
+    spo2Upper: int(70, 100, fc.integer({ min: 95, max: 100 })),
+    pao2Lower: optional(num(40, 300)),
+    pao2Upper: optional(num(40, 300)),
+    fio2Min: num(0.21, 1),
+    fio2Max: num(0.21, 1),
+    peepMin: optional(num(0, 30)),
+    peepMax: optional(num(0, 30)),
+    flowMin: optional(num(0.5, 70)),
+    flowMax: optional(num(0.5, 70)),
+    initialFio2: num(0.21, 1),
+    initialPeep: optional(num(0, 30)),
+    initialFlow: optional(num(0.5, 70)),
+    stepTableId: optional(int(1)),
+    reassessMinutes: int(15, 1440),
+    rationale: str(5, 2000),
+    supersedesOrderId: {
+      ...int(1, undefined, fc.oneof(fc.constant(null), pick(ids.orders))),
+      nullable: true,
+    },
+    idempotencyKey,
+  };
+  const writtenOrder: BodySpec = {
+    fields: { ...orderFields, entryMode: oneOf(["written"]), password: wrongPassword(1) },
+  };
+  const verbalOrder: BodySpec = {
+    fields: {
+      ...orderFields,
+      entryMode: oneOf(["verbal", "telephone"]),
+      prescriberId: int(1, undefined, pick(ids.physicians)),
+      readBackConfirmed: { kind: "boolean", required: true, valid: fc.constant(true) },
+    },
+  };
+
+  const version = int(1, undefined, pick(ids.orderVersion));
+  const cosign: BodySpec = { fields: { version, password: wrongPassword(1) } };
+  const discontinue: BodySpec = {
+    fields: { version, reason: str(5, 1000), password: wrongPassword(1) },
+  };
+  const acknowledge: BodySpec = { fields: { note: { ...str(0, 500), required: "typed" } } };
+  const resolve: BodySpec = { fields: { reason: str(3, 500) } };
+  const confirm: BodySpec = {
+    fields: { expectedAccepted: int(0, undefined, fc.integer({ min: 0, max: 50 })) },
+  };
+
+  const pressure = { ...oneOf(PRESSURE_UNITS, false) };
+  const hemoglobinUnit = { ...oneOf(HEMOGLOBIN_UNITS, false) };
+  const unitId = optional(int(1, undefined, pick(ids.units)));
+  const assess: BodySpec = {
+    strict: true,
+    fields: {
+      pressureUnit: pressure,
+      hemoglobinUnit,
+      pao2: inUnit("pao2"),
+      paco2: inUnit("paco2"),
+      hemoglobin: optional(inUnit("hemoglobin")),
+      spo2: optional(engine("spo2")),
+      sao2: optional(num(0, 100)),
+      support: oneOf(RESPIRATORY_SUPPORTS, false),
+      peep: optional(engine("peep")),
+      flow: optional(engine("flow")),
+      meanAirwayPressure: optional(engine("meanAirwayPressure")),
+      respiratoryRate: optional(engine("respiratoryRate")),
+      barometricPressure: optional(inUnit("barometricPressure")),
+      fio2: engine("fio2"),
+      ageYears: optional(engine("ageYears")),
+      cardiacOutput: optional(engine("cardiacOutput")),
+      unitId,
+    },
+  };
+  const forecast: BodySpec = {
+    strict: true,
+    fields: {
+      pressureUnit: pressure,
+      hemoglobinUnit,
+      fio2: engine("fio2"),
+      pao2: inUnit("pao2"),
+      paco2: inUnit("paco2"),
+      hemoglobin: inUnit("hemoglobin"),
+      nextFio2: engine("fio2"),
+      barometricPressure: optional(inUnit("barometricPressure")),
+      unitId,
+    },
+  };
+
+  const email = str(
+    3,
+    254,
+    true,
+    fc.uuid().map((u) => `fuzz-${u.slice(0, 8)}@test.kestrel.example`),
+  );
+  const userFields: Record<string, Field> = {
+    email,
+    name: str(2, 120),
+    role: oneOf(ROLES),
+    unitIds: { kind: "array", required: true, valid: fc.subarray(ids.units, { minLength: 1 }) },
+    pressureUnit: oneOf(["mmHg", "kPa"]),
+    rationale: optional(str(0, 500)),
+    password: str(12, 200, false, fc.constant("a-long-enough-password")),
+    currentPassword: wrongPassword(1),
+  };
+  const userCreate: BodySpec = { fields: userFields };
+  const userUpdate: BodySpec = {
+    fields: {
+      ...userFields,
+      // "" keeps the password on an edit, so this field is never the broken one.
+      password: {
+        ...userFields.password!,
+        required: false,
+        valid: fc.constantFrom("", "a-long-enough-password"),
+      },
+      version: int(1),
+    },
+  };
+  const userActive: BodySpec = {
+    fields: {
+      version: int(1),
+      active: { kind: "boolean", required: true, valid: fc.boolean() },
+      currentPassword: wrongPassword(1),
+      rationale: str(3, 500),
+    },
+  };
+
+  return {
+    reading,
+    bloodGas,
+    adjustment,
+    writtenOrder,
+    verbalOrder,
+    cosign,
+    discontinue,
+    acknowledge,
+    resolve,
+    confirm,
+    assess,
+    forecast,
+    userCreate,
+    userUpdate,
+    userActive,
+  };
+}
+export type BodySpecs = ReturnType<typeof bodySpecs>;
+
+/**
+ * Each spec beside the schema it stands for, and the keys the route fills in
+ * from its path (not from the body).
+ */
+export const SCHEMAS: Record<keyof BodySpecs, { schema: z.ZodType; fromPath?: string[] }> = {
+  reading: { schema: readingSchema },
+  bloodGas: { schema: bloodGasSchema },
+  adjustment: { schema: adjustmentSchema },
+  writtenOrder: { schema: writtenOrderSchema },
+  verbalOrder: { schema: verbalOrderSchema },
+  cosign: { schema: cosignSchema, fromPath: ["orderId"] },
+  discontinue: { schema: discontinueSchema, fromPath: ["orderId"] },
+  acknowledge: { schema: acknowledgeSchema, fromPath: ["alertId"] },
+  resolve: { schema: resolveSchema, fromPath: ["alertId"] },
+  confirm: { schema: confirmSchema, fromPath: ["importId"] },
+  assess: { schema: assessRequestSchema },
+  forecast: { schema: forecastRequestSchema },
+  userCreate: { schema: userCreateSchema },
+  userUpdate: { schema: userUpdateSchema, fromPath: ["id"] },
+  userActive: { schema: userActiveSchema, fromPath: ["id"] },
+};
