@@ -157,7 +157,7 @@ describe("bedside adjustments", () => {
     const { patientId } = await patientWithHfncOrder();
     const therapist = await actorByEmail(SEEDED.therapist);
     const idempotencyKey = `reuse-${patientId}`;
-    await chartReading(appDb(), therapist, {
+    await chartReadingOperation.invoke(appDb(), therapist, {
       patientId,
       takenAt: minutesAgo(2),
       spo2: 94,
@@ -176,7 +176,7 @@ describe("bedside adjustments", () => {
       appliedAt: minutesAgo(1),
       idempotencyKey,
     };
-    await expect(recordAdjustment(appDb(), therapist, change)).rejects.toBeInstanceOf(
+    await expect(recordAdjustmentOperation.invoke(appDb(), therapist, change)).rejects.toBeInstanceOf(
       ConflictError,
     );
     const count = (await appDb()("adjustments")

@@ -1,7 +1,7 @@
 import fc from "fast-check";
 import { ALERT_KINDS } from "@/lib/alerts/kinds";
-import { LEDGER_ACTIONS } from "@/lib/ledger/actions";
-import { TIMELINE_KINDS } from "@/lib/patients/timeline";
+import { LEDGER_ACTIONS } from "@/lib/ledger/vocabulary";
+import { TIMELINE_KINDS } from "@/lib/chart/timeline";
 import { describeCase, type FuzzCase, type Who } from "./case";
 import type { Ids } from "./specs";
 import { absentId, enc, ODD_TIMES, oddPathSegment, oddQueryValue } from "./values";

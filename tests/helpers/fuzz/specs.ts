@@ -5,7 +5,7 @@ import { acknowledgeSchema, resolveSchema } from "@/lib/alerts/schema";
 import { ROLES } from "@/lib/auth/roles";
 import { BLOOD_GAS_RANGES, bloodGasSchema } from "@/lib/blood-gases/schema";
 import { confirmSchema } from "@/lib/imports/upload-rules";
-import { DEVICES } from "@/lib/orders/devices";
+import { DEVICES } from "@/lib/devices";
 import {
   cosignSchema,
   discontinueSchema,
@@ -20,7 +20,7 @@ import {
   PRESSURE_UNITS,
   RESPIRATORY_SUPPORTS,
 } from "@/lib/oxygenation/schema";
-import { READING_RANGES, readingSchema } from "@/lib/readings/schema";
+import { readingSchema } from "@/lib/readings/schema";
 import { userActiveSchema, userCreateSchema, userUpdateSchema } from "@/lib/users/schema";
 import type { BodySpec, Field } from "./bodies";
 
@@ -119,7 +119,7 @@ export function bodySpecs(ids: Ids) {
     fields: {
       patientId,
       takenAt: recent(72),
-      spo2: num(READING_RANGES.spo2.min, READING_RANGES.spo2.max),
+      spo2: num(RANGES.spo2.min, RANGES.spo2.max),
       respiratoryRate: optional(int(2, 80)),
       pulseRate: optional(int(20, 250)),
       device: devices,
