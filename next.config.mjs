@@ -25,7 +25,8 @@ function contentSecurityPolicy(dev) {
 const nextConfig = (phase) => ({
   // `next dev` keeps its own output so it never clobbers the build that the
   // demo and the end-to-end tests serve.
-  distDir: phase === PHASE_DEVELOPMENT_SERVER ? (process.env.NEXT_DEV_DIST_DIR ?? ".next-dev") : ".next",
+  distDir:
+    phase === PHASE_DEVELOPMENT_SERVER ? (process.env.NEXT_DEV_DIST_DIR ?? ".next-dev") : ".next",
   poweredByHeader: false,
   reactStrictMode: true,
   // Lint runs in `npm test` with the project's own config; the build only builds.

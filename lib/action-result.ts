@@ -2,8 +2,7 @@ import { DomainError, fromEngineError, type FieldErrors } from "./errors";
 
 /** The one result type every server action returns. */
 export type ActionResult<T> =
-  | { ok: true; data: T }
-  | { ok: false; status: number; message: string; fieldErrors?: FieldErrors };
+  { ok: true; data: T } | { ok: false; status: number; message: string; fieldErrors?: FieldErrors };
 
 /**
  * Runs an action body and turns domain errors into a typed failure; anything
@@ -23,6 +22,10 @@ export async function runAction<T>(body: () => Promise<T>): Promise<ActionResult
       };
     }
     console.error("[action] unexpected error", error);
-    return { ok: false, status: 500, message: "Something went wrong on our side; nothing was saved." };
+    return {
+      ok: false,
+      status: 500,
+      message: "Something went wrong on our side; nothing was saved.",
+    };
   }
 }

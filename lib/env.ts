@@ -22,9 +22,7 @@ export const DEMO_LEDGER_KEY = "tidemark-demo-ledger-key-not-for-production-use"
 
 const envSchema = z
   .object({
-    NODE_ENV: z
-      .enum(["development", "production", "test"])
-      .default("development"),
+    NODE_ENV: z.enum(["development", "production", "test"]).default("development"),
     DATABASE_HOST: z.string().min(1).default("127.0.0.1"),
     DATABASE_PORT: z.coerce.number().int().min(1).max(65535).default(3399),
     DATABASE_NAME: z
@@ -76,12 +74,15 @@ const envSchema = z
     /** "Order limits reached" waits for an SpO2 taken at least this long after the change to the limit. */
     ALERT_LIMITS_SETTLE_MINUTES: z.coerce.number().int().min(0).max(60).default(5),
     /** A blood gas older than this drives no forecast unless the clinician chooses it. */
-    FORECAST_GAS_MAX_AGE_MINUTES: z.coerce.number().int().min(10).max(7 * 24 * 60).default(240),
+    FORECAST_GAS_MAX_AGE_MINUTES: z.coerce
+      .number()
+      .int()
+      .min(10)
+      .max(7 * 24 * 60)
+      .default(240),
     SMTP_HOST: z.string().default("127.0.0.1"),
     SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(2525),
-    SMTP_FROM: z
-      .string()
-      .default("Tidemark <tidemark@kestrel.example>"),
+    SMTP_FROM: z.string().default("Tidemark <tidemark@kestrel.example>"),
     /** "1": TLS from the first byte (port 465); "0": plain, upgraded with STARTTLS off loopback. */
     SMTP_SECURE: z.enum(["0", "1"]).default("0"),
     /** Relay credentials; empty or unset means no authentication (the local fake takes none). */
@@ -112,8 +113,7 @@ const envSchema = z
       ),
     {
       path: ["NEXTAUTH_SECRET"],
-      message:
-        "set a real NEXTAUTH_SECRET in production (the demo secret is refused)",
+      message: "set a real NEXTAUTH_SECRET in production (the demo secret is refused)",
     },
   )
   // The published demo values protect nothing: a server others can reach
@@ -146,8 +146,7 @@ const envSchema = z
       ),
     {
       path: ["LEDGER_HMAC_KEY"],
-      message:
-        "set a real LEDGER_HMAC_KEY in production (the demo key is refused)",
+      message: "set a real LEDGER_HMAC_KEY in production (the demo key is refused)",
     },
   )
   .refine((e) => e.LEDGER_HMAC_KEY !== e.NEXTAUTH_SECRET, {
@@ -163,9 +162,7 @@ let cached: Env | undefined;
 export function parseEnv(source: Record<string, string | undefined>): Env {
   const parsed = envSchema.safeParse(source);
   if (!parsed.success) {
-    const problems = parsed.error.issues.map(
-      (i) => `${i.path.join(".")}: ${i.message}`,
-    );
+    const problems = parsed.error.issues.map((i) => `${i.path.join(".")}: ${i.message}`);
     throw new Error(`Invalid environment:\n  ${problems.join("\n  ")}`);
   }
   return parsed.data;

@@ -18,7 +18,9 @@ async function retryDeadlock<T>(run: () => Promise<T>): Promise<T> {
     } catch (error) {
       if (!(isDbError(error) && error.code === "ER_LOCK_DEADLOCK")) throw error;
       if (attempt >= DEADLOCK_ATTEMPTS)
-        throw new ConflictError("The record was busy with another change; nothing was saved. Try again.");
+        throw new ConflictError(
+          "The record was busy with another change; nothing was saved. Try again.",
+        );
       await new Promise((resolve) => setTimeout(resolve, 10 * attempt + Math.random() * 20));
     }
   }
@@ -46,36 +48,38 @@ export async function once<T>(
 ): Promise<T> {
   if (!key) return retryDeadlock(() => knex.transaction(write));
   try {
-    return await retryDeadlock(() => knex.transaction(async (trx) => {
-      try {
-        await trx("idempotency_keys").insert({
-          user_id: userId,
-          idem_key: key,
-          operation,
-          response_json: "null",
-        });
-      } catch (error) {
-        if (isDbError(error) && error.code === "ER_DUP_ENTRY") {
-          const stored = (await trx("idempotency_keys")
-            .where({ user_id: userId, idem_key: key })
-            .first("operation", "response_json")) as { operation: string; response_json: string };
-          // The same key sent earlier with another kind of write: a client error, not a replay.
-          if (stored.operation !== operation) {
-            throw new ConflictError(
-              "This idempotency key was already used for a different kind of write; send a new key.",
-              { idempotencyKey: ["Already used for a different kind of write."] },
-            );
+    return await retryDeadlock(() =>
+      knex.transaction(async (trx) => {
+        try {
+          await trx("idempotency_keys").insert({
+            user_id: userId,
+            idem_key: key,
+            operation,
+            response_json: "null",
+          });
+        } catch (error) {
+          if (isDbError(error) && error.code === "ER_DUP_ENTRY") {
+            const stored = (await trx("idempotency_keys")
+              .where({ user_id: userId, idem_key: key })
+              .first("operation", "response_json")) as { operation: string; response_json: string };
+            // The same key sent earlier with another kind of write: a client error, not a replay.
+            if (stored.operation !== operation) {
+              throw new ConflictError(
+                "This idempotency key was already used for a different kind of write; send a new key.",
+                { idempotencyKey: ["Already used for a different kind of write."] },
+              );
+            }
+            throw new Replay(JSON.parse(stored.response_json));
           }
-          throw new Replay(JSON.parse(stored.response_json));
+          throw error;
         }
-        throw error;
-      }
-      const result = await write(trx);
-      await trx("idempotency_keys")
-        .where({ user_id: userId, idem_key: key })
-        .update({ response_json: JSON.stringify(result) });
-      return result;
-    }));
+        const result = await write(trx);
+        await trx("idempotency_keys")
+          .where({ user_id: userId, idem_key: key })
+          .update({ response_json: JSON.stringify(result) });
+        return result;
+      }),
+    );
   } catch (error) {
     if (error instanceof Replay) return error.response as T;
     throw error;

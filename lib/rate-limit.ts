@@ -33,7 +33,10 @@ export async function consumeQuota(
     .first("used")) as { used: number } | undefined;
   const { perMinute, what } = QUOTAS[bucket];
   if ((row?.used ?? 0) > perMinute) {
-    const retry = Math.max(1, Math.ceil((windowStart.getTime() + WINDOW_MS - now.getTime()) / 1000));
+    const retry = Math.max(
+      1,
+      Math.ceil((windowStart.getTime() + WINDOW_MS - now.getTime()) / 1000),
+    );
     throw new TooManyRequestsError(
       `Too many ${what}: at most ${perMinute} a minute. Try again in ${retry} seconds.`,
       retry,
@@ -41,6 +44,8 @@ export async function consumeQuota(
   }
   // Old windows are dropped now and then by whoever is counting.
   if (Math.random() < 0.01) {
-    await knex("request_quotas").where("window_start", "<", new Date(now.getTime() - 3600_000)).delete();
+    await knex("request_quotas")
+      .where("window_start", "<", new Date(now.getTime() - 3600_000))
+      .delete();
   }
 }

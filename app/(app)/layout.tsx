@@ -11,13 +11,16 @@ import { listUnits } from "@/lib/units/queries";
 export default async function AppLayout({ children }: { children: ReactNode }) {
   const actor = await pageActor();
   const jar = await cookies();
-  const [units, alerts] = await Promise.all([listUnits(db(), actor.unitIds), alertSummary(db(), actor)]);
+  const [units, alerts] = await Promise.all([
+    listUnits(db(), actor.unitIds),
+    alertSummary(db(), actor),
+  ]);
   const { choice } = resolveUnitChoice(jar.get(UNIT_COOKIE)?.value, actor.unitIds);
   return (
     <div className="flex min-h-screen flex-col">
       <a
         href="#main"
-        className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-50 focus:rounded focus:bg-surface focus:px-3 focus:py-2"
+        className="sr-only focus:not-sr-only focus:absolute focus:top-2 focus:left-2 focus:z-50 focus:rounded focus:bg-surface focus:px-3 focus:py-2"
       >
         Skip to content
       </a>

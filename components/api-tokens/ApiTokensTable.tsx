@@ -52,45 +52,74 @@ export function ApiTokensTable({ tokens }: { tokens: ApiTokenSummary[] }) {
   };
 
   if (tokens.length === 0) {
-    return <EmptyState title="No API tokens yet">Create one above for each interface engine that sends results.</EmptyState>;
+    return (
+      <EmptyState title="No API tokens yet">
+        Create one above for each interface engine that sends results.
+      </EmptyState>
+    );
   }
   return (
     <>
       <div className="overflow-x-auto rounded-card border border-border bg-surface shadow-card">
         <table className="w-full text-left text-sm" data-testid="api-tokens-table">
           <caption className="sr-only">API tokens, active first</caption>
-          <thead className="border-b border-border bg-surface-muted text-xs uppercase tracking-wide text-ink-muted">
+          <thead className="border-b border-border bg-surface-muted text-xs tracking-wide text-ink-muted uppercase">
             <tr>
-              <th scope="col" className="px-3 py-2">Name</th>
-              <th scope="col" className="px-3 py-2">Token starts</th>
-              <th scope="col" className="px-3 py-2">Scope</th>
-              <th scope="col" className="px-3 py-2">Units</th>
-              <th scope="col" className="px-3 py-2">Status</th>
-              <th scope="col" className="px-3 py-2">Created</th>
-              <th scope="col" className="px-3 py-2">Expires</th>
-              <th scope="col" className="px-3 py-2">Last used</th>
-              <th scope="col" className="px-3 py-2"><span className="sr-only">Actions</span></th>
+              <th scope="col" className="px-3 py-2">
+                Name
+              </th>
+              <th scope="col" className="px-3 py-2">
+                Token starts
+              </th>
+              <th scope="col" className="px-3 py-2">
+                Scope
+              </th>
+              <th scope="col" className="px-3 py-2">
+                Units
+              </th>
+              <th scope="col" className="px-3 py-2">
+                Status
+              </th>
+              <th scope="col" className="px-3 py-2">
+                Created
+              </th>
+              <th scope="col" className="px-3 py-2">
+                Expires
+              </th>
+              <th scope="col" className="px-3 py-2">
+                Last used
+              </th>
+              <th scope="col" className="px-3 py-2">
+                <span className="sr-only">Actions</span>
+              </th>
             </tr>
           </thead>
           <tbody>
             {tokens.map((t) => (
               <tr key={t.id} className="border-b border-border last:border-0">
-                <th scope="row" className="px-3 py-2 font-medium">{t.name}</th>
+                <th scope="row" className="px-3 py-2 font-medium">
+                  {t.name}
+                </th>
                 <td className="px-3 py-2 font-mono text-xs">{t.prefix}…</td>
                 <td className="px-3 py-2">{t.scope === "write" ? "Write" : "Read only"}</td>
                 <td className="px-3 py-2">{t.units.map((u) => u.code).join(", ")}</td>
                 <td className="px-3 py-2">
                   {t.revokedAt ? (
-                    <StatusBadge status="neutral" label={`Revoked ${when(t.revokedAt)}${t.revokedBy ? ` by ${t.revokedBy}` : ""}`} />
+                    <StatusBadge
+                      status="neutral"
+                      label={`Revoked ${when(t.revokedAt)}${t.revokedBy ? ` by ${t.revokedBy}` : ""}`}
+                    />
                   ) : t.expired ? (
                     <StatusBadge status="neutral" label={`Expired ${when(t.expiresAt)}`} />
                   ) : (
                     <StatusBadge status="in-band" label="Active" />
                   )}
                 </td>
-                <td className="px-3 py-2 tabular">{when(t.createdAt)} by {t.createdBy}</td>
-                <td className="px-3 py-2 tabular">{when(t.expiresAt)}</td>
-                <td className="px-3 py-2 tabular">{when(t.lastUsedAt)}</td>
+                <td className="tabular px-3 py-2">
+                  {when(t.createdAt)} by {t.createdBy}
+                </td>
+                <td className="tabular px-3 py-2">{when(t.expiresAt)}</td>
+                <td className="tabular px-3 py-2">{when(t.lastUsedAt)}</td>
                 <td className="px-3 py-2 text-right">
                   {t.revokedAt || t.expired ? null : (
                     <Button variant="danger" onClick={() => setTarget(t)}>
@@ -109,11 +138,15 @@ export function ApiTokensTable({ tokens }: { tokens: ApiTokenSummary[] }) {
           <DialogPanel className="w-full max-w-md space-y-3 rounded-card border border-border bg-surface p-5 shadow-card">
             <DialogTitle className="text-lg font-semibold">Revoke “{target?.name}”?</DialogTitle>
             <p className="text-sm text-ink-muted">
-              The interface engine using it is refused from its next request on. This cannot be undone; create a new token
-              to reconnect it.
+              The interface engine using it is refused from its next request on. This cannot be
+              undone; create a new token to reconnect it.
             </p>
             <form onSubmit={revoke} className="space-y-3" noValidate>
-              <Field id="revoke-reason" label="Reason (recorded in the ledger)" error={error ?? undefined}>
+              <Field
+                id="revoke-reason"
+                label="Reason (recorded in the ledger)"
+                error={error ?? undefined}
+              >
                 {(d, invalid) => (
                   <input
                     id="revoke-reason"

@@ -16,7 +16,10 @@ export function SignInForm({ callbackUrl }: { callbackUrl: string }) {
     register,
     handleSubmit,
     formState: { errors, isSubmitting },
-  } = useForm<SignInInput>({ resolver: zodResolver(signInSchema), defaultValues: { email: "", password: "" } });
+  } = useForm<SignInInput>({
+    resolver: zodResolver(signInSchema),
+    defaultValues: { email: "", password: "" },
+  });
 
   const onSubmit = handleSubmit(async (values) => {
     setFormError(null);

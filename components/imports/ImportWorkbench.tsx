@@ -26,21 +26,38 @@ const rows = (n: number, noun: string) => `${n} ${noun}${n === 1 ? "" : "s"}`;
 
 type ApiFailure = { message: string; fieldErrors: Record<string, string[]> };
 
-async function send(url: string, init: RequestInit): Promise<{ ok: true; preview: ImportPreview } | ({ ok: false } & ApiFailure)> {
+async function send(
+  url: string,
+  init: RequestInit,
+): Promise<{ ok: true; preview: ImportPreview } | ({ ok: false } & ApiFailure)> {
   let response: Response;
   try {
-    response = await fetch(url, { ...init, headers: { accept: "application/json", ...(init.headers ?? {}) } });
+    response = await fetch(url, {
+      ...init,
+      headers: { accept: "application/json", ...(init.headers ?? {}) },
+    });
   } catch {
-    return { ok: false, message: "Tidemark could not be reached. Check the connection and try again.", fieldErrors: {} };
+    return {
+      ok: false,
+      message: "Tidemark could not be reached. Check the connection and try again.",
+      fieldErrors: {},
+    };
   }
-  const body = (await response.json().catch(() => null)) as
-    | { import?: ImportPreview; error?: { message?: string; fieldErrors?: Record<string, string[]> } }
-    | null;
+  const body = (await response.json().catch(() => null)) as {
+    import?: ImportPreview;
+    error?: { message?: string; fieldErrors?: Record<string, string[]> };
+  } | null;
   if (response.ok && body?.import) return { ok: true, preview: body.import };
-  if (response.status === 401) return { ok: false, message: "Your session has ended. Sign in again to upload.", fieldErrors: {} };
+  if (response.status === 401)
+    return {
+      ok: false,
+      message: "Your session has ended. Sign in again to upload.",
+      fieldErrors: {},
+    };
   return {
     ok: false,
-    message: body?.error?.message ?? `The server could not answer (status ${response.status}). Try again.`,
+    message:
+      body?.error?.message ?? `The server could not answer (status ${response.status}). Try again.`,
     fieldErrors: body?.error?.fieldErrors ?? {},
   };
 }
@@ -66,7 +83,10 @@ export function ImportWorkbench({ units }: { units: { id: number; label: string 
     e.preventDefault();
     setFailure(null);
     if (!file) {
-      setFailure({ message: "Some fields need attention.", fieldErrors: { file: ["Choose a file to upload."] } });
+      setFailure({
+        message: "Some fields need attention.",
+        fieldErrors: { file: ["Choose a file to upload."] },
+      });
       return;
     }
     const form = new FormData();
@@ -122,7 +142,12 @@ export function ImportWorkbench({ units }: { units: { id: number; label: string 
                 </select>
               )}
             </Field>
-            <Field id={`${id}-unit`} label="Unit" hint="Patients are matched by MRN on this unit." error={fe("unitId")}>
+            <Field
+              id={`${id}-unit`}
+              label="Unit"
+              hint="Patients are matched by MRN on this unit."
+              error={fe("unitId")}
+            >
               {(d, invalid) => (
                 <select
                   id={`${id}-unit`}
@@ -164,12 +189,26 @@ export function ImportWorkbench({ units }: { units: { id: number; label: string 
               <>
                 <Field id={`${id}-mrn`} label="Patient MRN" error={fe("mrn")}>
                   {(d, invalid) => (
-                    <input id={`${id}-mrn`} className={inputClasses} aria-invalid={invalid} aria-describedby={d} value={mrn} onChange={(e) => setMrn(e.target.value)} />
+                    <input
+                      id={`${id}-mrn`}
+                      className={inputClasses}
+                      aria-invalid={invalid}
+                      aria-describedby={d}
+                      value={mrn}
+                      onChange={(e) => setMrn(e.target.value)}
+                    />
                   )}
                 </Field>
                 <Field id={`${id}-bed`} label="Bed of the monitor" error={fe("bed")}>
                   {(d, invalid) => (
-                    <input id={`${id}-bed`} className={inputClasses} aria-invalid={invalid} aria-describedby={d} value={bed} onChange={(e) => setBed(e.target.value)} />
+                    <input
+                      id={`${id}-bed`}
+                      className={inputClasses}
+                      aria-invalid={invalid}
+                      aria-describedby={d}
+                      value={bed}
+                      onChange={(e) => setBed(e.target.value)}
+                    />
                   )}
                 </Field>
               </>
@@ -209,7 +248,9 @@ export function ImportWorkbench({ units }: { units: { id: number; label: string 
           </div>
         </fieldset>
       </form>
-      {preview ? <PreviewPanel preview={preview} onChange={setPreview} onImported={() => router.refresh()} /> : null}
+      {preview ? (
+        <PreviewPanel preview={preview} onChange={setPreview} onImported={() => router.refresh()} />
+      ) : null}
     </div>
   );
 }
@@ -228,7 +269,8 @@ function PreviewPanel({
   const [busy, setBusy] = useState(false);
   const [failure, setFailure] = useState<ApiFailure | null>(null);
   const { counts } = preview;
-  const canConfirm = preview.status === "previewed" && counts.accepted > 0 && !preview.mappingErrors;
+  const canConfirm =
+    preview.status === "previewed" && counts.accepted > 0 && !preview.mappingErrors;
 
   const confirm = async () => {
     setBusy(true);
@@ -245,7 +287,10 @@ function PreviewPanel({
   };
 
   return (
-    <section aria-labelledby={`${id}-title`} className="space-y-4 rounded-card border border-border bg-surface p-5 shadow-card">
+    <section
+      aria-labelledby={`${id}-title`}
+      className="space-y-4 rounded-card border border-border bg-surface p-5 shadow-card"
+    >
       <div className="flex flex-wrap items-start justify-between gap-2">
         <div>
           <h2 id={`${id}-title`} className="text-lg font-semibold">
@@ -253,30 +298,42 @@ function PreviewPanel({
           </h2>
           <p className="text-sm text-ink-muted">
             {IMPORT_KIND_LABELS[preview.kind]} · {preview.unitCode}
-            {preview.monitor ? ` · MRN ${preview.monitor.mrn}, bed ${preview.monitor.bed}` : ""} · SHA-256{" "}
-            <span className="font-mono text-xs">{preview.sha256.slice(0, 12)}…</span>
+            {preview.monitor ? ` · MRN ${preview.monitor.mrn}, bed ${preview.monitor.bed}` : ""} ·
+            SHA-256 <span className="font-mono text-xs">{preview.sha256.slice(0, 12)}…</span>
           </p>
         </div>
-        {preview.status === "imported" ? <StatusBadge status="in-band" label="Imported" /> : <StatusBadge status="overdue" label="Not imported yet" />}
+        {preview.status === "imported" ? (
+          <StatusBadge status="in-band" label="Imported" />
+        ) : (
+          <StatusBadge status="overdue" label="Not imported yet" />
+        )}
       </div>
       {preview.alreadyImported ? (
-        <p role="note" className="rounded-md border border-border bg-surface-muted px-3 py-2 text-sm">
-          This file was imported before{preview.importedAt ? ` (${preview.importedAt.slice(0, 16).replace("T", " ")} UTC)` : ""}. Nothing
-          was changed.
+        <p
+          role="note"
+          className="rounded-md border border-border bg-surface-muted px-3 py-2 text-sm"
+        >
+          This file was imported before
+          {preview.importedAt ? ` (${preview.importedAt.slice(0, 16).replace("T", " ")} UTC)` : ""}.
+          Nothing was changed.
         </p>
       ) : null}
       <dl className="flex flex-wrap gap-6 text-sm">
         <div>
           <dt className="text-ink-muted">Rows in file</dt>
-          <dd className="text-xl font-semibold tabular">{counts.total}</dd>
+          <dd className="tabular text-xl font-semibold">{counts.total}</dd>
         </div>
         <div>
-          <dt className="text-ink-muted">{preview.status === "imported" ? "Imported" : "Good rows"}</dt>
-          <dd className="text-xl font-semibold tabular text-in-band">{counts.accepted}</dd>
+          <dt className="text-ink-muted">
+            {preview.status === "imported" ? "Imported" : "Good rows"}
+          </dt>
+          <dd className="tabular text-xl font-semibold text-in-band">{counts.accepted}</dd>
         </div>
         <div>
           <dt className="text-ink-muted">Rejected</dt>
-          <dd className={`text-xl font-semibold tabular ${counts.rejected ? "text-below" : ""}`}>{counts.rejected}</dd>
+          <dd className={`tabular text-xl font-semibold ${counts.rejected ? "text-below" : ""}`}>
+            {counts.rejected}
+          </dd>
         </div>
       </dl>
 
@@ -288,21 +345,33 @@ function PreviewPanel({
         <div className="overflow-x-auto">
           <table className="w-full text-left text-sm">
             <caption className="mb-1 text-left text-sm font-medium">First good rows</caption>
-            <thead className="border-b border-border bg-surface-muted text-xs uppercase tracking-wide text-ink-muted">
+            <thead className="border-b border-border bg-surface-muted text-xs tracking-wide text-ink-muted uppercase">
               <tr>
-                <th scope="col" className="px-2 py-1">Row</th>
-                <th scope="col" className="px-2 py-1">Patient</th>
-                <th scope="col" className="px-2 py-1">Time (UTC)</th>
-                <th scope="col" className="px-2 py-1">Values</th>
+                <th scope="col" className="px-2 py-1">
+                  Row
+                </th>
+                <th scope="col" className="px-2 py-1">
+                  Patient
+                </th>
+                <th scope="col" className="px-2 py-1">
+                  Time (UTC)
+                </th>
+                <th scope="col" className="px-2 py-1">
+                  Values
+                </th>
               </tr>
             </thead>
             <tbody>
               {preview.sample.map((r) => (
                 <tr key={`${r.label}-${r.what}`} className="border-b border-border last:border-0">
-                  <th scope="row" className="px-2 py-1 font-normal">{r.label}</th>
-                  <td className="px-2 py-1">{r.mrn} · {r.patient}</td>
-                  <td className="px-2 py-1 tabular">{r.at.slice(0, 19).replace("T", " ")}</td>
-                  <td className="px-2 py-1 tabular">{r.summary}</td>
+                  <th scope="row" className="px-2 py-1 font-normal">
+                    {r.label}
+                  </th>
+                  <td className="px-2 py-1">
+                    {r.mrn} · {r.patient}
+                  </td>
+                  <td className="tabular px-2 py-1">{r.at.slice(0, 19).replace("T", " ")}</td>
+                  <td className="tabular px-2 py-1">{r.summary}</td>
                 </tr>
               ))}
             </tbody>
@@ -317,23 +386,35 @@ function PreviewPanel({
               <IconWarning className="mr-1 inline" />
               Rejected rows{preview.rejected.length > 200 ? " (first 200; the report has all)" : ""}
             </caption>
-            <thead className="border-b border-border bg-surface-muted text-xs uppercase tracking-wide text-ink-muted">
+            <thead className="border-b border-border bg-surface-muted text-xs tracking-wide text-ink-muted uppercase">
               <tr>
-                <th scope="col" className="px-2 py-1">Row</th>
-                <th scope="col" className="px-2 py-1">MRN</th>
-                <th scope="col" className="px-2 py-1">Why</th>
+                <th scope="col" className="px-2 py-1">
+                  Row
+                </th>
+                <th scope="col" className="px-2 py-1">
+                  MRN
+                </th>
+                <th scope="col" className="px-2 py-1">
+                  Why
+                </th>
               </tr>
             </thead>
             <tbody>
               {preview.rejected.slice(0, 200).map((r) => (
-                <tr key={`${r.label}-${r.line}`} className="border-b border-border align-top last:border-0">
-                  <th scope="row" className="px-2 py-1 font-normal whitespace-nowrap">{r.label}</th>
+                <tr
+                  key={`${r.label}-${r.line}`}
+                  className="border-b border-border align-top last:border-0"
+                >
+                  <th scope="row" className="px-2 py-1 font-normal whitespace-nowrap">
+                    {r.label}
+                  </th>
                   <td className="px-2 py-1">{r.mrn ?? "—"}</td>
                   <td className="px-2 py-1">
                     <ul>
                       {r.reasons.map((x, i) => (
                         <li key={i}>
-                          <span className="font-medium">{REJECT_CODE_LABELS[x.code]}:</span> {x.message}
+                          <span className="font-medium">{REJECT_CODE_LABELS[x.code]}:</span>{" "}
+                          {x.message}
                         </li>
                       ))}
                     </ul>
@@ -361,18 +442,30 @@ function PreviewPanel({
           <>
             {counts.rejected > 0 ? (
               <label className="flex items-center gap-2 text-sm">
-                <input type="checkbox" className="size-4 accent-accent" checked={read} onChange={(e) => setRead(e.target.checked)} />
-                I have read the {rows(counts.rejected, "rejected row")}; import the {rows(counts.accepted, "good row")} only.
+                <input
+                  type="checkbox"
+                  className="size-4 accent-accent"
+                  checked={read}
+                  onChange={(e) => setRead(e.target.checked)}
+                />
+                I have read the {rows(counts.rejected, "rejected row")}; import the{" "}
+                {rows(counts.accepted, "good row")} only.
               </label>
             ) : null}
-            <Button onClick={() => void confirm()} disabled={busy || (counts.rejected > 0 && !read)}>
+            <Button
+              onClick={() => void confirm()}
+              disabled={busy || (counts.rejected > 0 && !read)}
+            >
               {busy ? "Importing…" : `Import ${rows(counts.accepted, "row")}`}
             </Button>
           </>
         ) : preview.status === "previewed" && counts.accepted === 0 ? (
           <p className="text-sm text-below">Nothing can be imported from this file as it stands.</p>
         ) : null}
-        <a className="text-sm text-accent underline-offset-2 hover:underline" href={`/api/v1/imports/${preview.id}/report`}>
+        <a
+          className="text-sm text-accent underline-offset-2 hover:underline"
+          href={`/api/v1/imports/${preview.id}/report`}
+        >
           Download the report (CSV)
         </a>
         <p role="status" aria-live="polite" className="text-sm">
@@ -384,7 +477,13 @@ function PreviewPanel({
 }
 
 /** The mapping step: which column holds which value, and its unit. */
-function MappingStep({ preview, onChange }: { preview: ImportPreview; onChange: (p: ImportPreview) => void }) {
+function MappingStep({
+  preview,
+  onChange,
+}: {
+  preview: ImportPreview;
+  onChange: (p: ImportPreview) => void;
+}) {
   const id = useId();
   const initial: BloodGasMapping = preview.mapping ?? { delimiter: ",", columns: {}, units: {} };
   const [mapping, setMapping] = useState<BloodGasMapping>(initial);
@@ -408,11 +507,19 @@ function MappingStep({ preview, onChange }: { preview: ImportPreview; onChange: 
   };
 
   return (
-    <form onSubmit={check} noValidate className="space-y-2 rounded-md border border-border p-3" aria-labelledby={`${id}-title`}>
+    <form
+      onSubmit={check}
+      noValidate
+      className="space-y-2 rounded-md border border-border p-3"
+      aria-labelledby={`${id}-title`}
+    >
       <h3 id={`${id}-title`} className="font-semibold">
         Columns and units
       </h3>
-      <p className="text-sm text-ink-muted">Tidemark guessed these from the header line. Check each one; a wrong unit shows as rejected rows.</p>
+      <p className="text-sm text-ink-muted">
+        Tidemark guessed these from the header line. Check each one; a wrong unit shows as rejected
+        rows.
+      </p>
       <fieldset disabled={busy} className="grid min-w-0 gap-x-4 sm:grid-cols-2 lg:grid-cols-3">
         {BLOOD_GAS_COLUMNS.map((c) => {
           const measured = c.key in MEASURED_FIELDS ? (c.key as MeasuredField) : null;
@@ -421,7 +528,11 @@ function MappingStep({ preview, onChange }: { preview: ImportPreview; onChange: 
           return (
             <div key={c.key} className="flex gap-2">
               <div className="min-w-0 flex-1">
-                <Field id={`${id}-${c.key}`} label={`${c.label}${c.required ? "" : " (optional)"}`} error={colError}>
+                <Field
+                  id={`${id}-${c.key}`}
+                  label={`${c.label}${c.required ? "" : " (optional)"}`}
+                  error={colError}
+                >
                   {(d, invalid) => (
                     <select
                       id={`${id}-${c.key}`}
@@ -430,7 +541,10 @@ function MappingStep({ preview, onChange }: { preview: ImportPreview; onChange: 
                       aria-describedby={d}
                       value={mapping.columns[c.key] ?? ""}
                       onChange={(e) =>
-                        setMapping((m) => ({ ...m, columns: { ...m.columns, [c.key]: e.target.value || undefined } }))
+                        setMapping((m) => ({
+                          ...m,
+                          columns: { ...m.columns, [c.key]: e.target.value || undefined },
+                        }))
                       }
                     >
                       <option value="">Not in the file</option>
@@ -452,8 +566,16 @@ function MappingStep({ preview, onChange }: { preview: ImportPreview; onChange: 
                         className={inputClasses}
                         aria-invalid={invalid}
                         aria-describedby={d}
-                        value={mapping.units[measured as keyof BloodGasMapping["units"]] ?? MEASURED_FIELDS[measured].units[0]}
-                        onChange={(e) => setMapping((m) => ({ ...m, units: { ...m.units, [measured]: e.target.value as UcumCode } }))}
+                        value={
+                          mapping.units[measured as keyof BloodGasMapping["units"]] ??
+                          MEASURED_FIELDS[measured].units[0]
+                        }
+                        onChange={(e) =>
+                          setMapping((m) => ({
+                            ...m,
+                            units: { ...m.units, [measured]: e.target.value as UcumCode },
+                          }))
+                        }
                       >
                         {(MEASURED_FIELDS[measured].units as readonly UcumCode[]).map((u) => (
                           <option key={u} value={u}>

@@ -136,9 +136,7 @@ export function OrderFacts({
           {initial.flow !== null ? `, flow ${initial.flow} L/min` : ""}
         </span>
       </Row>
-      <Row term="Step table">
-        {stepTableName ?? <span className="text-ink-muted">None</span>}
-      </Row>
+      <Row term="Step table">{stepTableName ?? <span className="text-ink-muted">None</span>}</Row>
       <Row term="Reassess every">
         <span className="tabular">{order.reassessMinutes} min</span>
       </Row>
@@ -147,9 +145,7 @@ export function OrderFacts({
       </Row>
       <Row term="Entry">{ENTRY_MODE_LABELS[order.entryMode]}</Row>
       <Row term="Prescriber">{order.prescriber.name}</Row>
-      {order.entryMode !== "written" ? (
-        <Row term="Entered by">{order.enteredBy.name}</Row>
-      ) : null}
+      {order.entryMode !== "written" ? <Row term="Entered by">{order.enteredBy.name}</Row> : null}
     </dl>
   );
 }

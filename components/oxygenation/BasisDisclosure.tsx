@@ -27,7 +27,10 @@ export function BasisDisclosure({
         className="group inline-flex items-center gap-1 rounded text-xs font-medium text-accent hover:underline"
       >
         Basis
-        <IconChevronDown aria-hidden className="transition-transform group-data-[open]:rotate-180" />
+        <IconChevronDown
+          aria-hidden
+          className="transition-transform group-data-[open]:rotate-180"
+        />
       </DisclosureButton>
       <DisclosurePanel className="mt-1.5 rounded-md border border-border bg-surface-muted p-2 text-xs text-ink">
         <dl className="grid grid-cols-[auto_minmax(0,1fr)] gap-x-2 gap-y-1">
@@ -41,7 +44,9 @@ export function BasisDisclosure({
                   {inputs.map(([name, input]) => (
                     <li key={name}>
                       {name} = {formatBasisInput(input.value, input.unit, pressureUnit)}
-                      {input.unit === "fraction" ? <span className="text-ink-muted"> (fraction)</span> : null}
+                      {input.unit === "fraction" ? (
+                        <span className="text-ink-muted"> (fraction)</span>
+                      ) : null}
                     </li>
                   ))}
                 </ul>

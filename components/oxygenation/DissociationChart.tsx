@@ -1,7 +1,13 @@
 "use client";
 
 import { useId } from "react";
-import { convertPressure, pressureIn, type PressureUnit, RANGES, saturationFromPO2 } from "@/lib/oxygen";
+import {
+  convertPressure,
+  pressureIn,
+  type PressureUnit,
+  RANGES,
+  saturationFromPO2,
+} from "@/lib/oxygen";
 import { formatNumber, formatPressureNumber, niceAxis } from "./format";
 
 /** A patient's point on the curve: PO2 in mmHg, saturation in %. */
@@ -36,16 +42,23 @@ export function DissociationChart({
   const id = useId();
   const unit = pressureUnit;
   const text = (mmHg: number) => formatPressureNumber(mmHg, unit);
-  const highestMmHg = Math.min(RANGES.pao2.max, Math.max(120, ...points.map((p) => p.po2 * 1.15), (forecastRange?.high ?? 0) * 1.1));
+  const highestMmHg = Math.min(
+    RANGES.pao2.max,
+    Math.max(120, ...points.map((p) => p.po2 * 1.15), (forecastRange?.high ?? 0) * 1.1),
+  );
   const axis = niceAxis(pressureIn(highestMmHg, unit));
   const axisMaxMmHg = convertPressure(axis.max, unit, "mmHg");
   const x = (mmHg: number) => M.left + (pressureIn(mmHg, unit) / axis.max) * PW;
   const y = (percent: number) => M.top + PH - (percent / 100) * PH;
-  const xTicks = Array.from({ length: Math.round(axis.max / axis.step) + 1 }, (_, i) => i * axis.step);
+  const xTicks = Array.from(
+    { length: Math.round(axis.max / axis.step) + 1 },
+    (_, i) => i * axis.step,
+  );
 
   const steps = 160;
   const curve = Array.from({ length: steps }, (_, i) => {
-    const po2 = RANGES.po2.min + ((Math.min(axisMaxMmHg, RANGES.po2.max) - RANGES.po2.min) * i) / (steps - 1);
+    const po2 =
+      RANGES.po2.min + ((Math.min(axisMaxMmHg, RANGES.po2.max) - RANGES.po2.min) * i) / (steps - 1);
     return `${i === 0 ? "M" : "L"}${x(po2).toFixed(1)},${y(100 * saturationFromPO2(po2)).toFixed(1)}`;
   }).join(" ");
   const forecastPath = forecastRange
@@ -63,7 +76,12 @@ export function DissociationChart({
     const right = px < M.left + PW * 0.7;
     const previous = labels[labels.length - 1];
     const ly = Math.max(y(p.saturation) + 16, previous ? previous.y + 13 : 0);
-    labels.push({ text: p.label, x: right ? px + 8 : px - 8, y: ly, anchor: right ? "start" : "end" });
+    labels.push({
+      text: p.label,
+      x: right ? px + 8 : px - 8,
+      y: ly,
+      anchor: right ? "start" : "end",
+    });
   }
   if (forecastRange) {
     // Up and to the left of the segment's low end the curve leaves open space.
@@ -73,25 +91,45 @@ export function DissociationChart({
     labels.push(
       fitsLeft
         ? { text: "forecast", x: lowX - 9, y: lowY - 4, anchor: "end" }
-        : { text: "forecast", x: x(forecastRange.high) + 9, y: y(100 * saturationFromPO2(forecastRange.high)) + 26, anchor: "start" },
+        : {
+            text: "forecast",
+            x: x(forecastRange.high) + 9,
+            y: y(100 * saturationFromPO2(forecastRange.high)) + 26,
+            anchor: "start",
+          },
     );
   }
 
   const description =
     "Standard oxyhaemoglobin dissociation curve with " +
-    points.map((p) => `${p.label}: PO2 ${text(p.po2)} ${unit}, saturation ${formatNumber(p.saturation, 1)} %`).join("; ") +
+    points
+      .map(
+        (p) =>
+          `${p.label}: PO2 ${text(p.po2)} ${unit}, saturation ${formatNumber(p.saturation, 1)} %`,
+      )
+      .join("; ") +
     ".";
 
   return (
     <figure className="min-w-0">
-      <svg viewBox={`0 0 ${W} ${H}`} className="h-auto w-full" role="img" aria-labelledby={`${id}-title ${id}-desc`}>
+      <svg
+        viewBox={`0 0 ${W} ${H}`}
+        className="h-auto w-full"
+        role="img"
+        aria-labelledby={`${id}-title ${id}-desc`}
+      >
         <title id={`${id}-title`}>Oxyhaemoglobin dissociation curve</title>
         <desc id={`${id}-desc`}>{description}</desc>
         <g aria-hidden>
           {[0, 25, 50, 75, 100].map((t) => (
             <g key={t}>
               <line x1={M.left} x2={M.left + PW} y1={y(t)} y2={y(t)} className="stroke-border" />
-              <text x={M.left - 6} y={y(t) + 3.5} textAnchor="end" className="fill-ink-muted text-[11px] tabular">
+              <text
+                x={M.left - 6}
+                y={y(t) + 3.5}
+                textAnchor="end"
+                className="tabular fill-ink-muted text-[11px]"
+              >
                 {t}
               </text>
             </g>
@@ -100,15 +138,37 @@ export function DissociationChart({
             const tx = M.left + (t / axis.max) * PW;
             return (
               <g key={t}>
-                <line x1={tx} x2={tx} y1={M.top + PH} y2={M.top + PH + 4} className="stroke-border-strong" />
-                <text x={tx} y={M.top + PH + 16} textAnchor="middle" className="fill-ink-muted text-[11px] tabular">
+                <line
+                  x1={tx}
+                  x2={tx}
+                  y1={M.top + PH}
+                  y2={M.top + PH + 4}
+                  className="stroke-border-strong"
+                />
+                <text
+                  x={tx}
+                  y={M.top + PH + 16}
+                  textAnchor="middle"
+                  className="tabular fill-ink-muted text-[11px]"
+                >
                   {Number(t.toFixed(2))}
                 </text>
               </g>
             );
           })}
-          <line x1={M.left} x2={M.left + PW} y1={M.top + PH} y2={M.top + PH} className="stroke-border-strong" />
-          <text x={M.left + PW / 2} y={H - 6} textAnchor="middle" className="fill-ink text-[11px] font-medium">
+          <line
+            x1={M.left}
+            x2={M.left + PW}
+            y1={M.top + PH}
+            y2={M.top + PH}
+            className="stroke-border-strong"
+          />
+          <text
+            x={M.left + PW / 2}
+            y={H - 6}
+            textAnchor="middle"
+            className="fill-ink text-[11px] font-medium"
+          >
             {`PO2 (${unit})`}
           </text>
           <text
@@ -120,7 +180,14 @@ export function DissociationChart({
           </text>
           <path d={curve} fill="none" strokeWidth="2" className="stroke-ink-muted" />
           {forecastPath ? (
-            <path d={forecastPath} fill="none" strokeWidth="7" strokeLinecap="round" className="stroke-accent" opacity="0.45" />
+            <path
+              d={forecastPath}
+              fill="none"
+              strokeWidth="7"
+              strokeLinecap="round"
+              className="stroke-accent"
+              opacity="0.45"
+            />
           ) : null}
           {points.map((p, i) => {
             const px = x(p.po2);
@@ -132,9 +199,22 @@ export function DissociationChart({
                 className="fill-accent stroke-surface"
               />
             ) : p.kind === "oximetry" ? (
-              <circle key={`${p.kind}-${i}`} cx={px} cy={py} r="4.5" className="fill-surface stroke-accent" strokeWidth="2" />
+              <circle
+                key={`${p.kind}-${i}`}
+                cx={px}
+                cy={py}
+                r="4.5"
+                className="fill-surface stroke-accent"
+                strokeWidth="2"
+              />
             ) : (
-              <circle key={`${p.kind}-${i}`} cx={px} cy={py} r="4.5" className="fill-accent stroke-surface" />
+              <circle
+                key={`${p.kind}-${i}`}
+                cx={px}
+                cy={py}
+                r="4.5"
+                className="fill-accent stroke-surface"
+              />
             );
           })}
           {labels.map((label) => (

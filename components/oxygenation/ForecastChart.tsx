@@ -25,7 +25,14 @@ export const MODELS: readonly {
   fill: string;
   marker: MarkerShape;
 }[] = [
-  { key: "pf", label: "Constant P/F", short: "P/F", stroke: "stroke-accent", fill: "fill-accent", marker: "circle" },
+  {
+    key: "pf",
+    label: "Constant P/F",
+    short: "P/F",
+    stroke: "stroke-accent",
+    fill: "fill-accent",
+    marker: "circle",
+  },
   {
     key: "alveolarArterialRatio",
     label: "Constant a/A ratio",
@@ -35,7 +42,15 @@ export const MODELS: readonly {
     fill: "fill-ink",
     marker: "square",
   },
-  { key: "shunt", label: "Shunt model", short: "Shunt", dash: "2 3", stroke: "stroke-ink-muted", fill: "fill-ink-muted", marker: "triangle" },
+  {
+    key: "shunt",
+    label: "Shunt model",
+    short: "Shunt",
+    dash: "2 3",
+    stroke: "stroke-ink-muted",
+    fill: "fill-ink-muted",
+    marker: "triangle",
+  },
 ];
 
 /** One FiO2 along the chart's x axis with every model's PaO2 (mmHg). */
@@ -58,7 +73,11 @@ export function forecastSamples(baseline: Omit<ForecastInput, "nextFio2">): Fore
       const f = forecastFio2Change({ ...baseline, nextFio2: fio2 });
       samples.push({
         fio2,
-        models: { pf: f.models.pf.pao2, alveolarArterialRatio: f.models.alveolarArterialRatio.pao2, shunt: f.models.shunt.pao2 },
+        models: {
+          pf: f.models.pf.pao2,
+          alveolarArterialRatio: f.models.alveolarArterialRatio.pao2,
+          shunt: f.models.shunt.pao2,
+        },
         low: f.range.low.pao2,
         high: f.range.high.pao2,
       });
@@ -69,12 +88,26 @@ export function forecastSamples(baseline: Omit<ForecastInput, "nextFio2">): Fore
   return samples;
 }
 
-export function Marker({ shape, x, y, size = 4.5, className }: { shape: MarkerShape; x: number; y: number; size?: number; className: string }) {
+export function Marker({
+  shape,
+  x,
+  y,
+  size = 4.5,
+  className,
+}: {
+  shape: MarkerShape;
+  x: number;
+  y: number;
+  size?: number;
+  className: string;
+}) {
   switch (shape) {
     case "circle":
       return <circle cx={x} cy={y} r={size} className={className} />;
     case "square":
-      return <rect x={x - size} y={y - size} width={size * 2} height={size * 2} className={className} />;
+      return (
+        <rect x={x - size} y={y - size} width={size * 2} height={size * 2} className={className} />
+      );
     case "triangle":
       return (
         <polygon
@@ -89,8 +122,22 @@ export function Marker({ shape, x, y, size = 4.5, className }: { shape: MarkerSh
 export function ModelSwatch({ model }: { model: (typeof MODELS)[number] }) {
   return (
     <svg viewBox="0 0 30 12" width="30" height="12" aria-hidden className="shrink-0">
-      <line x1="1" y1="6" x2="29" y2="6" strokeWidth="2" strokeDasharray={model.dash} className={model.stroke} />
-      <Marker shape={model.marker} x={15} y={6} size={3.5} className={`${model.fill} stroke-surface`} />
+      <line
+        x1="1"
+        y1="6"
+        x2="29"
+        y2="6"
+        strokeWidth="2"
+        strokeDasharray={model.dash}
+        className={model.stroke}
+      />
+      <Marker
+        shape={model.marker}
+        x={15}
+        y={6}
+        size={3.5}
+        className={`${model.fill} stroke-surface`}
+      />
     </svg>
   );
 }
@@ -124,14 +171,23 @@ export function ForecastChart({
   const id = useId();
   const show = (mmHg: number) => pressureIn(mmHg, pressureUnit);
   const text = (mmHg: number) => formatPressureNumber(mmHg, pressureUnit);
-  const highest = Math.max(measured.pao2, proposed?.forecast.range.high.pao2 ?? 0, ...samples.map((s) => s.high));
+  const highest = Math.max(
+    measured.pao2,
+    proposed?.forecast.range.high.pao2 ?? 0,
+    ...samples.map((s) => s.high),
+  );
   const axis = niceAxis(show(highest) * 1.04);
   const x = (fio2: number) => M.left + ((fio2 - X_MIN) / (X_MAX - X_MIN)) * PW;
   const y = (mmHg: number) => M.top + PH - (show(mmHg) / axis.max) * PH;
-  const yTicks = Array.from({ length: Math.round(axis.max / axis.step) + 1 }, (_, i) => i * axis.step);
+  const yTicks = Array.from(
+    { length: Math.round(axis.max / axis.step) + 1 },
+    (_, i) => i * axis.step,
+  );
 
   const path = (values: (s: ForecastSample) => number) =>
-    samples.map((s, i) => `${i === 0 ? "M" : "L"}${x(s.fio2).toFixed(1)},${y(values(s)).toFixed(1)}`).join(" ");
+    samples
+      .map((s, i) => `${i === 0 ? "M" : "L"}${x(s.fio2).toFixed(1)},${y(values(s)).toFixed(1)}`)
+      .join(" ");
   const band =
     samples.length > 1
       ? [
@@ -158,7 +214,9 @@ export function ForecastChart({
     : null;
   const description =
     `Forecast PaO2 by three models for FiO2 from 0.21 to 1.00; the measured blood gas is PaO2 ${text(measured.pao2)} ${unit} at FiO2 ${formatFio2(measured.fio2)}.` +
-    (proposed && rangeText ? ` At the proposed FiO2 ${formatFio2(proposed.fio2)} the models give PaO2 ${rangeText}.` : "");
+    (proposed && rangeText
+      ? ` At the proposed FiO2 ${formatFio2(proposed.fio2)} the models give PaO2 ${rangeText}.`
+      : "");
   const tableRows = samples.filter((s) => TABLE_FIO2.some((f) => Math.abs(f - s.fio2) < 1e-9));
   const px = proposed ? x(proposed.fio2) : 0;
   // The range is written above the plot, over the proposed FiO2, kept inside the chart's width.
@@ -180,8 +238,20 @@ export function ForecastChart({
             const ty = M.top + PH - (t / axis.max) * PH;
             return (
               <g key={t}>
-                <line x1={M.left} x2={M.left + PW} y1={ty} y2={ty} className="stroke-border" strokeWidth="1" />
-                <text x={M.left - 6} y={ty + 3.5} textAnchor="end" className="fill-ink-muted text-[11px] tabular">
+                <line
+                  x1={M.left}
+                  x2={M.left + PW}
+                  y1={ty}
+                  y2={ty}
+                  className="stroke-border"
+                  strokeWidth="1"
+                />
+                <text
+                  x={M.left - 6}
+                  y={ty + 3.5}
+                  textAnchor="end"
+                  className="tabular fill-ink-muted text-[11px]"
+                >
                   {Number(t.toFixed(2))}
                 </text>
               </g>
@@ -189,14 +259,36 @@ export function ForecastChart({
           })}
           {X_TICKS.map((t) => (
             <g key={t}>
-              <line x1={x(t)} x2={x(t)} y1={M.top + PH} y2={M.top + PH + 4} className="stroke-border-strong" />
-              <text x={x(t)} y={M.top + PH + 16} textAnchor="middle" className="fill-ink-muted text-[11px] tabular">
+              <line
+                x1={x(t)}
+                x2={x(t)}
+                y1={M.top + PH}
+                y2={M.top + PH + 4}
+                className="stroke-border-strong"
+              />
+              <text
+                x={x(t)}
+                y={M.top + PH + 16}
+                textAnchor="middle"
+                className="tabular fill-ink-muted text-[11px]"
+              >
                 {t === 1 ? "1.0" : t.toFixed(2).replace(/0$/, "")}
               </text>
             </g>
           ))}
-          <line x1={M.left} x2={M.left + PW} y1={M.top + PH} y2={M.top + PH} className="stroke-border-strong" />
-          <text x={M.left + PW / 2} y={H - 6} textAnchor="middle" className="fill-ink text-[11px] font-medium">
+          <line
+            x1={M.left}
+            x2={M.left + PW}
+            y1={M.top + PH}
+            y2={M.top + PH}
+            className="stroke-border-strong"
+          />
+          <text
+            x={M.left + PW / 2}
+            y={H - 6}
+            textAnchor="middle"
+            className="fill-ink text-[11px] font-medium"
+          >
             FiO2 (fraction)
           </text>
           <text
@@ -254,13 +346,24 @@ export function ForecastChart({
                   className={`${m.fill} stroke-surface`}
                 />
               ))}
-              <text x={topLabelX} y={M.top - 14} textAnchor="middle" className="fill-ink text-[12px] font-semibold tabular">
+              <text
+                x={topLabelX}
+                y={M.top - 14}
+                textAnchor="middle"
+                className="tabular fill-ink text-[12px] font-semibold"
+              >
                 {`FiO2 ${formatFio2(proposed.fio2)}: PaO2 ${rangeText ?? ""}`}
               </text>
             </g>
           ) : null}
 
-          <circle cx={x(measured.fio2)} cy={y(measured.pao2)} r="5" className="fill-surface stroke-ink" strokeWidth="2" />
+          <circle
+            cx={x(measured.fio2)}
+            cy={y(measured.pao2)}
+            r="5"
+            className="fill-surface stroke-ink"
+            strokeWidth="2"
+          />
           <circle cx={x(measured.fio2)} cy={y(measured.pao2)} r="2" className="fill-ink" />
           <text
             x={x(measured.fio2) + (x(measured.fio2) > M.left + PW * 0.8 ? -8 : 8)}

@@ -31,7 +31,10 @@ const GLOBAL_WORDS: Record<GlobalCategory, string> = {
  * Which ratio set the global category. P/F and S/F are alternatives there; with
  * both, the worse band is reported and the criterion line names the other.
  */
-const CLASSIFIED_BY_WORDS: Record<NonNullable<ClassificationResult<string>["classifiedBy"]>, string> = {
+const CLASSIFIED_BY_WORDS: Record<
+  NonNullable<ClassificationResult<string>["classifiedBy"]>,
+  string
+> = {
   "P/F": "P/F ratio",
   "S/F": "S/F ratio",
   both: "P/F and S/F ratios (same band)",
@@ -85,8 +88,13 @@ export function OxygenationCriteria({
         ARDS oxygenation criterion
       </h3>
       <ul className="grid grid-cols-1 items-start gap-3 md:grid-cols-2">
-        <li className="rounded-card border border-border bg-surface p-3" data-testid="berlin-category">
-          <p className="text-xs font-medium uppercase tracking-wide text-ink-muted">Berlin definition 2012</p>
+        <li
+          className="rounded-card border border-border bg-surface p-3"
+          data-testid="berlin-category"
+        >
+          <p className="text-xs font-medium tracking-wide text-ink-muted uppercase">
+            Berlin definition 2012
+          </p>
           <p className="text-lg font-semibold">{BERLIN_WORDS[classification.berlin.category]}</p>
           <p className="text-sm text-ink-muted">Decided by: {classification.berlin.criterion}</p>
           <BasisDisclosure
@@ -99,8 +107,13 @@ export function OxygenationCriteria({
             )}
           />
         </li>
-        <li className="rounded-card border border-border bg-surface p-3" data-testid="global-category">
-          <p className="text-xs font-medium uppercase tracking-wide text-ink-muted">Global definition 2023</p>
+        <li
+          className="rounded-card border border-border bg-surface p-3"
+          data-testid="global-category"
+        >
+          <p className="text-xs font-medium tracking-wide text-ink-muted uppercase">
+            Global definition 2023
+          </p>
           <p className="text-lg font-semibold">{GLOBAL_WORDS[classification.global.category]}</p>
           {classification.global.classifiedBy ? (
             <p className="text-sm font-medium" data-testid="global-classified-by">

@@ -27,9 +27,10 @@ function IndexCard({
       className={`rounded-card border border-border bg-surface p-3 ${wide ? "sm:col-span-2" : ""}`}
       data-testid="oxygenation-index"
     >
-      <p className="text-xs font-medium uppercase tracking-wide text-ink-muted">{label}</p>
-      <p className="mt-0.5 tabular">
-        <span className="text-value">{value}</span> <span className="text-sm text-ink-muted">{unit}</span>
+      <p className="text-xs font-medium tracking-wide text-ink-muted uppercase">{label}</p>
+      <p className="tabular mt-0.5">
+        <span className="text-value">{value}</span>{" "}
+        <span className="text-sm text-ink-muted">{unit}</span>
       </p>
       {children}
       <BasisDisclosure basis={basis} pressureUnit={pressureUnit} />
@@ -57,7 +58,13 @@ export function OxygenationIndices({
         Indices
       </h3>
       <ul className="grid grid-cols-1 items-start gap-3 sm:grid-cols-2 lg:grid-cols-4">
-        <IndexCard label="P/F ratio" value={pressure(indices.pfRatio)} unit={unit} basis={indices.pfRatio.basis} pressureUnit={unit} />
+        <IndexCard
+          label="P/F ratio"
+          value={pressure(indices.pfRatio)}
+          unit={unit}
+          basis={indices.pfRatio.basis}
+          pressureUnit={unit}
+        />
         {indices.sfRatio ? (
           <IndexCard
             label="S/F ratio"
@@ -106,7 +113,7 @@ export function OxygenationIndices({
             basis={content.total.basis}
             pressureUnit={unit}
           >
-            <dl className="mt-1 grid grid-cols-[auto_auto] justify-start gap-x-3 text-xs tabular">
+            <dl className="tabular mt-1 grid grid-cols-[auto_auto] justify-start gap-x-3 text-xs">
               <dt className="text-ink-muted">Bound to Hb</dt>
               <dd>
                 {formatNumber(content.bound.value, 1)} {content.bound.unit}

@@ -45,8 +45,7 @@ function defaultProposalPercent(fio2: number): number {
 }
 
 type ForecastOutcome =
-  | { ok: true; fio2: number; forecast: Fio2Forecast }
-  | { ok: false; message: string };
+  { ok: true; fio2: number; forecast: Fio2Forecast } | { ok: false; message: string };
 
 /**
  * The oxygenation panel of the Chart: the indices of one blood gas, each with
@@ -68,7 +67,9 @@ export function OxygenationPanel({ assessment, input, pressureUnit }: Oxygenatio
     [input.fio2, input.pao2, input.paco2, input.hemoglobin, input.barometricPressure],
   );
   const samples = useMemo(() => forecastSamples(baseline), [baseline]);
-  const [proposedText, setProposedText] = useState(() => String(defaultProposalPercent(input.fio2)));
+  const [proposedText, setProposedText] = useState(() =>
+    String(defaultProposalPercent(input.fio2)),
+  );
 
   const outcome = useMemo<ForecastOutcome>(() => {
     const percent = proposedText.trim() === "" ? Number.NaN : Number(proposedText);
@@ -88,35 +89,64 @@ export function OxygenationPanel({ assessment, input, pressureUnit }: Oxygenatio
           message: `Proposed FiO2 must be at least ${Math.ceil(error.min * 100)} %${reason ? `: ${reason}` : ""}.`,
         };
       }
-      return { ok: false, message: describeInputError(error, { pressureUnit: unit, hemoglobinUnit: "g/dL" }).message };
+      return {
+        ok: false,
+        message: describeInputError(error, { pressureUnit: unit, hemoglobinUnit: "g/dL" }).message,
+      };
     }
   }, [baseline, proposedText, unit]);
 
-  const sliderValue = outcome.ok ? Math.round(outcome.fio2 * 100) : defaultProposalPercent(input.fio2);
+  const sliderValue = outcome.ok
+    ? Math.round(outcome.fio2 * 100)
+    : defaultProposalPercent(input.fio2);
   const forecast = outcome.ok ? outcome.forecast : null;
-  const bases = outcome.ok ? forecastBasis({ ...baseline, nextFio2: outcome.fio2 }, outcome.forecast) : null;
+  const bases = outcome.ok
+    ? forecastBasis({ ...baseline, nextFio2: outcome.fio2 }, outcome.forecast)
+    : null;
 
   const curvePoints: CurvePoint[] = [];
   if (input.sao2 !== undefined) {
-    curvePoints.push({ label: "SaO2 measured", po2: input.pao2, saturation: input.sao2 * 100, kind: "measured" });
+    curvePoints.push({
+      label: "SaO2 measured",
+      po2: input.pao2,
+      saturation: input.sao2 * 100,
+      kind: "measured",
+    });
   }
   if (input.spo2 !== undefined) {
     curvePoints.push({ label: "SpO2", po2: input.pao2, saturation: input.spo2, kind: "oximetry" });
   }
   if (input.sao2 === undefined && input.spo2 === undefined) {
-    curvePoints.push({ label: "PaO2 on the curve", po2: input.pao2, saturation: 100 * saturationFromPO2(input.pao2), kind: "curve" });
+    curvePoints.push({
+      label: "PaO2 on the curve",
+      po2: input.pao2,
+      saturation: 100 * saturationFromPO2(input.pao2),
+      kind: "curve",
+    });
   }
   if (forecast) {
     curvePoints.push(
-      { label: "forecast low", po2: forecast.range.low.pao2, saturation: forecast.range.low.spo2, kind: "forecast" },
-      { label: "forecast high", po2: forecast.range.high.pao2, saturation: forecast.range.high.spo2, kind: "forecast" },
+      {
+        label: "forecast low",
+        po2: forecast.range.low.pao2,
+        saturation: forecast.range.low.spo2,
+        kind: "forecast",
+      },
+      {
+        label: "forecast high",
+        po2: forecast.range.high.pao2,
+        saturation: forecast.range.high.spo2,
+        kind: "forecast",
+      },
     );
   }
 
   const caveats = [
     ...assessment.caveats,
     ...(input.hemoglobin === undefined
-      ? [`No haemoglobin was given: the shunt model assumes ${ASSUMED_HEMOGLOBIN} g/dL and oxygen content is not shown.`]
+      ? [
+          `No haemoglobin was given: the shunt model assumes ${ASSUMED_HEMOGLOBIN} g/dL and oxygen content is not shown.`,
+        ]
       : []),
     ...(forecast?.caveats.filter((c) => c !== PEEP_NOT_FORECAST) ?? []),
   ];
@@ -128,8 +158,8 @@ export function OxygenationPanel({ assessment, input, pressureUnit }: Oxygenatio
         <p className="flex items-start gap-2 rounded-md border border-below/40 bg-below-soft px-3 py-2 text-sm text-below">
           <IconWarning className="mt-0.5 shrink-0" />
           <span>
-            <strong>Inconsistent blood gas:</strong> the measured PaO2 is above the computed alveolar PO2. The A–a
-            gradient and a/A ratio are not interpretable; see the caveats.
+            <strong>Inconsistent blood gas:</strong> the measured PaO2 is above the computed
+            alveolar PO2. The A–a gradient and a/A ratio are not interpretable; see the caveats.
           </span>
         </p>
       ) : null}
@@ -160,7 +190,7 @@ export function OxygenationPanel({ assessment, input, pressureUnit }: Oxygenatio
                   onChange={(e) => setProposedText(e.target.value)}
                   aria-invalid={!outcome.ok}
                   aria-describedby={`${id}-proposed-note`}
-                  className="w-20 shrink-0 rounded-md border border-border-strong bg-surface px-2.5 py-1.5 text-base text-ink tabular aria-[invalid=true]:border-below"
+                  className="tabular w-20 shrink-0 rounded-md border border-border-strong bg-surface px-2.5 py-1.5 text-base text-ink aria-[invalid=true]:border-below"
                 />
                 <input
                   type="range"
@@ -179,14 +209,19 @@ export function OxygenationPanel({ assessment, input, pressureUnit }: Oxygenatio
               </p>
             </div>
 
-            <div role="status" aria-live="polite" className="rounded-md bg-accent-soft px-3 py-2" data-testid="forecast-range">
+            <div
+              role="status"
+              aria-live="polite"
+              className="rounded-md bg-accent-soft px-3 py-2"
+              data-testid="forecast-range"
+            >
               {outcome.ok ? (
                 <>
-                  <p className="text-lg font-semibold tabular">
+                  <p className="tabular text-lg font-semibold">
                     PaO2 forecast {formatPressureNumber(outcome.forecast.range.low.pao2, unit)}–
                     {formatPressureNumber(outcome.forecast.range.high.pao2, unit)} {unit}
                   </p>
-                  <p className="text-sm tabular">
+                  <p className="tabular text-sm">
                     SpO2 forecast {formatNumber(outcome.forecast.range.low.spo2, 0)}–
                     {formatNumber(outcome.forecast.range.high.spo2, 0)} % (standard curve) at FiO2{" "}
                     {formatFio2(outcome.fio2)}
@@ -204,7 +239,7 @@ export function OxygenationPanel({ assessment, input, pressureUnit }: Oxygenatio
                     <div className="flex flex-wrap items-center gap-x-2">
                       <ModelSwatch model={m} />
                       <span className="font-medium">{m.label}</span>
-                      <span className="ml-auto tabular">
+                      <span className="tabular ml-auto">
                         {formatPressureNumber(forecast.models[m.key].pao2, unit)} {unit} ·{" "}
                         {formatNumber(forecast.models[m.key].spo2, 0)} %
                       </span>
@@ -218,8 +253,8 @@ export function OxygenationPanel({ assessment, input, pressureUnit }: Oxygenatio
             <p className="flex items-start gap-2 text-sm">
               <IconWarning className="mt-0.5 shrink-0 text-overdue" />
               <span>
-                A PEEP change is not forecast numerically: only FiO2 is. After changing PEEP, re-measure (blood gas or
-                SpO2) rather than rely on a number.
+                A PEEP change is not forecast numerically: only FiO2 is. After changing PEEP,
+                re-measure (blood gas or SpO2) rather than rely on a number.
               </span>
             </p>
             <Caution compact />
@@ -239,11 +274,18 @@ export function OxygenationPanel({ assessment, input, pressureUnit }: Oxygenatio
                 </span>
               ))}
               <span className="inline-flex items-center gap-1">
-                <span aria-hidden className="inline-block h-3 w-5 rounded-sm bg-accent/15" /> range between models
+                <span aria-hidden className="inline-block h-3 w-5 rounded-sm bg-accent/15" /> range
+                between models
               </span>
               <span className="inline-flex items-center gap-1">
                 <svg viewBox="0 0 12 12" width="12" height="12" aria-hidden>
-                  <circle cx="6" cy="6" r="4.5" className="fill-surface stroke-ink" strokeWidth="2" />
+                  <circle
+                    cx="6"
+                    cy="6"
+                    r="4.5"
+                    className="fill-surface stroke-ink"
+                    strokeWidth="2"
+                  />
                 </svg>
                 measured
               </span>
@@ -259,7 +301,9 @@ export function OxygenationPanel({ assessment, input, pressureUnit }: Oxygenatio
           </h3>
           <DissociationChart
             points={curvePoints}
-            forecastRange={forecast ? { low: forecast.range.low.pao2, high: forecast.range.high.pao2 } : null}
+            forecastRange={
+              forecast ? { low: forecast.range.low.pao2, high: forecast.range.high.pao2 } : null
+            }
             pressureUnit={unit}
           />
           <p className="flex flex-wrap items-center gap-x-3 gap-y-1 text-xs text-ink-muted">
@@ -271,7 +315,13 @@ export function OxygenationPanel({ assessment, input, pressureUnit }: Oxygenatio
             </span>
             <span className="inline-flex items-center gap-1">
               <svg viewBox="0 0 12 12" width="12" height="12" aria-hidden>
-                <circle cx="6" cy="6" r="4" className="fill-surface stroke-accent" strokeWidth="2" />
+                <circle
+                  cx="6"
+                  cy="6"
+                  r="4"
+                  className="fill-surface stroke-accent"
+                  strokeWidth="2"
+                />
               </svg>
               SpO2 (pulse oximetry)
             </span>
@@ -283,7 +333,8 @@ export function OxygenationPanel({ assessment, input, pressureUnit }: Oxygenatio
             </span>
           </p>
           <p className="text-xs text-ink-muted">
-            Standard curve (37 °C, pH 7.40, P50 {formatPressureNumber(26.8, unit, 1)} {unit}): {SOURCES.severinghaus}.
+            Standard curve (37 °C, pH 7.40, P50 {formatPressureNumber(26.8, unit, 1)} {unit}):{" "}
+            {SOURCES.severinghaus}.
             {input.sao2 === undefined && input.spo2 === undefined
               ? ` Saturation at PaO2 ${formatPressureNumber(input.pao2, unit)} ${unit} read from the curve: ${formatNumber(100 * saturationFromPO2(input.pao2), 1)} %.`
               : ""}
@@ -304,7 +355,9 @@ export function OxygenationPanel({ assessment, input, pressureUnit }: Oxygenatio
               ))}
             </ul>
           ) : (
-            <p className="text-sm text-ink-muted">The engine raised no caveats for this blood gas.</p>
+            <p className="text-sm text-ink-muted">
+              The engine raised no caveats for this blood gas.
+            </p>
           )}
         </section>
       </div>

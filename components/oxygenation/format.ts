@@ -4,7 +4,11 @@ import { pressureIn, type PressureUnit } from "@/lib/oxygen";
 // pressures are shown in the user's unit: whole mmHg, or kPa to one decimal.
 
 /** A pressure in mmHg as text in `unit`, without the unit. */
-export function formatPressureNumber(valueMmHg: number, unit: PressureUnit, extraDigits = 0): string {
+export function formatPressureNumber(
+  valueMmHg: number,
+  unit: PressureUnit,
+  extraDigits = 0,
+): string {
   return formatNumber(pressureIn(valueMmHg, unit), (unit === "kPa" ? 1 : 0) + extraDigits);
 }
 
@@ -22,7 +26,9 @@ export const formatFio2 = (fio2: number): string => fio2.toFixed(2);
 export function formatBasisInput(value: number, unit: string, pressureUnit: PressureUnit): string {
   if (unit === "mmHg") {
     const mmHg = `${formatNumber(value, Number.isInteger(value) ? 0 : 1)} mmHg`;
-    return pressureUnit === "kPa" ? `${formatNumber(pressureIn(value, "kPa"), 2)} kPa (${mmHg})` : mmHg;
+    return pressureUnit === "kPa"
+      ? `${formatNumber(pressureIn(value, "kPa"), 2)} kPa (${mmHg})`
+      : mmHg;
   }
   if (unit === "fraction") return formatNumber(value, 2);
   if (unit === "ratio") return formatNumber(value, Math.abs(value) >= 10 ? 0 : 2);
@@ -34,7 +40,8 @@ export function niceAxis(max: number): { max: number; step: number } {
   const safe = max > 0 && Number.isFinite(max) ? max : 1;
   const magnitude = 10 ** Math.floor(Math.log10(safe / 7));
   const step =
-    [1, 2, 2.5, 5, 10].map((m) => m * magnitude).find((candidate) => Math.ceil(safe / candidate - 1e-9) <= 7) ??
-    10 * magnitude;
+    [1, 2, 2.5, 5, 10]
+      .map((m) => m * magnitude)
+      .find((candidate) => Math.ceil(safe / candidate - 1e-9) <= 7) ?? 10 * magnitude;
   return { max: Math.ceil(safe / step - 1e-9) * step, step };
 }

@@ -14,7 +14,10 @@ export function UnitSwitcher({ units, value }: { units: UnitOption[]; value: str
   const [selected, setSelected] = useState(value);
   const [error, setError] = useState<string | null>(null);
   const [pending, startTransition] = useTransition();
-  const options = [{ value: "all", label: "All my units" }, ...units.map((u) => ({ value: String(u.id), label: `${u.code} · ${u.name}` }))];
+  const options = [
+    { value: "all", label: "All my units" },
+    ...units.map((u) => ({ value: String(u.id), label: `${u.code} · ${u.name}` })),
+  ];
   const current = options.find((o) => o.value === selected) ?? options[0]!;
 
   const choose = (next: string) => {

@@ -3,7 +3,10 @@ import { IconAbove, IconBelow, IconEscalated, IconInBand, IconInfo, IconOverdue 
 
 export type Status = "in-band" | "below" | "above" | "overdue" | "escalated" | "neutral";
 
-const LOOK: Record<Status, { label: string; className: string; Icon: ComponentType<SVGProps<SVGSVGElement>> }> = {
+const LOOK: Record<
+  Status,
+  { label: string; className: string; Icon: ComponentType<SVGProps<SVGSVGElement>> }
+> = {
   "in-band": { label: "In band", className: "bg-in-band-soft text-in-band", Icon: IconInBand },
   below: { label: "Below band", className: "bg-below-soft text-below", Icon: IconBelow },
   above: { label: "Above band on O₂", className: "bg-above-soft text-above", Icon: IconAbove },

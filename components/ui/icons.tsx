@@ -97,7 +97,10 @@ export const IconChevronDown = (p: IconProps) => (
     <path d="M5 8l5 5 5-5" />
   </Svg>
 );
-export const IconSort = ({ direction, ...p }: IconProps & { direction: "asc" | "desc" | "none" }) => (
+export const IconSort = ({
+  direction,
+  ...p
+}: IconProps & { direction: "asc" | "desc" | "none" }) => (
   <Svg {...p}>
     <path d="M7 8l3-3 3 3" opacity={direction === "desc" ? 0.25 : 1} />
     <path d="M7 12l3 3 3-3" opacity={direction === "asc" ? 0.25 : 1} />

@@ -49,10 +49,19 @@ export function UserActivePanel({ user, isSelf }: { user: UserSummary; isSelf: b
   };
 
   return (
-    <section className="space-y-2 rounded-card border border-border bg-surface p-5 shadow-card" aria-labelledby="account-status">
-      <h2 id="account-status" className="text-lg font-semibold">Account status</h2>
+    <section
+      className="space-y-2 rounded-card border border-border bg-surface p-5 shadow-card"
+      aria-labelledby="account-status"
+    >
+      <h2 id="account-status" className="text-lg font-semibold">
+        Account status
+      </h2>
       <div className="flex flex-wrap items-center gap-3">
-        {user.active ? <StatusBadge status="in-band" label="Active" /> : <StatusBadge status="neutral" label="Deactivated" />}
+        {user.active ? (
+          <StatusBadge status="in-band" label="Active" />
+        ) : (
+          <StatusBadge status="neutral" label="Deactivated" />
+        )}
         {isSelf ? (
           <span className="text-sm text-ink-muted">You cannot deactivate your own account.</span>
         ) : (
@@ -74,7 +83,11 @@ export function UserActivePanel({ user, isSelf }: { user: UserSummary; isSelf: b
                 : "They can sign in again with their existing password."}
             </p>
             <form onSubmit={submit} className="space-y-3" noValidate>
-              <Field id="active-reason" label="Reason (recorded in the ledger)" error={error ?? undefined}>
+              <Field
+                id="active-reason"
+                label="Reason (recorded in the ledger)"
+                error={error ?? undefined}
+              >
                 {(d, invalid) => (
                   <input
                     id="active-reason"

@@ -32,10 +32,21 @@ function sortValue(u: UserSummary, key: UserSortKey): string {
 }
 
 /** The user list with sortable column headers (buttons, so the keyboard sorts too). */
-export function UsersTable({ users, currentUserId }: { users: UserSummary[]; currentUserId: number }) {
-  const [sort, setSort] = useState<{ key: UserSortKey; dir: "asc" | "desc" }>({ key: "name", dir: "asc" });
+export function UsersTable({
+  users,
+  currentUserId,
+}: {
+  users: UserSummary[];
+  currentUserId: number;
+}) {
+  const [sort, setSort] = useState<{ key: UserSortKey; dir: "asc" | "desc" }>({
+    key: "name",
+    dir: "asc",
+  });
   const sorted = useMemo(() => {
-    const list = [...users].sort((a, b) => sortValue(a, sort.key).localeCompare(sortValue(b, sort.key)));
+    const list = [...users].sort((a, b) =>
+      sortValue(a, sort.key).localeCompare(sortValue(b, sort.key)),
+    );
     return sort.dir === "asc" ? list : list.reverse();
   }, [users, sort]);
 
@@ -45,8 +56,10 @@ export function UsersTable({ users, currentUserId }: { users: UserSummary[]; cur
   return (
     <div className="overflow-x-auto rounded-card border border-border bg-surface shadow-card">
       <table className="w-full text-left text-sm" data-testid="users-table">
-        <caption className="sr-only">Users, sorted by {sort.key} {sort.dir === "asc" ? "ascending" : "descending"}</caption>
-        <thead className="border-b border-border bg-surface-muted text-xs uppercase tracking-wide text-ink-muted">
+        <caption className="sr-only">
+          Users, sorted by {sort.key} {sort.dir === "asc" ? "ascending" : "descending"}
+        </caption>
+        <thead className="border-b border-border bg-surface-muted text-xs tracking-wide text-ink-muted uppercase">
           <tr>
             {COLUMNS.map((c) => {
               const active = sort.key === c.key;
@@ -68,17 +81,24 @@ export function UsersTable({ users, currentUserId }: { users: UserSummary[]; cur
                 </th>
               );
             })}
-            <th scope="col" className="px-3 py-2">Units</th>
+            <th scope="col" className="px-3 py-2">
+              Units
+            </th>
           </tr>
         </thead>
         <tbody>
           {sorted.map((u) => (
             <tr key={u.id} className="border-b border-border last:border-0" data-testid="user-row">
               <th scope="row" className="px-3 py-2 font-medium">
-                <Link href={`/admin/users/${u.id}`} className="text-accent underline-offset-2 hover:underline">
+                <Link
+                  href={`/admin/users/${u.id}`}
+                  className="text-accent underline-offset-2 hover:underline"
+                >
                   {u.name}
                 </Link>
-                {u.id === currentUserId ? <span className="ml-1 text-xs text-ink-muted">(you)</span> : null}
+                {u.id === currentUserId ? (
+                  <span className="ml-1 text-xs text-ink-muted">(you)</span>
+                ) : null}
               </th>
               <td className="px-3 py-2">{u.email}</td>
               <td className="px-3 py-2">{ROLE_LABELS[u.role]}</td>
@@ -89,7 +109,9 @@ export function UsersTable({ users, currentUserId }: { users: UserSummary[]; cur
                   <StatusBadge status="neutral" label="Deactivated" />
                 )}
               </td>
-              <td className="px-3 py-2 tabular">{u.updatedAt.slice(0, 16).replace("T", " ")} UTC</td>
+              <td className="tabular px-3 py-2">
+                {u.updatedAt.slice(0, 16).replace("T", " ")} UTC
+              </td>
               <td className="px-3 py-2">{u.units.map((x) => x.code).join(", ") || "—"}</td>
             </tr>
           ))}

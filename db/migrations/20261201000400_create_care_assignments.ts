@@ -11,7 +11,9 @@ export async function up(knex: Knex): Promise<void> {
     t.datetime("ends_at", { precision: 3 }).notNullable();
     t.index(["bed_id", "starts_at", "ends_at"], "care_assignments_bed_window_index");
     t.index(["user_id", "starts_at"], "care_assignments_user_id_starts_at_index");
-    t.unique(["bed_id", "duty", "starts_at"], { indexName: "care_assignments_bed_duty_start_unique" });
+    t.unique(["bed_id", "duty", "starts_at"], {
+      indexName: "care_assignments_bed_duty_start_unique",
+    });
   });
   await knex.raw(
     "ALTER TABLE care_assignments ADD CONSTRAINT care_assignments_window CHECK (ends_at > starts_at)",

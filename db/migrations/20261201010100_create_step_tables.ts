@@ -18,7 +18,11 @@ export async function up(knex: Knex): Promise<void> {
   });
   await knex.schema.createTable("step_table_rows", (t) => {
     t.increments("id").primary();
-    t.integer("step_table_id").unsigned().notNullable().references("step_tables.id").onDelete("CASCADE");
+    t.integer("step_table_id")
+      .unsigned()
+      .notNullable()
+      .references("step_tables.id")
+      .onDelete("CASCADE");
     t.integer("position").unsigned().notNullable();
     // A published range (e.g. PEEP 18–24) is stored as min and max; a single value has min = max.
     t.decimal("fio2_min", 3, 2).notNullable();
@@ -30,8 +34,16 @@ export async function up(knex: Knex): Promise<void> {
   });
 
   const builtIns = [
-    { code: "ardsnet-lower-peep", name: "ARDS Network lower PEEP / higher FiO2", table: "lower-peep" as const },
-    { code: "ardsnet-higher-peep", name: "ARDS Network higher PEEP / lower FiO2", table: "higher-peep" as const },
+    {
+      code: "ardsnet-lower-peep",
+      name: "ARDS Network lower PEEP / higher FiO2",
+      table: "lower-peep" as const,
+    },
+    {
+      code: "ardsnet-higher-peep",
+      name: "ARDS Network higher PEEP / lower FiO2",
+      table: "higher-peep" as const,
+    },
   ];
   for (const b of builtIns) {
     const [id] = await knex("step_tables").insert({

@@ -17,7 +17,13 @@ export async function up(knex: Knex): Promise<void> {
     t.integer("patient_id").unsigned().notNullable().references("patients.id");
     t.integer("admission_id").unsigned().notNullable().references("admissions.id");
     t.integer("unit_id").unsigned().notNullable().references("units.id");
-    t.enum("status", ["draft", "awaiting_cosign", "active", "superseded", "discontinued"]).notNullable();
+    t.enum("status", [
+      "draft",
+      "awaiting_cosign",
+      "active",
+      "superseded",
+      "discontinued",
+    ]).notNullable();
     t.enum("device", [...DEVICES]).notNullable();
     t.tinyint("spo2_lower_pct").unsigned().notNullable();
     t.tinyint("spo2_upper_pct").unsigned().notNullable();

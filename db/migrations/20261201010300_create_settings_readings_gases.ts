@@ -100,7 +100,13 @@ export async function up(knex: Knex): Promise<void> {
 }
 
 export async function down(knex: Knex): Promise<void> {
-  for (const table of ["idempotency_keys", "blood_gases", "readings", "adjustments", "bedside_settings"]) {
+  for (const table of [
+    "idempotency_keys",
+    "blood_gases",
+    "readings",
+    "adjustments",
+    "bedside_settings",
+  ]) {
     await knex.schema.dropTableIfExists(table);
   }
 }

@@ -13,9 +13,13 @@ export async function up(knex: Knex): Promise<void> {
     t.specificType("content_sha256", "CHAR(64)").notNullable();
     // sha256 over kind, unit, patient/bed scope and the content hash: the same
     // file for the same place is one import, whatever its name.
-    t.specificType("dedupe_key", "CHAR(64)").notNullable().unique({ indexName: "imports_dedupe_key_unique" });
+    t.specificType("dedupe_key", "CHAR(64)")
+      .notNullable()
+      .unique({ indexName: "imports_dedupe_key_unique" });
     // HL7 v2: sending application and facility with MSH-10, unique per sender.
-    t.string("source_message_id", 255).nullable().unique({ indexName: "imports_source_message_id_unique" });
+    t.string("source_message_id", 255)
+      .nullable()
+      .unique({ indexName: "imports_source_message_id_unique" });
     t.specificType("original_content", "LONGBLOB").notNullable();
     t.integer("byte_size").unsigned().notNullable();
     // Column mapping and units (blood gas CSV), MRN and bed (monitor CSV).

@@ -6,7 +6,9 @@ export async function up(knex: Knex): Promise<void> {
   await knex.schema.createTable("api_tokens", (t) => {
     t.increments("id").primary();
     t.string("name", 120).notNullable();
-    t.specificType("token_hash", "CHAR(64)").notNullable().unique({ indexName: "api_tokens_token_hash_unique" });
+    t.specificType("token_hash", "CHAR(64)")
+      .notNullable()
+      .unique({ indexName: "api_tokens_token_hash_unique" });
     // The first characters of the secret, so a person can tell tokens apart.
     t.string("prefix", 16).notNullable();
     t.enum("scope", ["read", "write"]).notNullable();

@@ -3,7 +3,13 @@ import { hashPassword } from "../../lib/auth/password";
 import { DEMO_PASSWORD, DEMO_USERS, demoPatients } from "../demo/people";
 
 const UNITS = [
-  { code: "MICU", name: "Medical ICU", kind: "icu", beds: 12, occupied: [1, 2, 3, 4, 5, 6, 7, 8, 10, 11] },
+  {
+    code: "MICU",
+    name: "Medical ICU",
+    kind: "icu",
+    beds: 12,
+    occupied: [1, 2, 3, 4, 5, 6, 7, 8, 10, 11],
+  },
   {
     code: "RESP",
     name: "Respiratory Ward",
@@ -98,11 +104,17 @@ export async function seed(knex: Knex): Promise<void> {
     const id = (email: string) => userIds.get(email)!;
     const teams = [
       {
-        nurses: { MICU: ["hana.whitlock", "felix.adeyemi"], RESP: ["greta.sorensen", "mateo.ruskin"] },
+        nurses: {
+          MICU: ["hana.whitlock", "felix.adeyemi"],
+          RESP: ["greta.sorensen", "mateo.ruskin"],
+        },
         therapist: { MICU: "jonah.pell", RESP: "saoirse.mendez" },
       },
       {
-        nurses: { MICU: ["lior.brandt", "lior.brandt"], RESP: ["noor.halvorsen", "noor.halvorsen"] },
+        nurses: {
+          MICU: ["lior.brandt", "lior.brandt"],
+          RESP: ["noor.halvorsen", "noor.halvorsen"],
+        },
         therapist: { MICU: "priya.castellan", RESP: "priya.castellan" },
       },
     ];
@@ -115,10 +127,28 @@ export async function seed(knex: Knex): Promise<void> {
         for (let n = 1; n <= u.beds; n++) {
           const bedId = bedIds.get(`${u.code}:${n}`)!;
           const nurse = team.nurses[u.code][n <= u.beds / 2 ? 0 : 1]!;
-          rows.push({ bed_id: bedId, user_id: id(`${nurse}@kestrel.example`), duty: "nurse", starts_at: startsAt, ends_at: endsAt });
-          rows.push({ bed_id: bedId, user_id: id(`${team.therapist[u.code]}@kestrel.example`), duty: "therapist", starts_at: startsAt, ends_at: endsAt });
+          rows.push({
+            bed_id: bedId,
+            user_id: id(`${nurse}@kestrel.example`),
+            duty: "nurse",
+            starts_at: startsAt,
+            ends_at: endsAt,
+          });
+          rows.push({
+            bed_id: bedId,
+            user_id: id(`${team.therapist[u.code]}@kestrel.example`),
+            duty: "therapist",
+            starts_at: startsAt,
+            ends_at: endsAt,
+          });
           const physician = u.code === "MICU" ? "tobias.renwick" : "amara.obi-lund";
-          rows.push({ bed_id: bedId, user_id: id(`${physician}@kestrel.example`), duty: "physician", starts_at: startsAt, ends_at: endsAt });
+          rows.push({
+            bed_id: bedId,
+            user_id: id(`${physician}@kestrel.example`),
+            duty: "physician",
+            starts_at: startsAt,
+            ends_at: endsAt,
+          });
         }
       }
     }

@@ -86,7 +86,12 @@ export async function getPatientForActor(
       id: row.admission_id,
       admittedAt: row.admitted_at,
       bed: { id: row.bed_id, label: row.bed_label },
-      unit: { id: row.unit_id, code: row.unit_code, name: row.unit_name, altitudeM: row.altitude_m },
+      unit: {
+        id: row.unit_id,
+        code: row.unit_code,
+        name: row.unit_name,
+        altitudeM: row.altitude_m,
+      },
     },
   };
 }

@@ -11,11 +11,7 @@ import {
 import type { EmailPreferences } from "./schema";
 
 // The Board and Charts show alert counts, so they refresh with the alert list.
-const alertPages = (): Revalidation[] => [
-  "/alerts",
-  "/board",
-  ["/patients/[patientId]", "page"],
-];
+const alertPages = (): Revalidation[] => ["/alerts", "/board", ["/patients/[patientId]", "page"]];
 
 export async function acknowledgeAlertAction(
   input: unknown,

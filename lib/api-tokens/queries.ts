@@ -32,11 +32,17 @@ type Row = {
   revoked_by_name: string | null;
 };
 
-async function summaries(knex: Knex | Knex.Transaction, ids?: number[]): Promise<ApiTokenSummary[]> {
+async function summaries(
+  knex: Knex | Knex.Transaction,
+  ids?: number[],
+): Promise<ApiTokenSummary[]> {
   const q = knex("api_tokens as t")
     .join("users as c", "c.id", "t.created_by")
     .leftJoin("users as r", "r.id", "t.revoked_by")
-    .orderBy([{ column: "t.revoked_at", order: "asc", nulls: "first" }, { column: "t.created_at", order: "desc" }])
+    .orderBy([
+      { column: "t.revoked_at", order: "asc", nulls: "first" },
+      { column: "t.created_at", order: "desc" },
+    ])
     .select(
       "t.id",
       "t.name",
@@ -59,7 +65,11 @@ async function summaries(knex: Knex | Knex.Transaction, ids?: number[]): Promise
       rows.map((r) => r.id),
     )
     .orderBy("u.code")
-    .select("tu.api_token_id", "u.id", "u.code")) as { api_token_id: number; id: number; code: string }[];
+    .select("tu.api_token_id", "u.id", "u.code")) as {
+    api_token_id: number;
+    id: number;
+    code: string;
+  }[];
   return rows.map((r) => ({
     id: r.id,
     name: r.name,
@@ -81,6 +91,9 @@ export function listApiTokens(knex: Knex): Promise<ApiTokenSummary[]> {
   return summaries(knex);
 }
 
-export async function getApiToken(knex: Knex | Knex.Transaction, id: number): Promise<ApiTokenSummary | undefined> {
+export async function getApiToken(
+  knex: Knex | Knex.Transaction,
+  id: number,
+): Promise<ApiTokenSummary | undefined> {
   return (await summaries(knex, [id]))[0];
 }

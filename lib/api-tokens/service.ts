@@ -2,7 +2,14 @@ import { createHash, randomBytes } from "node:crypto";
 import type { Knex } from "knex";
 import type { Actor } from "../auth/actor";
 import { confirmAdminPassword } from "../auth/reauth";
-import { ConflictError, DomainError, ForbiddenError, NotFoundError, UnauthenticatedError, ValidationError } from "../errors";
+import {
+  ConflictError,
+  DomainError,
+  ForbiddenError,
+  NotFoundError,
+  UnauthenticatedError,
+  ValidationError,
+} from "../errors";
 import { appendLedger } from "../ledger/service";
 import { getApiToken, type ApiTokenSummary } from "./queries";
 import { type ApiTokenCreateData, type ApiTokenRevokeData, type ApiTokenScope } from "./schema";
@@ -40,7 +47,10 @@ export async function createApiToken(
   const token = `${TOKEN_PREFIX}${randomBytes(32).toString("base64url")}`;
   const unitIds = [...new Set(input.unitIds)];
   const summary = await knex.transaction(async (trx) => {
-    const found = (await trx("units").whereIn("id", unitIds).where({ active: true }).select("id")) as { id: number }[];
+    const found = (await trx("units")
+      .whereIn("id", unitIds)
+      .where({ active: true })
+      .select("id")) as { id: number }[];
     if (found.length !== unitIds.length) {
       throw new ValidationError("Some fields need attention.", {
         unitIds: ["One or more units do not exist or are inactive."],
@@ -56,7 +66,9 @@ export async function createApiToken(
       expires_at: new Date(now.getTime() + input.validDays * 86_400_000),
     });
     const tokenId = Number(id);
-    await trx("api_token_units").insert(unitIds.map((unitId) => ({ api_token_id: tokenId, unit_id: unitId })));
+    await trx("api_token_units").insert(
+      unitIds.map((unitId) => ({ api_token_id: tokenId, unit_id: unitId })),
+    );
     const created = (await getApiToken(trx, tokenId))!;
     await appendLedger(
       trx,
@@ -88,12 +100,15 @@ export async function revokeApiToken(
 ): Promise<ApiTokenSummary> {
   await confirmAdminPassword(knex, actor.id, input.currentPassword);
   return knex.transaction(async (trx) => {
-    const row = (await trx("api_tokens").where({ id: input.id }).forUpdate().first("id", "revoked_at")) as
-      | { id: number; revoked_at: Date | null }
-      | undefined;
+    const row = (await trx("api_tokens")
+      .where({ id: input.id })
+      .forUpdate()
+      .first("id", "revoked_at")) as { id: number; revoked_at: Date | null } | undefined;
     if (!row) throw new NotFoundError("That API token does not exist.");
     if (row.revoked_at) throw new ConflictError("That API token is already revoked.");
-    await trx("api_tokens").where({ id: input.id }).update({ revoked_at: now, revoked_by: actor.id });
+    await trx("api_tokens")
+      .where({ id: input.id })
+      .update({ revoked_at: now, revoked_by: actor.id });
     const after = (await getApiToken(trx, input.id))!;
     await appendLedger(
       trx,
@@ -136,13 +151,18 @@ export async function authenticateApiToken(
     .first("id", "name", "scope", "revoked_at", "expires_at")) as
     | { id: number; name: string; scope: ApiTokenScope; revoked_at: Date | null; expires_at: Date }
     | undefined;
-  if (!row || row.revoked_at) throw new UnauthenticatedError("This API token is not valid or has been revoked.");
+  if (!row || row.revoked_at)
+    throw new UnauthenticatedError("This API token is not valid or has been revoked.");
   // Only the holder of the secret reaches this, so saying why helps them and tells no one else anything.
   if (row.expires_at.getTime() <= now.getTime()) {
-    throw new UnauthenticatedError("This API token has expired; an administrator can create a new one.");
+    throw new UnauthenticatedError(
+      "This API token has expired; an administrator can create a new one.",
+    );
   }
   if (need === "write" && row.scope !== "write") {
-    throw new ForbiddenError("This API token may only read; imports need a token with the write scope.");
+    throw new ForbiddenError(
+      "This API token may only read; imports need a token with the write scope.",
+    );
   }
   const units = (await knex("api_token_units as t")
     .join("units as u", "u.id", "t.unit_id")
@@ -154,14 +174,19 @@ export async function authenticateApiToken(
 }
 
 /** The unit a token request names (by code), refused with 403 when the token does not cover it. */
-export async function tokenUnit(knex: Knex, token: TokenActor, unitCode: string | null): Promise<number> {
+export async function tokenUnit(
+  knex: Knex,
+  token: TokenActor,
+  unitCode: string | null,
+): Promise<number> {
   if (!unitCode) {
     if (token.unitIds.length === 1) return token.unitIds[0]!;
     throw new ValidationError("Name the unit: this token covers more than one unit.", {
       unit: ["Give the unit code (?unit=…) when the token covers more than one unit."],
     });
   }
-  const unit = (await knex("units").where({ code: unitCode, active: true }).first("id")) as { id: number } | undefined;
+  const unit = (await knex("units").where({ code: unitCode, active: true }).first("id")) as
+    { id: number } | undefined;
   if (!unit || !token.unitIds.includes(unit.id)) {
     throw new DomainError(`This API token is not allowed on unit ${unitCode.slice(0, 16)}.`, 403);
   }

@@ -11,7 +11,14 @@ export async function loadActor(knex: Knex, userId: number): Promise<Actor> {
   const user = (await knex("users")
     .where({ id: userId })
     .first("id", "email", "name", "role", "active", "pressure_unit")) as
-    | { id: number; email: string; name: string; role: string; active: number; pressure_unit: "mmHg" | "kPa" }
+    | {
+        id: number;
+        email: string;
+        name: string;
+        role: string;
+        active: number;
+        pressure_unit: "mmHg" | "kPa";
+      }
     | undefined;
   if (!user || !user.active || !isRole(user.role)) throw new UnauthenticatedError();
   const units = (await knex("user_units")

@@ -52,7 +52,9 @@ export async function confirmPassword(
   if (!verdict.allowed) {
     await refuse("throttled", { retryAfterSeconds: verdict.retryAfterSeconds });
     const message = `Too many wrong passwords: password confirmation is locked for your account. Try again in ${retryWords(verdict.retryAfterSeconds)}; ${words.notDone}.`;
-    throw new TooManyRequestsError(message, verdict.retryAfterSeconds, { [words.field]: [message] });
+    throw new TooManyRequestsError(message, verdict.retryAfterSeconds, {
+      [words.field]: [message],
+    });
   }
   if (!(await verifyPassword(password, user.password_hash))) {
     await refuse("wrong", {});

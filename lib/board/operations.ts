@@ -10,7 +10,11 @@ import { loadBoard } from "./queries";
 export const readBoardOperation = defineRead({
   permission: "record.read",
   schema: z.object({
-    unitId: z.coerce.number().int("Unit must be a whole number.").positive("Unit must be a positive whole number.").optional(),
+    unitId: z.coerce
+      .number()
+      .int("Unit must be a whole number.")
+      .positive("Unit must be a positive whole number.")
+      .optional(),
   }),
   run: (knex, actor, { unitId }, now) => {
     if (unitId !== undefined) assertUnitAccess(actor, unitId);

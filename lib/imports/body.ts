@@ -6,5 +6,7 @@ export { readBodyBytes } from "../http";
 export function partialAccepted(value: string | null): boolean {
   if (value === null || value === "") return false;
   if (value === "accept") return true;
-  throw new DomainError("partial must be 'accept' or left out.", 400, { partial: ["partial must be 'accept' or left out."] });
+  throw new DomainError("partial must be 'accept' or left out.", 400, {
+    partial: ["partial must be 'accept' or left out."],
+  });
 }

@@ -25,14 +25,22 @@ export type CsvTable = { header: string[]; rows: { line: number; cells: string[]
 /** Blood gas CSV files are small (an analyser's day is hundreds of rows); larger ones are refused. */
 export const MAX_BLOOD_GAS_ROWS = 20_000;
 
-const OTHER_DELIMITERS: Record<CsvDelimiter, string[]> = { ",": [";", "\t", "|"], ";": [",", "\t", "|"], "\t": [",", ";", "|"] };
-const delimiterName = (d: string) => (d in CSV_DELIMITERS ? CSV_DELIMITERS[d as CsvDelimiter].toLowerCase() : `'${d}'`);
+const OTHER_DELIMITERS: Record<CsvDelimiter, string[]> = {
+  ",": [";", "\t", "|"],
+  ";": [",", "\t", "|"],
+  "\t": [",", ";", "|"],
+};
+const delimiterName = (d: string) =>
+  d in CSV_DELIMITERS ? CSV_DELIMITERS[d as CsvDelimiter].toLowerCase() : `'${d}'`;
 
 /**
  * A header that came out as one column but holds another separator: the file
  * was saved with a different delimiter than the one chosen.
  */
-export function wrongDelimiterMessage(header: string[], delimiter: CsvDelimiter): string | undefined {
+export function wrongDelimiterMessage(
+  header: string[],
+  delimiter: CsvDelimiter,
+): string | undefined {
   if (header.length !== 1) return undefined;
   const found = OTHER_DELIMITERS[delimiter].find((d) => (header[0] ?? "").includes(d));
   if (!found) return undefined;
@@ -52,38 +60,75 @@ export function readCsvTable(text: string, delimiter: CsvDelimiter): CsvTable {
       trim: true,
     }) as unknown as { record: string[]; info: { lines: number } }[];
   } catch (error) {
-    if (error instanceof CsvError) throw new ImportFileError(`The file is not valid CSV: ${error.message}`);
+    if (error instanceof CsvError)
+      throw new ImportFileError(`The file is not valid CSV: ${error.message}`);
     throw error;
   }
   const [first, ...rest] = records;
   if (!first) throw new ImportFileError("The file is empty.");
   if (rest.length > MAX_BLOOD_GAS_ROWS) {
-    throw new ImportFileError(`The file has ${rest.length} rows; at most ${MAX_BLOOD_GAS_ROWS} per file.`);
+    throw new ImportFileError(
+      `The file has ${rest.length} rows; at most ${MAX_BLOOD_GAS_ROWS} per file.`,
+    );
   }
   const wrong = wrongDelimiterMessage(first.record, delimiter);
   if (wrong) throw new ImportFileError(wrong);
   return { header: first.record, rows: rest.map((r) => ({ line: r.info.lines, cells: r.record })) };
 }
 
-const unitCode = z.enum(Object.keys({ "mm[Hg]": 1, kPa: 1, "g/dL": 1, "g/L": 1, "mmol/L": 1, "%": 1, "1": 1, "[pH]": 1 }) as [UcumCode, ...UcumCode[]]);
+const unitCode = z.enum(
+  Object.keys({
+    "mm[Hg]": 1,
+    kPa: 1,
+    "g/dL": 1,
+    "g/L": 1,
+    "mmol/L": 1,
+    "%": 1,
+    "1": 1,
+    "[pH]": 1,
+  }) as [UcumCode, ...UcumCode[]],
+);
 
 /** Which column holds which value, and in which unit: the CSV mapping step. */
 export const bloodGasMappingSchema = z
   .object({
     delimiter: z.enum([",", ";", "\t"]).default(","),
-    columns: z.partialRecord(z.enum(BLOOD_GAS_COLUMNS.map((c) => c.key) as [BloodGasColumn, ...BloodGasColumn[]]), z.string().max(200)),
-    units: z.partialRecord(z.enum(BLOOD_GAS_MEASURED_COLUMNS as [typeof BLOOD_GAS_MEASURED_COLUMNS[number], ...typeof BLOOD_GAS_MEASURED_COLUMNS]), unitCode),
+    columns: z.partialRecord(
+      z.enum(BLOOD_GAS_COLUMNS.map((c) => c.key) as [BloodGasColumn, ...BloodGasColumn[]]),
+      z.string().max(200),
+    ),
+    units: z.partialRecord(
+      z.enum(
+        BLOOD_GAS_MEASURED_COLUMNS as [
+          (typeof BLOOD_GAS_MEASURED_COLUMNS)[number],
+          ...typeof BLOOD_GAS_MEASURED_COLUMNS,
+        ],
+      ),
+      unitCode,
+    ),
   })
   .superRefine((m, ctx) => {
     for (const c of BLOOD_GAS_COLUMNS) {
       if (c.required && !m.columns[c.key]) {
-        ctx.addIssue({ code: "custom", path: ["columns", c.key], message: `Choose the column that holds ${c.label}.` });
+        ctx.addIssue({
+          code: "custom",
+          path: ["columns", c.key],
+          message: `Choose the column that holds ${c.label}.`,
+        });
       }
     }
     for (const key of BLOOD_GAS_MEASURED_COLUMNS) {
       const unit = m.units[key];
-      if (m.columns[key] && unit && !(MEASURED_FIELDS[key].units as readonly string[]).includes(unit)) {
-        ctx.addIssue({ code: "custom", path: ["units", key], message: `${MEASURED_FIELDS[key].label} cannot be given in ${unit}.` });
+      if (
+        m.columns[key] &&
+        unit &&
+        !(MEASURED_FIELDS[key].units as readonly string[]).includes(unit)
+      ) {
+        ctx.addIssue({
+          code: "custom",
+          path: ["units", key],
+          message: `${MEASURED_FIELDS[key].label} cannot be given in ${unit}.`,
+        });
       }
     }
   });
@@ -117,11 +162,16 @@ function unitInHeader(header: string): UcumCode | undefined {
 }
 
 /** A first guess of the mapping from the header names ("PaO2 (kPa)" → PaO2 in kPa); the person checks it. */
-export function guessBloodGasMapping(header: string[], delimiter: CsvDelimiter = ","): BloodGasMapping {
+export function guessBloodGasMapping(
+  header: string[],
+  delimiter: CsvDelimiter = ",",
+): BloodGasMapping {
   const columns: BloodGasMapping["columns"] = {};
   const units: BloodGasMapping["units"] = {};
   for (const c of BLOOD_GAS_COLUMNS) {
-    const match = header.find((h) => HEADER_GUESSES[c.key].test(norm(h)) && !Object.values(columns).includes(h));
+    const match = header.find(
+      (h) => HEADER_GUESSES[c.key].test(norm(h)) && !Object.values(columns).includes(h),
+    );
     if (match) columns[c.key] = match;
   }
   for (const key of BLOOD_GAS_MEASURED_COLUMNS) {
@@ -136,10 +186,13 @@ export function guessBloodGasMapping(header: string[], delimiter: CsvDelimiter =
 
 /** Turns CSV rows into blood gas candidates by the mapping. */
 export function bloodGasCandidates(table: CsvTable, mapping: BloodGasMapping): BloodGasCandidate[] {
-  const index = (name: string | undefined) => (name === undefined ? -1 : table.header.indexOf(name));
+  const index = (name: string | undefined) =>
+    name === undefined ? -1 : table.header.indexOf(name);
   for (const [key, name] of Object.entries(mapping.columns)) {
     if (name && index(name) < 0) {
-      throw new ImportFileError(`The mapping names a column '${name}' for ${key} that is not in the file's header.`);
+      throw new ImportFileError(
+        `The mapping names a column '${name}' for ${key} that is not in the file's header.`,
+      );
     }
   }
   const cell = (cells: string[], name: string | undefined) => {
@@ -150,7 +203,11 @@ export function bloodGasCandidates(table: CsvTable, mapping: BloodGasMapping): B
     const values: BloodGasCandidate["values"] = {};
     for (const key of BLOOD_GAS_MEASURED_COLUMNS) {
       const name = mapping.columns[key];
-      if (name) values[key] = { text: cell(cells, name), unit: mapping.units[key] ?? MEASURED_FIELDS[key].units[0] };
+      if (name)
+        values[key] = {
+          text: cell(cells, name),
+          unit: mapping.units[key] ?? MEASURED_FIELDS[key].units[0],
+        };
     }
     const reasons =
       cells.length !== table.header.length
@@ -191,7 +248,13 @@ export function readMonitorHeader(cells: string[]): MonitorHeader {
 }
 
 /** One monitor CSV row as a reading candidate (the patient is named outside the file). */
-export function monitorCandidate(cells: string[], line: number, header: MonitorHeader, width: number, mrn: string): ReadingCandidate {
+export function monitorCandidate(
+  cells: string[],
+  line: number,
+  header: MonitorHeader,
+  width: number,
+  mrn: string,
+): ReadingCandidate {
   return {
     line,
     label: `line ${line}`,
@@ -201,7 +264,12 @@ export function monitorCandidate(cells: string[], line: number, header: MonitorH
     pulseRate: header.pulseRate >= 0 ? cells[header.pulseRate] : undefined,
     reasons:
       cells.length !== width
-        ? [{ code: "format", message: `Line ${line} has ${cells.length} fields; the header has ${width}.` }]
+        ? [
+            {
+              code: "format",
+              message: `Line ${line} has ${cells.length} fields; the header has ${width}.`,
+            },
+          ]
         : [],
   };
 }

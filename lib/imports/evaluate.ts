@@ -38,9 +38,10 @@ type Db = Knex | Knex.Transaction;
 export type ImportUnit = { id: number; code: string; timeZone: string };
 
 export async function loadUnit(knex: Db, unitId: number): Promise<ImportUnit | undefined> {
-  const u = (await knex("units").where({ id: unitId, active: true }).first("id", "code", "time_zone")) as
-    | { id: number; code: string; time_zone: string }
-    | undefined;
+  const u = (await knex("units")
+    .where({ id: unitId, active: true })
+    .first("id", "code", "time_zone")) as
+    { id: number; code: string; time_zone: string } | undefined;
   return u ? { id: u.id, code: u.code, timeZone: u.time_zone } : undefined;
 }
 
@@ -59,7 +60,8 @@ export type SmallPlan = {
 };
 
 const iso = (d: Date) => d.toISOString();
-const n1 = (v: number | undefined, unit: string) => (v === undefined ? null : `${Math.round(v * 10) / 10} ${unit}`);
+const n1 = (v: number | undefined, unit: string) =>
+  v === undefined ? null : `${Math.round(v * 10) / 10} ${unit}`;
 
 function gasView(g: PlannedGas): AcceptedRowView {
   const v = g.values;
@@ -94,8 +96,13 @@ export function sampleOf(plan: Pick<SmallPlan, "gases" | "readings">): AcceptedR
   return [...plan.gases.map(gasView), ...plan.readings.map(readingView)].slice(0, SAMPLE_ROWS);
 }
 
-const reject = (rejected: RejectedRow[], line: number, label: string, mrn: string, reason: RowReason) =>
-  rejected.push({ line, label, mrn: mrn || null, reasons: [reason] });
+const reject = (
+  rejected: RejectedRow[],
+  line: number,
+  label: string,
+  mrn: string,
+  reason: RowReason,
+) => rejected.push({ line, label, mrn: mrn || null, reasons: [reason] });
 
 /** Checks gas rows against the database: patient, time window, duplicates, settings, engine. */
 async function planGases(
@@ -167,10 +174,18 @@ export async function planBloodGasCsv(
   const parsed = bloodGasMappingSchema.safeParse(
     options.mapping ?? guessBloodGasMapping(table.header, options.delimiter),
   );
-  const base = { unit, total: table.rows.length, gases: [], readings: [], notes: [], header: table.header };
+  const base = {
+    unit,
+    total: table.rows.length,
+    gases: [],
+    readings: [],
+    notes: [],
+    header: table.header,
+  };
   if (!parsed.success) {
     const mappingErrors: Record<string, string[]> = {};
-    for (const issue of parsed.error.issues) (mappingErrors[issue.path.join(".") || "_form"] ??= []).push(issue.message);
+    for (const issue of parsed.error.issues)
+      (mappingErrors[issue.path.join(".") || "_form"] ??= []).push(issue.message);
     const fallback = guessBloodGasMapping(table.header, options.delimiter);
     return { ...base, rejected: [], mapping: fallback, mappingErrors };
   }
@@ -260,16 +275,25 @@ function readingReason(
   if (window) return window;
   const t = row.takenAt.getTime();
   if (seen.has(t)) {
-    return { code: "duplicate", field: "takenAt", message: `Duplicate time ${iso(row.takenAt)}: an earlier row has the same time.` };
+    return {
+      code: "duplicate",
+      field: "takenAt",
+      message: `Duplicate time ${iso(row.takenAt)}: an earlier row has the same time.`,
+    };
   }
   seen.add(t);
   if (stored.has(t)) {
-    return { code: "duplicate", field: "takenAt", message: `A monitor reading at ${iso(row.takenAt)} is already stored for this patient.` };
+    return {
+      code: "duplicate",
+      field: "takenAt",
+      message: `A monitor reading at ${iso(row.takenAt)} is already stored for this patient.`,
+    };
   }
   if (!patient.settings) {
     return {
       code: "settings",
-      message: "The patient has no bedside settings (no oxygen order applied), so the device and FiO2 in use are unknown.",
+      message:
+        "The patient has no bedside settings (no oxygen order applied), so the device and FiO2 in use are unknown.",
     };
   }
   return undefined;
@@ -300,7 +324,13 @@ export function readingInsertRow(
 }
 
 export function chartedReadings(rows: ReturnType<typeof readingInsertRow>[]): ChartedReading[] {
-  return rows.map((r) => ({ takenAt: r.taken_at, spo2: r.spo2_pct, fio2: r.fio2, flow: r.flow_l_min, source: "monitor" }));
+  return rows.map((r) => ({
+    takenAt: r.taken_at,
+    spo2: r.spo2_pct,
+    fio2: r.fio2,
+    flow: r.flow_l_min,
+    source: "monitor",
+  }));
 }
 
 export const alertAdmissionOf = (p: MatchedPatient) => ({
@@ -318,7 +348,8 @@ export const alertAdmissionOf = (p: MatchedPatient) => ({
 export function fileStream(content: Buffer, chunkBytes = 64 * 1024): Readable {
   return Readable.from(
     (function* () {
-      for (let at = 0; at < content.length; at += chunkBytes) yield content.subarray(at, at + chunkBytes);
+      for (let at = 0; at < content.length; at += chunkBytes)
+        yield content.subarray(at, at + chunkBytes);
     })(),
     { objectMode: false },
   );
@@ -361,7 +392,10 @@ export async function streamMonitorCsv(
 ): Promise<MonitorOutcome> {
   const patients = await findAdmittedByMrn(knex, [who.mrn], [unit.id]);
   const patient = patients.get(who.mrn);
-  if (!patient) throw new ImportFileError(`MRN ${who.mrn} is not an admitted patient on ${unit.code}; no row of the file was imported.`);
+  if (!patient)
+    throw new ImportFileError(
+      `MRN ${who.mrn} is not an admitted patient on ${unit.code}; no row of the file was imported.`,
+    );
   if (patient.bedLabel !== who.bed) {
     throw new ImportFileError(
       `MRN ${who.mrn} is admitted on ${unit.code} bed ${patient.bedLabel}, not bed ${who.bed}; check which monitor the file came from.`,
@@ -372,7 +406,15 @@ export async function streamMonitorCsv(
       `MRN ${who.mrn} has no bedside settings (no oxygen order applied), so the device and FiO2 of the readings are unknown; apply the order first.`,
     );
   }
-  const outcome: MonitorOutcome = { patient, total: 0, accepted: 0, rejected: [], sample: [], firstAt: null, lastAt: null };
+  const outcome: MonitorOutcome = {
+    patient,
+    total: 0,
+    accepted: 0,
+    rejected: [],
+    sample: [],
+    firstAt: null,
+    lastAt: null,
+  };
   const seen = new Set<number>();
   let batch: { line: number; label: string; row: ImportedReading }[] = [];
 
@@ -406,9 +448,17 @@ export async function streamMonitorCsv(
     }
     outcome.accepted += good.length;
     if (writer && good.length > 0) {
-      const rows = good.map((b) => readingInsertRow({ patient, row: b.row }, writer.importId, writer.recordedBy));
+      const rows = good.map((b) =>
+        readingInsertRow({ patient, row: b.row }, writer.importId, writer.recordedBy),
+      );
       await writer.trx("readings").insert(rows);
-      await afterReadingsCharted(writer.trx, writer.ledgerActor, alertAdmissionOf(patient), chartedReadings(rows), now);
+      await afterReadingsCharted(
+        writer.trx,
+        writer.ledgerActor,
+        alertAdmissionOf(patient),
+        chartedReadings(rows),
+        now,
+      );
     }
     batch = [];
   };
@@ -419,7 +469,10 @@ export async function streamMonitorCsv(
   let header: MonitorHeader | null = null;
   let width = 0;
   try {
-    for await (const record of parser as AsyncIterable<{ record: string[]; info: { lines: number } }>) {
+    for await (const record of parser as AsyncIterable<{
+      record: string[];
+      info: { lines: number };
+    }>) {
       if (!header) {
         header = readMonitorHeader(record.record);
         width = record.record.length;
@@ -427,7 +480,10 @@ export async function streamMonitorCsv(
       }
       outcome.total += 1;
       const line = record.info.lines;
-      const check = checkReadingCandidate(monitorCandidate(record.record, line, header, width, who.mrn), unit.timeZone);
+      const check = checkReadingCandidate(
+        monitorCandidate(record.record, line, header, width, who.mrn),
+        unit.timeZone,
+      );
       if (!check.ok) {
         outcome.rejected.push(check.rejected);
         continue;
@@ -441,7 +497,8 @@ export async function streamMonitorCsv(
       if (batch.length >= MONITOR_BATCH) await flush();
     }
   } catch (error) {
-    if (error instanceof CsvError) throw new ImportFileError(`The file is not valid CSV: ${error.message}`);
+    if (error instanceof CsvError)
+      throw new ImportFileError(`The file is not valid CSV: ${error.message}`);
     throw error;
   }
   await flush();

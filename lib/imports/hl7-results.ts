@@ -43,7 +43,14 @@ export const LOINC_FIELDS: Record<string, MeasuredField> = {
 };
 
 /** Values measured on a blood sample: an OBR with any of them is a blood gas. */
-const BLOOD_FIELDS = new Set<MeasuredField>(["ph", "paco2", "pao2", "hco3", "baseExcess", "hemoglobin"]);
+const BLOOD_FIELDS = new Set<MeasuredField>([
+  "ph",
+  "paco2",
+  "pao2",
+  "hco3",
+  "baseExcess",
+  "hemoglobin",
+]);
 /** Final and corrected results are imported; preliminary and cancelled ones are not. */
 const IMPORTED_STATUSES = new Set(["F", "C"]);
 
@@ -77,7 +84,9 @@ export function hl7Candidates(message: Hl7Result): Hl7Candidates {
     for (const o of group.observations) {
       const field = o.codeSystem === "LN" || o.codeSystem === "" ? LOINC_FIELDS[o.code] : undefined;
       if (!field) {
-        ignored.push(`OBR ${group.obrNumber} ${obxLabel(o)}: ${o.code}${o.codeSystem ? `^${o.codeSystem}` : ""} ${o.codeText} is not used by Tidemark.`);
+        ignored.push(
+          `OBR ${group.obrNumber} ${obxLabel(o)}: ${o.code}${o.codeSystem ? `^${o.codeSystem}` : ""} ${o.codeText} is not used by Tidemark.`,
+        );
         continue;
       }
       used.push([o, field]);
@@ -96,7 +105,12 @@ export function hl7Candidates(message: Hl7Result): Hl7Candidates {
       if (asReading) {
         const takenAt = o.observedAt || group.observedAt;
         const same = spo2Obx.find(
-          (s) => s.code !== o.code && s.value === o.value && s.units === o.units && (s.observedAt || group.observedAt) === takenAt && s.status === o.status,
+          (s) =>
+            s.code !== o.code &&
+            s.value === o.value &&
+            s.units === o.units &&
+            (s.observedAt || group.observedAt) === takenAt &&
+            s.status === o.status,
         );
         if (same) {
           ignored.push(
@@ -119,7 +133,11 @@ export function hl7Candidates(message: Hl7Result): Hl7Candidates {
       if (statusReason) reasons.push(statusReason);
       const key = field as BloodGasMeasuredColumn;
       if (values[key]) {
-        reasons.push({ code: "duplicate", field, message: `${MEASURED_FIELDS[field].label} appears twice in OBR ${group.obrNumber}.` });
+        reasons.push({
+          code: "duplicate",
+          field,
+          message: `${MEASURED_FIELDS[field].label} appears twice in OBR ${group.obrNumber}.`,
+        });
       }
       values[key] = { text: o.value, unit: o.units };
     }
@@ -128,7 +146,8 @@ export function hl7Candidates(message: Hl7Result): Hl7Candidates {
         line: group.segmentIndex,
         label: `OBR ${group.obrNumber}`,
         mrn: message.mrn,
-        sampledAt: group.observedAt || group.observations.find((o) => o.observedAt)?.observedAt || "",
+        sampledAt:
+          group.observedAt || group.observations.find((o) => o.observedAt)?.observedAt || "",
         sampleType: "arterial",
         values,
         reasons,

@@ -17,7 +17,13 @@ export class Hl7MessageError extends Error {
   }
 }
 
-type Encoding = { field: string; component: string; repetition: string; escape: string; subcomponent: string };
+type Encoding = {
+  field: string;
+  component: string;
+  repetition: string;
+  escape: string;
+  subcomponent: string;
+};
 
 export type Hl7Segment = { name: string; index: number; fields: string[] };
 
@@ -79,7 +85,9 @@ export function splitHl7(text: string): { encoding: Encoding; segments: Hl7Segme
   const first = lines[0];
   if (!first) throw new Hl7MessageError("The message is empty.");
   if (!first.startsWith("MSH") || first.length < 8) {
-    throw new Hl7MessageError("The message does not start with an MSH segment; it is not HL7 v2 (ER7).");
+    throw new Hl7MessageError(
+      "The message does not start with an MSH segment; it is not HL7 v2 (ER7).",
+    );
   }
   const fieldSep = first[3]!;
   if (/[A-Za-z0-9\s]/.test(fieldSep)) {
@@ -87,7 +95,9 @@ export function splitHl7(text: string): { encoding: Encoding; segments: Hl7Segme
   }
   const encodingChars = first.slice(4).split(fieldSep)[0] ?? "";
   if (encodingChars.length < 4 || new Set(encodingChars).size !== encodingChars.length) {
-    throw new Hl7MessageError("MSH-2 must give four distinct encoding characters (component, repetition, escape, subcomponent).");
+    throw new Hl7MessageError(
+      "MSH-2 must give four distinct encoding characters (component, repetition, escape, subcomponent).",
+    );
   }
   const encoding: Encoding = {
     field: fieldSep,
@@ -140,15 +150,23 @@ export function parseOruR01(text: string): Hl7Result {
   const type = component(field(msh, 9), enc, 1);
   const trigger = component(field(msh, 9), enc, 2);
   if (type !== "ORU" || trigger !== "R01") {
-    throw new Hl7MessageError(`MSH-9 is '${type}^${trigger}'; only ORU^R01 result messages are imported.`);
+    throw new Hl7MessageError(
+      `MSH-9 is '${type}^${trigger}'; only ORU^R01 result messages are imported.`,
+    );
   }
   const controlId = component(field(msh, 10), enc, 1);
-  if (!controlId) throw new Hl7MessageError("MSH-10 message control id is empty; it is needed to import a message only once.");
-  if (controlId.length > 199) throw new Hl7MessageError("MSH-10 message control id is longer than 199 characters.");
+  if (!controlId)
+    throw new Hl7MessageError(
+      "MSH-10 message control id is empty; it is needed to import a message only once.",
+    );
+  if (controlId.length > 199)
+    throw new Hl7MessageError("MSH-10 message control id is longer than 199 characters.");
 
   const pids = segments.filter((s) => s.name === "PID");
-  if (pids.length === 0) throw new Hl7MessageError("The message has no PID segment, so no patient to match.");
-  if (pids.length > 1) throw new Hl7MessageError("The message has more than one PID; send one patient per message.");
+  if (pids.length === 0)
+    throw new Hl7MessageError("The message has no PID segment, so no patient to match.");
+  if (pids.length > 1)
+    throw new Hl7MessageError("The message has more than one PID; send one patient per message.");
   const pid = pids[0]!;
   requireFields(pid, 3, "PID-3 (patient identifier list) holds the MRN");
   // PID-3 may repeat; prefer the identifier typed MR (medical record number).
@@ -172,9 +190,15 @@ export function parseOruR01(text: string): Hl7Result {
       groups.push(current);
     } else if (s.name === "OBX") {
       if (!current) {
-        throw new Hl7MessageError(`OBX (segment ${s.index}) comes before any OBR; results must follow their OBR.`);
+        throw new Hl7MessageError(
+          `OBX (segment ${s.index}) comes before any OBR; results must follow their OBR.`,
+        );
       }
-      requireFields(s, 11, "an OBX needs OBX-2 value type, OBX-3 code, OBX-5 value and OBX-11 result status");
+      requireFields(
+        s,
+        11,
+        "an OBX needs OBX-2 value type, OBX-3 code, OBX-5 value and OBX-11 result status",
+      );
       const identifier = field(s, 3);
       current.observations.push({
         segmentIndex: s.index,
@@ -190,7 +214,8 @@ export function parseOruR01(text: string): Hl7Result {
       });
     }
   }
-  if (groups.length === 0) throw new Hl7MessageError("The message has no OBR segment, so no results.");
+  if (groups.length === 0)
+    throw new Hl7MessageError("The message has no OBR segment, so no results.");
   const empty = groups.find((g) => g.observations.length === 0);
   if (empty) {
     throw new Hl7MessageError(

@@ -1,5 +1,9 @@
 import type { Knex } from "knex";
-import { evaluateBloodGas, type BloodGasValues, type EvaluatedBloodGas } from "../blood-gases/service";
+import {
+  evaluateBloodGas,
+  type BloodGasValues,
+  type EvaluatedBloodGas,
+} from "../blood-gases/service";
 import { DomainError, fromEngineError } from "../errors";
 import { DEVICE_PROFILES, type Device } from "../devices";
 import { resolveFio2 } from "../readings/service";
@@ -134,7 +138,12 @@ export const noSettings = (): RowReason => ({
 const iso = (d: Date) => d.toISOString().replace(".000Z", "Z");
 
 /** A time inside the admission and not in the future (5 minutes of clock skew allowed). */
-export function timeWindowReason(at: Date, patient: MatchedPatient, now: Date, field: string): RowReason | undefined {
+export function timeWindowReason(
+  at: Date,
+  patient: MatchedPatient,
+  now: Date,
+  field: string,
+): RowReason | undefined {
   if (at.getTime() > now.getTime() + 5 * 60_000) {
     return { code: "time", field, message: `Time ${iso(at)} is in the future.` };
   }
@@ -160,7 +169,9 @@ export type PlannedGas = {
 export function planGas(
   row: ImportedBloodGas,
   patient: MatchedPatient,
-): { ok: true; values: BloodGasValues; evaluated: EvaluatedBloodGas } | { ok: false; reason: RowReason } {
+):
+  | { ok: true; values: BloodGasValues; evaluated: EvaluatedBloodGas }
+  | { ok: false; reason: RowReason } {
   const s = patient.settings;
   if (!s) return { ok: false, reason: noSettings() };
   const values: BloodGasValues = {
@@ -186,7 +197,10 @@ export function planGas(
   } catch (error) {
     const domain = fromEngineError(error) ?? error;
     if (domain instanceof DomainError) {
-      const detail = Object.values(domain.fieldErrors ?? {}).flat().join(" ") || domain.message;
+      const detail =
+        Object.values(domain.fieldErrors ?? {})
+          .flat()
+          .join(" ") || domain.message;
       return { ok: false, reason: { code: "range", message: detail } };
     }
     throw error;
@@ -196,7 +210,12 @@ export function planGas(
 const round1 = (v: number) => Math.round(v * 10) / 10;
 
 /** The device and FiO2 a monitor reading is stored with: the bedside settings in use. */
-export function readingOxygen(settings: BedsideInUse): { device: Device; flow: number | null; fio2: number; fio2Estimated: boolean } {
+export function readingOxygen(settings: BedsideInUse): {
+  device: Device;
+  flow: number | null;
+  fio2: number;
+  fio2Estimated: boolean;
+} {
   const { fio2, estimated } = resolveFio2(
     settings.device,
     settings.flow ?? undefined,
@@ -241,4 +260,9 @@ export async function storedReadingTimes(
   return set;
 }
 
-export type PlannedReading = { line: number; label: string; patient: MatchedPatient; row: ImportedReading };
+export type PlannedReading = {
+  line: number;
+  label: string;
+  patient: MatchedPatient;
+  row: ImportedReading;
+};

@@ -25,14 +25,20 @@ export type ImportRow = {
 };
 
 /** One import with its stored file (used by the services; never sent to a browser as is). */
-export async function getImportRow(knex: Knex | Knex.Transaction, id: number): Promise<ImportRow | undefined> {
+export async function getImportRow(
+  knex: Knex | Knex.Transaction,
+  id: number,
+): Promise<ImportRow | undefined> {
   return (await knex("imports as i")
     .join("units as u", "u.id", "i.unit_id")
     .where("i.id", id)
     .first("i.*", "u.code as unit_code")) as ImportRow | undefined;
 }
 
-export function toPreview(row: Omit<ImportRow, "original_content">, extra: { alreadyImported?: boolean }): ImportPreview {
+export function toPreview(
+  row: Omit<ImportRow, "original_content">,
+  extra: { alreadyImported?: boolean },
+): ImportPreview {
   const report = JSON.parse(row.report_json || "{}") as Partial<StoredReport>;
   const options = JSON.parse(row.options_json || "{}") as { mrn?: string; bed?: string };
   return {
@@ -47,7 +53,10 @@ export function toPreview(row: Omit<ImportRow, "original_content">, extra: { alr
     createdAt: row.created_at.toISOString(),
     importedAt: row.imported_at?.toISOString() ?? null,
     counts: { total: row.rows_total, accepted: row.rows_accepted, rejected: row.rows_rejected },
-    monitor: row.kind === "monitor_csv" && options.mrn && options.bed ? { mrn: options.mrn, bed: options.bed } : null,
+    monitor:
+      row.kind === "monitor_csv" && options.mrn && options.bed
+        ? { mrn: options.mrn, bed: options.bed }
+        : null,
     alreadyImported: extra.alreadyImported ?? false,
     rejected: report.rejected ?? [],
     sample: report.sample ?? [],
@@ -59,7 +68,11 @@ export function toPreview(row: Omit<ImportRow, "original_content">, extra: { alr
 }
 
 /** An import of one of the actor's units, as its preview/report; another unit's is "not found". */
-export async function getImportPreview(knex: Knex, actor: Actor, id: number): Promise<ImportPreview> {
+export async function getImportPreview(
+  knex: Knex,
+  actor: Actor,
+  id: number,
+): Promise<ImportPreview> {
   const row = (await knex("imports as i")
     .join("units as u", "u.id", "i.unit_id")
     .where("i.id", id)
@@ -81,7 +94,8 @@ export async function getImportPreview(knex: Knex, actor: Actor, id: number): Pr
       "i.created_at",
       "i.imported_at",
     )) as Omit<ImportRow, "original_content"> | undefined;
-  if (!row || !actor.unitIds.includes(row.unit_id)) throw new NotFoundError("No import with that id on your units.");
+  if (!row || !actor.unitIds.includes(row.unit_id))
+    throw new NotFoundError("No import with that id on your units.");
   return toPreview(row, {});
 }
 
@@ -147,8 +161,16 @@ export async function listImports(knex: Knex, actor: Actor, limit = 25): Promise
 }
 
 /** The downloadable report: every rejected row with its reasons, as CSV. */
-export async function importReportCsv(knex: Knex, actor: Actor, id: number): Promise<{ fileName: string; csv: string }> {
+export async function importReportCsv(
+  knex: Knex,
+  actor: Actor,
+  id: number,
+): Promise<{ fileName: string; csv: string }> {
   const preview = await getImportPreview(knex, actor, id);
-  const base = preview.fileName.replace(/\.[A-Za-z0-9]{1,5}$/, "").replace(/[^A-Za-z0-9._-]+/g, "-").slice(0, 60) || "import";
+  const base =
+    preview.fileName
+      .replace(/\.[A-Za-z0-9]{1,5}$/, "")
+      .replace(/[^A-Za-z0-9._-]+/g, "-")
+      .slice(0, 60) || "import";
   return { fileName: `import-${preview.id}-${base}-report.csv`, csv: reportToCsv(preview) };
 }

@@ -50,7 +50,12 @@ const csvCell = (v: string | number | null | undefined) => {
 };
 
 /** The import report as CSV: one line per reason of every rejected row. */
-export function reportToCsv(preview: Pick<ImportPreview, "id" | "fileName" | "sha256" | "status" | "counts" | "rejected" | "notes">): string {
+export function reportToCsv(
+  preview: Pick<
+    ImportPreview,
+    "id" | "fileName" | "sha256" | "status" | "counts" | "rejected" | "notes"
+  >,
+): string {
   const lines = [
     ["import", "file", "sha256", "status", "rows", "accepted", "rejected"].join(","),
     [
@@ -68,7 +73,14 @@ export function reportToCsv(preview: Pick<ImportPreview, "id" | "fileName" | "sh
   for (const r of preview.rejected) {
     for (const reason of r.reasons) {
       lines.push(
-        [csvCell(r.label), r.line, csvCell(r.mrn), reason.code, csvCell(reason.field), csvCell(reason.message)].join(","),
+        [
+          csvCell(r.label),
+          r.line,
+          csvCell(r.mrn),
+          reason.code,
+          csvCell(reason.field),
+          csvCell(reason.message),
+        ].join(","),
       );
     }
   }

@@ -1,5 +1,10 @@
 import { z } from "zod";
-import { ANY_SATURATION, BLOOD_GAS_RANGES, saturationIssue, type BloodGasRangeKey } from "../blood-gases/schema";
+import {
+  ANY_SATURATION,
+  BLOOD_GAS_RANGES,
+  saturationIssue,
+  type BloodGasRangeKey,
+} from "../blood-gases/schema";
 import { RANGES, unitSuffix } from "../oxygen";
 import {
   MEASURED_FIELDS,
@@ -54,23 +59,30 @@ function measured(range: { label: string; min: number; max: number; unit: string
 const gas = (key: BloodGasRangeKey) => measured(BLOOD_GAS_RANGES[key]);
 
 /** A blood gas row after unit conversion: pressures in mmHg, Hb in g/dL, saturations in %, FiO2 a fraction. */
-export const importedBloodGasSchema = z.object({
-  mrn: z.string().min(1),
-  sampledAt: z.date(),
-  sampleType: z.enum(["arterial", "venous"]),
-  pao2: gas("pao2"),
-  paco2: gas("paco2"),
-  ph: gas("ph").optional(),
-  hco3: gas("hco3").optional(),
-  baseExcess: gas("baseExcess").optional(),
-  // Any saturation here; the sample type's own range is checked below.
-  sao2: measured(ANY_SATURATION).optional(),
-  hemoglobin: gas("hemoglobin").optional(),
-  fio2: gas("fio2").optional(),
-}).superRefine((v, ctx) => {
-  const message = saturationIssue(v.sampleType, v.sao2);
-  if (message) ctx.addIssue({ code: "custom", path: ["sao2"], message: `${message.slice(0, -1)} (${v.sao2} % given).` });
-});
+export const importedBloodGasSchema = z
+  .object({
+    mrn: z.string().min(1),
+    sampledAt: z.date(),
+    sampleType: z.enum(["arterial", "venous"]),
+    pao2: gas("pao2"),
+    paco2: gas("paco2"),
+    ph: gas("ph").optional(),
+    hco3: gas("hco3").optional(),
+    baseExcess: gas("baseExcess").optional(),
+    // Any saturation here; the sample type's own range is checked below.
+    sao2: measured(ANY_SATURATION).optional(),
+    hemoglobin: gas("hemoglobin").optional(),
+    fio2: gas("fio2").optional(),
+  })
+  .superRefine((v, ctx) => {
+    const message = saturationIssue(v.sampleType, v.sao2);
+    if (message)
+      ctx.addIssue({
+        code: "custom",
+        path: ["sao2"],
+        message: `${message.slice(0, -1)} (${v.sao2} % given).`,
+      });
+  });
 export type ImportedBloodGas = z.infer<typeof importedBloodGasSchema>;
 
 /** A monitor or HL7 SpO2 reading after conversion. */
@@ -96,7 +108,11 @@ export function readMeasured(
   const text = raw?.text.trim() ?? "";
   if (!raw || text === "") return undefined;
   if (!NUMBER.test(text)) {
-    reasons.push({ code: "format", field, message: `${label} '${text.slice(0, 20)}' is not a number.` });
+    reasons.push({
+      code: "format",
+      field,
+      message: `${label} '${text.slice(0, 20)}' is not a number.`,
+    });
     return undefined;
   }
   const value = Number(text);
@@ -107,7 +123,11 @@ export function readMeasured(
   }
   const unit = normalizeUnit(unitText);
   if (!unit) {
-    reasons.push({ code: "unit", field, message: `${label} unit '${unitText}' is not one Tidemark can convert.` });
+    reasons.push({
+      code: "unit",
+      field,
+      message: `${label} unit '${unitText}' is not one Tidemark can convert.`,
+    });
     return undefined;
   }
   const mismatch = unitMismatch(field, value, unit);
@@ -137,7 +157,13 @@ function zodReasons(error: z.ZodError, labels: Record<string, string>): RowReaso
   });
 }
 
-function readTime(text: string, field: string, label: string, timeZone: string, reasons: RowReason[]): Date | undefined {
+function readTime(
+  text: string,
+  field: string,
+  label: string,
+  timeZone: string,
+  reasons: RowReason[],
+): Date | undefined {
   if (!text.trim()) return undefined;
   const at = parseImportTime(text, timeZone);
   if (!at) {
@@ -157,10 +183,14 @@ const GAS_LABELS: Record<string, string> = {
   ...Object.fromEntries(Object.entries(MEASURED_FIELDS).map(([k, v]) => [k, v.label])),
 };
 
-export type RowCheck<T> = { ok: true; line: number; label: string; row: T } | { ok: false; rejected: RejectedRow };
+export type RowCheck<T> =
+  { ok: true; line: number; label: string; row: T } | { ok: false; rejected: RejectedRow };
 
 /** Checks one blood gas row of any format. Patient, duplicates and bedside settings are checked later, against the database. */
-export function checkBloodGasCandidate(c: BloodGasCandidate, timeZone: string): RowCheck<ImportedBloodGas> {
+export function checkBloodGasCandidate(
+  c: BloodGasCandidate,
+  timeZone: string,
+): RowCheck<ImportedBloodGas> {
   const reasons: RowReason[] = [...(c.reasons ?? [])];
   const sampledAt = readTime(c.sampledAt, "sampledAt", "Time sampled", timeZone, reasons);
   const typeText = (c.sampleType ?? "").trim().toLowerCase();
@@ -171,7 +201,11 @@ export function checkBloodGasCandidate(c: BloodGasCandidate, timeZone: string): 
         ? "venous"
         : undefined;
   if (!sampleType) {
-    reasons.push({ code: "format", field: "sampleType", message: `Sample type '${typeText}' must be arterial or venous.` });
+    reasons.push({
+      code: "format",
+      field: "sampleType",
+      message: `Sample type '${typeText}' must be arterial or venous.`,
+    });
   }
   const values: Record<string, number | undefined> = {};
   for (const [field, raw] of Object.entries(c.values) as [BloodGasMeasuredColumn, RawValue][]) {
@@ -190,16 +224,27 @@ export function checkBloodGasCandidate(c: BloodGasCandidate, timeZone: string): 
     }
   }
   if (reasons.length > 0 || !parsed.success) {
-    return { ok: false, rejected: { line: c.line, label: c.label, mrn: c.mrn.trim() || null, reasons } };
+    return {
+      ok: false,
+      rejected: { line: c.line, label: c.label, mrn: c.mrn.trim() || null, reasons },
+    };
   }
   return { ok: true, line: c.line, label: c.label, row: parsed.data };
 }
 
-const READING_LABELS: Record<string, string> = { mrn: "MRN", takenAt: "Time", spo2: "SpO2", pulseRate: "Pulse rate" };
+const READING_LABELS: Record<string, string> = {
+  mrn: "MRN",
+  takenAt: "Time",
+  spo2: "SpO2",
+  pulseRate: "Pulse rate",
+};
 const INTEGER = /^[+-]?\d+(\.0*)?$/;
 
 /** Checks one SpO2 reading of a monitor file or an HL7 message. */
-export function checkReadingCandidate(c: ReadingCandidate, timeZone: string): RowCheck<ImportedReading> {
+export function checkReadingCandidate(
+  c: ReadingCandidate,
+  timeZone: string,
+): RowCheck<ImportedReading> {
   const reasons: RowReason[] = [...(c.reasons ?? [])];
   const takenAt = readTime(c.takenAt, "takenAt", "Time", timeZone, reasons);
   const spo2 = readMeasured("spo2", c.spo2, reasons);
@@ -207,7 +252,11 @@ export function checkReadingCandidate(c: ReadingCandidate, timeZone: string): Ro
   const pulseText = c.pulseRate?.trim() ?? "";
   if (pulseText !== "") {
     if (!INTEGER.test(pulseText)) {
-      reasons.push({ code: "format", field: "pulseRate", message: `Pulse rate '${pulseText.slice(0, 20)}' is not a whole number.` });
+      reasons.push({
+        code: "format",
+        field: "pulseRate",
+        message: `Pulse rate '${pulseText.slice(0, 20)}' is not a whole number.`,
+      });
     } else pulseRate = Number(pulseText);
   }
   const alreadyReported = new Set(reasons.map((r) => r.field));
@@ -218,7 +267,10 @@ export function checkReadingCandidate(c: ReadingCandidate, timeZone: string): Ro
     }
   }
   if (reasons.length > 0 || !parsed.success) {
-    return { ok: false, rejected: { line: c.line, label: c.label, mrn: c.mrn.trim() || null, reasons } };
+    return {
+      ok: false,
+      rejected: { line: c.line, label: c.label, mrn: c.mrn.trim() || null, reasons },
+    };
   }
   return { ok: true, line: c.line, label: c.label, row: parsed.data };
 }

@@ -15,7 +15,21 @@ import {
 import type { ImportKind } from "./kinds";
 import { getImportRow, toPreview, type ImportRow } from "./queries";
 import type { ImportPreview, StoredReport } from "./report";
-import { asDomain, assertSize, checkedFromMonitor, checkedFromPlan, dedupeKey, hl7SourceId, ImportRefusedError, sha256, type Checked, type ConfirmData, type Importer, type Options, type UploadData } from "./upload-rules";
+import {
+  asDomain,
+  assertSize,
+  checkedFromMonitor,
+  checkedFromPlan,
+  dedupeKey,
+  hl7SourceId,
+  ImportRefusedError,
+  sha256,
+  type Checked,
+  type ConfirmData,
+  type Importer,
+  type Options,
+  type UploadData,
+} from "./upload-rules";
 import { writeImport } from "./write";
 import { assertCan } from "../auth/permissions";
 
@@ -50,13 +64,26 @@ async function checkFile(
     switch (kind) {
       case "blood_gas_csv":
         return checkedFromPlan(
-          await planBloodGasCsv(knex, content, unit, { delimiter: options.delimiter ?? ",", mapping: options.mapping }, now),
+          await planBloodGasCsv(
+            knex,
+            content,
+            unit,
+            { delimiter: options.delimiter ?? ",", mapping: options.mapping },
+            now,
+          ),
         );
       case "hl7":
         return checkedFromPlan(await planHl7(knex, content, [unit.id], unit, now));
       case "monitor_csv":
         return checkedFromMonitor(
-          await streamMonitorCsv(knex, fileStream(content), unit, { mrn: options.mrn!, bed: options.bed! }, now, null),
+          await streamMonitorCsv(
+            knex,
+            fileStream(content),
+            unit,
+            { mrn: options.mrn!, bed: options.bed! },
+            now,
+            null,
+          ),
           unit.id,
         );
     }
@@ -88,7 +115,12 @@ export async function uploadForPreview(
   const checked = await checkFile(knex, input.kind, content, unit, options, now);
   if (checked.report.mapping) options.mapping = checked.report.mapping;
   const contentSha = sha256(content);
-  const key = dedupeKey(input.kind, unit.id, input.kind === "monitor_csv" ? `${options.mrn}|${options.bed}` : "", contentSha);
+  const key = dedupeKey(
+    input.kind,
+    unit.id,
+    input.kind === "monitor_csv" ? `${options.mrn}|${options.bed}` : "",
+    contentSha,
+  );
 
   const existing = await findExisting(knex, key, checked.sourceMessageId, contentSha);
   if (existing) {
@@ -145,12 +177,13 @@ async function findExisting(
   sourceMessageId: string | null,
   contentSha: string,
 ): Promise<ImportRow | undefined> {
-  const byKey = (await knex("imports").where({ dedupe_key: key }).first("id")) as { id: number } | undefined;
+  const byKey = (await knex("imports").where({ dedupe_key: key }).first("id")) as
+    { id: number } | undefined;
   if (byKey) return getImportRow(knex, byKey.id);
   if (!sourceMessageId) return undefined;
-  const bySource = (await knex("imports").where({ source_message_id: sourceMessageId }).first("id", "content_sha256")) as
-    | { id: number; content_sha256: string }
-    | undefined;
+  const bySource = (await knex("imports")
+    .where({ source_message_id: sourceMessageId })
+    .first("id", "content_sha256")) as { id: number; content_sha256: string } | undefined;
   if (!bySource) return undefined;
   if (bySource.content_sha256 !== contentSha) {
     throw new ConflictError(
@@ -170,23 +203,44 @@ export async function remapImport(
 ): Promise<ImportPreview> {
   assertCan(actor, "import.upload");
   const row = await accessibleImport(knex, actor, importId);
-  if (row.kind !== "blood_gas_csv") throw new DomainError("Only CSV blood gas files have a column mapping.", 400);
+  if (row.kind !== "blood_gas_csv")
+    throw new DomainError("Only CSV blood gas files have a column mapping.", 400);
   if (row.status !== "previewed") return toPreview(row, { alreadyImported: true });
   const options = JSON.parse(row.options_json) as Options;
   const delimiter =
     typeof mapping === "object" && mapping !== null && "delimiter" in mapping
-      ? z.enum([",", ";", "\t"]).catch(options.delimiter ?? ",").parse((mapping as { delimiter: unknown }).delimiter)
+      ? z
+          .enum([",", ";", "\t"])
+          .catch(options.delimiter ?? ",")
+          .parse((mapping as { delimiter: unknown }).delimiter)
       : (options.delimiter ?? ",");
   const unit = (await loadUnit(knex, row.unit_id))!;
-  const checked = await checkFile(knex, "blood_gas_csv", row.original_content, unit, { delimiter, mapping }, now);
-  const next: Options = { delimiter, ...(checked.report.mapping ? { mapping: checked.report.mapping } : {}) };
-  await knex("imports").where({ id: row.id, status: "previewed" }).update(previewColumns(checked, next, row.file_name));
+  const checked = await checkFile(
+    knex,
+    "blood_gas_csv",
+    row.original_content,
+    unit,
+    { delimiter, mapping },
+    now,
+  );
+  const next: Options = {
+    delimiter,
+    ...(checked.report.mapping ? { mapping: checked.report.mapping } : {}),
+  };
+  await knex("imports")
+    .where({ id: row.id, status: "previewed" })
+    .update(previewColumns(checked, next, row.file_name));
   return toPreview((await getImportRow(knex, row.id))!, {});
 }
 
-async function accessibleImport(knex: Knex | Knex.Transaction, actor: Actor, importId: number): Promise<ImportRow> {
+async function accessibleImport(
+  knex: Knex | Knex.Transaction,
+  actor: Actor,
+  importId: number,
+): Promise<ImportRow> {
   const row = await getImportRow(knex, importId);
-  if (!row || !actor.unitIds.includes(row.unit_id)) throw new NotFoundError("No import with that id on your units.");
+  if (!row || !actor.unitIds.includes(row.unit_id))
+    throw new NotFoundError("No import with that id on your units.");
   return row;
 }
 
@@ -205,7 +259,10 @@ export async function confirmImport(
   const who: Importer = { kind: "user", actor };
   try {
     const id = await knex.transaction(async (trx) => {
-      const locked = (await trx("imports").where({ id: input.importId }).forUpdate().first("id", "status")) as {
+      const locked = (await trx("imports")
+        .where({ id: input.importId })
+        .forUpdate()
+        .first("id", "status")) as {
         id: number;
         status: string;
       };
@@ -220,7 +277,10 @@ export async function confirmImport(
           );
         }
         if (accepted === 0) {
-          throw new DomainError("Nothing to import: every row was rejected. The report lists why.", 422);
+          throw new DomainError(
+            "Nothing to import: every row was rejected. The report lists why.",
+            422,
+          );
         }
       });
       return row.id;
@@ -255,7 +315,11 @@ export async function importFromToken(
   },
   now: Date = new Date(),
 ): Promise<TokenImportResult> {
-  if (token.scope !== "write") throw new DomainError("This API token may only read; imports need a token with the write scope.", 403);
+  if (token.scope !== "write")
+    throw new DomainError(
+      "This API token may only read; imports need a token with the write scope.",
+      403,
+    );
   assertSize(input.kind, input.content.length);
   const contentSha = sha256(input.content);
   const options: Options = input.kind === "monitor_csv" ? { mrn: input.mrn!, bed: input.bed! } : {};
@@ -273,9 +337,15 @@ export async function importFromToken(
       throw asDomain(error);
     }
   }
-  const key = dedupeKey(input.kind, unit.id, input.kind === "monitor_csv" ? `${options.mrn}|${options.bed}` : "", contentSha);
+  const key = dedupeKey(
+    input.kind,
+    unit.id,
+    input.kind === "monitor_csv" ? `${options.mrn}|${options.bed}` : "",
+    contentSha,
+  );
   const existing = await findExisting(knex, key, sourceMessageId, contentSha);
-  if (existing?.status === "imported") return { created: false, preview: toPreview(existing, { alreadyImported: true }) };
+  if (existing?.status === "imported")
+    return { created: false, preview: toPreview(existing, { alreadyImported: true }) };
 
   try {
     const id = await knex.transaction(async (trx) => {
@@ -324,7 +394,8 @@ export async function importFromToken(
   } catch (error) {
     if (duplicateIndex(error)) {
       const again = await findExisting(knex, key, sourceMessageId, contentSha);
-      if (again?.status === "imported") return { created: false, preview: toPreview(again, { alreadyImported: true }) };
+      if (again?.status === "imported")
+        return { created: false, preview: toPreview(again, { alreadyImported: true }) };
     }
     throw asDomain(error);
   }

@@ -6,7 +6,13 @@ import {
   type PressureUnit,
   RANGES,
 } from "../oxygen";
-import { MEASURED_FIELDS, UNIT_LABELS, type MeasuredField, type RowReason, type UcumCode } from "./kinds";
+import {
+  MEASURED_FIELDS,
+  UNIT_LABELS,
+  type MeasuredField,
+  type RowReason,
+  type UcumCode,
+} from "./kinds";
 
 // Unit conversion of imported values. Pressures and haemoglobin go through the
 // same edge as the forms (lib/oxygen/units.ts), so a value typed and the same
@@ -61,7 +67,11 @@ const fmt = (v: number) => String(Math.round(v * 1000) / 1000);
  * fraction in a % column, g/L in a g/dL column. Reported per row; never
  * silently corrected.
  */
-export function unitMismatch(field: MeasuredField, value: number, unit: UcumCode): RowReason | undefined {
+export function unitMismatch(
+  field: MeasuredField,
+  value: number,
+  unit: UcumCode,
+): RowReason | undefined {
   const label = MEASURED_FIELDS[field].label;
   const says = (other: string) => ({
     code: "unit" as const,
@@ -71,10 +81,18 @@ export function unitMismatch(field: MeasuredField, value: number, unit: UcumCode
   if ((field === "pao2" || field === "paco2") && unit === "mm[Hg]" && value > 0) {
     if ((field === "pao2" && value < 20) || (field === "paco2" && value < 13)) return says("kPa");
   }
-  if ((field === "pao2" && unit === "kPa" && value > 95) || (field === "paco2" && unit === "kPa" && value > 21)) {
+  if (
+    (field === "pao2" && unit === "kPa" && value > 95) ||
+    (field === "paco2" && unit === "kPa" && value > 21)
+  ) {
     return says("mmHg");
   }
-  if ((field === "sao2" || field === "spo2" || field === "fio2") && unit === "%" && value > 0 && value <= 1) {
+  if (
+    (field === "sao2" || field === "spo2" || field === "fio2") &&
+    unit === "%" &&
+    value > 0 &&
+    value <= 1
+  ) {
     return says("a fraction (0–1)");
   }
   if ((field === "sao2" || field === "spo2" || field === "fio2") && unit === "1" && value > 1) {

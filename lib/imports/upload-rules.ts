@@ -45,7 +45,12 @@ export function asDomain(error: unknown): unknown {
 
 export const sha256 = (data: Buffer | string) => createHash("sha256").update(data).digest("hex");
 
-export function dedupeKey(kind: ImportKind, unitId: number, scope: string, contentSha: string): string {
+export function dedupeKey(
+  kind: ImportKind,
+  unitId: number,
+  scope: string,
+  contentSha: string,
+): string {
   return sha256([kind, unitId, scope, contentSha].join("\n"));
 }
 
@@ -67,19 +72,34 @@ export const uploadSchema = z
   })
   .superRefine((v, ctx) => {
     if (v.kind === "monitor_csv") {
-      if (!v.mrn) ctx.addIssue({ code: "custom", path: ["mrn"], message: "Give the MRN of the patient the monitor was on." });
-      if (!v.bed) ctx.addIssue({ code: "custom", path: ["bed"], message: "Give the bed of the monitor." });
+      if (!v.mrn)
+        ctx.addIssue({
+          code: "custom",
+          path: ["mrn"],
+          message: "Give the MRN of the patient the monitor was on.",
+        });
+      if (!v.bed)
+        ctx.addIssue({ code: "custom", path: ["bed"], message: "Give the bed of the monitor." });
     }
   });
 export type UploadInput = z.input<typeof uploadSchema>;
 
 // The mapping is validated again each time the file is checked (planBloodGasCsv).
-export type Options = { delimiter?: BloodGasMapping["delimiter"]; mapping?: unknown; mrn?: string; bed?: string };
+export type Options = {
+  delimiter?: BloodGasMapping["delimiter"];
+  mapping?: unknown;
+  mrn?: string;
+  bed?: string;
+};
 
 export function assertSize(kind: ImportKind, bytes: number): void {
-  if (bytes === 0) throw new DomainError("The file is empty.", 422, { file: ["The file is empty."] });
+  if (bytes === 0)
+    throw new DomainError("The file is empty.", 422, { file: ["The file is empty."] });
   if (bytes > MAX_IMPORT_BYTES[kind]) {
-    throw new DomainError(`The file is larger than ${MAX_IMPORT_BYTES[kind] / 1024 / 1024} MB.`, 413);
+    throw new DomainError(
+      `The file is larger than ${MAX_IMPORT_BYTES[kind] / 1024 / 1024} MB.`,
+      413,
+    );
   }
 }
 

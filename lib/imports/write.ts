@@ -17,10 +17,18 @@ import { IMPORT_LEDGER_ACTIONS } from "./kinds";
 import type { MatchedPatient } from "./matching";
 import type { ImportRow } from "./queries";
 import type { StoredReport } from "./report";
-import { checkedFromMonitor, checkedFromPlan, type Checked, type Importer, type Options } from "./upload-rules";
+import {
+  checkedFromMonitor,
+  checkedFromPlan,
+  type Checked,
+  type Importer,
+  type Options,
+} from "./upload-rules";
 
 const ledgerActorOf = (who: Importer): LedgerActor =>
-  who.kind === "user" ? { id: who.actor.id, role: who.actor.role } : { id: null, role: "interface" };
+  who.kind === "user"
+    ? { id: who.actor.id, role: who.actor.role }
+    : { id: null, role: "interface" };
 const recordedByOf = (who: Importer) => (who.kind === "user" ? who.actor.id : null);
 
 /**
@@ -44,17 +52,29 @@ export async function writeImport(
   const recordedBy = recordedByOf(who);
   const ledgerActor = ledgerActorOf(who);
   const action = IMPORT_LEDGER_ACTIONS[row.kind];
-  const base = { importId: row.id, kind: row.kind, fileName: row.file_name, sha256: row.content_sha256 };
+  const base = {
+    importId: row.id,
+    kind: row.kind,
+    fileName: row.file_name,
+    sha256: row.content_sha256,
+  };
   let checked: Checked;
   const touched = new Map<number, { patient: MatchedPatient; after: Record<string, unknown> }>();
 
   if (row.kind === "monitor_csv") {
-    const outcome = await streamMonitorCsv(trx, fileStream(row.original_content), unit, { mrn: options.mrn!, bed: options.bed! }, now, {
+    const outcome = await streamMonitorCsv(
       trx,
-      importId: row.id,
-      recordedBy,
-      ledgerActor,
-    });
+      fileStream(row.original_content),
+      unit,
+      { mrn: options.mrn!, bed: options.bed! },
+      now,
+      {
+        trx,
+        importId: row.id,
+        recordedBy,
+        ledgerActor,
+      },
+    );
     checked = checkedFromMonitor(outcome, unit.id);
     gate(checked.counts.accepted, checked.counts.rejected);
     touched.set(outcome.patient.patientId, {
@@ -68,37 +88,74 @@ export async function writeImport(
   } else {
     const plan =
       row.kind === "hl7"
-        ? await planHl7(trx, row.original_content, who.kind === "token" ? who.token.unitIds : [unit.id], unit, now)
-        : await planBloodGasCsv(trx, row.original_content, unit, { delimiter: options.delimiter ?? ",", mapping: options.mapping }, now);
+        ? await planHl7(
+            trx,
+            row.original_content,
+            who.kind === "token" ? who.token.unitIds : [unit.id],
+            unit,
+            now,
+          )
+        : await planBloodGasCsv(
+            trx,
+            row.original_content,
+            unit,
+            { delimiter: options.delimiter ?? ",", mapping: options.mapping },
+            now,
+          );
     if (plan.mappingErrors) {
       throw new DomainError("Complete the column mapping first.", 400, plan.mappingErrors);
     }
     checked = checkedFromPlan(plan);
     gate(checked.counts.accepted, checked.counts.rejected);
     for (const g of plan.gases) {
-      const view = await insertBloodGas(trx, { admissionId: g.patient.admissionId }, g.values, g.evaluated, {
-        recordedBy,
-        importId: row.id,
-      });
+      const view = await insertBloodGas(
+        trx,
+        { admissionId: g.patient.admissionId },
+        g.values,
+        g.evaluated,
+        {
+          recordedBy,
+          importId: row.id,
+        },
+      );
       await afterBloodGasRecorded(
         trx,
         ledgerActor,
         alertAdmissionOf(g.patient),
-        { sampledAt: g.values.sampledAt, sampleType: g.values.sampleType, pao2: g.values.pao2, fio2: view.fio2, flow: g.values.flow ?? null },
+        {
+          sampledAt: g.values.sampledAt,
+          sampleType: g.values.sampleType,
+          pao2: g.values.pao2,
+          fio2: view.fio2,
+          flow: g.values.flow ?? null,
+        },
         now,
       );
-      const entry = touched.get(g.patient.patientId) ?? { patient: g.patient, after: { bloodGasIds: [] as number[], readings: 0 } };
+      const entry = touched.get(g.patient.patientId) ?? {
+        patient: g.patient,
+        after: { bloodGasIds: [] as number[], readings: 0 },
+      };
       (entry.after.bloodGasIds as number[]).push(view.id);
       touched.set(g.patient.patientId, entry);
     }
     const byPatient = new Map<number, typeof plan.readings>();
-    for (const r of plan.readings) byPatient.set(r.patient.patientId, [...(byPatient.get(r.patient.patientId) ?? []), r]);
+    for (const r of plan.readings)
+      byPatient.set(r.patient.patientId, [...(byPatient.get(r.patient.patientId) ?? []), r]);
     for (const [patientId, readings] of byPatient) {
       const rows = readings.map((r) => readingInsertRow(r, row.id, recordedBy));
       await trx("readings").insert(rows);
       const patient = readings[0]!.patient;
-      await afterReadingsCharted(trx, ledgerActor, alertAdmissionOf(patient), chartedReadings(rows), now);
-      const entry = touched.get(patientId) ?? { patient, after: { bloodGasIds: [] as number[], readings: 0 } };
+      await afterReadingsCharted(
+        trx,
+        ledgerActor,
+        alertAdmissionOf(patient),
+        chartedReadings(rows),
+        now,
+      );
+      const entry = touched.get(patientId) ?? {
+        patient,
+        after: { bloodGasIds: [] as number[], readings: 0 },
+      };
       entry.after.readings = rows.length;
       touched.set(patientId, entry);
     }
@@ -112,9 +169,14 @@ export async function writeImport(
       rows_total: checked.counts.total,
       rows_accepted: checked.counts.accepted,
       rows_rejected: checked.counts.rejected,
-      report_json: JSON.stringify({ ...JSON.parse(row.report_json || "{}"), ...checked.report } as StoredReport),
+      report_json: JSON.stringify({
+        ...JSON.parse(row.report_json || "{}"),
+        ...checked.report,
+      } as StoredReport),
     });
-  for (const { patient, after } of [...touched.values()].sort((a, b) => a.patient.patientId - b.patient.patientId)) {
+  for (const { patient, after } of [...touched.values()].sort(
+    (a, b) => a.patient.patientId - b.patient.patientId,
+  )) {
     await appendLedger(
       trx,
       ledgerActor,
@@ -129,7 +191,9 @@ export async function writeImport(
           ...after,
           rowsInFile: checked.counts.total,
           rowsRejected: checked.counts.rejected,
-          ...(who.kind === "token" ? { apiTokenId: who.token.tokenId, apiTokenName: who.token.name } : {}),
+          ...(who.kind === "token"
+            ? { apiTokenId: who.token.tokenId, apiTokenName: who.token.name }
+            : {}),
         },
       },
       now,

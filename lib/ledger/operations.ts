@@ -18,7 +18,11 @@ export const readLedgerOperation = defineRead({
  */
 export const verifyLedgerOperation = defineRead({
   permission: "record.read",
-  schema: z.object({ mode: z.enum(["full", "incremental"], { error: "Mode must be full or incremental." }).default("full") }),
+  schema: z.object({
+    mode: z
+      .enum(["full", "incremental"], { error: "Mode must be full or incremental." })
+      .default("full"),
+  }),
   run: async (knex, actor, { mode }) => {
     const result = await verifyLedger(knex, { mode });
     const broken = result.firstBroken;

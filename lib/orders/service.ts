@@ -17,7 +17,12 @@ import {
 import { DESIGNATED_COSIGN_MEANING, SIGNATURE_MEANING } from "./wording";
 import { cosignersFor, cosignersText, mayCosign } from "./cosigners";
 import { getCurrentOrder, getOrder, type OrderView } from "./queries";
-import { type orderInputSchema, type CosignData, type DiscontinueData, type OrderData } from "./schema";
+import {
+  type orderInputSchema,
+  type CosignData,
+  type DiscontinueData,
+  type OrderData,
+} from "./schema";
 import {
   composeOrderSupersededEmail,
   ORDER_SUPERSEDED_PURPOSE,
@@ -95,7 +100,10 @@ export async function writeOrder(
     // Two writers who both saw "no order in effect" meet at the unique index
     // (a deadlock is not caught here: once() runs the victim again).
     return writeOrderInTransaction(trx, actor, input, admission, now).catch((error: unknown) => {
-      if (duplicateIndex(error) === "orders_current_patient_id_unique" || isLockWaitTimeout(error)) {
+      if (
+        duplicateIndex(error) === "orders_current_patient_id_unique" ||
+        isLockWaitTimeout(error)
+      ) {
         throw new ConflictError(
           "Another order was just written for this patient. Review it, then write yours again if it is still needed.",
         );
@@ -430,11 +438,18 @@ export async function discontinueOrder(
       },
       now,
     );
-    const bed = (await trx("admissions").where({ id: before.admissionId }).first("bed_id")) as { bed_id: number };
+    const bed = (await trx("admissions").where({ id: before.admissionId }).first("bed_id")) as {
+      bed_id: number;
+    };
     await afterOrderChanged(
       trx,
       actor,
-      { admissionId: before.admissionId, patientId: before.patientId, unitId: before.unitId, bedId: bed.bed_id },
+      {
+        admissionId: before.admissionId,
+        patientId: before.patientId,
+        unitId: before.unitId,
+        bedId: bed.bed_id,
+      },
       now,
     );
     return after;

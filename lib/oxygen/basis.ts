@@ -1,5 +1,14 @@
-import { classifyOxygenation, type OxygenationClassification, type RespiratorySupport } from "./classification";
-import { HEMOGLOBIN_OXYGEN_CAPACITY, OXYGEN_SOLUBILITY, oxygenContentParts, oxygenDelivery } from "./content";
+import {
+  classifyOxygenation,
+  type OxygenationClassification,
+  type RespiratorySupport,
+} from "./classification";
+import {
+  HEMOGLOBIN_OXYGEN_CAPACITY,
+  OXYGEN_SOLUBILITY,
+  oxygenContentParts,
+  oxygenDelivery,
+} from "./content";
 import { saturationFromPO2 } from "./dissociation";
 import {
   alveolarPO2,
@@ -7,8 +16,19 @@ import {
   DEFAULT_RESPIRATORY_QUOTIENT,
   STANDARD_BAROMETRIC_PRESSURE,
 } from "./gas";
-import { expectedAaGradient, oxygenationIndex, oxygenSaturationIndex, pfRatio, roxIndex, sfRatio } from "./indices";
-import { BELOW_OXIMETER_ACCURACY_LABEL, belowOximeterAccuracy, OXIMETER_ACCURATE_FROM_PCT } from "./oximetry";
+import {
+  expectedAaGradient,
+  oxygenationIndex,
+  oxygenSaturationIndex,
+  pfRatio,
+  roxIndex,
+  sfRatio,
+} from "./indices";
+import {
+  BELOW_OXIMETER_ACCURACY_LABEL,
+  belowOximeterAccuracy,
+  OXIMETER_ACCURATE_FROM_PCT,
+} from "./oximetry";
 import { checkRange, type InputRange, RANGES } from "./ranges";
 import { SOURCES } from "./sources";
 
@@ -119,7 +139,8 @@ export function assessBloodGas(input: BloodGasInput): BloodGasAssessment {
     ["ageYears", ageYears, RANGES.ageYears],
     ["cardiacOutput", cardiacOutput, RANGES.cardiacOutput],
   ];
-  for (const [field, value, range] of optional) if (value !== undefined) checkRange(field, value, range);
+  for (const [field, value, range] of optional)
+    if (value !== undefined) checkRange(field, value, range);
   const caveats: string[] = [];
   const FiO2 = { value: fio2, unit: "fraction" };
   const PaO2 = { value: pao2, unit: "mmHg" };
@@ -152,7 +173,9 @@ export function assessBloodGas(input: BloodGasInput): BloodGasAssessment {
       formula: "P/F = PaO2 / FiO2",
       inputs: { PaO2, FiO2 },
       source: SOURCES.pfRatio,
-      assumptions: ["FiO2 is the fraction actually delivered; on low-flow devices it is an estimate."],
+      assumptions: [
+        "FiO2 is the fraction actually delivered; on low-flow devices it is an estimate.",
+      ],
     }),
     alveolarPO2: index(alveolar, "mmHg", {
       name: "Alveolar PO2 (PAO2)",
@@ -205,7 +228,8 @@ export function assessBloodGas(input: BloodGasInput): BloodGasAssessment {
       source: SOURCES.sfRatio,
       assumptions: ["Valid only with SpO2 ≤ 97 %; above it the curve is flat and S/F says little."],
     });
-    if (indexSpo2 > 97) caveats.push(`SpO2 ${indexSpo2} % is above 97 %: the S/F ratio is not interpretable.`);
+    if (indexSpo2 > 97)
+      caveats.push(`SpO2 ${indexSpo2} % is above 97 %: the S/F ratio is not interpretable.`);
   }
   if (spo2 !== undefined) {
     const expected = 100 * saturationFromPO2(pao2);
@@ -222,8 +246,14 @@ export function assessBloodGas(input: BloodGasInput): BloodGasAssessment {
       sao2 !== undefined
         ? [sao2, "SaO2 measured by co-oximetry."]
         : spo2 !== undefined
-          ? [spo2 / 100, "SaO2 taken from SpO2 (pulse oximetry), which can differ from arterial saturation by several percent."]
-          : [saturationFromPO2(pao2), "SaO2 computed from PaO2 on the standard Severinghaus curve (no measured saturation)."];
+          ? [
+              spo2 / 100,
+              "SaO2 taken from SpO2 (pulse oximetry), which can differ from arterial saturation by several percent.",
+            ]
+          : [
+              saturationFromPO2(pao2),
+              "SaO2 computed from PaO2 on the standard Severinghaus curve (no measured saturation).",
+            ];
     const parts = oxygenContentParts({ hemoglobin, saturation, po2: pao2 });
     const contentInputs: Inputs = {
       Hb: { value: hemoglobin, unit: "g/dL" },
@@ -243,9 +273,21 @@ export function assessBloodGas(input: BloodGasInput): BloodGasAssessment {
       assumptions: contentAssumptions,
     });
     indices.oxygenContent = {
-      total: index(parts.total, "mL/dL", contentBasis("Arterial O2 content (CaO2)", "CaO2 = 1.34 × Hb × SaO2 + 0.003 × PaO2")),
-      bound: index(parts.bound, "mL/dL", contentBasis("O2 bound to haemoglobin", "1.34 × Hb × SaO2")),
-      dissolved: index(parts.dissolved, "mL/dL", contentBasis("O2 dissolved in plasma", "0.003 × PaO2")),
+      total: index(
+        parts.total,
+        "mL/dL",
+        contentBasis("Arterial O2 content (CaO2)", "CaO2 = 1.34 × Hb × SaO2 + 0.003 × PaO2"),
+      ),
+      bound: index(
+        parts.bound,
+        "mL/dL",
+        contentBasis("O2 bound to haemoglobin", "1.34 × Hb × SaO2"),
+      ),
+      dissolved: index(
+        parts.dissolved,
+        "mL/dL",
+        contentBasis("O2 dissolved in plasma", "0.003 × PaO2"),
+      ),
       boundToDissolvedRatio: index(
         parts.bound / parts.dissolved,
         "ratio",
@@ -253,26 +295,37 @@ export function assessBloodGas(input: BloodGasInput): BloodGasAssessment {
       ),
     };
     if (cardiacOutput !== undefined) {
-      indices.oxygenDelivery = index(oxygenDelivery({ cardiacOutput, arterialContent: parts.total }), "mL/min", {
-        name: "O2 delivery (DO2)",
-        formula: "DO2 = 10 × CO × CaO2",
-        inputs: { CO: { value: cardiacOutput, unit: "L/min" }, CaO2: { value: parts.total, unit: "mL/dL" } },
-        source: SOURCES.oxygenDelivery,
-        assumptions: ["10 dL per litre of blood."],
-      });
+      indices.oxygenDelivery = index(
+        oxygenDelivery({ cardiacOutput, arterialContent: parts.total }),
+        "mL/min",
+        {
+          name: "O2 delivery (DO2)",
+          formula: "DO2 = 10 × CO × CaO2",
+          inputs: {
+            CO: { value: cardiacOutput, unit: "L/min" },
+            CaO2: { value: parts.total, unit: "mL/dL" },
+          },
+          source: SOURCES.oxygenDelivery,
+          assumptions: ["10 dL per litre of blood."],
+        },
+      );
     }
   }
 
   if (meanAirwayPressure !== undefined) {
     const MAP = { value: meanAirwayPressure, unit: "cmH2O" };
     const percentAssumption = "FiO2 enters as a percentage, as published.";
-    indices.oxygenationIndex = index(oxygenationIndex({ fio2, meanAirwayPressure, pao2 }), "index", {
-      name: "Oxygenation index (OI)",
-      formula: "OI = FiO2 (%) × MAP / PaO2",
-      inputs: { FiO2, MAP, PaO2 },
-      source: SOURCES.oxygenationIndex,
-      assumptions: [percentAssumption, "Validated mainly in invasively ventilated children."],
-    });
+    indices.oxygenationIndex = index(
+      oxygenationIndex({ fio2, meanAirwayPressure, pao2 }),
+      "index",
+      {
+        name: "Oxygenation index (OI)",
+        formula: "OI = FiO2 (%) × MAP / PaO2",
+        inputs: { FiO2, MAP, PaO2 },
+        source: SOURCES.oxygenationIndex,
+        assumptions: [percentAssumption, "Validated mainly in invasively ventilated children."],
+      },
+    );
     if (indexSpo2 !== undefined) {
       const osi = oxygenSaturationIndex({ fio2, meanAirwayPressure, spo2: indexSpo2 });
       indices.oxygenSaturationIndex = index(osi, "index", {
@@ -289,13 +342,26 @@ export function assessBloodGas(input: BloodGasInput): BloodGasAssessment {
     indices.roxIndex = index(roxIndex({ spo2: indexSpo2, fio2, respiratoryRate }), "index", {
       name: "ROX index",
       formula: "ROX = (SpO2 (%) / FiO2) / RR",
-      inputs: { SpO2: { value: indexSpo2, unit: "%" }, FiO2, RR: { value: respiratoryRate, unit: "/min" } },
+      inputs: {
+        SpO2: { value: indexSpo2, unit: "%" },
+        FiO2,
+        RR: { value: respiratoryRate, unit: "/min" },
+      },
       source: SOURCES.rox,
       assumptions: ["Validated in patients on high-flow nasal oxygen."],
     });
-    if (support !== "hfnc") caveats.push("The ROX index is validated on high-flow nasal oxygen only.");
+    if (support !== "hfnc")
+      caveats.push("The ROX index is validated on high-flow nasal oxygen only.");
   }
 
-  const classification = classifyOxygenation({ pao2, spo2: indexSpo2, fio2, peep, support, flow, barometricPressure });
+  const classification = classifyOxygenation({
+    pao2,
+    spo2: indexSpo2,
+    fio2,
+    peep,
+    support,
+    flow,
+    barometricPressure,
+  });
   return { indices, classification, inconsistent, caveats };
 }

@@ -66,15 +66,23 @@ const BERLIN_ALTITUDE_PRESSURE = barometricPressureAtAltitude(1000);
 
 const ratio = (value: number): string => String(Math.round(value));
 
-function berlin(input: ClassifyOxygenationInput, pf: number | undefined): ClassificationResult<BerlinCategory> {
-  const result = (category: BerlinCategory, criterion: string, values: Record<string, number> = {}) => ({
+function berlin(
+  input: ClassifyOxygenationInput,
+  pf: number | undefined,
+): ClassificationResult<BerlinCategory> {
+  const result = (
+    category: BerlinCategory,
+    criterion: string,
+    values: Record<string, number> = {},
+  ) => ({
     category,
     criterion,
     values,
     source: SOURCES.berlin,
   });
   const { peep, support, barometricPressure } = input;
-  if (pf === undefined) return result("not-classifiable", "Berlin 2012 grades by PaO2/FiO2; no PaO2 was given");
+  if (pf === undefined)
+    return result("not-classifiable", "Berlin 2012 grades by PaO2/FiO2; no PaO2 was given");
   if (support === "none" || support === "conventional" || support === "hfnc") {
     return result(
       "not-classifiable",
@@ -82,22 +90,40 @@ function berlin(input: ClassifyOxygenationInput, pf: number | undefined): Classi
       { pfRatio: pf },
     );
   }
-  if (peep === undefined) return result("not-classifiable", "Berlin 2012 requires PEEP or CPAP ≥ 5 cmH2O; PEEP was not given", { pfRatio: pf });
+  if (peep === undefined)
+    return result(
+      "not-classifiable",
+      "Berlin 2012 requires PEEP or CPAP ≥ 5 cmH2O; PEEP was not given",
+      { pfRatio: pf },
+    );
   if (peep < MINIMUM_PEEP) {
-    return result("not-classifiable", `PEEP ${peep} cmH2O is below the ${MINIMUM_PEEP} cmH2O Berlin 2012 requires`, {
-      pfRatio: pf,
-      peep,
-    });
+    return result(
+      "not-classifiable",
+      `PEEP ${peep} cmH2O is below the ${MINIMUM_PEEP} cmH2O Berlin 2012 requires`,
+      {
+        pfRatio: pf,
+        peep,
+      },
+    );
   }
-  const corrected = barometricPressure !== undefined && barometricPressure < BERLIN_ALTITUDE_PRESSURE;
+  const corrected =
+    barometricPressure !== undefined && barometricPressure < BERLIN_ALTITUDE_PRESSURE;
   const value = corrected ? (pf * barometricPressure) / 760 : pf;
   const values: Record<string, number> = corrected
     ? { pfRatio: pf, adjustedPfRatio: value, barometricPressure, peep }
     : { pfRatio: pf, peep };
-  const shown = corrected ? `P/F ${ratio(value)} mmHg (altitude-adjusted × PB/760)` : `P/F ${ratio(value)} mmHg`;
+  const shown = corrected
+    ? `P/F ${ratio(value)} mmHg (altitude-adjusted × PB/760)`
+    : `P/F ${ratio(value)} mmHg`;
   const assumed = support === undefined ? "; support not stated, PEEP taken as invasive" : "";
-  if (value > 300) return result("none", `${shown} > 300 with PEEP ${peep} cmH2O: outside the Berlin oxygenation bands${assumed}`, values);
-  if (value > 200) return result("mild", `200 < ${shown} ≤ 300 with PEEP/CPAP ${peep} cmH2O${assumed}`, values);
+  if (value > 300)
+    return result(
+      "none",
+      `${shown} > 300 with PEEP ${peep} cmH2O: outside the Berlin oxygenation bands${assumed}`,
+      values,
+    );
+  if (value > 200)
+    return result("mild", `200 < ${shown} ≤ 300 with PEEP/CPAP ${peep} cmH2O${assumed}`, values);
   if (support === "niv") {
     return result(
       "not-classifiable",
@@ -105,7 +131,8 @@ function berlin(input: ClassifyOxygenationInput, pf: number | undefined): Classi
       values,
     );
   }
-  if (value > 100) return result("moderate", `100 < ${shown} ≤ 200 with PEEP ${peep} cmH2O${assumed}`, values);
+  if (value > 100)
+    return result("moderate", `100 < ${shown} ≤ 200 with PEEP ${peep} cmH2O${assumed}`, values);
   return result("severe", `${shown} ≤ 100 with PEEP ${peep} cmH2O${assumed}`, values);
 }
 
@@ -127,8 +154,10 @@ function assessRatio(
   const shown = `${name} ${ratio(value)}`;
   if (value > mild) return { name, value, band: "none", text: `${shown} > ${mild}` };
   if (!graded) return { name, value, band: "ards", text: `${shown} ≤ ${mild}` };
-  if (value > moderate) return { name, value, band: "mild", text: `${moderate} < ${shown} ≤ ${mild}` };
-  if (value > severe) return { name, value, band: "moderate", text: `${severe} < ${shown} ≤ ${moderate}` };
+  if (value > moderate)
+    return { name, value, band: "mild", text: `${moderate} < ${shown} ≤ ${mild}` };
+  if (value > severe)
+    return { name, value, band: "moderate", text: `${severe} < ${shown} ≤ ${moderate}` };
   return { name, value, band: "severe", text: `${shown} ≤ ${severe}` };
 }
 
@@ -150,7 +179,11 @@ function globalDefinition(
     ...(classifiedBy ? { classifiedBy } : {}),
   });
   const { support, peep, flow, spo2 } = input;
-  if (support === undefined) return result("not-classifiable", "The 2023 global definition depends on the support in use; none was stated");
+  if (support === undefined)
+    return result(
+      "not-classifiable",
+      "The 2023 global definition depends on the support in use; none was stated",
+    );
   if (support === "none" || support === "conventional") {
     return result(
       "not-classifiable",
@@ -178,7 +211,10 @@ function globalDefinition(
   // The definition's oxygenation criterion is P/F ≤ 300 or S/F ≤ 315, S/F only
   // with SpO2 ≤ 97 %. Both ratios are assessed when both are available.
   const sfUsable = sf !== undefined && spo2 !== undefined && spo2 <= HIGHEST_SPO2_FOR_SF;
-  const sfSkipped = sf !== undefined && !sfUsable ? `S/F not used: SpO2 ${spo2} % > ${HIGHEST_SPO2_FOR_SF} %` : undefined;
+  const sfSkipped =
+    sf !== undefined && !sfUsable
+      ? `S/F not used: SpO2 ${spo2} % > ${HIGHEST_SPO2_FOR_SF} %`
+      : undefined;
   // Severity bands apply to intubated patients only.
   const graded = support === "invasive";
   const assessed: RatioAssessment[] = [];
@@ -194,7 +230,11 @@ function globalDefinition(
 
   if (assessed.length === 0) {
     return sfSkipped
-      ? result("not-classifiable", `SpO2 ${spo2} % is above 97 %: the global definition does not use S/F there, and no PaO2 was given`, values)
+      ? result(
+          "not-classifiable",
+          `SpO2 ${spo2} % is above 97 %: the global definition does not use S/F there, and no PaO2 was given`,
+          values,
+        )
       : result("not-classifiable", "Neither PaO2 nor SpO2 was given");
   }
 
@@ -203,7 +243,9 @@ function globalDefinition(
   // alternatives without saying which decides when they disagree: either one
   // meeting the criterion meets it, and grading by the worse one does not
   // under-grade a patient that one of the two puts in a more severe band.
-  const worst = assessed.reduce((a, b) => (BAND_ORDER.indexOf(b.band) > BAND_ORDER.indexOf(a.band) ? b : a));
+  const worst = assessed.reduce((a, b) =>
+    BAND_ORDER.indexOf(b.band) > BAND_ORDER.indexOf(a.band) ? b : a,
+  );
   const agree = assessed.length === 2 && assessed[0]!.band === assessed[1]!.band;
   const classifiedBy: ClassifiedBy = agree ? "both" : worst.name;
   const other = assessed.find((a) => a !== worst);
@@ -214,18 +256,30 @@ function globalDefinition(
   const bandWords = (band: GlobalBand) =>
     band === "none" ? "outside the criterion" : band === "ards" ? "within the criterion" : band;
   const tail = [
-    ...(other && !agree ? [`${other.name} ${ratio(other.value)} would be ${bandWords(other.band)}`] : []),
+    ...(other && !agree
+      ? [`${other.name} ${ratio(other.value)} would be ${bandWords(other.band)}`]
+      : []),
     ...(sfSkipped ? [sfSkipped] : []),
   ]
     .map((t) => `; ${t}`)
     .join("");
 
   if (worst.band === "none") {
-    return result("none", `${deciding}: outside the global definition's oxygenation criterion${tail}`, values, classifiedBy);
+    return result(
+      "none",
+      `${deciding}: outside the global definition's oxygenation criterion${tail}`,
+      values,
+      classifiedBy,
+    );
   }
   if (worst.band === "ards") {
     const device = support === "hfnc" ? `HFNC ${flow} L/min` : `NIV/CPAP ${peep} cmH2O`;
-    return result("ards", `${deciding} on ${device} (non-intubated: no severity bands)${tail}`, values, classifiedBy);
+    return result(
+      "ards",
+      `${deciding} on ${device} (non-intubated: no severity bands)${tail}`,
+      values,
+      classifiedBy,
+    );
   }
   return result(worst.band, `${deciding}: ${worst.band}, intubated${tail}`, values, classifiedBy);
 }
@@ -245,7 +299,8 @@ export function classifyOxygenation(input: ClassifyOxygenationInput): Oxygenatio
   checkRange("fio2", fio2, RANGES.fio2);
   if (peep !== undefined) checkRange("peep", peep, RANGES.peep);
   if (flow !== undefined) checkRange("flow", flow, RANGES.flow);
-  if (barometricPressure !== undefined) checkRange("barometricPressure", barometricPressure, RANGES.barometricPressure);
+  if (barometricPressure !== undefined)
+    checkRange("barometricPressure", barometricPressure, RANGES.barometricPressure);
   const pf = pao2 === undefined ? undefined : pfRatio(pao2, fio2);
   const sf = spo2 === undefined ? undefined : sfRatio(spo2, fio2);
   return {

@@ -26,7 +26,9 @@ export interface OxygenContentParts {
 
 /** Content without input checks, for the engine's own solvers; saturation from Severinghaus. */
 export function contentAtPO2(hemoglobin: number, po2: number): number {
-  return HEMOGLOBIN_OXYGEN_CAPACITY * hemoglobin * severinghausSaturation(po2) + OXYGEN_SOLUBILITY * po2;
+  return (
+    HEMOGLOBIN_OXYGEN_CAPACITY * hemoglobin * severinghausSaturation(po2) + OXYGEN_SOLUBILITY * po2
+  );
 }
 
 /** Dissolved oxygen in mL O2/dL at a PO2 in mmHg (Henry's law, 0.003 mL/dL/mmHg). */
@@ -39,7 +41,11 @@ export function dissolvedOxygen(po2: number): number {
  * Oxygen content split into its bound and dissolved parts:
  * CaO2 = 1.34·Hb·SO2 + 0.003·PO2 (see SOURCES.oxygenContent).
  */
-export function oxygenContentParts({ hemoglobin, saturation, po2 }: OxygenContentInput): OxygenContentParts {
+export function oxygenContentParts({
+  hemoglobin,
+  saturation,
+  po2,
+}: OxygenContentInput): OxygenContentParts {
   checkRange("hemoglobin", hemoglobin, RANGES.hemoglobin);
   checkRange("saturation", saturation, RANGES.saturationFraction);
   const dissolved = dissolvedOxygen(po2);

@@ -33,7 +33,10 @@ export interface BaselineGas {
  * as measured, at the FiO2 it was taken at — not the setting now — with
  * ASSUMED_HEMOGLOBIN where it has none, at the unit's barometric pressure.
  */
-export function forecastBaseline(gas: BaselineGas, barometricPressure?: number): Omit<ForecastInput, "nextFio2"> {
+export function forecastBaseline(
+  gas: BaselineGas,
+  barometricPressure?: number,
+): Omit<ForecastInput, "nextFio2"> {
   return {
     fio2: gas.fio2,
     pao2: gas.pao2,
@@ -111,7 +114,13 @@ const SOLVER_HIGH = 800;
  */
 export class InconsistentBloodGasError extends OxygenInputError {
   constructor(pao2: number, alveolar: number, fio2: number) {
-    super({ field: "pao2", value: pao2, min: RANGES.pao2.min, max: alveolar, unit: RANGES.pao2.unit });
+    super({
+      field: "pao2",
+      value: pao2,
+      min: RANGES.pao2.min,
+      max: alveolar,
+      unit: RANGES.pao2.unit,
+    });
     this.message =
       `measured PaO2 ${mmHg(pao2)} is above the alveolar PO2 ${mmHg(alveolar)} computed at FiO2 ${fio2}: the inputs contradict each other ` +
       "(check FiO2, PaCO2, barometric pressure and that the sample is arterial), so no forecast is made from them";
@@ -164,7 +173,8 @@ export function forecastFio2Change(input: ForecastInput): Fio2Forecast {
   const gas = { paco2, barometricPressure, waterVapourPressure, respiratoryQuotient };
   const current = alveolarPO2({ ...gas, fio2 });
   checkRange("nextFio2", nextFio2, RANGES.fio2);
-  const lowestNextFio2 = (MIN_ALVEOLAR_PO2 + paco2 / respiratoryQuotient) / (barometricPressure - waterVapourPressure);
+  const lowestNextFio2 =
+    (MIN_ALVEOLAR_PO2 + paco2 / respiratoryQuotient) / (barometricPressure - waterVapourPressure);
   if (nextFio2 < lowestNextFio2) {
     throw new OxygenInputError({
       field: "nextFio2",
@@ -184,7 +194,9 @@ export function forecastFio2Change(input: ForecastInput): Fio2Forecast {
 
   const pfPao2 = (pao2 / fio2) * nextFio2;
   if (pfPao2 > next) {
-    caveats.push(`The constant-P/F forecast (${mmHg(pfPao2)}) exceeded PAO2 ${mmHg(next)} at FiO2 ${nextFio2} and was capped at it.`);
+    caveats.push(
+      `The constant-P/F forecast (${mmHg(pfPao2)}) exceeded PAO2 ${mmHg(next)} at FiO2 ${nextFio2} and was capped at it.`,
+    );
   }
   const pf = model(Math.min(pfPao2, next));
 
@@ -197,7 +209,9 @@ export function forecastFio2Change(input: ForecastInput): Fio2Forecast {
   const targetContent = contentAtPO2(hemoglobin, next) - deficit;
   const shuntPao2 = Math.min(solvePO2ForContent(hemoglobin, targetContent), next);
   if (shuntPao2 < MIN_ALVEOLAR_PO2) {
-    caveats.push(`At FiO2 ${nextFio2} the estimated shunt (${Math.round(shuntFraction * 100)} %) leaves no arterial oxygen in the shunt model.`);
+    caveats.push(
+      `At FiO2 ${nextFio2} the estimated shunt (${Math.round(shuntFraction * 100)} %) leaves no arterial oxygen in the shunt model.`,
+    );
   }
   const shunt = model(shuntPao2);
 

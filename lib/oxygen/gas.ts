@@ -7,7 +7,13 @@ export const BODY_WATER_VAPOUR_PRESSURE = 47;
 export const DEFAULT_RESPIRATORY_QUOTIENT = 0.8;
 
 /** Dalton's law: the partial pressure of a gas is its fraction of the total pressure. */
-export function partialPressure({ fraction, totalPressure }: { fraction: number; totalPressure: number }): number {
+export function partialPressure({
+  fraction,
+  totalPressure,
+}: {
+  fraction: number;
+  totalPressure: number;
+}): number {
   checkRange("fraction", fraction, RANGES.gasFraction);
   checkRange("totalPressure", totalPressure, RANGES.barometricPressure);
   return fraction * totalPressure;

@@ -62,7 +62,14 @@ export {
   type OxygenContentInput,
   type OxygenContentParts,
 } from "./content";
-export { pfRatio, sfRatio, roxIndex, oxygenationIndex, oxygenSaturationIndex, expectedAaGradient } from "./indices";
+export {
+  pfRatio,
+  sfRatio,
+  roxIndex,
+  oxygenationIndex,
+  oxygenSaturationIndex,
+  expectedAaGradient,
+} from "./indices";
 export {
   predictedBodyWeight,
   tidalVolumePerKilogram,
@@ -119,4 +126,10 @@ export {
   type ProposedSetting,
   type Proposal,
 } from "./propose-step";
-export { assessBloodGas, type Basis, type IndexValue, type BloodGasInput, type BloodGasAssessment } from "./basis";
+export {
+  assessBloodGas,
+  type Basis,
+  type IndexValue,
+  type BloodGasInput,
+  type BloodGasAssessment,
+} from "./basis";

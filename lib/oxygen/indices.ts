@@ -15,7 +15,15 @@ export function sfRatio(spo2: number, fio2: number): number {
 }
 
 /** ROX index: (SpO2 % / FiO2) / respiratory rate (Roca et al. 2016, 2019), validated on HFNC. */
-export function roxIndex({ spo2, fio2, respiratoryRate }: { spo2: number; fio2: number; respiratoryRate: number }): number {
+export function roxIndex({
+  spo2,
+  fio2,
+  respiratoryRate,
+}: {
+  spo2: number;
+  fio2: number;
+  respiratoryRate: number;
+}): number {
   checkRange("respiratoryRate", respiratoryRate, RANGES.respiratoryRate);
   return sfRatio(spo2, fio2) / respiratoryRate;
 }

@@ -137,8 +137,10 @@ export const GAS_SPO2_DISAGREEMENT = 4;
 // Settings within these are the same setting (FiO2 0.3 vs 0.30000000001).
 const SAME = { fio2: 0.001, peep: 0.01, flow: 0.01 } as const;
 
-const ends = (value: SettingValue): readonly [number, number] => (typeof value === "number" ? [value, value] : value);
-const distinct = ([low, high]: readonly [number, number]): number[] => (low === high ? [low] : [low, high]);
+const ends = (value: SettingValue): readonly [number, number] =>
+  typeof value === "number" ? [value, value] : value;
+const distinct = ([low, high]: readonly [number, number]): number[] =>
+  low === high ? [low] : [low, high];
 const format = (value: number, digits = 2): string => String(Number(value.toFixed(digits)));
 
 /** FiO2 with the PEEP and/or flow that go with it. */
@@ -185,8 +187,17 @@ function relation(candidate: Setting, current: Setting): "same" | "above" | "bel
   return more ? (less ? "apart" : "above") : less ? "below" : "same";
 }
 
-function inside(value: number | undefined, min: number | undefined, max: number | undefined, tolerance: number): boolean {
-  return value === undefined || ((min === undefined || value >= min - tolerance) && (max === undefined || value <= max + tolerance));
+function inside(
+  value: number | undefined,
+  min: number | undefined,
+  max: number | undefined,
+  tolerance: number,
+): boolean {
+  return (
+    value === undefined ||
+    ((min === undefined || value >= min - tolerance) &&
+      (max === undefined || value <= max + tolerance))
+  );
 }
 
 function withinLimits(setting: Setting, limits: OrderLimits): boolean {
@@ -203,39 +214,103 @@ function brokenLimit(setting: Setting, limits: OrderLimits): string | null {
     value !== undefined && max !== undefined && value > max + tolerance;
   const under = (value: number | undefined, min: number | undefined, tolerance: number) =>
     value !== undefined && min !== undefined && value < min - tolerance;
-  if (over(setting.fio2, limits.fio2Max, SAME.fio2)) return `the order's FiO2 maximum ${format(limits.fio2Max)}`;
-  if (over(setting.peep, limits.peepMax, SAME.peep)) return `the order's PEEP maximum ${format(limits.peepMax ?? 0, 1)} cmH2O`;
-  if (over(setting.flow, limits.flowMax, SAME.flow)) return `the order's flow maximum ${format(limits.flowMax ?? 0, 1)} L/min`;
-  if (under(setting.fio2, limits.fio2Min, SAME.fio2)) return `the order's FiO2 minimum ${format(limits.fio2Min)}`;
-  if (under(setting.peep, limits.peepMin, SAME.peep)) return `the order's PEEP minimum ${format(limits.peepMin ?? 0, 1)} cmH2O`;
-  if (under(setting.flow, limits.flowMin, SAME.flow)) return `the order's flow minimum ${format(limits.flowMin ?? 0, 1)} L/min`;
+  if (over(setting.fio2, limits.fio2Max, SAME.fio2))
+    return `the order's FiO2 maximum ${format(limits.fio2Max)}`;
+  if (over(setting.peep, limits.peepMax, SAME.peep))
+    return `the order's PEEP maximum ${format(limits.peepMax ?? 0, 1)} cmH2O`;
+  if (over(setting.flow, limits.flowMax, SAME.flow))
+    return `the order's flow maximum ${format(limits.flowMax ?? 0, 1)} L/min`;
+  if (under(setting.fio2, limits.fio2Min, SAME.fio2))
+    return `the order's FiO2 minimum ${format(limits.fio2Min)}`;
+  if (under(setting.peep, limits.peepMin, SAME.peep))
+    return `the order's PEEP minimum ${format(limits.peepMin ?? 0, 1)} cmH2O`;
+  if (under(setting.flow, limits.flowMin, SAME.flow))
+    return `the order's flow minimum ${format(limits.flowMin ?? 0, 1)} L/min`;
   return null;
 }
 
-function checkSetting(field: string, value: SettingValue, range: { min: number; max: number; unit: string }): void {
+function checkSetting(
+  field: string,
+  value: SettingValue,
+  range: { min: number; max: number; unit: string },
+): void {
   const [low, high] = ends(value);
   checkRange(field, low, range);
   checkBetween(field, high, low, range.max, range.unit);
 }
 
-function checkOptional(field: string, value: number | undefined, min: number, max: number, unit: string): void {
+function checkOptional(
+  field: string,
+  value: number | undefined,
+  min: number,
+  max: number,
+  unit: string,
+): void {
   if (value !== undefined) checkBetween(field, value, min, max, unit);
 }
 
-function checkInput({ order, current, latestReading, latestBloodGas, barometricPressure }: ProposeStepInput): void {
+function checkInput({
+  order,
+  current,
+  latestReading,
+  latestBloodGas,
+  barometricPressure,
+}: ProposeStepInput): void {
   const { spo2Target, limits, steps, pao2Target } = order;
   if (pao2Target) {
     checkRange("order.pao2Target.lower", pao2Target.lower, RANGES.pao2Target);
-    checkBetween("order.pao2Target.upper", pao2Target.upper, pao2Target.lower, RANGES.pao2Target.max, RANGES.pao2Target.unit);
+    checkBetween(
+      "order.pao2Target.upper",
+      pao2Target.upper,
+      pao2Target.lower,
+      RANGES.pao2Target.max,
+      RANGES.pao2Target.unit,
+    );
   }
   checkRange("order.spo2Target.lower", spo2Target.lower, RANGES.spo2Target);
-  checkBetween("order.spo2Target.upper", spo2Target.upper, spo2Target.lower, RANGES.spo2Target.max, RANGES.spo2Target.unit);
+  checkBetween(
+    "order.spo2Target.upper",
+    spo2Target.upper,
+    spo2Target.lower,
+    RANGES.spo2Target.max,
+    RANGES.spo2Target.unit,
+  );
   checkRange("order.limits.fio2Min", limits.fio2Min, RANGES.fio2);
-  checkBetween("order.limits.fio2Max", limits.fio2Max, limits.fio2Min, RANGES.fio2.max, RANGES.fio2.unit);
-  checkOptional("order.limits.peepMin", limits.peepMin, RANGES.peep.min, RANGES.peep.max, RANGES.peep.unit);
-  checkOptional("order.limits.peepMax", limits.peepMax, limits.peepMin ?? RANGES.peep.min, RANGES.peep.max, RANGES.peep.unit);
-  checkOptional("order.limits.flowMin", limits.flowMin, RANGES.flow.min, RANGES.flow.max, RANGES.flow.unit);
-  checkOptional("order.limits.flowMax", limits.flowMax, limits.flowMin ?? RANGES.flow.min, RANGES.flow.max, RANGES.flow.unit);
+  checkBetween(
+    "order.limits.fio2Max",
+    limits.fio2Max,
+    limits.fio2Min,
+    RANGES.fio2.max,
+    RANGES.fio2.unit,
+  );
+  checkOptional(
+    "order.limits.peepMin",
+    limits.peepMin,
+    RANGES.peep.min,
+    RANGES.peep.max,
+    RANGES.peep.unit,
+  );
+  checkOptional(
+    "order.limits.peepMax",
+    limits.peepMax,
+    limits.peepMin ?? RANGES.peep.min,
+    RANGES.peep.max,
+    RANGES.peep.unit,
+  );
+  checkOptional(
+    "order.limits.flowMin",
+    limits.flowMin,
+    RANGES.flow.min,
+    RANGES.flow.max,
+    RANGES.flow.unit,
+  );
+  checkOptional(
+    "order.limits.flowMax",
+    limits.flowMax,
+    limits.flowMin ?? RANGES.flow.min,
+    RANGES.flow.max,
+    RANGES.flow.unit,
+  );
   for (const [index, step] of steps.entries()) {
     checkSetting(`order.steps[${index}].fio2`, step.fio2, RANGES.fio2);
     if (step.peep !== undefined) checkSetting(`order.steps[${index}].peep`, step.peep, RANGES.peep);
@@ -245,21 +320,31 @@ function checkInput({ order, current, latestReading, latestBloodGas, barometricP
   if (current.peep !== undefined) checkRange("current.peep", current.peep, RANGES.peep);
   if (current.flow !== undefined) checkRange("current.flow", current.flow, RANGES.flow);
   checkRange("latestReading.spo2", latestReading.spo2, RANGES.spo2);
-  if (latestReading.fio2 !== undefined) checkRange("latestReading.fio2", latestReading.fio2, RANGES.fio2);
+  if (latestReading.fio2 !== undefined)
+    checkRange("latestReading.fio2", latestReading.fio2, RANGES.fio2);
   if (latestBloodGas) {
     checkRange("latestBloodGas.pao2", latestBloodGas.pao2, RANGES.pao2);
     checkRange("latestBloodGas.paco2", latestBloodGas.paco2, RANGES.paco2);
     checkRange("latestBloodGas.fio2", latestBloodGas.fio2, RANGES.fio2);
-    if (latestBloodGas.hemoglobin !== undefined) checkRange("latestBloodGas.hemoglobin", latestBloodGas.hemoglobin, RANGES.hemoglobin);
-    if (latestBloodGas.peep !== undefined) checkRange("latestBloodGas.peep", latestBloodGas.peep, RANGES.peep);
+    if (latestBloodGas.hemoglobin !== undefined)
+      checkRange("latestBloodGas.hemoglobin", latestBloodGas.hemoglobin, RANGES.hemoglobin);
+    if (latestBloodGas.peep !== undefined)
+      checkRange("latestBloodGas.peep", latestBloodGas.peep, RANGES.peep);
   }
-  if (barometricPressure !== undefined) checkRange("barometricPressure", barometricPressure, RANGES.barometricPressure);
+  if (barometricPressure !== undefined)
+    checkRange("barometricPressure", barometricPressure, RANGES.barometricPressure);
 }
 
-function forecastFor(input: ProposeStepInput, step: ProposedSetting, caveats: string[]): Fio2Forecast | null {
+function forecastFor(
+  input: ProposeStepInput,
+  step: ProposedSetting,
+  caveats: string[],
+): Fio2Forecast | null {
   const { current, latestReading, latestBloodGas, barometricPressure } = input;
   const peepChanges =
-    step.peep !== undefined && current.peep !== undefined && Math.abs(step.peep - current.peep) > SAME.peep;
+    step.peep !== undefined &&
+    current.peep !== undefined &&
+    Math.abs(step.peep - current.peep) > SAME.peep;
   if (peepChanges) {
     caveats.push(
       `PEEP changes from ${format(current.peep ?? 0, 1)} to ${format(step.peep ?? 0, 1)} cmH2O: its effect is not forecast — re-measure after the change.`,
@@ -270,10 +355,18 @@ function forecastFor(input: ProposeStepInput, step: ProposedSetting, caveats: st
     const { fio2, pao2, hemoglobin, peep } = latestBloodGas;
     if (hemoglobin === undefined) caveats.push(HEMOGLOBIN_ASSUMED_CAVEAT);
     if (Math.abs(fio2 - current.fio2) > SAME.fio2) {
-      caveats.push(`The blood gas was taken at FiO2 ${format(fio2)}, not the current ${format(current.fio2)}: the forecast starts from the blood gas.`);
+      caveats.push(
+        `The blood gas was taken at FiO2 ${format(fio2)}, not the current ${format(current.fio2)}: the forecast starts from the blood gas.`,
+      );
     }
-    if (peep !== undefined && current.peep !== undefined && Math.abs(peep - current.peep) > SAME.peep) {
-      caveats.push(`The blood gas was taken at PEEP ${format(peep, 1)} cmH2O, not the current ${format(current.peep, 1)} cmH2O.`);
+    if (
+      peep !== undefined &&
+      current.peep !== undefined &&
+      Math.abs(peep - current.peep) > SAME.peep
+    ) {
+      caveats.push(
+        `The blood gas was taken at PEEP ${format(peep, 1)} cmH2O, not the current ${format(current.peep, 1)} cmH2O.`,
+      );
     }
     const implied = 100 * saturationFromPO2(pao2);
     if (latestReading.spo2 < implied - GAS_SPO2_DISAGREEMENT) {
@@ -284,7 +377,9 @@ function forecastFor(input: ProposeStepInput, step: ProposedSetting, caveats: st
     }
     baseline = forecastBaseline(latestBloodGas);
   } else if (latestReading.spo2 / 100 < RANGES.saturation.min) {
-    caveats.push(`No blood gas, and SpO2 ${latestReading.spo2} % gives no PaO2 to impute: no forecast.`);
+    caveats.push(
+      `No blood gas, and SpO2 ${latestReading.spo2} % gives no PaO2 to impute: no forecast.`,
+    );
     return null;
   } else if (latestReading.spo2 <= HIGHEST_SPO2_FOR_IMPUTING) {
     const pao2 = po2FromSaturation(latestReading.spo2 / 100);
@@ -292,7 +387,12 @@ function forecastFor(input: ProposeStepInput, step: ProposedSetting, caveats: st
       `No blood gas: PaO2 ${Math.round(pao2)} mmHg imputed from SpO2 ${latestReading.spo2} % on the standard curve (Ellis 1989), ` +
         `with PaCO2 ${ASSUMED_PACO2} mmHg and haemoglobin ${ASSUMED_HEMOGLOBIN} g/dL assumed; oximeter error of a few percent makes this rough.`,
     );
-    baseline = { fio2: latestReading.fio2 ?? current.fio2, pao2, paco2: ASSUMED_PACO2, hemoglobin: ASSUMED_HEMOGLOBIN };
+    baseline = {
+      fio2: latestReading.fio2 ?? current.fio2,
+      pao2,
+      paco2: ASSUMED_PACO2,
+      hemoglobin: ASSUMED_HEMOGLOBIN,
+    };
   } else {
     caveats.push(
       `No blood gas, and SpO2 ${latestReading.spo2} % is above ${HIGHEST_SPO2_FOR_IMPUTING} %, where the curve is too flat to impute PaO2: no forecast.`,
@@ -302,7 +402,9 @@ function forecastFor(input: ProposeStepInput, step: ProposedSetting, caveats: st
   try {
     const forecast = forecastFio2Change({ ...baseline, barometricPressure, nextFio2: step.fio2 });
     // The specific PEEP caveat above replaces the forecast's general one.
-    caveats.push(...forecast.caveats.filter((caveat) => !(peepChanges && caveat === PEEP_NOT_FORECAST)));
+    caveats.push(
+      ...forecast.caveats.filter((caveat) => !(peepChanges && caveat === PEEP_NOT_FORECAST)),
+    );
     return forecast;
   } catch (error) {
     if (!(error instanceof OxygenInputError)) throw error;
@@ -318,7 +420,10 @@ function forecastFor(input: ProposeStepInput, step: ProposedSetting, caveats: st
  * lower bound, or failing that the most support the order allows — when a
  * forecast can be made. Always within the order's limits.
  */
-function urgentStep(input: ProposeStepInput, reachable: readonly ProposedSetting[]): ProposedSetting {
+function urgentStep(
+  input: ProposeStepInput,
+  reachable: readonly ProposedSetting[],
+): ProposedSetting {
   const least = Math.min(1, reachable.length - 1);
   let anyForecast = false;
   for (const candidate of reachable.slice(least)) {
@@ -368,14 +473,18 @@ export function proposeStep(input: ProposeStepInput): Proposal {
       if (withinLimits(candidate, order.limits)) {
         if (!firstOutOfReach) reachable.push(candidate);
       } else firstOutOfReach ??= candidate;
-    } else if (relative === "below" && withinLimits(candidate, order.limits)) nextBelowWithinLimits = candidate;
+    } else if (relative === "below" && withinLimits(candidate, order.limits))
+      nextBelowWithinLimits = candidate;
   }
-  if (!onTable && order.steps.length > 0) caveats.push(`The current setting (${describe(current)}) is not a row of the step table.`);
+  if (!onTable && order.steps.length > 0)
+    caveats.push(`The current setting (${describe(current)}) is not a row of the step table.`);
   if (!withinLimits(current, order.limits)) {
     caveats.push(`The current setting (${describe(current)}) is outside the order's limits.`);
   }
   if (latestReading.fio2 !== undefined && Math.abs(latestReading.fio2 - current.fio2) > SAME.fio2) {
-    caveats.push(`The reading was taken at FiO2 ${format(latestReading.fio2)}, not the current ${format(current.fio2)}.`);
+    caveats.push(
+      `The reading was taken at FiO2 ${format(latestReading.fio2)}, not the current ${format(current.fio2)}.`,
+    );
   }
   const position = (step: ProposedSetting) => `step ${step.stepIndex + 1} of ${order.steps.length}`;
   const stoppedBy = firstOutOfReach ? brokenLimit(firstOutOfReach, order.limits) : null;
@@ -383,11 +492,21 @@ export function proposeStep(input: ProposeStepInput): Proposal {
 
   if (spo2 < lower) {
     const urgent = spo2 < urgency.belowPct || lower - spo2 >= urgency.marginPct;
-    const depth = spo2 < urgency.belowPct ? `below ${format(urgency.belowPct, 1)} %` : `${format(lower - spo2, 1)} points under the band`;
-    const callNow = urgent ? `${reading} is ${depth}, below the target band ${band} (urgent): call the prescriber now.` : "";
-    const limitWords = stoppedBy ? `${stoppedBy} stops the next table step (${describe(firstOutOfReach!)})` : null;
+    const depth =
+      spo2 < urgency.belowPct
+        ? `below ${format(urgency.belowPct, 1)} %`
+        : `${format(lower - spo2, 1)} points under the band`;
+    const callNow = urgent
+      ? `${reading} is ${depth}, below the target band ${band} (urgent): call the prescriber now.`
+      : "";
+    const limitWords = stoppedBy
+      ? `${stoppedBy} stops the next table step (${describe(firstOutOfReach!)})`
+      : null;
     if (reachable.length === 0) {
-      const why = firstOutOfReach === undefined ? "the step table has no higher step" : (limitWords ?? "the next table step is outside the order's limits");
+      const why =
+        firstOutOfReach === undefined
+          ? "the step table has no higher step"
+          : (limitWords ?? "the next table step is outside the order's limits");
       return {
         ...base,
         direction: "escalate",
@@ -395,7 +514,9 @@ export function proposeStep(input: ProposeStepInput): Proposal {
         step: null,
         forecast: null,
         stoppedBy,
-        reason: urgent ? `${callNow} Within the order there is nothing further: ${why}.` : `${reading} is below the target band ${band} and ${why}: escalate to the prescriber.`,
+        reason: urgent
+          ? `${callNow} Within the order there is nothing further: ${why}.`
+          : `${reading} is below the target band ${band} and ${why}: escalate to the prescriber.`,
         caveats,
       };
     }
@@ -420,13 +541,19 @@ export function proposeStep(input: ProposeStepInput): Proposal {
   }
 
   const pao2Target = order.pao2Target;
-  const pao2Above = latestBloodGas && pao2Target && latestBloodGas.pao2 > pao2Target.upper ? latestBloodGas.pao2 : null;
+  const pao2Above =
+    latestBloodGas && pao2Target && latestBloodGas.pao2 > pao2Target.upper
+      ? latestBloodGas.pao2
+      : null;
   if (spo2 > upper || pao2Above !== null) {
     const why =
       spo2 > upper
         ? `${reading} is above the target band ${band}`
         : `PaO2 ${Math.round(pao2Above!)} mmHg is above the PaO2 band ${format(pao2Target!.lower, 0)}–${format(pao2Target!.upper, 0)} mmHg (${reading} in band)`;
-    if (current.fio2 <= RANGES.fio2.min + SAME.fio2 && !(current.flow !== undefined && current.flow > 0)) {
+    if (
+      current.fio2 <= RANGES.fio2.min + SAME.fio2 &&
+      !(current.flow !== undefined && current.flow > 0)
+    ) {
       return {
         ...base,
         direction: "hold",

@@ -23,12 +23,16 @@ export const SOURCES = {
   alveolarArterial: "A–a gradient and a/A ratio from the alveolar gas equation (common practice)",
   arterialAlveolarRatio:
     "Gilbert R, Keighley JF. The arterial/alveolar oxygen tension ratio. Am Rev Respir Dis 1974;109:142–5",
-  expectedAaGradient: "Expected A–a gradient on room air ≈ age/4 + 4 mmHg (bedside rule of thumb, common practice)",
-  shunt: "Shunt equation (Berggren SM. Acta Physiol Scand 1942;4 Suppl 11) with an assumed arterio-venous O2 content difference",
+  expectedAaGradient:
+    "Expected A–a gradient on room air ≈ age/4 + 4 mmHg (bedside rule of thumb, common practice)",
+  shunt:
+    "Shunt equation (Berggren SM. Acta Physiol Scand 1942;4 Suppl 11) with an assumed arterio-venous O2 content difference",
   predictedBodyWeight:
     "ARDS Network. Ventilation with lower tidal volumes as compared with traditional tidal volumes for acute lung injury and ARDS. N Engl J Med 2000;342:1301–8",
-  drivingPressure: "Amato MBP, et al. Driving pressure and survival in ARDS. N Engl J Med 2015;372:747–55",
-  staticCompliance: "Static compliance = VT / (Pplat − PEEP) (respiratory mechanics, common practice)",
+  drivingPressure:
+    "Amato MBP, et al. Driving pressure and survival in ARDS. N Engl J Med 2015;372:747–55",
+  staticCompliance:
+    "Static compliance = VT / (Pplat − PEEP) (respiratory mechanics, common practice)",
   mechanicalPower:
     "Gattinoni L, et al. Ventilator-related causes of lung injury: the mechanical power. Intensive Care Med 2016;42:1567–75 (simplified equation for volume-controlled ventilation)",
   icaoAtmosphere: "ICAO Doc 7488/3, Manual of the ICAO Standard Atmosphere, 3rd ed. 1993",

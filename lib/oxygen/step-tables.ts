@@ -69,7 +69,10 @@ const TABLES: Record<ArdsNetworkTableName, { rows: readonly ArdsNetworkStep[]; s
  */
 export function ardsNetworkTable(name: ArdsNetworkTableName): readonly ArdsNetworkStep[] {
   const table = TABLES[name] as (typeof TABLES)[ArdsNetworkTableName] | undefined;
-  if (!table) throw new RangeError(`Unknown ARDS Network table "${String(name)}"; use "lower-peep" or "higher-peep"`);
+  if (!table)
+    throw new RangeError(
+      `Unknown ARDS Network table "${String(name)}"; use "lower-peep" or "higher-peep"`,
+    );
   return table.rows;
 }
 

@@ -38,7 +38,13 @@ function checkPlateauAbovePeep(plateauPressure: number, peep: number): void {
 }
 
 /** Driving pressure in cmH2O: Pplat − PEEP (Amato et al. 2015). */
-export function drivingPressure({ plateauPressure, peep }: { plateauPressure: number; peep: number }): number {
+export function drivingPressure({
+  plateauPressure,
+  peep,
+}: {
+  plateauPressure: number;
+  peep: number;
+}): number {
   checkPlateauAbovePeep(plateauPressure, peep);
   return plateauPressure - peep;
 }

@@ -70,8 +70,7 @@ async function resolveBarometricPressure(
     // A unit outside the actor's assignment is answered like one that does not exist.
     const unit = actor.unitIds.includes(unitId)
       ? ((await knex("units").where({ id: unitId }).first("code", "altitude_m")) as
-          | { code: string; altitude_m: number }
-          | undefined)
+          { code: string; altitude_m: number } | undefined)
       : undefined;
     if (!unit) throw new NotFoundError("Unit not found among your units.");
     const value = barometricPressureAtAltitude(unit.altitude_m);
@@ -83,7 +82,9 @@ async function resolveBarometricPressure(
         formula: "P = 101325 × (1 − 2.25577e-5 × h)^5.25588 Pa, in mmHg",
         inputs: { h: { value: unit.altitude_m, unit: "m" } },
         source: SOURCES.icaoAtmosphere,
-        assumptions: [`Standard atmosphere at ${unit.code}'s altitude; weather moves the real pressure by a few percent.`],
+        assumptions: [
+          `Standard atmosphere at ${unit.code}'s altitude; weather moves the real pressure by a few percent.`,
+        ],
       },
     };
   }
@@ -112,7 +113,11 @@ function runEngine<T>(units: TypedUnits, compute: () => T): T {
 }
 
 /** Every oxygenation index of one blood gas, each with its basis (nothing is stored). */
-export async function evaluateBloodGas(knex: Knex, actor: Actor, request: ParsedAssessRequest): Promise<AssessResponse> {
+export async function evaluateBloodGas(
+  knex: Knex,
+  actor: Actor,
+  request: ParsedAssessRequest,
+): Promise<AssessResponse> {
   const barometricPressure = await resolveBarometricPressure(
     knex,
     actor,
@@ -121,11 +126,21 @@ export async function evaluateBloodGas(knex: Knex, actor: Actor, request: Parsed
   );
   const input = { ...request.input, barometricPressure: barometricPressure.value };
   const assessment = runEngine(request, () => assessBloodGas(input));
-  return { engineVersion: ENGINE_VERSION, pressureUnit: request.pressureUnit, input, barometricPressure, assessment };
+  return {
+    engineVersion: ENGINE_VERSION,
+    pressureUnit: request.pressureUnit,
+    input,
+    barometricPressure,
+    assessment,
+  };
 }
 
 /** The three-model forecast of PaO2 and SpO2 after a change of FiO2, each model with its basis. */
-export async function forecastFio2(knex: Knex, actor: Actor, request: ParsedForecastRequest): Promise<ForecastResponse> {
+export async function forecastFio2(
+  knex: Knex,
+  actor: Actor,
+  request: ParsedForecastRequest,
+): Promise<ForecastResponse> {
   const barometricPressure = await resolveBarometricPressure(
     knex,
     actor,

@@ -91,7 +91,9 @@ export function forecastBasis(input: ForecastInput, forecast: Fio2Forecast): For
         "PaO2 high": { value: forecast.range.high.pao2, unit: "mmHg" },
       },
       source: SOURCES.severinghaus,
-      assumptions: ["Standard curve: 37 °C, pH 7.40, base excess 0, P50 26.8 mmHg; curve shifts are not modelled."],
+      assumptions: [
+        "Standard curve: 37 °C, pH 7.40, base excess 0, P50 26.8 mmHg; curve shifts are not modelled.",
+      ],
     },
     range: {
       name: "Forecast range",

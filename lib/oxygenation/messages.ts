@@ -14,8 +14,14 @@ export interface TypedUnits {
   hemoglobinUnit: HemoglobinUnit;
 }
 
-const DECIMALS: Record<string, number> = { mmHg: 0, kPa: 2, "g/dL": 1, "g/L": 0, "mmol/L": 2, fraction: 3 };
-
+const DECIMALS: Record<string, number> = {
+  mmHg: 0,
+  kPa: 2,
+  "g/dL": 1,
+  "g/L": 0,
+  "mmol/L": 2,
+  fraction: 3,
+};
 
 /**
  * An engine refusal (OxygenInputError, always in mmHg, g/dL and fractions)
@@ -23,7 +29,10 @@ const DECIMALS: Record<string, number> = { mmHg: 0, kPa: 2, "g/dL": 1, "g/L": 0,
  * range in the unit they typed, and the engine's reason when the range
  * depended on other inputs (e.g. the highest PaCO2 that leaves alveolar oxygen).
  */
-export function describeInputError(error: OxygenInputError, units: TypedUnits): { field: string; message: string } {
+export function describeInputError(
+  error: OxygenInputError,
+  units: TypedUnits,
+): { field: string; message: string } {
   const label = FIELD_LABELS[error.field] ?? error.field;
   let { min, max, unit } = error;
   if (unit === "mmHg" && units.pressureUnit === "kPa") {
@@ -36,6 +45,8 @@ export function describeInputError(error: OxygenInputError, units: TypedUnits): 
   [min, max] = roundInward(min, max, DECIMALS[unit] ?? 2);
   const base = rangeMessage(label, min, max, unit);
   // The engine's message is "<field> must be between … (unit); got v — reason".
-  const reason = error.message.split(" — ")[1]?.replace(/\d+\.\d{3,}/g, (n) => Number(n).toFixed(1));
+  const reason = error.message
+    .split(" — ")[1]
+    ?.replace(/\d+\.\d{3,}/g, (n) => Number(n).toFixed(1));
   return { field: error.field, message: reason ? `${base.slice(0, -1)}: ${reason}.` : base };
 }

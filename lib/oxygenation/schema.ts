@@ -20,7 +20,11 @@ import {
 // fractions); range messages speak the typed unit.
 
 export const PRESSURE_UNITS = ["mmHg", "kPa"] as const satisfies readonly PressureUnit[];
-export const HEMOGLOBIN_UNITS = ["g/dL", "g/L", "mmol/L"] as const satisfies readonly HemoglobinUnit[];
+export const HEMOGLOBIN_UNITS = [
+  "g/dL",
+  "g/L",
+  "mmol/L",
+] as const satisfies readonly HemoglobinUnit[];
 export const RESPIRATORY_SUPPORTS = [
   "none",
   "conventional",
@@ -68,11 +72,16 @@ const PRESSURE_RANGES: Record<PressureField, InputRange> = {
 };
 
 // The form types FiO2 as a percentage: the table's fraction range, in %.
-const FIO2_PERCENT: InputRange = { min: RANGES.fio2.min * 100, max: RANGES.fio2.max * 100, unit: "%" };
+const FIO2_PERCENT: InputRange = {
+  min: RANGES.fio2.min * 100,
+  max: RANGES.fio2.max * 100,
+  unit: "%",
+};
 
 /** `rangeMessage("PaO2", 1.34, 93.32, "kPa")` → "PaO2 must be between 1.34 and 93.32 kPa." */
 export function rangeMessage(label: string, min: number, max: number, unit: string): string {
-  if (unit === "fraction") return `${label} must be between ${min} and ${max} (a fraction: 0.4 for 40 %).`;
+  if (unit === "fraction")
+    return `${label} must be between ${min} and ${max} (a fraction: 0.4 for 40 %).`;
   return `${label} must be between ${min} and ${max} ${unit}.`;
 }
 
@@ -92,7 +101,11 @@ export function hemoglobinRangeIn(unit: HemoglobinUnit): InputRange {
     case "g/dL":
       return range;
     case "g/L":
-      return { min: fromGramsPerDecilitre(range.min, unit), max: fromGramsPerDecilitre(range.max, unit), unit };
+      return {
+        min: fromGramsPerDecilitre(range.min, unit),
+        max: fromGramsPerDecilitre(range.max, unit),
+        unit,
+      };
     case "mmol/L": {
       const [min, max] = roundInward(
         fromGramsPerDecilitre(range.min, unit),
@@ -111,7 +124,10 @@ const numberError = (label: string) => (issue: { input: unknown }) =>
 function measured(field: string, range: InputRange) {
   const label = FIELD_LABELS[field] ?? field;
   const message = rangeMessage(label, range.min, range.max, range.unit);
-  return z.number({ error: numberError(label) }).min(range.min, message).max(range.max, message);
+  return z
+    .number({ error: numberError(label) })
+    .min(range.min, message)
+    .max(range.max, message);
 }
 
 /** A number whose range is checked against the unit chosen beside it (see checkUnitRanges). */
@@ -158,7 +174,9 @@ const bloodGasFields = {
   spo2: measured("spo2", RANGES.spo2).optional(),
   sao2: measured("sao2", RANGES.sao2).optional(),
   support: z
-    .enum(RESPIRATORY_SUPPORTS, { error: `Support must be one of: ${RESPIRATORY_SUPPORTS.join(", ")}.` })
+    .enum(RESPIRATORY_SUPPORTS, {
+      error: `Support must be one of: ${RESPIRATORY_SUPPORTS.join(", ")}.`,
+    })
     .optional(),
   peep: measured("peep", RANGES.peep).optional(),
   flow: measured("flow", RANGES.flow).optional(),
@@ -178,7 +196,10 @@ export const assessFormSchema = z
 export type AssessFormValues = z.input<typeof assessFormSchema>;
 export type AssessFormOutput = z.output<typeof assessFormSchema>;
 
-const unitId = z.number({ error: "Unit must be a unit id (a positive whole number)." }).int().positive();
+const unitId = z
+  .number({ error: "Unit must be a unit id (a positive whole number)." })
+  .int()
+  .positive();
 
 const unitsOf = (values: { pressureUnit: PressureUnit; hemoglobinUnit: HemoglobinUnit }) => ({
   pressureUnit: values.pressureUnit,

@@ -16,7 +16,8 @@ export async function selectUnitAction(value: unknown): Promise<ActionResult<{ u
   return runAction(async () => {
     const actor = await requirePermission("account.self");
     const choice = parseInput(unitChoiceSchema, value);
-    if (choice !== "all" && !actor.unitIds.includes(choice)) throw new NotFoundError("Unknown unit.");
+    if (choice !== "all" && !actor.unitIds.includes(choice))
+      throw new NotFoundError("Unknown unit.");
     (await cookies()).set(UNIT_COOKIE, String(choice), {
       path: "/",
       sameSite: "lax",

@@ -111,7 +111,15 @@ export async function chartReading(
       trx,
       actor,
       admission,
-      [{ takenAt: input.takenAt, spo2: input.spo2, fio2, flow: input.flow ?? null, source: "manual" }],
+      [
+        {
+          takenAt: input.takenAt,
+          spo2: input.spo2,
+          fio2,
+          flow: input.flow ?? null,
+          source: "manual",
+        },
+      ],
       now,
     );
     return view;

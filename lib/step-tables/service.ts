@@ -4,7 +4,12 @@ import type { Actor } from "../auth/actor";
 import { ConflictError, NotFoundError, ValidationError } from "../errors";
 import { appendLedger } from "../ledger/service";
 import { getStepTable, type StepTableView } from "./queries";
-import { type stepTableCreateSchema, type StepTableActiveData, type StepTableCreateData, type StepTableUpdateData } from "./schema";
+import {
+  type stepTableCreateSchema,
+  type StepTableActiveData,
+  type StepTableCreateData,
+  type StepTableUpdateData,
+} from "./schema";
 
 type Rows = ReturnType<typeof stepTableCreateSchema.parse>["rows"];
 

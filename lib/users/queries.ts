@@ -28,7 +28,16 @@ type UserRow = {
 export async function listUsers(knex: Knex): Promise<UserSummary[]> {
   const users = (await knex("users")
     .orderBy("name")
-    .select("id", "email", "name", "role", "active", "pressure_unit", "version", "updated_at")) as UserRow[];
+    .select(
+      "id",
+      "email",
+      "name",
+      "role",
+      "active",
+      "pressure_unit",
+      "version",
+      "updated_at",
+    )) as UserRow[];
   const links = (await knex("user_units")
     .join("units", "units.id", "user_units.unit_id")
     .orderBy("units.code")
@@ -51,8 +60,7 @@ export async function getUser(knex: Knex, id: number): Promise<UserSummary | und
   const u = (await knex("users")
     .where({ id })
     .first("id", "email", "name", "role", "active", "pressure_unit", "version", "updated_at")) as
-    | UserRow
-    | undefined;
+    UserRow | undefined;
   if (!u) return undefined;
   const units = (await knex("user_units")
     .join("units", "units.id", "user_units.unit_id")

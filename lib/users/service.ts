@@ -22,7 +22,10 @@ function ledgerView(u: UserSummary) {
 }
 
 async function assertUnitsExist(trx: Knex.Transaction, unitIds: number[]): Promise<void> {
-  const found = (await trx("units").whereIn("id", unitIds).where({ active: true }).select("id")) as {
+  const found = (await trx("units")
+    .whereIn("id", unitIds)
+    .where({ active: true })
+    .select("id")) as {
     id: number;
   }[];
   if (found.length !== new Set(unitIds).size) {
@@ -60,7 +63,9 @@ export async function createUser(
         pressure_unit: input.pressureUnit,
       });
       const userId = Number(id);
-      await trx("user_units").insert([...new Set(input.unitIds)].map((unitId) => ({ user_id: userId, unit_id: unitId })));
+      await trx("user_units").insert(
+        [...new Set(input.unitIds)].map((unitId) => ({ user_id: userId, unit_id: unitId })),
+      );
       const created = (await getUser(trx, userId))!;
       await appendLedger(trx, actor, {
         action: "user.create",
@@ -76,10 +81,13 @@ export async function createUser(
   }
 }
 
-async function lockForChange(trx: Knex.Transaction, id: number, version: number): Promise<UserSummary> {
+async function lockForChange(
+  trx: Knex.Transaction,
+  id: number,
+  version: number,
+): Promise<UserSummary> {
   const locked = (await trx("users").where({ id }).forUpdate().first("id", "version")) as
-    | { id: number; version: number }
-    | undefined;
+    { id: number; version: number } | undefined;
   if (!locked) throw new NotFoundError("That user does not exist.");
   const current = (await getUser(trx, id))!;
   if (locked.version !== version) {
@@ -119,7 +127,9 @@ export async function updateUser(
           updated_at: trx.fn.now(3),
         });
       await trx("user_units").where({ user_id: input.id }).delete();
-      await trx("user_units").insert([...new Set(input.unitIds)].map((unitId) => ({ user_id: input.id, unit_id: unitId })));
+      await trx("user_units").insert(
+        [...new Set(input.unitIds)].map((unitId) => ({ user_id: input.id, unit_id: unitId })),
+      );
       const after = (await getUser(trx, input.id))!;
       // A new password, role or set of units ends the user's open sessions at once.
       const sameUnits =

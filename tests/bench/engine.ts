@@ -18,7 +18,7 @@ const ROUNDS = 9;
 
 // A fixed, varied set of inputs (a simple LCG keeps runs comparable).
 let seed = 42;
-const random = () => ((seed = (seed * 1664525 + 1013904223) >>> 0) / 2 ** 32);
+const random = () => (seed = (seed * 1664525 + 1013904223) >>> 0) / 2 ** 32;
 const between = (min: number, max: number) => min + random() * (max - min);
 
 const forecastInputs: ForecastInput[] = Array.from({ length: 1024 }, () => ({
@@ -37,11 +37,24 @@ const proposeInputs: ProposeStepInput[] = Array.from({ length: 1024 }, (_, index
   const fio2 = typeof row.fio2 === "number" ? row.fio2 : row.fio2[0];
   const peep = typeof row.peep === "number" ? row.peep : row.peep[0];
   return {
-    order: { spo2Target: { lower: 88, upper: 95 }, limits: { fio2Min: 0.3, fio2Max: 1, peepMin: 5, peepMax: 24 }, steps: lowerPeep },
+    order: {
+      spo2Target: { lower: 88, upper: 95 },
+      limits: { fio2Min: 0.3, fio2Max: 1, peepMin: 5, peepMax: 24 },
+      steps: lowerPeep,
+    },
     current: { fio2, peep },
     latestReading: { spo2: between(82, 99) },
     // Every fourth proposal has no blood gas and imputes from SpO2.
-    latestBloodGas: index % 4 === 0 ? null : { pao2: between(50, 110), paco2: between(35, 55), hemoglobin: between(8, 15), fio2, peep },
+    latestBloodGas:
+      index % 4 === 0
+        ? null
+        : {
+            pao2: between(50, 110),
+            paco2: between(35, 55),
+            hemoglobin: between(8, 15),
+            fio2,
+            peep,
+          },
   };
 });
 
@@ -64,7 +77,9 @@ function run<T>(inputs: readonly T[], call: (input: T) => unknown, milliseconds:
 
 function measure<T>(name: string, inputs: readonly T[], call: (input: T) => unknown): void {
   run(inputs, call, WARM_UP_MS);
-  const rounds = Array.from({ length: ROUNDS }, () => run(inputs, call, ROUND_MS)).sort((a, b) => a - b);
+  const rounds = Array.from({ length: ROUNDS }, () => run(inputs, call, ROUND_MS)).sort(
+    (a, b) => a - b,
+  );
   const median = rounds[Math.floor(ROUNDS / 2)] ?? 0;
   const format = (value: number) => Math.round(value).toLocaleString("en-GB");
   console.log(

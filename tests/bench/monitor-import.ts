@@ -55,10 +55,14 @@ async function measured<T>(label: string, run: () => Promise<T>): Promise<T> {
 async function main() {
   execFileSync("bash", ["db/scripts/mariadb.sh", "drop-db", DB], { stdio: "ignore" });
   execFileSync("bash", ["db/scripts/mariadb.sh", "create-db", DB], { stdio: "ignore" });
-  execFileSync("npx", ["tsx", "node_modules/knex/bin/cli.js", "--knexfile", "knexfile.ts", "migrate:latest"], {
-    stdio: "ignore",
-    env: { ...process.env, DATABASE_NAME: DB },
-  });
+  execFileSync(
+    "npx",
+    ["tsx", "node_modules/knex/bin/cli.js", "--knexfile", "knexfile.ts", "migrate:latest"],
+    {
+      stdio: "ignore",
+      env: { ...process.env, DATABASE_NAME: DB },
+    },
+  );
   const { connectionConfig, closeDb, db } = await import("../../lib/db");
   const { importFromToken } = await import("../../lib/imports/service");
   const { loadUnit } = await import("../../lib/imports/evaluate");
@@ -112,7 +116,12 @@ async function main() {
   }
 
   const unit = (await loadUnit(db(), Number(unitId)))!;
-  const token = { tokenId: Number(tokenId), name: "Bench engine", scope: "write" as const, unitIds: [Number(unitId)] };
+  const token = {
+    tokenId: Number(tokenId),
+    name: "Bench engine",
+    scope: "write" as const,
+    unitIds: [Number(unitId)],
+  };
   const small = monitorFile(8_640, dayAgo);
   const day = monitorFile(86_400, dayAgo);
   console.log(`file: 86,400 rows, ${(day.length / 1024 / 1024).toFixed(1)} MB`);
@@ -123,18 +132,35 @@ async function main() {
   ] as const) {
     const who = await patient(tag);
     const result = await measured(label, () =>
-      importFromToken(db(), token, { kind: "monitor_csv", content: file, fileName: "day.csv", partial: false, unit, ...who }, now),
+      importFromToken(
+        db(),
+        token,
+        { kind: "monitor_csv", content: file, fileName: "day.csv", partial: false, unit, ...who },
+        now,
+      ),
     );
-    if (result.preview.counts.accepted !== file.toString().split("\n").length - 2) throw new Error("not every row was imported");
+    if (result.preview.counts.accepted !== file.toString().split("\n").length - 2)
+      throw new Error("not every row was imported");
   }
 
   const actor = await loadActor(db(), Number(userId));
   const who = await patient("C");
   const preview = await measured("App preview, 86,400 rows", () =>
-    previewUpload(db(), actor, { kind: "monitor_csv", unitId: Number(unitId), fileName: "day.csv", ...who }, day, now),
+    previewUpload(
+      db(),
+      actor,
+      { kind: "monitor_csv", unitId: Number(unitId), fileName: "day.csv", ...who },
+      day,
+      now,
+    ),
   );
   await measured("App confirm, 86,400 rows", () =>
-    confirmImportOperation.invoke(db(), actor, { importId: preview.id, expectedAccepted: preview.counts.accepted }, now),
+    confirmImportOperation.invoke(
+      db(),
+      actor,
+      { importId: preview.id, expectedAccepted: preview.counts.accepted },
+      now,
+    ),
   );
   await owner.destroy();
   await closeDb();

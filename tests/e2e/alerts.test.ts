@@ -80,7 +80,11 @@ describe("alerts", () => {
       await card.getByText("Acknowledged", { exact: true }).first().waitFor();
       await page.screenshot({ path: `${ARTIFACTS}/alerts-acknowledged.png`, fullPage: true });
       await page.waitForFunction(
-        (n) => document.querySelector("[data-testid=alert-bell]")?.getAttribute("aria-label")?.includes(n),
+        (n) =>
+          document
+            .querySelector("[data-testid=alert-bell]")
+            ?.getAttribute("aria-label")
+            ?.includes(n),
         after.unacknowledged - 1 === 0 ? "No open alerts" : `${after.unacknowledged - 1} alert`,
         { timeout: 20_000 },
       );

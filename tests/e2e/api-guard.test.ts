@@ -25,7 +25,10 @@ describe("JSON API guard", () => {
     const res = await anonymous.fetch("/api/v1/me");
     expect(res.status).toBe(401);
     expect(await res.json()).toEqual({ error: { message: "Sign in to continue." } });
-    expect((await anonymous.json("/api/v1/users", "POST", newUserBody("anon@test.kestrel.example"))).status).toBe(401);
+    expect(
+      (await anonymous.json("/api/v1/users", "POST", newUserBody("anon@test.kestrel.example")))
+        .status,
+    ).toBe(401);
   });
 
   it("answers 403 to a nurse calling the admin route directly, and writes nothing", async () => {
@@ -36,13 +39,19 @@ describe("JSON API guard", () => {
     expect(res.status).toBe(403);
     expect(((await res.json()) as { error: { message: string } }).error.message).toMatch(/role/);
     const admin = await Session.signIn(ADMIN);
-    const list = (await (await admin.fetch("/api/v1/users")).json()) as { users: { email: string }[] };
+    const list = (await (await admin.fetch("/api/v1/users")).json()) as {
+      users: { email: string }[];
+    };
     expect(list.users.some((u) => u.email === email)).toBe(false);
   });
 
   it("answers 400 with per-field errors for malformed fields, and for a body that is not JSON", async () => {
     const admin = await Session.signIn(ADMIN);
-    const res = await admin.json("/api/v1/users", "POST", { ...newUserBody("bad"), name: "", role: "wizard" });
+    const res = await admin.json("/api/v1/users", "POST", {
+      ...newUserBody("bad"),
+      name: "",
+      role: "wizard",
+    });
     expect(res.status).toBe(400);
     const body = (await res.json()) as { error: { fieldErrors: Record<string, string[]> } };
     expect(Object.keys(body.error.fieldErrors).sort()).toEqual(["email", "name", "role"]);
@@ -52,7 +61,10 @@ describe("JSON API guard", () => {
 
   it("answers 413 to an oversized body", async () => {
     const admin = await Session.signIn(ADMIN);
-    const res = await admin.json("/api/v1/users", "POST", { ...newUserBody("big@test.kestrel.example"), name: "x".repeat(70_000) });
+    const res = await admin.json("/api/v1/users", "POST", {
+      ...newUserBody("big@test.kestrel.example"),
+      name: "x".repeat(70_000),
+    });
     expect(res.status).toBe(413);
   });
 
@@ -62,9 +74,17 @@ describe("JSON API guard", () => {
     const created = await admin.json("/api/v1/users", "POST", newUserBody(email));
     expect(created.status).toBe(201);
     const { user } = (await created.json()) as { user: { id: number; version: number } };
-    const edit = { ...newUserBody(email), password: "", version: user.version, name: "Renamed Once" };
+    const edit = {
+      ...newUserBody(email),
+      password: "",
+      version: user.version,
+      name: "Renamed Once",
+    };
     expect((await admin.json(`/api/v1/users/${user.id}`, "PATCH", edit)).status).toBe(200);
-    const stale = await admin.json(`/api/v1/users/${user.id}`, "PATCH", { ...edit, name: "Renamed Twice" });
+    const stale = await admin.json(`/api/v1/users/${user.id}`, "PATCH", {
+      ...edit,
+      name: "Renamed Twice",
+    });
     expect(stale.status).toBe(409);
   });
 
@@ -103,7 +123,9 @@ describe("server actions are guarded like routes", () => {
     expect(payload).toContain('"ok":false');
     expect(payload).toContain('"status":403');
     const admin = await Session.signIn(ADMIN);
-    const list = (await (await admin.fetch("/api/v1/users")).json()) as { users: { email: string }[] };
+    const list = (await (await admin.fetch("/api/v1/users")).json()) as {
+      users: { email: string }[];
+    };
     expect(list.users.some((u) => u.email === email)).toBe(false);
   });
 

@@ -76,7 +76,10 @@ describe.each(ROLES)("$role", ({ role, email, units }) => {
       }
 
       // The patient cell opens the Chart, with the full name.
-      await rows(page).first().getByRole("link", { name: /open the Chart/ }).click();
+      await rows(page)
+        .first()
+        .getByRole("link", { name: /open the Chart/ })
+        .click();
       await page.waitForURL(/\/patients\/\d+$/);
       await page.getByRole("heading", { level: 1 }).waitFor();
     } finally {

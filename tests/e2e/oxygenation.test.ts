@@ -1,6 +1,11 @@
 import type { Browser } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { barometricPressureAtAltitude, ENGINE_VERSION, PEEP_NOT_FORECAST, SOURCES } from "@/lib/oxygen";
+import {
+  barometricPressureAtAltitude,
+  ENGINE_VERSION,
+  PEEP_NOT_FORECAST,
+  SOURCES,
+} from "@/lib/oxygen";
 import type { AssessResponse, ForecastResponse } from "@/lib/oxygenation/evaluate";
 import { ARTIFACTS, BASE_URL, launchBrowser, signInThroughForm } from "../helpers/browser";
 import { Session } from "../helpers/http";
@@ -13,7 +18,15 @@ type ApiErrorBody = { error: { message: string; fieldErrors?: Record<string, str
 
 // Ventilated at sea level: P/F = 80 / 0.4 = 200 mmHg (Horovitz 1974);
 // PAO2 = 0.4 × (760 − 47) − 40 / 0.8 = 235.2 mmHg (simplified alveolar gas equation).
-const BLOOD_GAS = { fio2: 0.4, pao2: 80, paco2: 40, hemoglobin: 12, spo2: 95, peep: 10, support: "invasive" };
+const BLOOD_GAS = {
+  fio2: 0.4,
+  pao2: 80,
+  paco2: 40,
+  hemoglobin: 12,
+  spo2: 95,
+  peep: 10,
+  support: "invasive",
+};
 
 describe("api/v1/oxygenation", () => {
   let physician: Session;
@@ -78,7 +91,9 @@ describe("api/v1/oxygenation", () => {
     });
     expect(res.status).toBe(400);
     const { error } = (await res.json()) as ApiErrorBody;
-    expect(error.fieldErrors?.fio2).toEqual(["FiO2 must be between 0.21 and 1 (a fraction: 0.4 for 40 %)."]);
+    expect(error.fieldErrors?.fio2).toEqual([
+      "FiO2 must be between 0.21 and 1 (a fraction: 0.4 for 40 %).",
+    ]);
     expect(error.fieldErrors?.pao2).toEqual(["PaO2 must be a number."]);
     expect(error.fieldErrors?.paco2).toEqual(["PaCO2 must be between 1.34 and 19.99 kPa."]);
 
@@ -88,10 +103,16 @@ describe("api/v1/oxygenation", () => {
 
   it("turns an engine refusal into a 400 naming the field", async () => {
     // On room air, PaCO2 140 mmHg leaves no alveolar oxygen (alveolar gas equation).
-    const res = await physician.json("/api/v1/oxygenation/assess", "POST", { fio2: 0.21, pao2: 50, paco2: 140 });
+    const res = await physician.json("/api/v1/oxygenation/assess", "POST", {
+      fio2: 0.21,
+      pao2: 50,
+      paco2: 140,
+    });
     expect(res.status).toBe(400);
     const { error } = (await res.json()) as ApiErrorBody;
-    expect(error.fieldErrors?.paco2?.[0]).toMatch(/^PaCO2 must be between 10 and 118 mmHg: .*leaves no alveolar oxygen/);
+    expect(error.fieldErrors?.paco2?.[0]).toMatch(
+      /^PaCO2 must be between 10 and 118 mmHg: .*leaves no alveolar oxygen/,
+    );
   });
 
   it("forecasts a FiO2 change by three models with a range and a basis for each", async () => {
@@ -119,11 +140,18 @@ describe("api/v1/oxygenation", () => {
   });
 
   it("refuses a malformed forecast with field errors", async () => {
-    const res = await physician.json("/api/v1/oxygenation/forecast", "POST", { fio2: 0.4, pao2: 80, paco2: 40, nextFio2: 30 });
+    const res = await physician.json("/api/v1/oxygenation/forecast", "POST", {
+      fio2: 0.4,
+      pao2: 80,
+      paco2: 40,
+      nextFio2: 30,
+    });
     expect(res.status).toBe(400);
     const { error } = (await res.json()) as ApiErrorBody;
     expect(error.fieldErrors?.hemoglobin).toEqual(["Enter Haemoglobin."]);
-    expect(error.fieldErrors?.nextFio2).toEqual(["Proposed FiO2 must be between 0.21 and 1 (a fraction: 0.4 for 40 %)."]);
+    expect(error.fieldErrors?.nextFio2).toEqual([
+      "Proposed FiO2 must be between 0.21 and 1 (a fraction: 0.4 for 40 %).",
+    ]);
   });
 
   it.each(["assess", "forecast"])("answers 401 to %s without a session", async (route) => {
@@ -149,10 +177,16 @@ describe("the Chart's blood-gas evaluation", () => {
     try {
       await signInThroughForm(page, PHYSICIAN);
       await page.waitForURL(`${BASE_URL}/board`);
-      await page.getByTestId("board-row").first().getByRole("link", { name: /open the Chart/ }).click();
+      await page
+        .getByTestId("board-row")
+        .first()
+        .getByRole("link", { name: /open the Chart/ })
+        .click();
       await page.waitForURL(/\/patients\/\d+$/);
       await page.getByRole("heading", { level: 2, name: "Evaluate a blood gas" }).waitFor();
-      expect(await page.getByTestId("patient-facts").innerText()).toMatch(/MRN[\s\S]*Bed[\s\S]*Unit/);
+      expect(await page.getByTestId("patient-facts").innerText()).toMatch(
+        /MRN[\s\S]*Bed[\s\S]*Unit/,
+      );
       await page.getByText("No blood gases recorded yet").waitFor();
 
       // Keyboard only: type, Tab to the next field, Enter to submit.
@@ -204,7 +238,9 @@ describe("the Chart's blood-gas evaluation", () => {
       await page.getByLabel("Proposed FiO2 (%)", { exact: true }).fill("60");
       await expect.poll(() => range.innerText()).toMatch(/FiO2 0\.60/);
       // Tablet width: nothing scrolls sideways.
-      expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(1024);
+      expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(
+        1024,
+      );
       await page.screenshot({ path: `${ARTIFACTS}/chart-oxygenation-day.png`, fullPage: true });
 
       await page.getByRole("radio", { name: "Night theme" }).click();

@@ -11,11 +11,31 @@ afterAll(async () => {
 });
 
 const ROLE_STORIES = [
-  { role: "physician", email: "ines.varga@kestrel.example", label: "Physician", units: ["MICU", "RESP"] },
-  { role: "therapist", email: "jonah.pell@kestrel.example", label: "Respiratory therapist", units: ["MICU"] },
+  {
+    role: "physician",
+    email: "ines.varga@kestrel.example",
+    label: "Physician",
+    units: ["MICU", "RESP"],
+  },
+  {
+    role: "therapist",
+    email: "jonah.pell@kestrel.example",
+    label: "Respiratory therapist",
+    units: ["MICU"],
+  },
   { role: "nurse", email: "greta.sorensen@kestrel.example", label: "Nurse", units: ["RESP"] },
-  { role: "reviewer", email: "rafael.ostrowski@kestrel.example", label: "Reviewer", units: ["RESP"] },
-  { role: "admin", email: "kofi.marchetti@kestrel.example", label: "Administrator", units: ["MICU", "RESP"] },
+  {
+    role: "reviewer",
+    email: "rafael.ostrowski@kestrel.example",
+    label: "Reviewer",
+    units: ["RESP"],
+  },
+  {
+    role: "admin",
+    email: "kofi.marchetti@kestrel.example",
+    label: "Administrator",
+    units: ["MICU", "RESP"],
+  },
 ] as const;
 
 describe.each(ROLE_STORIES)("$role", ({ role, email, label, units }) => {
@@ -28,7 +48,9 @@ describe.each(ROLE_STORIES)("$role", ({ role, email, label, units }) => {
       await expect.poll(() => page.getByTestId("current-user").innerText()).toContain(label);
       await page.getByRole("heading", { name: "Board", level: 1 }).waitFor();
       for (const code of ["MICU", "RESP"]) {
-        const shown = await page.getByRole("heading", { level: 2, name: new RegExp(`\\(${code}\\)`) }).count();
+        const shown = await page
+          .getByRole("heading", { level: 2, name: new RegExp(`\\(${code}\\)`) })
+          .count();
         expect(shown, `${code} section`).toBe((units as readonly string[]).includes(code) ? 1 : 0);
       }
       expect(await page.getByTestId("board-row").count()).toBeGreaterThan(0);

@@ -25,7 +25,11 @@ export async function launchBrowser(): Promise<Browser> {
 }
 
 /** Signs in through the real form, as a person would, using only the keyboard. */
-export async function signInThroughForm(page: Page, email: string, password = DEMO_PASSWORD): Promise<void> {
+export async function signInThroughForm(
+  page: Page,
+  email: string,
+  password = DEMO_PASSWORD,
+): Promise<void> {
   await page.goto(`${BASE_URL}/sign-in`);
   await page.getByLabel("E-mail").fill(email);
   await page.getByLabel("Password").fill(password);

@@ -1,5 +1,9 @@
 import { recordAdjustmentOperation } from "@/lib/adjustments/operations";
-import { acknowledgeAlertOperation, resolveAlertOperation, saveEmailPreferencesOperation } from "@/lib/alerts/operations";
+import {
+  acknowledgeAlertOperation,
+  resolveAlertOperation,
+  saveEmailPreferencesOperation,
+} from "@/lib/alerts/operations";
 import { recordBloodGasOperation } from "@/lib/blood-gases/operations";
 import { confirmImportOperation, previewUpload } from "@/lib/imports/operations";
 import { writeOrderOperation } from "@/lib/orders/operations";
@@ -7,12 +11,12 @@ import { chartReadingOperation } from "@/lib/readings/operations";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { DEFAULT_DETECTION } from "@/lib/alerts/detect";
 import type { AlertConfig } from "@/lib/alerts/config";
-import { getEmailPreferences, listAlerts, } from "@/lib/alerts/queries";
+import { getEmailPreferences, listAlerts } from "@/lib/alerts/queries";
 import {
   afterReadingsCharted,
   openOverdueReassessments,
   raiseSignalLosses,
-  } from "@/lib/alerts/service";
+} from "@/lib/alerts/service";
 import { runAlertWork } from "@/lib/alerts/worker";
 import type { Actor } from "@/lib/auth/actor";
 import { closeDb } from "@/lib/db";
@@ -396,7 +400,12 @@ describe("monitor series", () => {
       Buffer.from(csv, "utf8"),
       now,
     );
-    await confirmImportOperation.invoke(appDb(), therapist, { importId: preview.id, expectedAccepted: 600 }, now);
+    await confirmImportOperation.invoke(
+      appDb(),
+      therapist,
+      { importId: preview.id, expectedAccepted: 600 },
+      now,
+    );
 
     const alerts = await listAlerts(appDb(), nurse, { patientId, status: "all" });
     expect(alerts.map((a) => [a.kind, a.grade, a.state])).toEqual([
@@ -641,11 +650,13 @@ describe("limits, reassessment and closing by hand", () => {
     await chartLow(patientId, 88);
     const [alert] = await openAlertsOf(patientId);
     const reviewer = await actorByEmail(SEEDED.reviewer);
-    await expect(acknowledgeAlertOperation.invoke(appDb(), reviewer, { alertId: alert!.id })).rejects.toMatchObject(
-      { status: 403 },
-    );
+    await expect(
+      acknowledgeAlertOperation.invoke(appDb(), reviewer, { alertId: alert!.id }),
+    ).rejects.toMatchObject({ status: 403 });
     await acknowledgeAlertOperation.invoke(appDb(), therapist, { alertId: alert!.id });
-    await expect(acknowledgeAlertOperation.invoke(appDb(), nurse, { alertId: alert!.id })).rejects.toMatchObject({
+    await expect(
+      acknowledgeAlertOperation.invoke(appDb(), nurse, { alertId: alert!.id }),
+    ).rejects.toMatchObject({
       status: 409,
       message: expect.stringContaining(`Already acknowledged by ${therapist.name}`) as unknown,
     });

@@ -117,7 +117,12 @@ describe("API tokens", () => {
     });
     const therapist = await actorByEmail(SEEDED.therapist);
     await expect(
-      createApiTokenOperation.invoke(appDb(), therapist, { name: "Nope", scope: "write", unitIds: [1], currentPassword: "tidemark-demo" }),
+      createApiTokenOperation.invoke(appDb(), therapist, {
+        name: "Nope",
+        scope: "write",
+        unitIds: [1],
+        currentPassword: "tidemark-demo",
+      }),
     ).rejects.toBeInstanceOf(ForbiddenError);
   });
 
@@ -277,7 +282,11 @@ describe("API tokens", () => {
     expect((await get(respOnly)).status).toBe(404);
     const admin = await actorByEmail(SEEDED.admin);
     const { token: revoked, summary } = await token("read");
-    await revokeApiTokenOperation.invoke(appDb(), admin, { id: summary.id, rationale: "No longer used", currentPassword: "tidemark-demo" });
+    await revokeApiTokenOperation.invoke(appDb(), admin, {
+      id: summary.id,
+      rationale: "No longer used",
+      currentPassword: "tidemark-demo",
+    });
     expect((await get(revoked)).status).toBe(401);
   });
 
@@ -318,7 +327,11 @@ describe("API tokens", () => {
   it("writes no part of the secret to the ledger when a token is created or revoked", async () => {
     const admin = await actorByEmail(SEEDED.admin);
     const { token: secret, summary } = await token("write");
-    await revokeApiTokenOperation.invoke(appDb(), admin, { id: summary.id, rationale: "Rotated for the test", currentPassword: "tidemark-demo" });
+    await revokeApiTokenOperation.invoke(appDb(), admin, {
+      id: summary.id,
+      rationale: "Rotated for the test",
+      currentPassword: "tidemark-demo",
+    });
     const rows = (await appDb()("ledger_entries")
       .where({ entity_type: "api_token", entity_id: String(summary.id) })
       .orderBy("id")
@@ -341,24 +354,37 @@ describe("API tokens", () => {
     const { summary: year } = await createApiTokenOperation.invoke(
       appDb(),
       admin,
-      { name: `Default ${randomUUID().slice(0, 6)}`, scope: "read", unitIds: micu, currentPassword: "tidemark-demo" },
+      {
+        name: `Default ${randomUUID().slice(0, 6)}`,
+        scope: "read",
+        unitIds: micu,
+        currentPassword: "tidemark-demo",
+      },
       now,
     );
     expect(year.expiresAt).toBe("2027-12-03T10:00:00.000Z");
     const { summary: month } = await createApiTokenOperation.invoke(
       appDb(),
       admin,
-      { name: `Month ${randomUUID().slice(0, 6)}`, scope: "read", unitIds: micu, validDays: 30, currentPassword: "tidemark-demo" },
+      {
+        name: `Month ${randomUUID().slice(0, 6)}`,
+        scope: "read",
+        unitIds: micu,
+        validDays: 30,
+        currentPassword: "tidemark-demo",
+      },
       now,
     );
     expect(month.expiresAt).toBe("2027-01-02T10:00:00.000Z");
-    const tooLong = (await createApiTokenOperation.invoke(appDb(), admin, {
-      currentPassword: "tidemark-demo",
-      name: "Too long",
-      scope: "read",
-      unitIds: micu,
-      validDays: TOKEN_DAYS_MAX + 1,
-    }).catch((e: unknown) => e)) as ValidationError;
+    const tooLong = (await createApiTokenOperation
+      .invoke(appDb(), admin, {
+        currentPassword: "tidemark-demo",
+        name: "Too long",
+        scope: "read",
+        unitIds: micu,
+        validDays: TOKEN_DAYS_MAX + 1,
+      })
+      .catch((e: unknown) => e)) as ValidationError;
     expect(tooLong).toBeInstanceOf(ValidationError);
     expect(tooLong.fieldErrors?.validDays).toEqual([
       `Valid for must be a whole number of days between 1 and ${TOKEN_DAYS_MAX}.`,

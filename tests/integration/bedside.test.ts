@@ -78,9 +78,14 @@ describe("bedside adjustments", () => {
       forecast_json: string;
       engine_version: string;
     };
-    const saved = JSON.parse(stored.forecast_json) as { range: { low: { pao2: number }; high: { pao2: number } } };
+    const saved = JSON.parse(stored.forecast_json) as {
+      range: { low: { pao2: number }; high: { pao2: number } };
+    };
     expect(saved.range.low.pao2).toBeLessThanOrEqual(saved.range.high.pao2);
-    expect(saved.range).toEqual({ low: adjustment.forecast?.range.low, high: adjustment.forecast?.range.high });
+    expect(saved.range).toEqual({
+      low: adjustment.forecast?.range.low,
+      high: adjustment.forecast?.range.high,
+    });
     expect(stored.engine_version).toMatch(/^\d+\.\d+\.\d+$/);
     const context = await getBedsideContext(appDb(), therapist, patientId);
     expect(context.settings).toMatchObject({ fio2: 0.5, flow: 50, version: 2 });
@@ -89,15 +94,17 @@ describe("bedside adjustments", () => {
   it("refuses a change outside the order's limits, naming the limit and the way to a new order", async () => {
     const { patientId } = await patientWithHfncOrder();
     const therapist = await actorByEmail(SEEDED.therapist);
-    const error = (await recordAdjustmentOperation.invoke(appDb(), therapist, {
-      patientId,
-      settingsVersion: 1,
-      toFio2: 0.7,
-      toFlow: 40,
-      reason: "below_band",
-      rationale: "desaturating",
-      appliedAt: minutesAgo(1),
-    }).catch((e: unknown) => e)) as ValidationError;
+    const error = (await recordAdjustmentOperation
+      .invoke(appDb(), therapist, {
+        patientId,
+        settingsVersion: 1,
+        toFio2: 0.7,
+        toFlow: 40,
+        reason: "below_band",
+        rationale: "desaturating",
+        appliedAt: minutesAgo(1),
+      })
+      .catch((e: unknown) => e)) as ValidationError;
     expect(error).toBeInstanceOf(ValidationError);
     expect(error.fieldErrors?.toFio2?.[0]).toBe(
       "FiO2 0.70 is above this order's maximum of 0.60. To go beyond it, ask the physician for a new order.",
@@ -176,9 +183,9 @@ describe("bedside adjustments", () => {
       appliedAt: minutesAgo(1),
       idempotencyKey,
     };
-    await expect(recordAdjustmentOperation.invoke(appDb(), therapist, change)).rejects.toBeInstanceOf(
-      ConflictError,
-    );
+    await expect(
+      recordAdjustmentOperation.invoke(appDb(), therapist, change),
+    ).rejects.toBeInstanceOf(ConflictError);
     const count = (await appDb()("adjustments")
       .where({ patient_id: patientId })
       .count({ n: "*" })
@@ -198,7 +205,9 @@ describe("bedside adjustments", () => {
       rationale: "x".repeat(5),
       appliedAt: minutesAgo(1),
     };
-    await expect(recordAdjustmentOperation.invoke(appDb(), nurse, change)).rejects.toBeInstanceOf(ForbiddenError);
+    await expect(recordAdjustmentOperation.invoke(appDb(), nurse, change)).rejects.toBeInstanceOf(
+      ForbiddenError,
+    );
     const { patientId: noOrder } = await admitTestPatient();
     const therapist = await actorByEmail(SEEDED.therapist);
     await expect(
@@ -226,19 +235,23 @@ describe("readings and blood gases", () => {
   it("refuses out-of-range and missing values naming each field, and another unit's patient as not found", async () => {
     const { patientId } = await admitTestPatient();
     const nurse = await actorByEmail(SEEDED.nurse);
-    const error = (await chartReadingOperation.invoke(appDb(), nurse, {
-      patientId,
-      takenAt: minutesAgo(2),
-      spo2: 140,
-      device: "hfnc",
-    }).catch((e: unknown) => e)) as ValidationError;
+    const error = (await chartReadingOperation
+      .invoke(appDb(), nurse, {
+        patientId,
+        takenAt: minutesAgo(2),
+        spo2: 140,
+        device: "hfnc",
+      })
+      .catch((e: unknown) => e)) as ValidationError;
     expect(error.fieldErrors?.spo2).toEqual(["SpO2 must be between 0 and 100 %."]);
-    const missing = (await chartReadingOperation.invoke(appDb(), nurse, {
-      patientId,
-      takenAt: minutesAgo(2),
-      spo2: 90,
-      device: "hfnc",
-    }).catch((e: unknown) => e)) as ValidationError;
+    const missing = (await chartReadingOperation
+      .invoke(appDb(), nurse, {
+        patientId,
+        takenAt: minutesAgo(2),
+        spo2: 90,
+        device: "hfnc",
+      })
+      .catch((e: unknown) => e)) as ValidationError;
     expect(Object.keys(missing.fieldErrors ?? {}).sort()).toEqual(["fio2", "flow"]);
     const { patientId: other } = await admitTestPatient("RESP");
     await expect(

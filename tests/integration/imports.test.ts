@@ -6,10 +6,7 @@ import { afterAll, describe, expect, it } from "vitest";
 import { closeDb } from "@/lib/db";
 import { ConflictError, DomainError, ForbiddenError } from "@/lib/errors";
 import { getImportPreview, importReportCsv } from "@/lib/imports/queries";
-import {
-  remapImport,
-  type UploadInput,
-} from "@/lib/imports/service";
+import { remapImport, type UploadInput } from "@/lib/imports/service";
 import { verifyLedger } from "@/lib/ledger/verify";
 import { actorByEmail, admitTestPatient, appDb, SEEDED } from "../helpers/db";
 import { hfncOrder } from "../helpers/orders";
@@ -214,7 +211,12 @@ describe("blood gas CSV", () => {
     expect(byLine[8]?.[0]?.message).toContain("'yesterday morning' is not a date and time");
 
     // Confirm imports the two good rows only; the report keeps every rejected one.
-    await confirmImportOperation.invoke(appDb(), therapist, { importId: preview.id, expectedAccepted: 2 }, NOW);
+    await confirmImportOperation.invoke(
+      appDb(),
+      therapist,
+      { importId: preview.id, expectedAccepted: 2 },
+      NOW,
+    );
     const times = (await appDb()("blood_gases")
       .where({ patient_id: p.patientId })
       .orderBy("sampled_at")
@@ -249,7 +251,12 @@ describe("blood gas CSV", () => {
       hemoglobin: "g/L",
       fio2: "%",
     });
-    await confirmImportOperation.invoke(appDb(), therapist, { importId: preview.id, expectedAccepted: 1 }, NOW);
+    await confirmImportOperation.invoke(
+      appDb(),
+      therapist,
+      { importId: preview.id, expectedAccepted: 1 },
+      NOW,
+    );
     const gas = (await appDb()("blood_gases")
       .where({ patient_id: p.patientId })
       .first("pao2_mmhg", "paco2_mmhg", "hb_g_dl", "fio2")) as Record<string, number>;
@@ -329,7 +336,12 @@ describe("blood gas CSV", () => {
       file,
       NOW,
     );
-    await confirmImportOperation.invoke(appDb(), therapist, { importId: first.id, expectedAccepted: 3 }, NOW);
+    await confirmImportOperation.invoke(
+      appDb(),
+      therapist,
+      { importId: first.id, expectedAccepted: 3 },
+      NOW,
+    );
     const ledgerBefore = await count("ledger_entries", {
       entity_type: "import",
       entity_id: String(first.id),
@@ -380,7 +392,12 @@ describe("blood gas CSV", () => {
     // One patient is discharged between preview and confirm: the preview no longer holds.
     await appDb()("admissions").where({ patient_id: q.patientId }).update({ discharged_at: NOW });
     await expect(
-      confirmImportOperation.invoke(appDb(), therapist, { importId: preview.id, expectedAccepted: 3 }, NOW),
+      confirmImportOperation.invoke(
+        appDb(),
+        therapist,
+        { importId: preview.id, expectedAccepted: 3 },
+        NOW,
+      ),
     ).rejects.toBeInstanceOf(ConflictError);
     expect(await count("blood_gases", { patient_id: p.patientId })).toBe(0);
     expect((await getImportPreview(appDb(), therapist, preview.id)).status).toBe("previewed");
@@ -411,7 +428,12 @@ describe("HL7 v2 ORU^R01", () => {
     );
     expect(preview.counts).toEqual({ total: 2, accepted: 2, rejected: 0 });
     expect(preview.notes).toEqual([expect.stringContaining("33437-0")]);
-    await confirmImportOperation.invoke(appDb(), therapist, { importId: preview.id, expectedAccepted: 2 }, NOW);
+    await confirmImportOperation.invoke(
+      appDb(),
+      therapist,
+      { importId: preview.id, expectedAccepted: 2 },
+      NOW,
+    );
     const gas = (await appDb()("blood_gases")
       .where({ patient_id: p.patientId })
       .first(
@@ -510,7 +532,12 @@ describe("monitor CSV", () => {
       counts: { total: 6, accepted: 6, rejected: 0 },
       monitor: { mrn: p.mrn, bed: p.bed },
     });
-    await confirmImportOperation.invoke(appDb(), therapist, { importId: preview.id, expectedAccepted: 6 }, NOW);
+    await confirmImportOperation.invoke(
+      appDb(),
+      therapist,
+      { importId: preview.id, expectedAccepted: 6 },
+      NOW,
+    );
     const rows = (await appDb()("readings")
       .where({ patient_id: p.patientId })
       .orderBy("taken_at")
@@ -614,7 +641,12 @@ describe("monitor CSV", () => {
       ],
       [10, "time", "Time 2027-01-01T00:00:00Z is in the future."],
     ]);
-    await confirmImportOperation.invoke(appDb(), therapist, { importId: preview.id, expectedAccepted: 3 }, NOW);
+    await confirmImportOperation.invoke(
+      appDb(),
+      therapist,
+      { importId: preview.id, expectedAccepted: 3 },
+      NOW,
+    );
     // A second file overlapping the first: its rows at stored times are duplicates.
     const overlap = Buffer.from("time,spo2\n2026-11-20T09:00:00Z,96\n2026-11-20T09:00:06Z,95\n");
     const second = await previewUpload(

@@ -30,16 +30,23 @@ describe("ledger is append-only at the database level", () => {
     const row = await appendOne(null, "append-only update probe");
     const refused = await appDb()
       .raw("UPDATE ledger_entries SET rationale = 'rewritten' WHERE id = ?", [row.id])
-      .then(() => null, (e: { errno?: number; sqlMessage?: string }) => e);
+      .then(
+        () => null,
+        (e: { errno?: number; sqlMessage?: string }) => e,
+      );
     expect(refused?.errno).toBe(1644);
     expect(refused?.sqlMessage).toMatch(/append-only/);
-    const stored = (await appDb()("ledger_entries").where({ id: row.id }).first("rationale")) as { rationale: string };
+    const stored = (await appDb()("ledger_entries").where({ id: row.id }).first("rationale")) as {
+      rationale: string;
+    };
     expect(stored.rationale).toBe("append-only update probe");
   });
 
   it("refuses DELETE of a ledger row by the application's database user", async () => {
     const row = await appendOne(null, "append-only delete probe");
-    await expect(appDb().raw("DELETE FROM ledger_entries WHERE id = ?", [row.id])).rejects.toMatchObject({
+    await expect(
+      appDb().raw("DELETE FROM ledger_entries WHERE id = ?", [row.id]),
+    ).rejects.toMatchObject({
       errno: 1644,
     });
     expect(await appDb()("ledger_entries").where({ id: row.id }).first("id")).toBeDefined();
@@ -48,7 +55,10 @@ describe("ledger is append-only at the database level", () => {
   it("refuses TRUNCATE and DROP to the application's database user (no DDL rights)", async () => {
     const refused = await appDb()
       .raw("TRUNCATE TABLE ledger_entries")
-      .then(() => null, (e: { code?: string }) => e);
+      .then(
+        () => null,
+        (e: { code?: string }) => e,
+      );
     expect(refused?.code).toMatch(/ACCESS_DENIED/);
     await expect(appDb().raw("DROP TRIGGER ledger_entries_no_update")).rejects.toBeDefined();
   });
@@ -72,7 +82,9 @@ describe("ledger hash chain", () => {
     const second = await appendOne(1, "chain b");
     expect(second.chainKey).toBe(chainKeyFor({ patientId: 1 }));
     expect(second.chainSeq).toBe(first.chainSeq + 1);
-    const stored = (await appDb()("ledger_entries").where({ id: second.id }).first("prev_hash")) as {
+    const stored = (await appDb()("ledger_entries")
+      .where({ id: second.id })
+      .first("prev_hash")) as {
       prev_hash: string;
     };
     expect(stored.prev_hash).toBe(first.hash);
@@ -83,7 +95,9 @@ describe("ledger hash chain", () => {
 
   it("keeps every chain intact under concurrent writers on the same and different patients", async () => {
     await Promise.all(
-      Array.from({ length: 24 }, (_, i) => appendOne(i % 3 === 0 ? 2 : 3 + (i % 5), `concurrent ${i}`)),
+      Array.from({ length: 24 }, (_, i) =>
+        appendOne(i % 3 === 0 ? 2 : 3 + (i % 5), `concurrent ${i}`),
+      ),
     );
     expect((await verifyLedger(appDb())).ok).toBe(true);
   });
@@ -92,7 +106,9 @@ describe("ledger hash chain", () => {
     const row = await appendOne(4, "head tamper probe");
     // The head table must stay writable to advance; the trigger allows nothing else.
     await expect(
-      appDb()("ledger_chains").where({ chain_key: row.chainKey }).update({ last_hash: GENESIS_HASH }),
+      appDb()("ledger_chains")
+        .where({ chain_key: row.chainKey })
+        .update({ last_hash: GENESIS_HASH }),
     ).rejects.toMatchObject({ errno: 1644 });
     const head = (await appDb()("ledger_chains").where({ chain_key: row.chainKey }).first()) as {
       last_seq: number;
@@ -104,7 +120,10 @@ describe("ledger hash chain", () => {
 
   it("a stored row's hash covers its content (recomputing from the row reproduces it)", async () => {
     const row = await appendOne(5, "recompute probe");
-    const r = (await appDb()("ledger_entries").where({ id: row.id }).first()) as Record<string, unknown>;
+    const r = (await appDb()("ledger_entries").where({ id: row.id }).first()) as Record<
+      string,
+      unknown
+    >;
     const fields: HashedLedgerFields = {
       chainKey: r.chain_key as string,
       chainSeq: Number(r.chain_seq),
@@ -122,6 +141,8 @@ describe("ledger hash chain", () => {
       rationale: r.rationale as string,
     };
     expect(keyedLedgerHash(ledgerKeys(), fields)).toBe(r.hash);
-    expect(keyedLedgerHash(ledgerKeys(), { ...fields, rationale: "recompute probe!" })).not.toBe(r.hash);
+    expect(keyedLedgerHash(ledgerKeys(), { ...fields, rationale: "recompute probe!" })).not.toBe(
+      r.hash,
+    );
   });
 });

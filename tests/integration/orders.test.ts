@@ -1,4 +1,8 @@
-import { cosignOrderOperation, discontinueOrderOperation, writeOrderOperation } from "@/lib/orders/operations";
+import {
+  cosignOrderOperation,
+  discontinueOrderOperation,
+  writeOrderOperation,
+} from "@/lib/orders/operations";
 import { createStepTableOperation } from "@/lib/step-tables/operations";
 import { afterAll, describe, expect, it } from "vitest";
 import { hashPassword } from "@/lib/auth/password";
@@ -150,11 +154,9 @@ describe("orders", () => {
   it("refuses a wrong signing password and writes nothing", async () => {
     const { patientId } = await admitTestPatient();
     const physician = await actorByEmail(SEEDED.physician);
-    const error = await writeOrderOperation.invoke(
-      appDb(),
-      physician,
-      ventilatorOrder(patientId, { password: "nope" }),
-    ).catch((e: unknown) => e);
+    const error = await writeOrderOperation
+      .invoke(appDb(), physician, ventilatorOrder(patientId, { password: "nope" }))
+      .catch((e: unknown) => e);
     expect(error).toBeInstanceOf(ValidationError);
     expect((error as ValidationError).fieldErrors?.password).toBeDefined();
     expect(await appDb()("orders").where({ patient_id: patientId }).first()).toBeUndefined();
@@ -163,16 +165,18 @@ describe("orders", () => {
   it("refuses limits that do not fit the device, naming the field and range", async () => {
     const { patientId } = await admitTestPatient();
     const physician = await actorByEmail(SEEDED.physician);
-    const error = (await writeOrderOperation.invoke(
-      appDb(),
-      physician,
-      ventilatorOrder(patientId, {
-        device: "nasal_cannula",
-        peepMin: 5,
-        fio2Max: 0.8,
-        flowMin: undefined,
-      }),
-    ).catch((e: unknown) => e)) as ValidationError;
+    const error = (await writeOrderOperation
+      .invoke(
+        appDb(),
+        physician,
+        ventilatorOrder(patientId, {
+          device: "nasal_cannula",
+          peepMin: 5,
+          fio2Max: 0.8,
+          flowMin: undefined,
+        }),
+      )
+      .catch((e: unknown) => e)) as ValidationError;
     expect(error).toBeInstanceOf(ValidationError);
     expect(error.fieldErrors?.fio2Max?.[0]).toMatch(
       /Nasal cannula delivers FiO2 between 0.21 and 0.45/,
@@ -207,7 +211,11 @@ describe("orders", () => {
     // A FiO2/PEEP table for a device without PEEP.
     const ardsnet = await stepTableByCode("ardsnet-lower-peep");
     await expect(
-      writeOrderOperation.invoke(appDb(), physician, hfncOrder(patientId, { stepTableId: ardsnet.id })),
+      writeOrderOperation.invoke(
+        appDb(),
+        physician,
+        hfncOrder(patientId, { stepTableId: ardsnet.id }),
+      ),
     ).rejects.toMatchObject({
       fieldErrors: { stepTableId: [stepTableMismatchMessage(ardsnet, "hfnc")] },
     });
@@ -223,11 +231,9 @@ describe("orders", () => {
       ],
       rationale: "unit ladder for a test",
     });
-    const refusal = (await writeOrderOperation.invoke(
-      appDb(),
-      physician,
-      ventilatorOrder(patientId, { stepTableId: ladder.id }),
-    ).catch((e: unknown) => e)) as ValidationError;
+    const refusal = (await writeOrderOperation
+      .invoke(appDb(), physician, ventilatorOrder(patientId, { stepTableId: ladder.id }))
+      .catch((e: unknown) => e)) as ValidationError;
     expect(refusal).toBeInstanceOf(ValidationError);
     expect(refusal.fieldErrors?.stepTableId).toEqual([
       stepTableMismatchMessage(ladder, "invasive"),
@@ -281,7 +287,9 @@ describe("orders", () => {
     const { patientId } = await admitTestPatient();
     const nurse = await actorByEmail(SEEDED.nurse);
     const physician = await actorByEmail(SEEDED.physician);
-    await expect(writeOrderOperation.invoke(appDb(), nurse, ventilatorOrder(patientId))).rejects.toMatchObject({
+    await expect(
+      writeOrderOperation.invoke(appDb(), nurse, ventilatorOrder(patientId)),
+    ).rejects.toMatchObject({
       fieldErrors: { entryMode: [expect.stringMatching(/verbal or telephone/)] },
     });
     const verbal = {
@@ -331,9 +339,9 @@ describe("orders", () => {
     const { patientId } = await admitTestPatient();
     const physician = await actorByEmail(SEEDED.physician);
     const first = await writeOrderOperation.invoke(appDb(), physician, ventilatorOrder(patientId));
-    await expect(writeOrderOperation.invoke(appDb(), physician, ventilatorOrder(patientId))).rejects.toBeInstanceOf(
-      ConflictError,
-    );
+    await expect(
+      writeOrderOperation.invoke(appDb(), physician, ventilatorOrder(patientId)),
+    ).rejects.toBeInstanceOf(ConflictError);
     const second = await writeOrderOperation.invoke(
       appDb(),
       physician,
@@ -415,14 +423,20 @@ describe("who co-signs a verbal order", () => {
     const nurse = await actorByEmail(SEEDED.nurse);
     const prescriber = await newPhysician(unitId);
     const colleague = await newPhysician(unitId);
-    const order = await writeOrderOperation.invoke(appDb(), nurse, verbalOrder(patientId, prescriber.id));
+    const order = await writeOrderOperation.invoke(
+      appDb(),
+      nurse,
+      verbalOrder(patientId, prescriber.id),
+    );
 
     for (const physician of [colleague, await actorByEmail(SEEDED.physician)]) {
-      const error = (await cosignOrderOperation.invoke(appDb(), physician, {
-        orderId: order.id,
-        version: order.version,
-        password: PASSWORD,
-      }).catch((e: unknown) => e)) as ForbiddenError;
+      const error = (await cosignOrderOperation
+        .invoke(appDb(), physician, {
+          orderId: order.id,
+          version: order.version,
+          password: PASSWORD,
+        })
+        .catch((e: unknown) => e)) as ForbiddenError;
       expect(error).toBeInstanceOf(ForbiddenError);
       expect(error.status).toBe(403);
       // The seed designates Dr Tobias Renwick on MICU (other tests may add more).
@@ -450,7 +464,11 @@ describe("who co-signs a verbal order", () => {
     const { patientId, unitId } = await admitTestPatient();
     const nurse = await actorByEmail(SEEDED.nurse);
     const prescriber = await newPhysician(unitId);
-    const order = await writeOrderOperation.invoke(appDb(), nurse, verbalOrder(patientId, prescriber.id));
+    const order = await writeOrderOperation.invoke(
+      appDb(),
+      nurse,
+      verbalOrder(patientId, prescriber.id),
+    );
     const signed = await cosignOrderOperation.invoke(appDb(), prescriber, {
       orderId: order.id,
       version: order.version,
@@ -473,7 +491,11 @@ describe("who co-signs a verbal order", () => {
     // Designated on RESP only (and assigned to MICU too): not a co-signer on MICU.
     const respCosigner = await newPhysician(resp.unitId, { designated: true });
     await appDb()("user_units").insert({ user_id: respCosigner.id, unit_id: unitId });
-    const order = await writeOrderOperation.invoke(appDb(), nurse, verbalOrder(patientId, prescriber.id));
+    const order = await writeOrderOperation.invoke(
+      appDb(),
+      nurse,
+      verbalOrder(patientId, prescriber.id),
+    );
 
     await expect(
       cosignOrderOperation.invoke(appDb(), await actorByEmail(respCosigner.email), {
@@ -508,7 +530,11 @@ describe("who co-signs a verbal order", () => {
     const prescriber = await newPhysician(unitId);
     const deactivated = await newPhysician(unitId, { designated: true });
     const moved = await newPhysician(unitId, { designated: true });
-    const order = await writeOrderOperation.invoke(appDb(), nurse, verbalOrder(patientId, prescriber.id));
+    const order = await writeOrderOperation.invoke(
+      appDb(),
+      nurse,
+      verbalOrder(patientId, prescriber.id),
+    );
     const designatedNow = async () =>
       (await listCosignQueue(appDb(), [unitId]))
         .find((o) => o.id === order.id)
@@ -527,7 +553,11 @@ describe("a verbal order superseding a signed one", () => {
     const { patientId, unitId } = await admitTestPatient();
     const nurse = await actorByEmail(SEEDED.nurse);
     const oldPrescriber = await newPhysician(unitId);
-    const signed = await writeOrderOperation.invoke(appDb(), oldPrescriber, ventilatorOrder(patientId));
+    const signed = await writeOrderOperation.invoke(
+      appDb(),
+      oldPrescriber,
+      ventilatorOrder(patientId),
+    );
     expect(await supersedeMail(signed.id)).toEqual([]);
 
     const ines = await actorByEmail(SEEDED.physician);

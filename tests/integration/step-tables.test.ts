@@ -1,4 +1,8 @@
-import { createStepTableOperation, setStepTableActiveOperation, updateStepTableOperation } from "@/lib/step-tables/operations";
+import {
+  createStepTableOperation,
+  setStepTableActiveOperation,
+  updateStepTableOperation,
+} from "@/lib/step-tables/operations";
 import { afterAll, describe, expect, it } from "vitest";
 import { closeDb } from "@/lib/db";
 import { ConflictError, ForbiddenError, ValidationError } from "@/lib/errors";
@@ -51,9 +55,9 @@ describe("step-table library", () => {
   it("lets an admin create, edit and retire a unit table, each with a ledger row; others are refused", async () => {
     const admin = await actorByEmail(SEEDED.admin);
     const physician = await actorByEmail(SEEDED.physician);
-    await expect(createStepTableOperation.invoke(appDb(), physician, await hfncTable())).rejects.toBeInstanceOf(
-      ForbiddenError,
-    );
+    await expect(
+      createStepTableOperation.invoke(appDb(), physician, await hfncTable()),
+    ).rejects.toBeInstanceOf(ForbiddenError);
     const created = await createStepTableOperation.invoke(appDb(), admin, await hfncTable());
     expect(created.rows).toHaveLength(3);
     const edited = await updateStepTableOperation.invoke(appDb(), admin, {
@@ -86,16 +90,18 @@ describe("step-table library", () => {
 
   it("refuses steps that lose support from one row to the next, naming the row", async () => {
     const admin = await actorByEmail(SEEDED.admin);
-    const error = (await createStepTableOperation.invoke(
-      appDb(),
-      admin,
-      await hfncTable({
-        rows: [
-          { fio2Min: 0.5, fio2Max: 0.5, flow: 50 },
-          { fio2Min: 0.4, fio2Max: 0.4, flow: 40 },
-        ],
-      }),
-    ).catch((e: unknown) => e)) as ValidationError;
+    const error = (await createStepTableOperation
+      .invoke(
+        appDb(),
+        admin,
+        await hfncTable({
+          rows: [
+            { fio2Min: 0.5, fio2Max: 0.5, flow: 50 },
+            { fio2Min: 0.4, fio2Max: 0.4, flow: 40 },
+          ],
+        }),
+      )
+      .catch((e: unknown) => e)) as ValidationError;
     expect(error).toBeInstanceOf(ValidationError);
     expect(error.fieldErrors?.["rows.1.fio2Min"]).toEqual([
       "Step 2: FiO2 must not fall from one step to the next.",

@@ -1,4 +1,8 @@
-import { createUserOperation, setUserActiveOperation, updateUserOperation } from "@/lib/users/operations";
+import {
+  createUserOperation,
+  setUserActiveOperation,
+  updateUserOperation,
+} from "@/lib/users/operations";
 import { afterAll, describe, expect, it } from "vitest";
 import { closeDb } from "@/lib/db";
 import { ConflictError, ForbiddenError, ValidationError } from "@/lib/errors";
@@ -34,7 +38,12 @@ async function newUserInput(over: Partial<UserCreateInput> = {}): Promise<UserCr
 async function ledgerRowsFor(userId: number) {
   return (await appDb()("ledger_entries")
     .where({ entity_type: "user", entity_id: String(userId) })
-    .orderBy("id")) as { action: string; actor_role: string; before_json: string | null; after_json: string }[];
+    .orderBy("id")) as {
+    action: string;
+    actor_role: string;
+    before_json: string | null;
+    after_json: string;
+  }[];
 }
 
 describe("user administration", () => {
@@ -45,21 +54,35 @@ describe("user administration", () => {
     expect(user).toMatchObject({ email: input.email, role: "nurse", active: true, version: 1 });
     const rows = await ledgerRowsFor(user.id);
     expect(rows).toHaveLength(1);
-    expect(rows[0]).toMatchObject({ action: "user.create", actor_role: "admin", before_json: null });
+    expect(rows[0]).toMatchObject({
+      action: "user.create",
+      actor_role: "admin",
+      before_json: null,
+    });
     expect(rows[0]!.after_json).not.toContain("password");
-    expect(JSON.parse(rows[0]!.after_json)).toMatchObject({ email: input.email, unitIds: input.unitIds });
+    expect(JSON.parse(rows[0]!.after_json)).toMatchObject({
+      email: input.email,
+      unitIds: input.unitIds,
+    });
   });
 
   it("refuses a nurse, and writes nothing", async () => {
     const nurse = await actorByEmail(SEEDED.nurse);
     const input = await newUserInput();
-    await expect(createUserOperation.invoke(appDb(), nurse, input)).rejects.toBeInstanceOf(ForbiddenError);
+    await expect(createUserOperation.invoke(appDb(), nurse, input)).rejects.toBeInstanceOf(
+      ForbiddenError,
+    );
     expect(await appDb()("users").where({ email: input.email }).first()).toBeUndefined();
   });
 
   it("refuses malformed and oversized fields, naming each field", async () => {
     const admin = await actorByEmail(SEEDED.admin);
-    const input = await newUserInput({ email: "not-an-email", name: "x".repeat(121), password: "short", unitIds: [] });
+    const input = await newUserInput({
+      email: "not-an-email",
+      name: "x".repeat(121),
+      password: "short",
+      unitIds: [],
+    });
     const error = await createUserOperation.invoke(appDb(), admin, input).catch((e: unknown) => e);
     expect(error).toBeInstanceOf(ValidationError);
     const fields = (error as ValidationError).fieldErrors ?? {};
@@ -80,7 +103,9 @@ describe("user administration", () => {
     const admin = await actorByEmail(SEEDED.admin);
     const input = await newUserInput();
     await createUserOperation.invoke(appDb(), admin, input);
-    const again = await createUserOperation.invoke(appDb(), admin, { ...input, email: input.email.toUpperCase() }).catch((e: unknown) => e);
+    const again = await createUserOperation
+      .invoke(appDb(), admin, { ...input, email: input.email.toUpperCase() })
+      .catch((e: unknown) => e);
     expect(again).toBeInstanceOf(ConflictError);
     expect((again as ConflictError).fieldErrors?.email).toBeDefined();
   });
@@ -114,7 +139,13 @@ describe("user administration", () => {
     const admin = await actorByEmail(SEEDED.admin);
     const user = await createUserOperation.invoke(appDb(), admin, await newUserInput());
     await expect(
-      setUserActiveOperation.invoke(appDb(), admin, { id: user.id, version: 1, active: false, rationale: "", currentPassword: ADMIN_PASSWORD }),
+      setUserActiveOperation.invoke(appDb(), admin, {
+        id: user.id,
+        version: 1,
+        active: false,
+        rationale: "",
+        currentPassword: ADMIN_PASSWORD,
+      }),
     ).rejects.toMatchObject({ fieldErrors: { rationale: [expect.any(String)] } });
     const after = await setUserActiveOperation.invoke(appDb(), admin, {
       id: user.id,
@@ -131,9 +162,17 @@ describe("user administration", () => {
 
   it("refuses to let an administrator deactivate themselves or drop their own admin role", async () => {
     const admin = await actorByEmail(SEEDED.admin);
-    const self = (await appDb()("users").where({ id: admin.id }).first("version")) as { version: number };
+    const self = (await appDb()("users").where({ id: admin.id }).first("version")) as {
+      version: number;
+    };
     await expect(
-      setUserActiveOperation.invoke(appDb(), admin, { id: admin.id, version: self.version, active: false, rationale: "oops", currentPassword: ADMIN_PASSWORD }),
+      setUserActiveOperation.invoke(appDb(), admin, {
+        id: admin.id,
+        version: self.version,
+        active: false,
+        rationale: "oops",
+        currentPassword: ADMIN_PASSWORD,
+      }),
     ).rejects.toBeInstanceOf(ValidationError);
     await expect(
       updateUserOperation.invoke(appDb(), admin, {
@@ -154,9 +193,13 @@ describe("user administration", () => {
   it("asks the administrator's own password for every account change, and records a wrong one", async () => {
     const admin = await actorByEmail(SEEDED.admin);
     const input = await newUserInput({ currentPassword: "not-my-password" });
-    const error = (await createUserOperation.invoke(appDb(), admin, input).catch((e: unknown) => e)) as ValidationError;
+    const error = (await createUserOperation
+      .invoke(appDb(), admin, input)
+      .catch((e: unknown) => e)) as ValidationError;
     expect(error).toBeInstanceOf(ValidationError);
-    expect(error.fieldErrors).toEqual({ currentPassword: ["The password does not match your account."] });
+    expect(error.fieldErrors).toEqual({
+      currentPassword: ["The password does not match your account."],
+    });
     expect(await appDb()("users").where({ email: input.email }).first("id")).toBeUndefined();
     const refused = (await appDb()("ledger_entries")
       .where({ action: "user.reauth_refused", entity_id: String(admin.id) })
@@ -165,7 +208,9 @@ describe("user administration", () => {
     expect(Number(refused.n)).toBeGreaterThan(0);
     const withoutPassword: Partial<UserCreateInput> = await newUserInput();
     delete withoutPassword.currentPassword;
-    await expect(createUserOperation.invoke(appDb(), admin, withoutPassword as UserCreateInput)).rejects.toMatchObject({
+    await expect(
+      createUserOperation.invoke(appDb(), admin, withoutPassword as UserCreateInput),
+    ).rejects.toMatchObject({
       fieldErrors: { currentPassword: ["Enter your own password to confirm the change."] },
     });
   });

@@ -17,9 +17,12 @@ describe("classifyOxygenation — Berlin definition 2012", () => {
     [50.5, 0.5, "moderate"],
     [50, 0.5, "severe"],
     [40, 1, "severe"],
-  ] as const)("PaO2 %s on FiO2 %s (P/F at the 300/200/100 boundaries) → %s", (pao2, fio2, category) => {
-    expect(invasive(pao2, fio2)).toBe(category);
-  });
+  ] as const)(
+    "PaO2 %s on FiO2 %s (P/F at the 300/200/100 boundaries) → %s",
+    (pao2, fio2, category) => {
+      expect(invasive(pao2, fio2)).toBe(category);
+    },
+  );
 
   it("requires PEEP ≥ 5 cmH2O: PEEP 4 is not classifiable, PEEP 5 is", () => {
     expect(invasive(60, 0.5, 4)).toBe("not-classifiable");
@@ -34,24 +37,47 @@ describe("classifyOxygenation — Berlin definition 2012", () => {
   });
 
   it("accepts non-invasive CPAP for mild only", () => {
-    expect(classifyOxygenation({ pao2: 125, fio2: 0.5, peep: 5, support: "niv" }).berlin.category).toBe("mild");
-    expect(classifyOxygenation({ pao2: 90, fio2: 0.5, peep: 5, support: "niv" }).berlin.category).toBe("not-classifiable");
+    expect(
+      classifyOxygenation({ pao2: 125, fio2: 0.5, peep: 5, support: "niv" }).berlin.category,
+    ).toBe("mild");
+    expect(
+      classifyOxygenation({ pao2: 90, fio2: 0.5, peep: 5, support: "niv" }).berlin.category,
+    ).toBe("not-classifiable");
   });
 
   it("does not classify on HFNC, low-flow oxygen or without a PaO2", () => {
-    expect(classifyOxygenation({ pao2: 60, fio2: 0.6, support: "hfnc", flow: 50 }).berlin.category).toBe("not-classifiable");
-    expect(classifyOxygenation({ pao2: 60, fio2: 0.6, peep: 5, support: "conventional" }).berlin.category).toBe("not-classifiable");
-    expect(classifyOxygenation({ spo2: 88, fio2: 0.6, peep: 10, support: "invasive" }).berlin.category).toBe("not-classifiable");
+    expect(
+      classifyOxygenation({ pao2: 60, fio2: 0.6, support: "hfnc", flow: 50 }).berlin.category,
+    ).toBe("not-classifiable");
+    expect(
+      classifyOxygenation({ pao2: 60, fio2: 0.6, peep: 5, support: "conventional" }).berlin
+        .category,
+    ).toBe("not-classifiable");
+    expect(
+      classifyOxygenation({ spo2: 88, fio2: 0.6, peep: 10, support: "invasive" }).berlin.category,
+    ).toBe("not-classifiable");
   });
 
   it("corrects P/F by PB/760 above 1000 m (Berlin footnote)", () => {
     const pb = barometricPressureAtAltitude(2500);
     // P/F 210 at sea level would be mild; × PB/760 (≈ 0.74) makes it moderate.
-    const { berlin } = classifyOxygenation({ pao2: 105, fio2: 0.5, peep: 8, support: "invasive", barometricPressure: pb });
+    const { berlin } = classifyOxygenation({
+      pao2: 105,
+      fio2: 0.5,
+      peep: 8,
+      support: "invasive",
+      barometricPressure: pb,
+    });
     expect(berlin.category).toBe("moderate");
     expect(berlin.values.adjustedPfRatio).toBeCloseTo((210 * pb) / 760, 10);
     // At 500 m no correction applies.
-    const low = classifyOxygenation({ pao2: 105, fio2: 0.5, peep: 8, support: "invasive", barometricPressure: barometricPressureAtAltitude(500) });
+    const low = classifyOxygenation({
+      pao2: 105,
+      fio2: 0.5,
+      peep: 8,
+      support: "invasive",
+      barometricPressure: barometricPressureAtAltitude(500),
+    });
     expect(low.berlin.category).toBe("mild");
   });
 });
@@ -72,18 +98,26 @@ describe("classifyOxygenation — global definition 2023", () => {
     [89.5, 0.6, "moderate"], // S/F 149.2
     [88.8, 0.6, "severe"], // S/F 148
     [85, 1, "severe"],
-  ] as const)("intubated, SpO2 %s on FiO2 %s → %s (S/F bands 315/235/148)", (spo2, fio2, category) => {
-    expect(intubatedSf(spo2, fio2)).toBe(category);
-  });
+  ] as const)(
+    "intubated, SpO2 %s on FiO2 %s → %s (S/F bands 315/235/148)",
+    (spo2, fio2, category) => {
+      expect(intubatedSf(spo2, fio2)).toBe(category);
+    },
+  );
 
   it.each([
     [150, 0.5, "mild"],
     [100, 0.5, "moderate"],
     [50, 0.5, "severe"],
     [151, 0.5, "none"],
-  ] as const)("intubated, PaO2 %s on FiO2 %s → %s (P/F bands 300/200/100)", (pao2, fio2, category) => {
-    expect(classifyOxygenation({ pao2, fio2, support: "invasive" }).global.category).toBe(category);
-  });
+  ] as const)(
+    "intubated, PaO2 %s on FiO2 %s → %s (P/F bands 300/200/100)",
+    (pao2, fio2, category) => {
+      expect(classifyOxygenation({ pao2, fio2, support: "invasive" }).global.category).toBe(
+        category,
+      );
+    },
+  );
 
   it("does not use S/F above SpO2 97 %", () => {
     const { global } = classifyOxygenation({ spo2: 98, fio2: 0.4, support: "invasive" });
@@ -101,15 +135,27 @@ describe("classifyOxygenation — global definition 2023", () => {
   });
 
   it("includes HFNC at ≥ 30 L/min and NIV ≥ 5 cmH2O without severity", () => {
-    expect(classifyOxygenation({ spo2: 93, fio2: 0.5, support: "hfnc", flow: 30 }).global.category).toBe("ards");
-    expect(classifyOxygenation({ spo2: 93, fio2: 0.5, support: "hfnc", flow: 25 }).global.category).toBe("not-classifiable");
-    expect(classifyOxygenation({ pao2: 70, fio2: 0.6, support: "niv", peep: 5 }).global.category).toBe("ards");
-    expect(classifyOxygenation({ pao2: 70, fio2: 0.6, support: "niv", peep: 4 }).global.category).toBe("not-classifiable");
-    expect(classifyOxygenation({ pao2: 160, fio2: 0.5, support: "hfnc", flow: 40 }).global.category).toBe("none");
+    expect(
+      classifyOxygenation({ spo2: 93, fio2: 0.5, support: "hfnc", flow: 30 }).global.category,
+    ).toBe("ards");
+    expect(
+      classifyOxygenation({ spo2: 93, fio2: 0.5, support: "hfnc", flow: 25 }).global.category,
+    ).toBe("not-classifiable");
+    expect(
+      classifyOxygenation({ pao2: 70, fio2: 0.6, support: "niv", peep: 5 }).global.category,
+    ).toBe("ards");
+    expect(
+      classifyOxygenation({ pao2: 70, fio2: 0.6, support: "niv", peep: 4 }).global.category,
+    ).toBe("not-classifiable");
+    expect(
+      classifyOxygenation({ pao2: 160, fio2: 0.5, support: "hfnc", flow: 40 }).global.category,
+    ).toBe("none");
   });
 
   it("requires respiratory support: low-flow oxygen is not classifiable (resource-limited variant not applied)", () => {
-    expect(classifyOxygenation({ spo2: 90, fio2: 0.4, support: "conventional" }).global.category).toBe("not-classifiable");
+    expect(
+      classifyOxygenation({ spo2: 90, fio2: 0.4, support: "conventional" }).global.category,
+    ).toBe("not-classifiable");
     expect(classifyOxygenation({ spo2: 90, fio2: 0.4 }).global.category).toBe("not-classifiable");
   });
 });
@@ -121,8 +167,12 @@ describe("classifyOxygenation — global definition 2023", () => {
 // different bands Tidemark reports the worse one (its reading of the definition).
 // Each example's ratios are worked out from the inputs and those thresholds.
 describe("classifyOxygenation — global definition 2023 with both P/F and S/F", () => {
-  const both = (pao2: number, spo2: number, fio2: number, rest: { support: "invasive" | "hfnc" | "niv"; peep?: number; flow?: number }) =>
-    classifyOxygenation({ pao2, spo2, fio2, ...rest }).global;
+  const both = (
+    pao2: number,
+    spo2: number,
+    fio2: number,
+    rest: { support: "invasive" | "hfnc" | "niv"; peep?: number; flow?: number },
+  ) => classifyOxygenation({ pao2, spo2, fio2, ...rest }).global;
 
   it("grades by S/F when it is the worse: S/F 146.7 ≤ 148 severe, P/F 103.3 moderate → severe", () => {
     // FiO2 0.6: PaO2 62 → P/F 103.3 (100 < 103.3 ≤ 200); SpO2 88 % → S/F 146.7 (≤ 148).
@@ -198,10 +248,19 @@ describe("classifyOxygenation — global definition 2023 with both P/F and S/F",
   });
 
   it("names the only ratio available, and names none when not classifiable", () => {
-    expect(classifyOxygenation({ pao2: 50, fio2: 0.5, support: "invasive" }).global.classifiedBy).toBe("P/F");
-    expect(classifyOxygenation({ spo2: 85, fio2: 1, support: "invasive" }).global.classifiedBy).toBe("S/F");
-    expect(classifyOxygenation({ spo2: 98, fio2: 0.4, support: "invasive" }).global.classifiedBy).toBeUndefined();
+    expect(
+      classifyOxygenation({ pao2: 50, fio2: 0.5, support: "invasive" }).global.classifiedBy,
+    ).toBe("P/F");
+    expect(
+      classifyOxygenation({ spo2: 85, fio2: 1, support: "invasive" }).global.classifiedBy,
+    ).toBe("S/F");
+    expect(
+      classifyOxygenation({ spo2: 98, fio2: 0.4, support: "invasive" }).global.classifiedBy,
+    ).toBeUndefined();
     // Berlin grades by P/F only and carries no classifiedBy.
-    expect(classifyOxygenation({ pao2: 62, spo2: 88, fio2: 0.6, peep: 10, support: "invasive" }).berlin.classifiedBy).toBeUndefined();
+    expect(
+      classifyOxygenation({ pao2: 62, spo2: 88, fio2: 0.6, peep: 10, support: "invasive" }).berlin
+        .classifiedBy,
+    ).toBeUndefined();
   });
 });

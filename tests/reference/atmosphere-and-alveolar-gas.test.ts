@@ -19,7 +19,9 @@ describe("barometricPressureAtAltitude — ICAO standard atmosphere (ICAO Doc 74
     [11000, 226.32],
   ])("matches the ICAO table at %s m (%s hPa)", (metres, hPa) => {
     const expected = hectopascalsToMmHg(hPa);
-    expect(Math.abs(barometricPressureAtAltitude(metres) - expected) / expected).toBeLessThan(0.001);
+    expect(Math.abs(barometricPressureAtAltitude(metres) - expected) / expected).toBeLessThan(
+      0.001,
+    );
   });
 
   it("gives ≈ 634 mmHg at 1500 m and ≈ 526 mmHg at 3000 m (the brief's anchors, from ICAO Doc 7488)", () => {
@@ -52,14 +54,23 @@ describe("alveolarPO2 — simplified alveolar gas equation (Fenn, Rahn & Otis 19
 
   it("uses the stated barometric pressure, water vapour pressure and R", () => {
     const pb = barometricPressureAtAltitude(3000);
-    expect(alveolarPO2({ fio2: 0.21, paco2: 35, barometricPressure: pb, waterVapourPressure: 47, respiratoryQuotient: 1 })).toBeCloseTo(
-      0.21 * (pb - 47) - 35,
-      10,
-    );
+    expect(
+      alveolarPO2({
+        fio2: 0.21,
+        paco2: 35,
+        barometricPressure: pb,
+        waterVapourPressure: 47,
+        respiratoryQuotient: 1,
+      }),
+    ).toBeCloseTo(0.21 * (pb - 47) - 35, 10);
   });
 
   it("gives ≈ 60 mmHg on room air at 3000 m with PaCO2 35 (altitude physiology, common practice)", () => {
-    const value = alveolarPO2({ fio2: 0.21, paco2: 35, barometricPressure: barometricPressureAtAltitude(3000) });
+    const value = alveolarPO2({
+      fio2: 0.21,
+      paco2: 35,
+      barometricPressure: barometricPressureAtAltitude(3000),
+    });
     expect(value).toBeGreaterThan(55);
     expect(value).toBeLessThan(62);
   });

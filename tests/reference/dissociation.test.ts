@@ -13,9 +13,12 @@ const ellis1989 = (so2: number) => {
 };
 
 describe("saturationFromPO2 — Severinghaus 1979", () => {
-  it.each([1, 10, 26.8, 40, 60, 80, 100, 150, 300, 600, 800])("follows the published equation at PO2 %s mmHg", (po2) => {
-    expect(saturationFromPO2(po2)).toBeCloseTo(severinghaus1979(po2), 12);
-  });
+  it.each([1, 10, 26.8, 40, 60, 80, 100, 150, 300, 600, 800])(
+    "follows the published equation at PO2 %s mmHg",
+    (po2) => {
+      expect(saturationFromPO2(po2)).toBeCloseTo(severinghaus1979(po2), 12);
+    },
+  );
 
   // Standard-curve anchor points (37 °C, pH 7.40), Severinghaus 1979 table,
   // recalled from memory; tolerance ±1 % saturation, the equation's stated fit
@@ -43,24 +46,37 @@ describe("saturationFromPO2 — Severinghaus 1979", () => {
 });
 
 describe("po2FromSaturation — Ellis 1989 inverse", () => {
-  it.each([0.001, 0.05, 0.3, 0.5, 0.75, 0.9, 0.97, 0.99, 0.9999])("matches the published Cardano form at SO2 %s", (so2) => {
-    const expected = ellis1989(so2);
-    expect(Math.abs(po2FromSaturation(so2) - expected)).toBeLessThanOrEqual(1e-9 * expected + 1e-9);
-  });
+  it.each([0.001, 0.05, 0.3, 0.5, 0.75, 0.9, 0.97, 0.99, 0.9999])(
+    "matches the published Cardano form at SO2 %s",
+    (so2) => {
+      const expected = ellis1989(so2);
+      expect(Math.abs(po2FromSaturation(so2) - expected)).toBeLessThanOrEqual(
+        1e-9 * expected + 1e-9,
+      );
+    },
+  );
 
-  it.each([0.1, 0.5, 0.9, 0.99])("solves the Severinghaus cubic PO2³ + 150·PO2 = 23400·S/(1 − S) at SO2 %s", (so2) => {
-    const po2 = po2FromSaturation(so2);
-    const rightSide = (23400 * so2) / (1 - so2);
-    expect(Math.abs(po2 ** 3 + 150 * po2 - rightSide) / rightSide).toBeLessThan(1e-12);
-  });
+  it.each([0.1, 0.5, 0.9, 0.99])(
+    "solves the Severinghaus cubic PO2³ + 150·PO2 = 23400·S/(1 − S) at SO2 %s",
+    (so2) => {
+      const po2 = po2FromSaturation(so2);
+      const rightSide = (23400 * so2) / (1 - so2);
+      expect(Math.abs(po2 ** 3 + 150 * po2 - rightSide) / rightSide).toBeLessThan(1e-12);
+    },
+  );
 
   // Severinghaus 1979 also published an approximate empirical inverse,
   // PO2 = exp(0.385·ln((1/S − 1)⁻¹) + 3.32 − (72·S)⁻¹ − S⁶/6) — recalled from
   // memory. The exact inverse must agree with it within 1 mmHg between 30 and 97 %.
-  it.each([0.3, 0.5, 0.75, 0.9, 0.97])("agrees within 1 mmHg with Severinghaus's approximate inverse at SO2 %s", (so2) => {
-    const approximate = Math.exp(0.385 * Math.log(1 / (1 / so2 - 1)) + 3.32 - 1 / (72 * so2) - so2 ** 6 / 6);
-    expect(Math.abs(po2FromSaturation(so2) - approximate)).toBeLessThan(1);
-  });
+  it.each([0.3, 0.5, 0.75, 0.9, 0.97])(
+    "agrees within 1 mmHg with Severinghaus's approximate inverse at SO2 %s",
+    (so2) => {
+      const approximate = Math.exp(
+        0.385 * Math.log(1 / (1 / so2 - 1)) + 3.32 - 1 / (72 * so2) - so2 ** 6 / 6,
+      );
+      expect(Math.abs(po2FromSaturation(so2) - approximate)).toBeLessThan(1);
+    },
+  );
 
   it("gives about 60 mmHg at 90 % and 40 mmHg at 75 % (bedside anchors, common practice)", () => {
     expect(po2FromSaturation(0.9)).toBeGreaterThan(57);

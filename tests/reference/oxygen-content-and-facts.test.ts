@@ -11,7 +11,10 @@ import {
 
 describe("oxygenContent — content equation (standard physiology texts; common practice)", () => {
   it("is 1.34 × Hb × SO2 + 0.003 × PO2 mL/dL", () => {
-    expect(oxygenContent({ hemoglobin: 15, saturation: 0.98, po2: 100 })).toBeCloseTo(1.34 * 15 * 0.98 + 0.003 * 100, 12);
+    expect(oxygenContent({ hemoglobin: 15, saturation: 0.98, po2: 100 })).toBeCloseTo(
+      1.34 * 15 * 0.98 + 0.003 * 100,
+      12,
+    );
   });
 
   it("gives ≈ 20 mL/dL for normal arterial blood (Hb 15, SaO2 97.5 %, PaO2 100; common practice)", () => {
@@ -46,7 +49,10 @@ describe("facts of the trade (common practice, no single source)", () => {
   });
 
   it("O2, about 21 % of dry air, has a partial pressure of about 159–160 mmHg at sea level", () => {
-    const po2 = partialPressure({ fraction: 0.2095, totalPressure: barometricPressureAtAltitude(0) });
+    const po2 = partialPressure({
+      fraction: 0.2095,
+      totalPressure: barometricPressureAtAltitude(0),
+    });
     expect(po2).toBeGreaterThanOrEqual(159);
     expect(po2).toBeLessThanOrEqual(160);
   });
@@ -58,7 +64,10 @@ describe("facts of the trade (common practice, no single source)", () => {
   });
 
   it("the partial pressures of dry air add up to the barometric pressure (Dalton's law)", () => {
-    const total = [0.7808, 0.2095, 0.0093, 0.0004].reduce((sum, fraction) => sum + partialPressure({ fraction, totalPressure: 760 }), 0);
+    const total = [0.7808, 0.2095, 0.0093, 0.0004].reduce(
+      (sum, fraction) => sum + partialPressure({ fraction, totalPressure: 760 }),
+      0,
+    );
     expect(total).toBeCloseTo(760, 6);
   });
 
@@ -82,17 +91,35 @@ describe("facts of the trade (common practice, no single source)", () => {
     [15, 90],
     [15, 100],
     [14, 100],
-  ])("bound O2 outweighs dissolved about 65–90 times at Hb %s g/dL and PaO2 %s mmHg", (hemoglobin, po2) => {
-    const { bound, dissolved } = oxygenContentParts({ hemoglobin, saturation: saturationFromPO2(po2), po2 });
-    // Recomputed from the content equation itself:
-    expect(bound / dissolved).toBeCloseTo((1.34 * hemoglobin * saturationFromPO2(po2)) / (0.003 * po2), 10);
-    expect(bound / dissolved).toBeGreaterThanOrEqual(60);
-    expect(bound / dissolved).toBeLessThanOrEqual(90);
-  });
+  ])(
+    "bound O2 outweighs dissolved about 65–90 times at Hb %s g/dL and PaO2 %s mmHg",
+    (hemoglobin, po2) => {
+      const { bound, dissolved } = oxygenContentParts({
+        hemoglobin,
+        saturation: saturationFromPO2(po2),
+        po2,
+      });
+      // Recomputed from the content equation itself:
+      expect(bound / dissolved).toBeCloseTo(
+        (1.34 * hemoglobin * saturationFromPO2(po2)) / (0.003 * po2),
+        10,
+      );
+      expect(bound / dissolved).toBeGreaterThanOrEqual(60);
+      expect(bound / dissolved).toBeLessThanOrEqual(90);
+    },
+  );
 
   it("breathing 100 % O2 adds little content once haemoglobin is saturated: dissolved O2 rises ≈ 1.7 mL/dL from PaO2 100 to 663", () => {
-    const air = oxygenContentParts({ hemoglobin: 15, saturation: saturationFromPO2(100), po2: 100 });
-    const oxygen = oxygenContentParts({ hemoglobin: 15, saturation: saturationFromPO2(663), po2: 663 });
+    const air = oxygenContentParts({
+      hemoglobin: 15,
+      saturation: saturationFromPO2(100),
+      po2: 100,
+    });
+    const oxygen = oxygenContentParts({
+      hemoglobin: 15,
+      saturation: saturationFromPO2(663),
+      po2: 663,
+    });
     expect(oxygen.dissolved - air.dissolved).toBeCloseTo(0.003 * 563, 10);
     expect(oxygen.bound - air.bound).toBeLessThan(0.5);
   });

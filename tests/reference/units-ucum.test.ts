@@ -1,6 +1,13 @@
 import { createRequire } from "node:module";
 import { describe, expect, it } from "vitest";
-import { formatPressure, fromGramsPerDecilitre, fromMmHg, HEMOGLOBIN_MONOMER_MOLAR_MASS, toGramsPerDecilitre, toMmHg } from "@/lib/oxygen";
+import {
+  formatPressure,
+  fromGramsPerDecilitre,
+  fromMmHg,
+  HEMOGLOBIN_MONOMER_MOLAR_MASS,
+  toGramsPerDecilitre,
+  toMmHg,
+} from "@/lib/oxygen";
 
 // Cross-check against the NLM's UCUM implementation (@lhncbc/ucum-lhc), whose
 // definitions come from the UCUM specification, not from the engine's constants.
@@ -14,7 +21,12 @@ interface UcumConversion {
 interface UcumPackage {
   UcumLhcUtils: {
     getInstance(): {
-      convertUnitTo(from: string, value: number, to: string, options?: { molecularWeight?: number }): UcumConversion;
+      convertUnitTo(
+        from: string,
+        value: number,
+        to: string,
+        options?: { molecularWeight?: number },
+      ): UcumConversion;
     };
   };
 }
@@ -22,14 +34,21 @@ const ucum = createRequire(import.meta.url)("@lhncbc/ucum-lhc") as UcumPackage;
 const utils = ucum.UcumLhcUtils.getInstance();
 
 function convert(from: string, value: number, to: string, molecularWeight?: number): number {
-  const result = utils.convertUnitTo(from, value, to, molecularWeight === undefined ? {} : { molecularWeight });
-  if (result.status !== "succeeded" || result.toVal === null) throw new Error(`UCUM: ${result.msg.join("; ")}`);
+  const result = utils.convertUnitTo(
+    from,
+    value,
+    to,
+    molecularWeight === undefined ? {} : { molecularWeight },
+  );
+  if (result.status !== "succeeded" || result.toVal === null)
+    throw new Error(`UCUM: ${result.msg.join("; ")}`);
   return result.toVal;
 }
 
 // UCUM defines mm[Hg] as 0.133322 kPa (six digits), so agreement is to about 1e-5.
 const RELATIVE = 1e-5;
-const close = (actual: number, expected: number) => expect(Math.abs(actual - expected) / Math.abs(expected)).toBeLessThan(RELATIVE);
+const close = (actual: number, expected: number) =>
+  expect(Math.abs(actual - expected) / Math.abs(expected)).toBeLessThan(RELATIVE);
 
 describe("pressure units against UCUM (mm[Hg], kPa)", () => {
   it.each([1, 7.5, 40, 100, 760])("%s mmHg in kPa", (mmHg) => {
@@ -52,7 +71,10 @@ describe("pressure units against UCUM (mm[Hg], kPa)", () => {
 
 describe("haemoglobin units against UCUM (g/dL, g/L, mmol/L)", () => {
   it.each([5, 12, 15.5])("%s g/dL in g/L", (gramsPerDecilitre) => {
-    close(fromGramsPerDecilitre(gramsPerDecilitre, "g/L"), convert("g/dL", gramsPerDecilitre, "g/L"));
+    close(
+      fromGramsPerDecilitre(gramsPerDecilitre, "g/L"),
+      convert("g/dL", gramsPerDecilitre, "g/L"),
+    );
     close(toGramsPerDecilitre(convert("g/dL", gramsPerDecilitre, "g/L"), "g/L"), gramsPerDecilitre);
   });
 

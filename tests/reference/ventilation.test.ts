@@ -1,5 +1,11 @@
 import { describe, expect, it } from "vitest";
-import { drivingPressure, mechanicalPower, predictedBodyWeight, staticCompliance, tidalVolumePerKilogram } from "@/lib/oxygen";
+import {
+  drivingPressure,
+  mechanicalPower,
+  predictedBodyWeight,
+  staticCompliance,
+  tidalVolumePerKilogram,
+} from "@/lib/oxygen";
 
 describe("predictedBodyWeight — ARDS Network, NEJM 2000", () => {
   it.each([
@@ -21,12 +27,20 @@ describe("predictedBodyWeight — ARDS Network, NEJM 2000", () => {
     ["male", 76],
   ] as const)("agrees with the inch form of the protocol card for a %s of %s in", (sex, inches) => {
     const inchForm = (sex === "male" ? 50 : 45.5) + 2.3 * (inches - 60);
-    expect(Math.abs(predictedBodyWeight({ heightCm: inches * 2.54, sex }) - inchForm)).toBeLessThan(0.2);
+    expect(Math.abs(predictedBodyWeight({ heightCm: inches * 2.54, sex }) - inchForm)).toBeLessThan(
+      0.2,
+    );
   });
 
   it("gives 6 mL/kg PBW for a 420 mL tidal volume in a 175 cm man (ARMA target; ≈ 70.6 kg)", () => {
-    expect(tidalVolumePerKilogram({ tidalVolumeMl: 420, heightCm: 175, sex: "male" })).toBeCloseTo(420 / (50 + 0.91 * 22.6), 10);
-    expect(tidalVolumePerKilogram({ tidalVolumeMl: 420, heightCm: 175, sex: "male" })).toBeCloseTo(6, 0);
+    expect(tidalVolumePerKilogram({ tidalVolumeMl: 420, heightCm: 175, sex: "male" })).toBeCloseTo(
+      420 / (50 + 0.91 * 22.6),
+      10,
+    );
+    expect(tidalVolumePerKilogram({ tidalVolumeMl: 420, heightCm: 175, sex: "male" })).toBeCloseTo(
+      6,
+      0,
+    );
   });
 });
 
@@ -36,7 +50,10 @@ describe("drivingPressure and staticCompliance (Amato et al., NEJM 2015; respira
   });
 
   it("static compliance is VT / (Pplat − PEEP): 450 mL over 15 cmH2O → 30 mL/cmH2O", () => {
-    expect(staticCompliance({ tidalVolumeMl: 450, plateauPressure: 27, peep: 12 })).toBeCloseTo(30, 12);
+    expect(staticCompliance({ tidalVolumeMl: 450, plateauPressure: 27, peep: 12 })).toBeCloseTo(
+      30,
+      12,
+    );
   });
 
   it("a healthy passive respiratory system (VT 500 mL, ΔP 8) is in the normal 50–100 mL/cmH2O band (common practice)", () => {
@@ -49,14 +66,25 @@ describe("drivingPressure and staticCompliance (Amato et al., NEJM 2015; respira
 describe("mechanicalPower — Gattinoni et al., Intensive Care Med 2016, simplified equation", () => {
   it("is 0.098 × RR × VT (L) × (Ppeak − ½ × ΔP)", () => {
     const expected = 0.098 * 20 * 0.5 * (30 - 0.5 * (25 - 10));
-    expect(mechanicalPower({ respiratoryRate: 20, tidalVolumeMl: 500, peakPressure: 30, plateauPressure: 25, peep: 10 })).toBeCloseTo(
-      expected,
-      12,
-    );
+    expect(
+      mechanicalPower({
+        respiratoryRate: 20,
+        tidalVolumeMl: 500,
+        peakPressure: 30,
+        plateauPressure: 25,
+        peep: 10,
+      }),
+    ).toBeCloseTo(expected, 12);
   });
 
   it("falls in the 10–20 J/min range usually reported for protective ventilation (RR 18, VT 420, Ppeak 28, Pplat 24, PEEP 10; common practice)", () => {
-    const value = mechanicalPower({ respiratoryRate: 18, tidalVolumeMl: 420, peakPressure: 28, plateauPressure: 24, peep: 10 });
+    const value = mechanicalPower({
+      respiratoryRate: 18,
+      tidalVolumeMl: 420,
+      peakPressure: 28,
+      plateauPressure: 24,
+      peep: 10,
+    });
     expect(value).toBeGreaterThan(10);
     expect(value).toBeLessThan(20);
   });

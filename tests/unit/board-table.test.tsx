@@ -71,7 +71,17 @@ describe("Board table", () => {
       <BoardTable
         rows={[
           row,
-          { ...row, bedId: 2, patientId: 7, alerts: { open: 2, unacknowledged: 1, urgent: true, kinds: ["below_band", "limits_exhausted"] } },
+          {
+            ...row,
+            bedId: 2,
+            patientId: 7,
+            alerts: {
+              open: 2,
+              unacknowledged: 1,
+              urgent: true,
+              kinds: ["below_band", "limits_exhausted"],
+            },
+          },
         ]}
         caption="beds"
         sort={sort}

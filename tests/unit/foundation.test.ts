@@ -62,7 +62,11 @@ describe("ledger hash", () => {
     const changed = { ...base } as Record<string, unknown>;
     const v = base[key];
     changed[key] =
-      v instanceof Date ? new Date(v.getTime() + 1) : typeof v === "number" ? v + 1 : `${String(v)}x`;
+      v instanceof Date
+        ? new Date(v.getTime() + 1)
+        : typeof v === "number"
+          ? v + 1
+          : `${String(v)}x`;
     expect(hashLedgerEntry(changed as HashedLedgerFields)).not.toBe(hashLedgerEntry(base));
   });
 
@@ -90,7 +94,12 @@ describe("user schemas", () => {
   });
 
   it("names each refused field with its allowed range in words", () => {
-    const result = userCreateSchema.safeParse({ ...valid, role: "wizard", password: "short", unitIds: [] });
+    const result = userCreateSchema.safeParse({
+      ...valid,
+      role: "wizard",
+      password: "short",
+      unitIds: [],
+    });
     expect(result.success).toBe(false);
     const fields = toFieldErrors(result.error!);
     expect(fields.role?.[0]).toMatch(/physician, therapist, nurse, reviewer, admin/);
@@ -107,7 +116,9 @@ describe("user schemas", () => {
 
   it("asks for the administrator's own password on every change", () => {
     const result = userCreateSchema.safeParse({ ...valid, currentPassword: "" });
-    expect(toFieldErrors(result.error!).currentPassword).toEqual(["Enter your own password to confirm the change."]);
+    expect(toFieldErrors(result.error!).currentPassword).toEqual([
+      "Enter your own password to confirm the change.",
+    ]);
   });
 });
 

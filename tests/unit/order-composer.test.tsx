@@ -1,7 +1,11 @@
 import { fireEvent, render, screen, waitFor, within } from "@testing-library/react";
 import type { AnchorHTMLAttributes } from "react";
 import { beforeEach, describe, expect, it, vi } from "vitest";
-import { OrderComposer, type PhysicianChoice, type StepTableChoice } from "@/components/orders/OrderComposer";
+import {
+  OrderComposer,
+  type PhysicianChoice,
+  type StepTableChoice,
+} from "@/components/orders/OrderComposer";
 import type { ActionResult } from "@/lib/action-result";
 import type { OrderView } from "@/lib/orders/queries";
 
@@ -48,7 +52,8 @@ const CURRENT: OrderView = {
   readBackConfirmed: false,
   signedBy: { id: 1, name: "Dr Ines Varga" },
   signedAt: "2026-12-01T08:00:00.000Z",
-  signatureMeaning: "I am the prescriber of this oxygen order and I have reviewed it for this patient.",
+  signatureMeaning:
+    "I am the prescriber of this oxygen order and I have reviewed it for this patient.",
   cosignedBy: null,
   cosignedAt: null,
   discontinuedBy: null,
@@ -77,8 +82,10 @@ function renderComposer(over: Partial<Parameters<typeof OrderComposer>[0]> = {})
 }
 
 const input = (label: string) => screen.getByLabelText(label, { exact: true }) as HTMLInputElement;
-const type = (label: string, value: string) => fireEvent.change(input(label), { target: { value } });
-const sentInputs = () => writeOrderAction.mock.calls.map(([sent]) => sent as Record<string, unknown>);
+const type = (label: string, value: string) =>
+  fireEvent.change(input(label), { target: { value } });
+const sentInputs = () =>
+  writeOrderAction.mock.calls.map(([sent]) => sent as Record<string, unknown>);
 
 beforeEach(() => {
   writeOrderAction.mockReset();
@@ -98,7 +105,10 @@ describe("OrderComposer", () => {
     expect(input("PEEP maximum (cmH2O)").value).toBe("14");
     expect(screen.queryByLabelText("Flow minimum (L/min)")).toBeNull();
     const tables = within(screen.getByLabelText("Step table")).getAllByRole("option");
-    expect(tables.map((o) => o.textContent)).toEqual(["None", "ARDS Network lower PEEP / higher FiO2 (built-in)"]);
+    expect(tables.map((o) => o.textContent)).toEqual([
+      "None",
+      "ARDS Network lower PEEP / higher FiO2 (built-in)",
+    ]);
 
     fireEvent.change(screen.getByLabelText("Delivery device"), { target: { value: "hfnc" } });
     expect(input("Flow minimum (L/min)").value).toBe("30");
@@ -184,16 +194,21 @@ describe("OrderComposer", () => {
     fireEvent.click(screen.getByRole("button", { name: "Sign order" }));
     const alert = await screen.findByRole("alert");
     expect(alert.textContent).toContain("Another order (#43, by Dr Tobias Renwick)");
-    expect(within(alert).getByRole("link", { name: /Reload this page/ }).getAttribute("href")).toBe(
-      "/patients/7/orders/new",
-    );
+    expect(
+      within(alert)
+        .getByRole("link", { name: /Reload this page/ })
+        .getAttribute("href"),
+    ).toBe("/patients/7/orders/new");
     fireEvent.click(within(alert).getByRole("button", { name: /Show the order now in effect/ }));
     expect(refresh).toHaveBeenCalled();
     expect(input("Rationale").value).toBe("Step down, saturations high");
   });
 
   it("asks a nurse for the physician and the read-back naming them, and sends a telephone order", async () => {
-    writeOrderAction.mockResolvedValueOnce({ ok: true, data: { ...CURRENT, id: 44, status: "awaiting_cosign" } });
+    writeOrderAction.mockResolvedValueOnce({
+      ok: true,
+      data: { ...CURRENT, id: 44, status: "awaiting_cosign" },
+    });
     renderComposer({ signer: "other", currentOrder: CURRENT });
     expect(screen.queryByLabelText("Password to sign")).toBeNull();
     type("Rationale", "Telephone order from the registrar");
@@ -204,9 +219,13 @@ describe("OrderComposer", () => {
     expect(writeOrderAction).not.toHaveBeenCalled();
 
     const select = screen.getByLabelText("Ordering physician");
-    expect(within(select).getAllByRole("option")[1]?.textContent).toBe("Dr Tobias Renwick (on duty for this bed)");
+    expect(within(select).getAllByRole("option")[1]?.textContent).toBe(
+      "Dr Tobias Renwick (on duty for this bed)",
+    );
     fireEvent.change(select, { target: { value: "1" } });
-    fireEvent.click(screen.getByLabelText("I read the order back to Dr Ines Varga and they confirmed it."));
+    fireEvent.click(
+      screen.getByLabelText("I read the order back to Dr Ines Varga and they confirmed it."),
+    );
     fireEvent.click(screen.getByRole("button", { name: "Enter telephone order" }));
     await waitFor(() => expect(push).toHaveBeenCalledWith("/patients/7"));
     expect(sentInputs()[0]).toMatchObject({

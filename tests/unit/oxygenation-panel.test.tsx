@@ -37,8 +37,12 @@ describe("OxygenationPanel", () => {
     // CaO2 = 1.34 × 12 × SaO2 + 0.003 × 80 with SaO2 from SpO2 0.95: 15.28 + 0.24 = 15.5 mL/dL.
     const content = card("Arterial O2 content (CaO2)");
     expect(content.textContent).toContain("15.5 mL/dL");
-    expect(within(content).getByText("Dissolved").nextElementSibling?.textContent).toBe("0.24 mL/dL");
-    expect(within(content).getByText("Bound : dissolved").nextElementSibling?.textContent).toBe("64 : 1");
+    expect(within(content).getByText("Dissolved").nextElementSibling?.textContent).toBe(
+      "0.24 mL/dL",
+    );
+    expect(within(content).getByText("Bound : dissolved").nextElementSibling?.textContent).toBe(
+      "64 : 1",
+    );
     expect(card("ROX index")).toBeTruthy();
     // Berlin 2012: 100 < P/F 200 ≤ 200 with PEEP 10 cmH2O, intubated → moderate.
     expect(screen.getByTestId("berlin-category").textContent).toContain("Moderate");
@@ -52,23 +56,31 @@ describe("OxygenationPanel", () => {
     // The worse band, moderate by P/F, is reported.
     const global = screen.getByTestId("global-category");
     expect(global.textContent).toContain("Moderate");
-    expect(within(global).getByTestId("global-classified-by").textContent).toBe("Classified by: P/F ratio");
+    expect(within(global).getByTestId("global-classified-by").textContent).toBe(
+      "Classified by: P/F ratio",
+    );
     expect(global.textContent).toContain("S/F 238 would be mild");
   });
 
   it("shows S/F as the classifier when its band is the worse", () => {
     // FiO2 0.6: P/F 62 / 0.6 = 103.3 (moderate); S/F 88 / 0.6 = 146.7 (≤ 148: severe).
     const sfWorse: BloodGasInput = { ...input, fio2: 0.6, pao2: 62, spo2: 88 };
-    render(<OxygenationPanel assessment={assessBloodGas(sfWorse)} input={sfWorse} pressureUnit="mmHg" />);
+    render(
+      <OxygenationPanel assessment={assessBloodGas(sfWorse)} input={sfWorse} pressureUnit="mmHg" />,
+    );
     const global = screen.getByTestId("global-category");
     expect(global.textContent).toContain("Severe");
-    expect(within(global).getByTestId("global-classified-by").textContent).toBe("Classified by: S/F ratio");
+    expect(within(global).getByTestId("global-classified-by").textContent).toBe(
+      "Classified by: S/F ratio",
+    );
   });
 
   it("shows no classifier when the global definition cannot classify", () => {
     // Low-flow oxygen is outside the global definition's respiratory support.
     const lowFlow: BloodGasInput = { ...input, support: "conventional", peep: undefined };
-    render(<OxygenationPanel assessment={assessBloodGas(lowFlow)} input={lowFlow} pressureUnit="mmHg" />);
+    render(
+      <OxygenationPanel assessment={assessBloodGas(lowFlow)} input={lowFlow} pressureUnit="mmHg" />,
+    );
     const global = screen.getByTestId("global-category");
     expect(global.textContent).toContain("Not classifiable");
     expect(within(global).queryByTestId("global-classified-by")).toBeNull();
@@ -98,12 +110,16 @@ describe("OxygenationPanel", () => {
     const range = screen.getByTestId("forecast-range");
     // The default proposal is one 0.10 step below the measured FiO2.
     const at30 = forecastFio2Change({ ...input, hemoglobin: 12, nextFio2: 0.3 }).range;
-    expect(range.textContent).toContain(`PaO2 forecast ${Math.round(at30.low.pao2)}–${Math.round(at30.high.pao2)} mmHg`);
+    expect(range.textContent).toContain(
+      `PaO2 forecast ${Math.round(at30.low.pao2)}–${Math.round(at30.high.pao2)} mmHg`,
+    );
     expect(range.textContent).toMatch(/SpO2 forecast \d+–\d+ %/);
 
     fireEvent.change(screen.getByLabelText("Proposed FiO2 (%)"), { target: { value: "60" } });
     const at60 = forecastFio2Change({ ...input, hemoglobin: 12, nextFio2: 0.6 }).range;
-    expect(range.textContent).toContain(`PaO2 forecast ${Math.round(at60.low.pao2)}–${Math.round(at60.high.pao2)} mmHg`);
+    expect(range.textContent).toContain(
+      `PaO2 forecast ${Math.round(at60.low.pao2)}–${Math.round(at60.high.pao2)} mmHg`,
+    );
     expect(at60.high.pao2).toBeGreaterThan(at60.low.pao2);
 
     fireEvent.change(screen.getByLabelText("Proposed FiO2 (%)"), { target: { value: "15" } });
@@ -115,13 +131,17 @@ describe("OxygenationPanel", () => {
     expect(screen.getByRole("note").textContent).toMatch(/decision support/);
     expect(screen.getByText(/A PEEP change is not forecast numerically/)).toBeTruthy();
     // ROX without HFNC support: the engine's caveat is shown as given.
-    expect(screen.getByText("The ROX index is validated on high-flow nasal oxygen only.")).toBeTruthy();
+    expect(
+      screen.getByText("The ROX index is validated on high-flow nasal oxygen only."),
+    ).toBeTruthy();
   });
 
   it("gives both charts a title, a description and a table of the plotted values", () => {
     render(<OxygenationPanel assessment={assessment} input={input} pressureUnit="mmHg" />);
     const forecastChart = screen.getByRole("img", { name: /PaO2 forecast against FiO2/ });
-    expect(forecastChart.querySelector("desc")?.textContent).toMatch(/At the proposed FiO2 0\.30 the models give PaO2 \d+–\d+ mmHg/);
+    expect(forecastChart.querySelector("desc")?.textContent).toMatch(
+      /At the proposed FiO2 0\.30 the models give PaO2 \d+–\d+ mmHg/,
+    );
     expect(screen.getByRole("img", { name: /Oxyhaemoglobin dissociation curve/ })).toBeTruthy();
     const table = screen.getByRole("table", { name: "Forecast PaO2 (mmHg) by model at each FiO2" });
     expect(within(table).getByRole("columnheader", { name: "Shunt model" })).toBeTruthy();

@@ -57,9 +57,17 @@ describe("assess request: units", () => {
   });
 
   it("converts haemoglobin from g/L and mmol/L to g/dL", () => {
-    const inGramsPerLitre = assessRequestSchema.parse({ ...valid, hemoglobin: 120, hemoglobinUnit: "g/L" });
+    const inGramsPerLitre = assessRequestSchema.parse({
+      ...valid,
+      hemoglobin: 120,
+      hemoglobinUnit: "g/L",
+    });
     expect(inGramsPerLitre.input.hemoglobin).toBeCloseTo(12, 10);
-    const inMillimoles = assessRequestSchema.parse({ ...valid, hemoglobin: 8, hemoglobinUnit: "mmol/L" });
+    const inMillimoles = assessRequestSchema.parse({
+      ...valid,
+      hemoglobin: 8,
+      hemoglobinUnit: "mmol/L",
+    });
     // The published factor has four significant digits: agreement to 1 part in 10 000.
     const expected = 8 / MMOL_PER_L_PER_G_PER_DL_PUBLISHED;
     expect(Math.abs((inMillimoles.input.hemoglobin ?? 0) - expected) / expected).toBeLessThan(1e-4);
@@ -76,7 +84,12 @@ describe("assess request: units", () => {
 
 describe("assess request: refusals name the field and the range in the unit typed", () => {
   it("states the PaO2 range in kPa when kPa was typed", () => {
-    const errors = fieldErrorsOf(assessRequestSchema, { ...valid, pressureUnit: "kPa", pao2: 100, paco2: 5.3 });
+    const errors = fieldErrorsOf(assessRequestSchema, {
+      ...valid,
+      pressureUnit: "kPa",
+      pao2: 100,
+      paco2: 5.3,
+    });
     // 10–700 mmHg is 1.333…–93.326… kPa; rounded inward so every allowed value is accepted.
     expect(errors.pao2).toEqual(["PaO2 must be between 1.34 and 93.32 kPa."]);
   });
@@ -94,21 +107,37 @@ describe("assess request: refusals name the field and the range in the unit type
       expect(parsed.input.pao2).toBeGreaterThanOrEqual(RANGES.pao2.min);
       expect(parsed.input.pao2).toBeLessThanOrEqual(RANGES.pao2.max);
     }
-    expect(fieldErrorsOf(assessRequestSchema, { ...valid, pressureUnit: "kPa", paco2: 5.3, pao2: min - 0.01 }).pao2).toBeDefined();
-    expect(fieldErrorsOf(assessRequestSchema, { ...valid, pressureUnit: "kPa", paco2: 5.3, pao2: max + 0.01 }).pao2).toBeDefined();
+    expect(
+      fieldErrorsOf(assessRequestSchema, {
+        ...valid,
+        pressureUnit: "kPa",
+        paco2: 5.3,
+        pao2: min - 0.01,
+      }).pao2,
+    ).toBeDefined();
+    expect(
+      fieldErrorsOf(assessRequestSchema, {
+        ...valid,
+        pressureUnit: "kPa",
+        paco2: 5.3,
+        pao2: max + 0.01,
+      }).pao2,
+    ).toBeDefined();
   });
 
   it("states haemoglobin ranges in g/L and mmol/L", () => {
-    expect(fieldErrorsOf(assessRequestSchema, { ...valid, hemoglobin: 12, hemoglobinUnit: "g/L" }).hemoglobin).toEqual([
-      "Haemoglobin must be between 30 and 250 g/L.",
-    ]);
+    expect(
+      fieldErrorsOf(assessRequestSchema, { ...valid, hemoglobin: 12, hemoglobinUnit: "g/L" })
+        .hemoglobin,
+    ).toEqual(["Haemoglobin must be between 30 and 250 g/L."]);
     const mmol = hemoglobinRangeIn("mmol/L");
     // 3–25 g/dL × 0.6206 = 1.86–15.52 mmol/L, rounded inward.
     expect(mmol.min).toBeCloseTo(1.87, 10);
     expect(mmol.max).toBeCloseTo(15.51, 10);
-    expect(fieldErrorsOf(assessRequestSchema, { ...valid, hemoglobin: 20, hemoglobinUnit: "mmol/L" }).hemoglobin).toEqual([
-      "Haemoglobin must be between 1.87 and 15.51 mmol/L.",
-    ]);
+    expect(
+      fieldErrorsOf(assessRequestSchema, { ...valid, hemoglobin: 20, hemoglobinUnit: "mmol/L" })
+        .hemoglobin,
+    ).toEqual(["Haemoglobin must be between 1.87 and 15.51 mmol/L."]);
   });
 
   it("refuses FiO2 typed as a percentage, saying it is a fraction", () => {
@@ -118,7 +147,12 @@ describe("assess request: refusals name the field and the range in the unit type
   });
 
   it("names every refused field at once, including missing and non-numeric ones", () => {
-    const errors = fieldErrorsOf(assessRequestSchema, { pressureUnit: "kPa", pao2: "high", paco2: 30, spo2: 130 });
+    const errors = fieldErrorsOf(assessRequestSchema, {
+      pressureUnit: "kPa",
+      pao2: "high",
+      paco2: 30,
+      spo2: 130,
+    });
     expect(errors.fio2).toEqual(["Enter FiO2."]);
     expect(errors.pao2).toEqual(["PaO2 must be a number."]);
     expect(errors.paco2).toEqual(["PaCO2 must be between 1.34 and 19.99 kPa."]);
@@ -126,9 +160,9 @@ describe("assess request: refusals name the field and the range in the unit type
   });
 
   it("refuses an unknown unit and unknown keys", () => {
-    expect(fieldErrorsOf(assessRequestSchema, { ...valid, pressureUnit: "torr" }).pressureUnit).toEqual([
-      "Pressure unit must be mmHg or kPa.",
-    ]);
+    expect(
+      fieldErrorsOf(assessRequestSchema, { ...valid, pressureUnit: "torr" }).pressureUnit,
+    ).toEqual(["Pressure unit must be mmHg or kPa."]);
     expect(fieldErrorsOf(assessRequestSchema, { ...valid, age: 70 })._form?.[0]).toMatch(/age/);
   });
 });
@@ -145,7 +179,10 @@ describe("the blood-gas form", () => {
   it("refuses a FiO2 percentage outside 21–100 % in the words of the form", () => {
     const result = assessFormSchema.safeParse({ fio2Percent: 0.4, pao2: 80, paco2: 40 });
     expect(result.success).toBe(false);
-    if (!result.success) expect(toFieldErrors(result.error).fio2Percent).toEqual(["FiO2 must be between 21 and 100 %."]);
+    if (!result.success)
+      expect(toFieldErrors(result.error).fio2Percent).toEqual([
+        "FiO2 must be between 21 and 100 %.",
+      ]);
   });
 
   it("leaves out an age the engine's age rule does not cover", () => {
@@ -167,9 +204,16 @@ describe("forecast request", () => {
     });
     expect(parsed.input.pao2).toBeCloseTo(10 * MMHG_PER_KPA_PUBLISHED, 3);
     expect(parsed.input.hemoglobin).toBeCloseTo(11, 10);
-    const errors = fieldErrorsOf(forecastRequestSchema, { fio2: 0.5, pao2: 70, paco2: 40, nextFio2: 140 });
+    const errors = fieldErrorsOf(forecastRequestSchema, {
+      fio2: 0.5,
+      pao2: 70,
+      paco2: 40,
+      nextFio2: 140,
+    });
     expect(errors.hemoglobin).toEqual(["Enter Haemoglobin."]);
-    expect(errors.nextFio2).toEqual(["Proposed FiO2 must be between 0.21 and 1 (a fraction: 0.4 for 40 %)."]);
+    expect(errors.nextFio2).toEqual([
+      "Proposed FiO2 must be between 0.21 and 1 (a fraction: 0.4 for 40 %).",
+    ]);
   });
 });
 
@@ -183,10 +227,18 @@ describe("engine refusals re-stated for the caller", () => {
       error = thrown;
     }
     expect(error).toBeInstanceOf(OxygenInputError);
-    const inKpa = describeInputError(error as OxygenInputError, { pressureUnit: "kPa", hemoglobinUnit: "g/dL" });
+    const inKpa = describeInputError(error as OxygenInputError, {
+      pressureUnit: "kPa",
+      hemoglobinUnit: "g/dL",
+    });
     expect(inKpa.field).toBe("paco2");
-    expect(inKpa.message).toMatch(/^PaCO2 must be between 1\.34 and 15\.86 kPa: .*leaves no alveolar oxygen\.$/);
-    const inMmHg = describeInputError(error as OxygenInputError, { pressureUnit: "mmHg", hemoglobinUnit: "g/dL" });
+    expect(inKpa.message).toMatch(
+      /^PaCO2 must be between 1\.34 and 15\.86 kPa: .*leaves no alveolar oxygen\.$/,
+    );
+    const inMmHg = describeInputError(error as OxygenInputError, {
+      pressureUnit: "mmHg",
+      hemoglobinUnit: "g/dL",
+    });
     expect(inMmHg.message).toMatch(/^PaCO2 must be between 10 and 118 mmHg: /);
   });
 });

@@ -10,7 +10,10 @@ export const metadata: Metadata = { title: "Uploads" };
 
 export default async function ImportsPage() {
   const actor = await pagePermission("import.upload");
-  const [units, recent] = await Promise.all([listUnits(db(), actor.unitIds), listImports(db(), actor)]);
+  const [units, recent] = await Promise.all([
+    listUnits(db(), actor.unitIds),
+    listImports(db(), actor),
+  ]);
   return (
     <div className="space-y-6">
       <div>

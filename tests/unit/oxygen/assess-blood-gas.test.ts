@@ -1,5 +1,11 @@
 import { describe, expect, it } from "vitest";
-import { assessBloodGas, classifyOxygenation, OxygenInputError, RANGES, SOURCES } from "@/lib/oxygen";
+import {
+  assessBloodGas,
+  classifyOxygenation,
+  OxygenInputError,
+  RANGES,
+  SOURCES,
+} from "@/lib/oxygen";
 
 const saturation = (po2: number) => 1 / (23400 / (po2 ** 3 + 150 * po2) + 1); // Severinghaus 1979
 
@@ -32,7 +38,10 @@ describe("assessBloodGas", () => {
     expect(indices.oxygenContent?.total.value).toBeCloseTo(content, 10);
     expect(indices.oxygenContent?.bound.value).toBeCloseTo(1.34 * 11 * 0.94, 10);
     expect(indices.oxygenContent?.dissolved.value).toBeCloseTo(0.225, 10);
-    expect(indices.oxygenContent?.boundToDissolvedRatio.value).toBeCloseTo((1.34 * 11 * 0.94) / 0.225, 10);
+    expect(indices.oxygenContent?.boundToDissolvedRatio.value).toBeCloseTo(
+      (1.34 * 11 * 0.94) / 0.225,
+      10,
+    );
     expect(indices.oxygenDelivery?.value).toBeCloseTo(10 * 5.5 * content, 10);
     expect(indices.oxygenationIndex?.value).toBeCloseTo((60 * 18) / 75, 10);
     expect(indices.oxygenSaturationIndex?.value).toBeCloseTo((60 * 18) / 94, 10);
@@ -43,11 +52,22 @@ describe("assessBloodGas", () => {
     const { indices } = assessBloodGas(full);
     expect(indices.alveolarPO2.basis).toMatchObject({
       formula: "PAO2 = FiO2 × (PB − PH2O) − PaCO2 / R",
-      inputs: { FiO2: { value: 0.6, unit: "fraction" }, PB: { value: 740, unit: "mmHg" }, R: { value: 0.8, unit: "ratio" } },
+      inputs: {
+        FiO2: { value: 0.6, unit: "fraction" },
+        PB: { value: 740, unit: "mmHg" },
+        R: { value: 0.8, unit: "ratio" },
+      },
       source: SOURCES.alveolarGas,
     });
-    expect(indices.oxygenationIndex?.basis.assumptions).toContain("FiO2 enters as a percentage, as published.");
-    for (const value of [indices.pfRatio, indices.sfRatio, indices.roxIndex, indices.oxygenContent?.total]) {
+    expect(indices.oxygenationIndex?.basis.assumptions).toContain(
+      "FiO2 enters as a percentage, as published.",
+    );
+    for (const value of [
+      indices.pfRatio,
+      indices.sfRatio,
+      indices.roxIndex,
+      indices.oxygenContent?.total,
+    ]) {
       expect(value?.basis.name.length).toBeGreaterThan(0);
       expect(value?.basis.source.length).toBeGreaterThan(0);
       expect(value?.unit.length).toBeGreaterThan(0);
@@ -56,17 +76,31 @@ describe("assessBloodGas", () => {
 
   it("leaves out indices whose inputs are missing", () => {
     const { indices } = assessBloodGas({ fio2: 0.4, pao2: 80, paco2: 40 });
-    expect(Object.keys(indices).sort()).toEqual(["alveolarArterialGradient", "alveolarPO2", "arterialAlveolarRatio", "pfRatio"]);
+    expect(Object.keys(indices).sort()).toEqual([
+      "alveolarArterialGradient",
+      "alveolarPO2",
+      "arterialAlveolarRatio",
+      "pfRatio",
+    ]);
   });
 
   it("takes SaO2 from co-oximetry first, then SpO2, then the standard curve", () => {
-    const measured = assessBloodGas({ fio2: 0.4, pao2: 80, paco2: 40, hemoglobin: 12, sao2: 0.93, spo2: 95 });
+    const measured = assessBloodGas({
+      fio2: 0.4,
+      pao2: 80,
+      paco2: 40,
+      hemoglobin: 12,
+      sao2: 0.93,
+      spo2: 95,
+    });
     expect(measured.indices.oxygenContent?.bound.value).toBeCloseTo(1.34 * 12 * 0.93, 10);
     const oximetry = assessBloodGas({ fio2: 0.4, pao2: 80, paco2: 40, hemoglobin: 12, spo2: 95 });
     expect(oximetry.indices.oxygenContent?.bound.value).toBeCloseTo(1.34 * 12 * 0.95, 10);
     const computed = assessBloodGas({ fio2: 0.4, pao2: 80, paco2: 40, hemoglobin: 12 });
     expect(computed.indices.oxygenContent?.bound.value).toBeCloseTo(1.34 * 12 * saturation(80), 10);
-    expect(computed.indices.oxygenContent?.total.basis.assumptions.join(" ")).toContain("Severinghaus");
+    expect(computed.indices.oxygenContent?.total.basis.assumptions.join(" ")).toContain(
+      "Severinghaus",
+    );
   });
 
   it("flags a PaO2 above PAO2 as inconsistent", () => {
@@ -78,7 +112,15 @@ describe("assessBloodGas", () => {
   });
 
   it("warns about S/F above 97 %, an SpO2 far from the PaO2, and ROX off high-flow oxygen", () => {
-    const { caveats } = assessBloodGas({ fio2: 0.4, pao2: 60, paco2: 40, spo2: 98, respiratoryRate: 20, support: "niv", peep: 6 });
+    const { caveats } = assessBloodGas({
+      fio2: 0.4,
+      pao2: 60,
+      paco2: 40,
+      spo2: 98,
+      respiratoryRate: 20,
+      support: "niv",
+      peep: 6,
+    });
     expect(caveats.some((caveat) => caveat.includes("S/F ratio is not interpretable"))).toBe(true);
     expect(caveats.some((caveat) => caveat.includes("differs from the"))).toBe(true);
     expect(caveats).toContain("The ROX index is validated on high-flow nasal oxygen only.");
@@ -98,20 +140,31 @@ describe("assessBloodGas", () => {
     );
     expect(deep.classification.global.values.sfRatio).toBeUndefined();
     expect(assessBloodGas({ ...full, spo2: 0 }).indices.sfRatio).toBeUndefined();
-    expect(assessBloodGas(full).caveats.some((c) => c.includes("below oximeter accuracy"))).toBe(false);
+    expect(assessBloodGas(full).caveats.some((c) => c.includes("below oximeter accuracy"))).toBe(
+      false,
+    );
   });
 
   it("includes the Berlin and global classification of the same inputs", () => {
     const { classification } = assessBloodGas(full);
     expect(classification).toEqual(
-      classifyOxygenation({ pao2: 75, spo2: 94, fio2: 0.6, peep: 12, support: "invasive", barometricPressure: 740 }),
+      classifyOxygenation({
+        pao2: 75,
+        spo2: 94,
+        fio2: 0.6,
+        peep: 12,
+        support: "invasive",
+        barometricPressure: 740,
+      }),
     );
     expect(classification.berlin.category).toBe("moderate");
   });
 
   it("refuses an out-of-range input even when no index would use it", () => {
     // Cardiac output without haemoglobin yields no DO2, but a typo is still a typo.
-    expect(() => assessBloodGas({ fio2: 0.4, pao2: 80, paco2: 40, cardiacOutput: 55 })).toThrowError(
+    expect(() =>
+      assessBloodGas({ fio2: 0.4, pao2: 80, paco2: 40, cardiacOutput: 55 }),
+    ).toThrowError(
       new OxygenInputError({ field: "cardiacOutput", value: 55, ...RANGES.cardiacOutput }),
     );
   });

@@ -39,7 +39,13 @@ describe("OxygenInputError", () => {
     expect(error.message).toBe("fio2 must be between 0.21 and 1 (fraction); got 1.4");
     expect(error).toBeInstanceOf(Error);
     expect(error.name).toBe("OxygenInputError");
-    expect({ field: error.field, min: error.min, max: error.max, unit: error.unit, value: error.value }).toEqual({
+    expect({
+      field: error.field,
+      min: error.min,
+      max: error.max,
+      unit: error.unit,
+      value: error.value,
+    }).toEqual({
       field: "fio2",
       min: 0.21,
       max: 1,
@@ -54,25 +60,101 @@ type Case = [name: string, field: string, range: InputRange, call: (value: numbe
 const cases: Case[] = [
   ["alveolarPO2", "fio2", RANGES.fio2, (fio2) => alveolarPO2({ fio2, paco2: 40 })],
   ["alveolarPO2", "paco2", RANGES.paco2, (paco2) => alveolarPO2({ fio2: 1, paco2 })],
-  ["alveolarPO2", "barometricPressure", RANGES.barometricPressure, (barometricPressure) => alveolarPO2({ fio2: 1, paco2: 40, barometricPressure })],
-  ["alveolarPO2", "waterVapourPressure", RANGES.waterVapourPressure, (waterVapourPressure) => alveolarPO2({ fio2: 1, paco2: 40, waterVapourPressure })],
-  ["alveolarPO2", "respiratoryQuotient", RANGES.respiratoryQuotient, (respiratoryQuotient) => alveolarPO2({ fio2: 1, paco2: 40, respiratoryQuotient })],
+  [
+    "alveolarPO2",
+    "barometricPressure",
+    RANGES.barometricPressure,
+    (barometricPressure) => alveolarPO2({ fio2: 1, paco2: 40, barometricPressure }),
+  ],
+  [
+    "alveolarPO2",
+    "waterVapourPressure",
+    RANGES.waterVapourPressure,
+    (waterVapourPressure) => alveolarPO2({ fio2: 1, paco2: 40, waterVapourPressure }),
+  ],
+  [
+    "alveolarPO2",
+    "respiratoryQuotient",
+    RANGES.respiratoryQuotient,
+    (respiratoryQuotient) => alveolarPO2({ fio2: 1, paco2: 40, respiratoryQuotient }),
+  ],
   ["saturationFromPO2", "po2", RANGES.po2, (po2) => saturationFromPO2(po2)],
   ["po2FromSaturation", "so2", RANGES.saturation, (so2) => po2FromSaturation(so2)],
-  ["oxygenContent", "hemoglobin", RANGES.hemoglobin, (hemoglobin) => oxygenContent({ hemoglobin, saturation: 0.9, po2: 60 })],
-  ["oxygenContent", "saturation", RANGES.saturationFraction, (saturation) => oxygenContent({ hemoglobin: 12, saturation, po2: 60 })],
+  [
+    "oxygenContent",
+    "hemoglobin",
+    RANGES.hemoglobin,
+    (hemoglobin) => oxygenContent({ hemoglobin, saturation: 0.9, po2: 60 }),
+  ],
+  [
+    "oxygenContent",
+    "saturation",
+    RANGES.saturationFraction,
+    (saturation) => oxygenContent({ hemoglobin: 12, saturation, po2: 60 }),
+  ],
   ["pfRatio", "pao2", RANGES.pao2, (pao2) => pfRatio(pao2, 0.5)],
   ["sfRatio", "spo2", RANGES.spo2Index, (spo2) => sfRatio(spo2, 0.5)],
-  ["roxIndex", "respiratoryRate", RANGES.respiratoryRate, (respiratoryRate) => roxIndex({ spo2: 92, fio2: 0.5, respiratoryRate })],
-  ["oxygenationIndex", "meanAirwayPressure", RANGES.meanAirwayPressure, (meanAirwayPressure) => oxygenationIndex({ fio2: 0.5, meanAirwayPressure, pao2: 70 })],
-  ["predictedBodyWeight", "heightCm", RANGES.heightCm, (heightCm) => predictedBodyWeight({ heightCm, sex: "female" })],
-  ["staticCompliance", "tidalVolumeMl", RANGES.tidalVolumeMl, (tidalVolumeMl) => staticCompliance({ tidalVolumeMl, plateauPressure: 25, peep: 10 })],
-  ["drivingPressure", "peep", RANGES.peep, (peep) => drivingPressure({ plateauPressure: 60, peep })],
-  ["barometricPressureAtAltitude", "metres", RANGES.altitude, (metres) => barometricPressureAtAltitude(metres)],
-  ["forecastFio2Change", "nextFio2", RANGES.fio2, (nextFio2) => forecastFio2Change({ fio2: 0.5, pao2: 70, paco2: 40, hemoglobin: 12, nextFio2 })],
-  ["forecastFio2Change", "hemoglobin", RANGES.hemoglobin, (hemoglobin) => forecastFio2Change({ fio2: 0.5, pao2: 70, paco2: 40, hemoglobin, nextFio2: 0.6 })],
-  ["classifyOxygenation", "flow", RANGES.flow, (flow) => classifyOxygenation({ fio2: 0.5, spo2: 92, support: "hfnc", flow })],
-  ["toMmHg", "value", { ...RANGES.pressureMmHg, max: RANGES.pressureMmHg.max }, (value) => toMmHg(value, "mmHg")],
+  [
+    "roxIndex",
+    "respiratoryRate",
+    RANGES.respiratoryRate,
+    (respiratoryRate) => roxIndex({ spo2: 92, fio2: 0.5, respiratoryRate }),
+  ],
+  [
+    "oxygenationIndex",
+    "meanAirwayPressure",
+    RANGES.meanAirwayPressure,
+    (meanAirwayPressure) => oxygenationIndex({ fio2: 0.5, meanAirwayPressure, pao2: 70 }),
+  ],
+  [
+    "predictedBodyWeight",
+    "heightCm",
+    RANGES.heightCm,
+    (heightCm) => predictedBodyWeight({ heightCm, sex: "female" }),
+  ],
+  [
+    "staticCompliance",
+    "tidalVolumeMl",
+    RANGES.tidalVolumeMl,
+    (tidalVolumeMl) => staticCompliance({ tidalVolumeMl, plateauPressure: 25, peep: 10 }),
+  ],
+  [
+    "drivingPressure",
+    "peep",
+    RANGES.peep,
+    (peep) => drivingPressure({ plateauPressure: 60, peep }),
+  ],
+  [
+    "barometricPressureAtAltitude",
+    "metres",
+    RANGES.altitude,
+    (metres) => barometricPressureAtAltitude(metres),
+  ],
+  [
+    "forecastFio2Change",
+    "nextFio2",
+    RANGES.fio2,
+    (nextFio2) => forecastFio2Change({ fio2: 0.5, pao2: 70, paco2: 40, hemoglobin: 12, nextFio2 }),
+  ],
+  [
+    "forecastFio2Change",
+    "hemoglobin",
+    RANGES.hemoglobin,
+    (hemoglobin) =>
+      forecastFio2Change({ fio2: 0.5, pao2: 70, paco2: 40, hemoglobin, nextFio2: 0.6 }),
+  ],
+  [
+    "classifyOxygenation",
+    "flow",
+    RANGES.flow,
+    (flow) => classifyOxygenation({ fio2: 0.5, spo2: 92, support: "hfnc", flow }),
+  ],
+  [
+    "toMmHg",
+    "value",
+    { ...RANGES.pressureMmHg, max: RANGES.pressureMmHg.max },
+    (value) => toMmHg(value, "mmHg"),
+  ],
 ];
 
 describe.each(cases)("%s refuses a bad %s", (_name, field, range, call) => {
@@ -106,7 +188,14 @@ describe("ranges that depend on other inputs", () => {
 
   it("refuses a next FiO2 so low that PAO2 would vanish, naming the lowest acceptable one", () => {
     const error = thrown(() =>
-      forecastFio2Change({ fio2: 0.6, pao2: 60, paco2: 90, hemoglobin: 12, barometricPressure: 500, nextFio2: 0.21 }),
+      forecastFio2Change({
+        fio2: 0.6,
+        pao2: 60,
+        paco2: 90,
+        hemoglobin: 12,
+        barometricPressure: 500,
+        nextFio2: 0.21,
+      }),
     );
     expect(error.field).toBe("nextFio2");
     expect(error.min).toBeCloseTo((MIN_ALVEOLAR_PO2 + 90 / 0.8) / (500 - 47), 10);
@@ -114,8 +203,18 @@ describe("ranges that depend on other inputs", () => {
   });
 
   it("refuses a plateau pressure not above PEEP and a peak pressure below the plateau", () => {
-    expect(thrown(() => drivingPressure({ plateauPressure: 10, peep: 10 })).field).toBe("plateauPressure");
-    const peak = thrown(() => mechanicalPower({ respiratoryRate: 20, tidalVolumeMl: 400, peakPressure: 24, plateauPressure: 25, peep: 10 }));
+    expect(thrown(() => drivingPressure({ plateauPressure: 10, peep: 10 })).field).toBe(
+      "plateauPressure",
+    );
+    const peak = thrown(() =>
+      mechanicalPower({
+        respiratoryRate: 20,
+        tidalVolumeMl: 400,
+        peakPressure: 24,
+        plateauPressure: 25,
+        peep: 10,
+      }),
+    );
     expect([peak.field, peak.min]).toEqual(["peakPressure", 25]);
   });
 

@@ -26,7 +26,10 @@ describe("forecastFio2Change", () => {
     const { models, alveolarPO2 } = forecastFio2Change({ ...base, nextFio2: 0.7 });
     expect(alveolarPO2.current).toBeCloseTo(alveolar(0.5, 40), 10);
     expect(alveolarPO2.next).toBeCloseTo(alveolar(0.7, 40), 10);
-    expect(models.alveolarArterialRatio.pao2).toBeCloseTo((70 / alveolar(0.5, 40)) * alveolar(0.7, 40), 10);
+    expect(models.alveolarArterialRatio.pao2).toBeCloseTo(
+      (70 / alveolar(0.5, 40)) * alveolar(0.7, 40),
+      10,
+    );
   });
 
   it("the shunt model satisfies the content balance at the new FiO2 with the same shunt and a–v difference", () => {
@@ -45,7 +48,13 @@ describe("forecastFio2Change", () => {
   });
 
   it("forecasts a smaller rise with the shunt model than with constant P/F in a high-shunt lung", () => {
-    const { models } = forecastFio2Change({ fio2: 0.6, pao2: 55, paco2: 45, hemoglobin: 10, nextFio2: 0.9 });
+    const { models } = forecastFio2Change({
+      fio2: 0.6,
+      pao2: 55,
+      paco2: 45,
+      hemoglobin: 10,
+      nextFio2: 0.9,
+    });
     expect(models.shunt.pao2).toBeLessThan(models.pf.pao2);
     expect(models.shunt.pao2).toBeGreaterThan(55);
   });
@@ -66,7 +75,13 @@ describe("forecastFio2Change", () => {
   it("caps constant P/F at PAO2 and says so", () => {
     // Weaning a near-normal lung: P/F 500 projects 105 mmHg at FiO2 0.21,
     // above the 99.7 mmHg the alveolar gas equation allows.
-    const { models, alveolarPO2, caveats } = forecastFio2Change({ fio2: 0.6, pao2: 300, paco2: 40, hemoglobin: 14, nextFio2: 0.21 });
+    const { models, alveolarPO2, caveats } = forecastFio2Change({
+      fio2: 0.6,
+      pao2: 300,
+      paco2: 40,
+      hemoglobin: 14,
+      nextFio2: 0.21,
+    });
     expect((300 / 0.6) * 0.21).toBeGreaterThan(alveolar(0.21, 40));
     expect(models.pf.pao2).toBeCloseTo(alveolar(0.21, 40), 10);
     expect(alveolarPO2.next).toBeCloseTo(alveolar(0.21, 40), 10);
@@ -77,7 +92,9 @@ describe("forecastFio2Change", () => {
     // PAO2 at FiO2 0.21 and PaCO2 40 is 0.21 × 713 − 40 / 0.8 = 99.7 mmHg (alveolar gas equation).
     const inputs = { fio2: 0.21, pao2: 120, paco2: 40, hemoglobin: 14, nextFio2: 0.3 };
     expect(() => forecastFio2Change(inputs)).toThrow(InconsistentBloodGasError);
-    expect(() => forecastFio2Change(inputs)).toThrow(/PaO2 120 mmHg is above the alveolar PO2 100 mmHg/);
+    expect(() => forecastFio2Change(inputs)).toThrow(
+      /PaO2 120 mmHg is above the alveolar PO2 100 mmHg/,
+    );
     // A wean from a high-PaO2 gas is the case that once read "PAO2": also withheld.
     expect(() =>
       forecastFio2Change({ fio2: 0.4, pao2: 260, paco2: 40, hemoglobin: 12, nextFio2: 0.3 }),
@@ -93,9 +110,21 @@ describe("forecastFio2Change", () => {
   });
 
   it("warns when the forecast sits on the flat part of the curve", () => {
-    const flat = forecastFio2Change({ fio2: 0.4, pao2: 100, paco2: 40, hemoglobin: 12, nextFio2: 0.6 });
+    const flat = forecastFio2Change({
+      fio2: 0.4,
+      pao2: 100,
+      paco2: 40,
+      hemoglobin: 12,
+      nextFio2: 0.6,
+    });
     expect(flat.caveats.some((caveat) => caveat.includes("flat part"))).toBe(true);
-    const steep = forecastFio2Change({ fio2: 0.4, pao2: 50, paco2: 40, hemoglobin: 12, nextFio2: 0.45 });
+    const steep = forecastFio2Change({
+      fio2: 0.4,
+      pao2: 50,
+      paco2: 40,
+      hemoglobin: 12,
+      nextFio2: 0.45,
+    });
     expect(steep.caveats.some((caveat) => caveat.includes("flat part"))).toBe(false);
   });
 });
@@ -103,7 +132,18 @@ describe("forecastFio2Change", () => {
 describe("forecastBaseline", () => {
   it("starts from the gas at its own FiO2, with the unit's pressure and the assumed haemoglobin when none was measured", () => {
     const gas = { fio2: 0.45, pao2: 68, paco2: 44, hemoglobin: null, peep: 10 };
-    expect(forecastBaseline(gas, 700)).toEqual({ fio2: 0.45, pao2: 68, paco2: 44, hemoglobin: ASSUMED_HEMOGLOBIN, barometricPressure: 700 });
-    expect(forecastBaseline({ ...gas, hemoglobin: 9.5 })).toEqual({ fio2: 0.45, pao2: 68, paco2: 44, hemoglobin: 9.5 });
+    expect(forecastBaseline(gas, 700)).toEqual({
+      fio2: 0.45,
+      pao2: 68,
+      paco2: 44,
+      hemoglobin: ASSUMED_HEMOGLOBIN,
+      barometricPressure: 700,
+    });
+    expect(forecastBaseline({ ...gas, hemoglobin: 9.5 })).toEqual({
+      fio2: 0.45,
+      pao2: 68,
+      paco2: 44,
+      hemoglobin: 9.5,
+    });
   });
 });

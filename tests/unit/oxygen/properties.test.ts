@@ -30,7 +30,8 @@ const between = (min: number, max: number) => fc.double({ min, max, noNaN: true 
 /** Every number anywhere in a result, with its path. */
 function numbersIn(value: unknown, path = "result"): Array<[string, number]> {
   if (typeof value === "number") return [[path, value]];
-  if (Array.isArray(value)) return value.flatMap((item, index) => numbersIn(item, `${path}[${index}]`));
+  if (Array.isArray(value))
+    return value.flatMap((item, index) => numbersIn(item, `${path}[${index}]`));
   if (value !== null && typeof value === "object") {
     return Object.entries(value).flatMap(([key, item]) => numbersIn(item, `${path}.${key}`));
   }
@@ -71,7 +72,9 @@ describe("properties", () => {
   it("po2FromSaturation inverts saturationFromPO2", () => {
     fc.assert(
       fc.property(between(1, 600), (po2) => {
-        expect(Math.abs(po2FromSaturation(saturationFromPO2(po2)) - po2)).toBeLessThanOrEqual(1e-7 * po2);
+        expect(Math.abs(po2FromSaturation(saturationFromPO2(po2)) - po2)).toBeLessThanOrEqual(
+          1e-7 * po2,
+        );
       }),
     );
   });
@@ -97,7 +100,11 @@ describe("properties", () => {
     fc.assert(
       fc.property(bloodGas, between(0.25, 1), (gas, nextFio2) => {
         const forecast = forecastFio2Change({ ...gas, nextFio2 });
-        const ceiling = alveolarPO2({ fio2: nextFio2, paco2: gas.paco2, barometricPressure: gas.barometricPressure });
+        const ceiling = alveolarPO2({
+          fio2: nextFio2,
+          paco2: gas.paco2,
+          barometricPressure: gas.barometricPressure,
+        });
         expect(forecast.models.shunt.pao2).toBeLessThanOrEqual(ceiling);
         expect(forecast.range.high.pao2).toBeLessThanOrEqual(ceiling);
         expect(forecast.models.shunt.pao2).toBeGreaterThanOrEqual(0);
@@ -129,7 +136,16 @@ describe("properties", () => {
           peakPressure: between(60, 80),
         }),
         (gas, extra) => {
-          const { nextFio2, metres, heightCm, tidalVolumeMl, plateauPressure, peakPressure, indexSpo2, ...rest } = extra;
+          const {
+            nextFio2,
+            metres,
+            heightCm,
+            tidalVolumeMl,
+            plateauPressure,
+            peakPressure,
+            indexSpo2,
+            ...rest
+          } = extra;
           expectAllFinite(assessBloodGas({ ...gas, ...rest }));
           expectAllFinite(forecastFio2Change({ ...gas, nextFio2 }));
           expectAllFinite(classifyOxygenation({ ...gas, ...rest, spo2: indexSpo2 }));
@@ -137,14 +153,34 @@ describe("properties", () => {
           expectAllFinite(predictedBodyWeight({ heightCm, sex: "female" }));
           expectAllFinite(staticCompliance({ tidalVolumeMl, plateauPressure, peep: rest.peep }));
           expectAllFinite(
-            mechanicalPower({ respiratoryRate: rest.respiratoryRate, tidalVolumeMl, peakPressure, plateauPressure, peep: rest.peep }),
+            mechanicalPower({
+              respiratoryRate: rest.respiratoryRate,
+              tidalVolumeMl,
+              peakPressure,
+              plateauPressure,
+              peep: rest.peep,
+            }),
           );
-          expectAllFinite(oxygenContent({ hemoglobin: gas.hemoglobin, saturation: rest.sao2, po2: gas.pao2 }));
-          expectAllFinite(roxIndex({ spo2: indexSpo2, fio2: gas.fio2, respiratoryRate: rest.respiratoryRate }));
-          expectAllFinite(oxygenSaturationIndex({ spo2: indexSpo2, fio2: gas.fio2, meanAirwayPressure: rest.meanAirwayPressure }));
+          expectAllFinite(
+            oxygenContent({ hemoglobin: gas.hemoglobin, saturation: rest.sao2, po2: gas.pao2 }),
+          );
+          expectAllFinite(
+            roxIndex({ spo2: indexSpo2, fio2: gas.fio2, respiratoryRate: rest.respiratoryRate }),
+          );
+          expectAllFinite(
+            oxygenSaturationIndex({
+              spo2: indexSpo2,
+              fio2: gas.fio2,
+              meanAirwayPressure: rest.meanAirwayPressure,
+            }),
+          );
           expectAllFinite(
             proposeStep({
-              order: { spo2Target: { lower: 88, upper: 95 }, limits: { fio2Min: 0.21, fio2Max: 1 }, steps: ardsNetworkTable("higher-peep") },
+              order: {
+                spo2Target: { lower: 88, upper: 95 },
+                limits: { fio2Min: 0.21, fio2Max: 1 },
+                steps: ardsNetworkTable("higher-peep"),
+              },
               current: { fio2: gas.fio2, peep: rest.peep },
               latestReading: { spo2: rest.spo2 },
               latestBloodGas: { ...gas, fio2: gas.fio2 },
@@ -162,7 +198,9 @@ describe("properties", () => {
       fc.property(bloodGas, between(1.001, 3), between(0.25, 1), (gas, factor, nextFio2) => {
         const pao2 = alveolarPO2(gas) * factor;
         fc.pre(pao2 <= RANGES.pao2.max);
-        expect(() => forecastFio2Change({ ...gas, pao2, nextFio2 })).toThrow(InconsistentBloodGasError);
+        expect(() => forecastFio2Change({ ...gas, pao2, nextFio2 })).toThrow(
+          InconsistentBloodGasError,
+        );
       }),
     );
   });
@@ -171,31 +209,52 @@ describe("properties", () => {
     ["fio2", RANGES.fio2, (fio2) => alveolarPO2({ fio2, paco2: 40 })],
     ["po2", RANGES.po2, (po2) => saturationFromPO2(po2)],
     ["so2", RANGES.saturation, (so2) => po2FromSaturation(so2)],
-    ["hemoglobin", RANGES.hemoglobin, (hemoglobin) => forecastFio2Change({ fio2: 0.4, pao2: 70, paco2: 40, hemoglobin, nextFio2: 0.5 })],
+    [
+      "hemoglobin",
+      RANGES.hemoglobin,
+      (hemoglobin) =>
+        forecastFio2Change({ fio2: 0.4, pao2: 70, paco2: 40, hemoglobin, nextFio2: 0.5 }),
+    ],
     ["pao2", RANGES.pao2, (pao2) => assessBloodGas({ fio2: 0.4, pao2, paco2: 40 })],
     ["spo2", RANGES.spo2Index, (spo2) => classifyOxygenation({ fio2: 0.4, spo2 })],
     ["metres", RANGES.altitude, (metres) => barometricPressureAtAltitude(metres)],
     ["heightCm", RANGES.heightCm, (heightCm) => predictedBodyWeight({ heightCm, sex: "male" })],
     ["value", RANGES.pressureMmHg, (value) => toMmHg(value, "mmHg")],
     ["value", RANGES.hemoglobinGramsPerDecilitre, (value) => toGramsPerDecilitre(value, "g/dL")],
-    ["latestReading.spo2", RANGES.spo2, (spo2) =>
-      proposeStep({
-        order: { spo2Target: { lower: 88, upper: 95 }, limits: { fio2Min: 0.21, fio2Max: 1 }, steps: [] },
-        current: { fio2: 0.4 },
-        latestReading: { spo2 },
-      })],
+    [
+      "latestReading.spo2",
+      RANGES.spo2,
+      (spo2) =>
+        proposeStep({
+          order: {
+            spo2Target: { lower: 88, upper: 95 },
+            limits: { fio2Min: 0.21, fio2Max: 1 },
+            steps: [],
+          },
+          current: { fio2: 0.4 },
+          latestReading: { spo2 },
+        }),
+    ],
   ];
 
   it("out-of-range and non-finite inputs throw OxygenInputError naming the field", () => {
     const invalid = (range: InputRange) =>
       fc.oneof(
         fc.constantFrom(Number.NaN, Number.POSITIVE_INFINITY, Number.NEGATIVE_INFINITY),
-        fc.double({ max: range.min, noNaN: true, noDefaultInfinity: true }).filter((value) => value < range.min),
-        fc.double({ min: range.max, noNaN: true, noDefaultInfinity: true }).filter((value) => value > range.max),
+        fc
+          .double({ max: range.min, noNaN: true, noDefaultInfinity: true })
+          .filter((value) => value < range.min),
+        fc
+          .double({ min: range.max, noNaN: true, noDefaultInfinity: true })
+          .filter((value) => value > range.max),
       );
     fc.assert(
       fc.property(
-        fc.constantFrom(...refusals).chain(([field, range, call]) => fc.tuple(fc.constant(field), fc.constant(call), invalid(range))),
+        fc
+          .constantFrom(...refusals)
+          .chain(([field, range, call]) =>
+            fc.tuple(fc.constant(field), fc.constant(call), invalid(range)),
+          ),
         ([field, call, value]) => {
           let caught: unknown;
           try {

@@ -14,15 +14,24 @@ import {
 } from "@/lib/oxygen";
 
 describe("units", () => {
-  it.each(["mmHg", "kPa"] as const satisfies readonly PressureUnit[])("round-trips pressures through %s", (unit) => {
-    for (const mmHg of [0, 5, 40, 100, 760]) expect(toMmHg(fromMmHg(mmHg, unit), unit)).toBeCloseTo(mmHg, 10);
-  });
+  it.each(["mmHg", "kPa"] as const satisfies readonly PressureUnit[])(
+    "round-trips pressures through %s",
+    (unit) => {
+      for (const mmHg of [0, 5, 40, 100, 760])
+        expect(toMmHg(fromMmHg(mmHg, unit), unit)).toBeCloseTo(mmHg, 10);
+    },
+  );
 
-  it.each(["g/dL", "g/L", "mmol/L"] as const satisfies readonly HemoglobinUnit[])("round-trips haemoglobin through %s", (unit) => {
-    for (const gramsPerDecilitre of [0, 7, 12.5, 20]) {
-      expect(toGramsPerDecilitre(fromGramsPerDecilitre(gramsPerDecilitre, unit), unit)).toBeCloseTo(gramsPerDecilitre, 10);
-    }
-  });
+  it.each(["g/dL", "g/L", "mmol/L"] as const satisfies readonly HemoglobinUnit[])(
+    "round-trips haemoglobin through %s",
+    (unit) => {
+      for (const gramsPerDecilitre of [0, 7, 12.5, 20]) {
+        expect(
+          toGramsPerDecilitre(fromGramsPerDecilitre(gramsPerDecilitre, unit), unit),
+        ).toBeCloseTo(gramsPerDecilitre, 10);
+      }
+    },
+  );
 
   it("uses 1 kPa = 7.50062 mmHg", () => {
     expect(toMmHg(1, "kPa")).toBe(7.50062);

@@ -38,17 +38,32 @@ export default async function CosignQueuePage() {
         <div className="overflow-x-auto rounded-card border border-border bg-surface shadow-card">
           <table className="w-full text-left text-sm" data-testid="cosign-queue">
             <caption className="sr-only">
-              {queue.length} order{queue.length === 1 ? "" : "s"} awaiting co-signature, oldest first
+              {queue.length} order{queue.length === 1 ? "" : "s"} awaiting co-signature, oldest
+              first
             </caption>
-            <thead className="border-b border-border bg-surface-muted text-xs uppercase tracking-wide text-ink-muted">
+            <thead className="border-b border-border bg-surface-muted text-xs tracking-wide text-ink-muted uppercase">
               <tr>
-                <th scope="col" className="px-3 py-2">Bed</th>
-                <th scope="col" className="px-3 py-2">Patient</th>
-                <th scope="col" className="px-3 py-2">Device</th>
-                <th scope="col" className="px-3 py-2">SpO2 band</th>
-                <th scope="col" className="px-3 py-2">Entered by</th>
-                <th scope="col" className="px-3 py-2">Entered</th>
-                <th scope="col" className="px-3 py-2">Waiting</th>
+                <th scope="col" className="px-3 py-2">
+                  Bed
+                </th>
+                <th scope="col" className="px-3 py-2">
+                  Patient
+                </th>
+                <th scope="col" className="px-3 py-2">
+                  Device
+                </th>
+                <th scope="col" className="px-3 py-2">
+                  SpO2 band
+                </th>
+                <th scope="col" className="px-3 py-2">
+                  Entered by
+                </th>
+                <th scope="col" className="px-3 py-2">
+                  Entered
+                </th>
+                <th scope="col" className="px-3 py-2">
+                  Waiting
+                </th>
                 <th scope="col" className="px-3 py-2">
                   <span className="sr-only">Open</span>
                 </th>
@@ -56,8 +71,12 @@ export default async function CosignQueuePage() {
             </thead>
             <tbody>
               {queue.map((o) => (
-                <tr key={o.id} className="border-b border-border last:border-0" data-testid="cosign-row">
-                  <td className="px-3 py-2 font-medium tabular">
+                <tr
+                  key={o.id}
+                  className="border-b border-border last:border-0"
+                  data-testid="cosign-row"
+                >
+                  <td className="tabular px-3 py-2 font-medium">
                     {o.bedLabel}
                     <span className="ml-1 text-xs text-ink-muted">{o.unitCode}</span>
                   </td>
@@ -65,7 +84,7 @@ export default async function CosignQueuePage() {
                     {o.patientName}
                   </th>
                   <td className="px-3 py-2">{DEVICE_PROFILES[o.device].label}</td>
-                  <td className="px-3 py-2 tabular">
+                  <td className="tabular px-3 py-2">
                     {o.spo2Band.lower}–{o.spo2Band.upper} %
                   </td>
                   <td className="px-3 py-2">
@@ -74,10 +93,8 @@ export default async function CosignQueuePage() {
                       {MODE_WORDS[o.entryMode]} from {o.prescriber.name}
                     </span>
                   </td>
-                  <td className="px-3 py-2 tabular">
-                    {formatOrderTime(o.createdAt, o.timeZone)}
-                  </td>
-                  <td className="whitespace-nowrap px-3 py-2">
+                  <td className="tabular px-3 py-2">{formatOrderTime(o.createdAt, o.timeZone)}</td>
+                  <td className="px-3 py-2 whitespace-nowrap">
                     <StatusBadge
                       status="overdue"
                       label={formatDuration(now.getTime() - Date.parse(o.createdAt))}
@@ -87,7 +104,7 @@ export default async function CosignQueuePage() {
                     {mayCosign(actor.id, o.cosigners) ? (
                       <Link
                         href={`/orders/${o.id}`}
-                        className="whitespace-nowrap font-medium text-accent underline-offset-2 hover:underline"
+                        className="font-medium whitespace-nowrap text-accent underline-offset-2 hover:underline"
                         aria-label={`Review and co-sign order #${o.id} for ${o.patientName}`}
                       >
                         Review and co-sign
@@ -96,7 +113,7 @@ export default async function CosignQueuePage() {
                       <>
                         <Link
                           href={`/orders/${o.id}`}
-                          className="whitespace-nowrap font-medium text-accent underline-offset-2 hover:underline"
+                          className="font-medium whitespace-nowrap text-accent underline-offset-2 hover:underline"
                           aria-label={`Review order #${o.id} for ${o.patientName}`}
                         >
                           Review

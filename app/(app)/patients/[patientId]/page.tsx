@@ -62,7 +62,7 @@ export default async function ChartPage({ params }: { params: Promise<{ patientI
     <div className="space-y-6">
       <header className="flex flex-wrap items-start justify-between gap-3 rounded-card border border-border bg-surface p-4 shadow-card">
         <div className="space-y-1">
-          <p className="text-xs font-medium uppercase tracking-wide text-ink-muted">Chart</p>
+          <p className="text-xs font-medium tracking-wide text-ink-muted uppercase">Chart</p>
           <h1 className="text-2xl font-semibold tracking-tight">
             {patient.givenName} {patient.familyName}
           </h1>
@@ -70,7 +70,7 @@ export default async function ChartPage({ params }: { params: Promise<{ patientI
             {facts.map(([term, value]) => (
               <div key={term} className="flex gap-1.5">
                 <dt className="text-ink-muted">{term}</dt>
-                <dd className="font-medium tabular">{value}</dd>
+                <dd className="tabular font-medium">{value}</dd>
               </div>
             ))}
           </dl>

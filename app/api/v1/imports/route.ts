@@ -29,7 +29,12 @@ export function POST(request: Request) {
     const env = getEnv();
     const url = new URL(request.url);
     const refusal = refuseCrossSiteWrite(
-      { method: request.method, pathname: url.pathname, headers: request.headers, origin: url.origin },
+      {
+        method: request.method,
+        pathname: url.pathname,
+        headers: request.headers,
+        origin: url.origin,
+      },
       allowedOrigins(env.NEXTAUTH_URL, env.ALLOWED_ORIGINS),
     );
     if (refusal) throw new DomainError(refusal.message, refusal.status);
@@ -46,7 +51,9 @@ export function POST(request: Request) {
     }
     const file = form.get("file");
     if (!(file instanceof Blob)) {
-      throw new DomainError("Choose a file to upload.", 400, { file: ["Choose a file to upload."] });
+      throw new DomainError("Choose a file to upload.", 400, {
+        file: ["Choose a file to upload."],
+      });
     }
     const content = Buffer.from(await file.arrayBuffer());
     const input = parseInput(uploadSchema, {

@@ -12,7 +12,10 @@ export default async function NewUserPage() {
   return (
     <div className="max-w-2xl space-y-4">
       <h1 className="text-2xl font-semibold tracking-tight">New user</h1>
-      <UserForm mode="create" units={units.map((u) => ({ id: u.id, label: `${u.code} · ${u.name}` }))} />
+      <UserForm
+        mode="create"
+        units={units.map((u) => ({ id: u.id, label: `${u.code} · ${u.name}` }))}
+      />
     </div>
   );
 }

@@ -25,6 +25,9 @@ export function POST(request: Request) {
       partial,
       unit,
     });
-    return NextResponse.json({ import: preview, replayed: !created }, { status: created ? 201 : 200 });
+    return NextResponse.json(
+      { import: preview, replayed: !created },
+      { status: created ? 201 : 200 },
+    );
   });
 }

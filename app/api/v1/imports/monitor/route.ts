@@ -41,6 +41,9 @@ export function POST(request: Request) {
     // The accepted sample is for the app's preview; an interface engine needs the counts and rejections.
     const { sample: _sample, ...summary } = preview;
     void _sample;
-    return NextResponse.json({ import: summary, replayed: !created }, { status: created ? 201 : 200 });
+    return NextResponse.json(
+      { import: summary, replayed: !created },
+      { status: created ? 201 : 200 },
+    );
   });
 }

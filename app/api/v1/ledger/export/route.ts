@@ -10,7 +10,10 @@ export function GET(request: Request) {
   return handleRoute(async () => {
     const actor = await requireRole();
     await consumeQuota(db(), `user:${actor.id}`, "ledger_export");
-    const filter = parseInput(ledgerFilterSchema, Object.fromEntries(new URL(request.url).searchParams));
+    const filter = parseInput(
+      ledgerFilterSchema,
+      Object.fromEntries(new URL(request.url).searchParams),
+    );
     const rows = ledgerCsv(db(), actor, filter);
     const encoder = new TextEncoder();
     const body = new ReadableStream<Uint8Array>({

@@ -29,11 +29,7 @@ async function loadPatient(...args: Parameters<typeof getPatientForActor>): Prom
 }
 
 /** The order composer: a physician writes and signs; a nurse or therapist enters a verbal order. */
-export default async function NewOrderPage({
-  params,
-}: {
-  params: Promise<{ patientId: string }>;
-}) {
+export default async function NewOrderPage({ params }: { params: Promise<{ patientId: string }> }) {
   const actor = await pagePermission("order.write");
   const parsed = paramsSchema.safeParse(await params);
   if (!parsed.success) notFound();
@@ -53,15 +49,15 @@ export default async function NewOrderPage({
     <div className="space-y-5">
       <header className="flex flex-wrap items-start justify-between gap-3 rounded-card border border-border bg-surface p-4 shadow-card">
         <div className="space-y-1">
-          <p className="text-xs font-medium uppercase tracking-wide text-ink-muted">
+          <p className="text-xs font-medium tracking-wide text-ink-muted uppercase">
             {physician ? "Write order" : "Enter verbal order"}
           </p>
           <h1 className="text-2xl font-semibold tracking-tight">
             {physician ? "Oxygen order" : "Verbal or telephone order"} for {name}
           </h1>
           <p className="text-sm text-ink-muted">
-            Bed <span className="font-medium text-ink">{bed.label}</span> · {unit.name} ({unit.code}) ·
-            MRN <span className="tabular">{patient.mrn}</span>
+            Bed <span className="font-medium text-ink">{bed.label}</span> · {unit.name} ({unit.code}
+            ) · MRN <span className="tabular">{patient.mrn}</span>
           </p>
         </div>
         <Link href={`/patients/${patient.id}`} className={buttonClasses("secondary")}>
