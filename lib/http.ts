@@ -65,7 +65,8 @@ export async function readBodyBytes(request: Request, maxBytes: number): Promise
       await reader.cancel();
       throw new DomainError(`The body is larger than ${sizeWords(maxBytes)}.`, 413);
     }
-    chunks.push(Buffer.from(value));
+    // A view, not a copy: the cap holds what it has read, once.
+    chunks.push(Buffer.from(value.buffer, value.byteOffset, value.byteLength));
   }
   return Buffer.concat(chunks, size);
 }

@@ -53,6 +53,7 @@ vitest_project() {
 check database bash -c "bash db/scripts/mariadb.sh create-db $TEST_DB && npx tsx node_modules/knex/bin/cli.js --knexfile knexfile.ts migrate:latest && npx tsx node_modules/knex/bin/cli.js --knexfile knexfile.ts seed:run"
 check typecheck npx tsc --noEmit
 check lint npm run --silent lint
+check format npx prettier --check --log-level warn .
 vitest_project unit --project unit --project component
 vitest_project integration --project integration
 
