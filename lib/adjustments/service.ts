@@ -5,8 +5,10 @@ import { once } from "../idempotency";
 import { afterSettingsChanged } from "../alerts/service";
 import { appendLedger } from "../ledger/service";
 import { DEVICE_PROFILES, estimateFio2 } from "../devices";
-import type { OrderView } from "../orders/queries";
+import { getCurrentOrder, type OrderView } from "../orders/queries";
+import { findOpenAdmission } from "../admissions/access";
 import {
+  barometricPressureAtAltitude,
   ENGINE_VERSION,
   forecastBaseline,
   forecastFio2Change,
@@ -14,7 +16,7 @@ import {
   type Fio2Forecast,
 } from "../oxygen";
 import { gasAgeCaveat } from "../blood-gases/freshness";
-import { getBedsideContext } from "../chart/bedside";
+import { loadLatestArterialGas } from "../chart/bedside";
 import { type AdjustmentData } from "./schema";
 import { mayAdjustDevice } from "../auth/permissions";
 
@@ -101,77 +103,76 @@ export async function recordAdjustment(
       appliedAt: ["Time applied must be within the last 24 hours and not in the future."],
     });
   }
-  const context = await getBedsideContext(knex, actor, input.patientId, {
-    useStaleBloodGas: input.useStaleBloodGas === true,
-    now,
-  });
-  const order = context.order;
-  if (!order || !context.settings) {
-    throw new ValidationError(
-      "There is no oxygen order in effect for this patient; a physician must write one first.",
-      {
-        toFio2: ["No order in effect: settings cannot be changed without one."],
-      },
-    );
-  }
-  if (!mayAdjustDevice(actor, DEVICE_PROFILES[order.device])) {
-    throw new ForbiddenError(
-      `Nurses record changes on low-flow devices only; ${DEVICE_PROFILES[order.device].label} changes are recorded by a therapist or physician.`,
-    );
-  }
-  const estimated = DEVICE_PROFILES[order.device].uses.fio2 === "estimated";
-  const toFio2 = estimated
-    ? (estimateFio2(order.device, input.toFlow) ?? input.toFio2)
-    : input.toFio2;
-  checkWithinLimits(order, {
-    fio2: toFio2,
-    ...(input.toPeep !== undefined ? { peep: input.toPeep } : {}),
-    ...(input.toFlow !== undefined ? { flow: input.toFlow } : {}),
-  });
+  const admission = await findOpenAdmission(knex, actor, input.patientId);
 
-  // The forecast stored with the change starts from the latest arterial gas,
-  // measured at its own FiO2 — if it is fresh, or a clinician chose it anyway.
-  // A gas that contradicts itself (PaO2 above PAO2) gives no forecast.
-  const gas = context.forecastUsesGas ? context.latestArterialGas : null;
-  let forecast: Fio2Forecast | null = null;
-  let forecastWithheld: string | null = null;
-  if (gas && toFio2 !== gas.fio2) {
-    try {
-      forecast = forecastFio2Change({
-        ...forecastBaseline({ ...gas, hemoglobin: gas.hb }, context.barometricPressure),
-        nextFio2: toFio2,
-      });
-      forecast.caveats.unshift(gasAgeCaveat(gas.freshness, true));
-    } catch (error) {
-      if (!(error instanceof OxygenInputError)) throw error;
-      forecastWithheld = error.message;
-    }
-  }
-
+  // Order, settings and the gas are read once, under the locks the change
+  // is written under: what was checked is what is changed.
   return once(knex, actor.id, input.idempotencyKey, "adjustment.record", async (trx) => {
     const current = (await trx("bedside_settings")
-      .where({ admission_id: context.admission.admissionId })
+      .where({ admission_id: admission.admissionId })
       .forUpdate()
-      .first()) as {
-      version: number;
-      fio2: number;
-      peep_cmh2o: number | null;
-      flow_l_min: number | null;
-    };
-    const orderNow = (await trx("orders")
-      .where({ current_patient_id: input.patientId })
-      .forUpdate()
-      .first("id")) as { id: number } | undefined;
-    if (current.version !== input.settingsVersion || orderNow?.id !== order.id) {
+      .first()) as
+      | { version: number; fio2: number; peep_cmh2o: number | null; flow_l_min: number | null }
+      | undefined;
+    await trx("orders").where({ current_patient_id: input.patientId }).forUpdate().first("id");
+    const order = await getCurrentOrder(trx, input.patientId);
+    if (!order || !current) {
+      throw new ValidationError(
+        "There is no oxygen order in effect for this patient; a physician must write one first.",
+        {
+          toFio2: ["No order in effect: settings cannot be changed without one."],
+        },
+      );
+    }
+    if (!mayAdjustDevice(actor, DEVICE_PROFILES[order.device])) {
+      throw new ForbiddenError(
+        `Nurses record changes on low-flow devices only; ${DEVICE_PROFILES[order.device].label} changes are recorded by a therapist or physician.`,
+      );
+    }
+    const estimated = DEVICE_PROFILES[order.device].uses.fio2 === "estimated";
+    const toFio2 = estimated
+      ? (estimateFio2(order.device, input.toFlow) ?? input.toFio2)
+      : input.toFio2;
+    checkWithinLimits(order, {
+      fio2: toFio2,
+      ...(input.toPeep !== undefined ? { peep: input.toPeep } : {}),
+      ...(input.toFlow !== undefined ? { flow: input.toFlow } : {}),
+    });
+    if (current.version !== input.settingsVersion) {
       throw new ConflictError(
         `The settings were changed by someone else a moment ago (now FiO2 ${current.fio2.toFixed(2)}${current.peep_cmh2o !== null ? `, PEEP ${current.peep_cmh2o}` : ""}${current.flow_l_min !== null ? `, flow ${current.flow_l_min} L/min` : ""}). Review the current settings, then record your change again if it is still needed.`,
       );
     }
+
+    // The forecast stored with the change starts from the latest arterial gas,
+    // measured at its own FiO2 — if it is fresh, or a clinician chose it anyway.
+    // A gas that contradicts itself (PaO2 above PAO2) gives no forecast.
+    const arterial = await loadLatestArterialGas(trx, admission.admissionId, now);
+    const gas =
+      arterial && (arterial.freshness.fresh || input.useStaleBloodGas === true) ? arterial : null;
+    let forecast: Fio2Forecast | null = null;
+    let forecastWithheld: string | null = null;
+    if (gas && toFio2 !== gas.fio2) {
+      try {
+        forecast = forecastFio2Change({
+          ...forecastBaseline(
+            { ...gas, hemoglobin: gas.hb },
+            barometricPressureAtAltitude(admission.altitudeM),
+          ),
+          nextFio2: toFio2,
+        });
+        forecast.caveats.unshift(gasAgeCaveat(gas.freshness, true));
+      } catch (error) {
+        if (!(error instanceof OxygenInputError)) throw error;
+        forecastWithheld = error.message;
+      }
+    }
+
     const from = { fio2: current.fio2, peep: current.peep_cmh2o, flow: current.flow_l_min };
     const to = { fio2: toFio2, peep: input.toPeep ?? null, flow: input.toFlow ?? null };
     const [id] = await trx("adjustments").insert({
       patient_id: input.patientId,
-      admission_id: context.admission.admissionId,
+      admission_id: admission.admissionId,
       order_id: order.id,
       device: order.device,
       from_fio2: from.fio2,
@@ -188,7 +189,7 @@ export async function recordAdjustment(
       engine_version: ENGINE_VERSION,
     });
     await trx("bedside_settings")
-      .where({ admission_id: context.admission.admissionId })
+      .where({ admission_id: admission.admissionId })
       .update({
         fio2: to.fio2,
         fio2_estimated: estimated,
@@ -219,7 +220,7 @@ export async function recordAdjustment(
         entityType: "adjustment",
         entityId: view.id,
         patientId: input.patientId,
-        unitId: context.admission.unitId,
+        unitId: admission.unitId,
         before: from,
         after: {
           to,
@@ -235,7 +236,7 @@ export async function recordAdjustment(
       },
       now,
     );
-    await afterSettingsChanged(trx, actor, context.admission, input.appliedAt, now, {
+    await afterSettingsChanged(trx, actor, admission, input.appliedAt, now, {
       from: { fio2: from.fio2, flow: from.flow },
       to: { fio2: to.fio2, flow: to.flow },
     });

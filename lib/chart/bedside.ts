@@ -90,6 +90,20 @@ export async function loadSteps(knex: Knex, stepTableId: number | null): Promise
 }
 
 /**
+ * The latest arterial gas of an admission with its age against the site's
+ * limit: what a forecast starts from (the bedside proposal, a recorded change).
+ */
+export async function loadLatestArterialGas(knex: Knex, admissionId: number, now: Date) {
+  const row = (await knex("blood_gases")
+    .where({ admission_id: admissionId, sample_type: "arterial" })
+    .orderBy("sampled_at", "desc")
+    .first()) as GasRow | undefined;
+  const gas = gasView(row);
+  const maxAgeMinutes = getEnv().FORECAST_GAS_MAX_AGE_MINUTES;
+  return gas ? { ...gas, freshness: gasFreshness(gas.sampledAt, now, maxAgeMinutes) } : null;
+}
+
+/**
  * What the bedside forms show: the order in effect, the applied settings, the
  * latest reading and blood gas, and the engine's proposal for the next step.
  */
@@ -104,7 +118,7 @@ export async function getBedsideContext(
   const barometricPressure = barometricPressureAtAltitude(admission.altitudeM);
   // Rows are typed by assertion below, at the knex boundary.
   const first = (q: Knex.QueryBuilder): Promise<unknown> => q.first() as Promise<unknown>;
-  const [order, settingsRow, readingRow, gasRow, arterialRow] = await Promise.all([
+  const [order, settingsRow, readingRow, gasRow, latestArterialGas] = await Promise.all([
     getCurrentOrder(knex, patientId),
     first(knex("bedside_settings").where({ admission_id: admission.admissionId })),
     first(
@@ -115,11 +129,7 @@ export async function getBedsideContext(
         .where({ admission_id: admission.admissionId })
         .orderBy("sampled_at", "desc"),
     ),
-    first(
-      knex("blood_gases")
-        .where({ admission_id: admission.admissionId, sample_type: "arterial" })
-        .orderBy("sampled_at", "desc"),
-    ),
+    loadLatestArterialGas(knex, admission.admissionId, now),
   ]);
   const s = settingsRow as
     | {
@@ -170,11 +180,6 @@ export async function getBedsideContext(
       }
     : null;
   const latestBloodGas = gasView(gasRow as GasRow | undefined);
-  const arterial = gasView(arterialRow as GasRow | undefined);
-  const maxAgeMinutes = getEnv().FORECAST_GAS_MAX_AGE_MINUTES;
-  const latestArterialGas = arterial
-    ? { ...arterial, freshness: gasFreshness(arterial.sampledAt, now, maxAgeMinutes) }
-    : null;
   const forecastUsesGas =
     latestArterialGas !== null &&
     (latestArterialGas.freshness.fresh || options.useStaleBloodGas === true);
