@@ -32,9 +32,9 @@ import { BASE_URL } from "../helpers/browser";
  *    construction (valid-looking fields with one broken, random JSON missing a
  *    required field, or not JSON), or it names no row, or the caller may not
  *    write. Asserted per request: no 5xx and no connection closed without an
- *    answer; every write answered 4xx. Per batch: the row count and a hash of
- *    every row of each table the API writes (WATCHED_TABLES: clinical records,
- *    the ledger, accounts, imports) are unchanged, reads included.
+ *    answer; every write answered 4xx. Per batch: the row count of each table
+ *    the API writes (WATCHED_TABLES: clinical records, the ledger, accounts,
+ *    imports) and the ledger's last row are unchanged, reads included.
  * 2. Quota reads (ledger verify/export, FHIR): the same, each fuzz account
  *    kept under its per-minute quota.
  * 3. Sampled (SAMPLED_RUNS, one at a time): valid-looking writes with a field
