@@ -79,6 +79,9 @@ export const readTrendOperation = defineRead({
   schema: z
     .object({ patientId, from: isoTime("From"), to: isoTime("To") })
     .superRefine((q, ctx) => {
+      // A malformed time is a continuable issue in zod, so this check still
+      // runs with the raw string in its place: nothing to compare then.
+      if (!(q.from instanceof Date) || !(q.to instanceof Date)) return;
       const span = q.to.getTime() - q.from.getTime();
       if (span <= 0)
         ctx.addIssue({ code: "custom", path: ["to"], message: "To must be after from." });
