@@ -2,7 +2,7 @@ import type { Knex } from "knex";
 import { isDbError } from "./db-errors";
 import { ConflictError } from "./errors";
 
-const DEADLOCK_ATTEMPTS = 3;
+const DEADLOCK_ATTEMPTS = 6;
 
 /**
  * Runs a transaction again when InnoDB chose it as a deadlock victim: two
@@ -21,7 +21,10 @@ async function retryDeadlock<T>(run: () => Promise<T>): Promise<T> {
         throw new ConflictError(
           "The record was busy with another change; nothing was saved. Try again.",
         );
-      await new Promise((resolve) => setTimeout(resolve, 10 * attempt + Math.random() * 20));
+      // Exponential backoff with jitter, so the victims of one deadlock do not meet again.
+      await new Promise((resolve) =>
+        setTimeout(resolve, 10 * 2 ** attempt * (0.5 + Math.random())),
+      );
     }
   }
 }
