@@ -9,8 +9,18 @@ import {
   type Fio2Forecast,
   type ForecastInput,
 } from "./forecast";
-import { checkBetween, checkRange, RANGES } from "./ranges";
+import { RANGES } from "./ranges";
 import type { SettingValue } from "./step-tables";
+import { checkProposeStepInput } from "./propose-step-input";
+import {
+  brokenLimit,
+  candidates,
+  describe,
+  format,
+  relation,
+  SAME,
+  withinLimits,
+} from "./step-geometry";
 
 /** One row of an order's step table: FiO2 with PEEP (ventilation, CPAP) or with flow (HFNC). */
 export interface OrderStep {
@@ -134,207 +144,6 @@ export const HIGHEST_SPO2_FOR_IMPUTING = 96;
  */
 export const GAS_SPO2_DISAGREEMENT = 4;
 
-// Settings within these are the same setting (FiO2 0.3 vs 0.30000000001).
-const SAME = { fio2: 0.001, peep: 0.01, flow: 0.01 } as const;
-
-const ends = (value: SettingValue): readonly [number, number] =>
-  typeof value === "number" ? [value, value] : value;
-const distinct = ([low, high]: readonly [number, number]): number[] =>
-  low === high ? [low] : [low, high];
-const format = (value: number, digits = 2): string => String(Number(value.toFixed(digits)));
-
-/** FiO2 with the PEEP and/or flow that go with it. */
-type Setting = Pick<ProposedSetting, "fio2" | "peep" | "flow">;
-
-function describe(setting: Setting): string {
-  const parts = [`FiO2 ${format(setting.fio2)}`];
-  if (setting.peep !== undefined) parts.push(`PEEP ${format(setting.peep, 1)} cmH2O`);
-  if (setting.flow !== undefined) parts.push(`flow ${format(setting.flow, 1)} L/min`);
-  return parts.join(", ");
-}
-
-// A published range is a choice within one row: expand it into its two ends,
-// least support first, so "next step up" can stop at the lower end.
-function candidates(steps: readonly OrderStep[]): ProposedSetting[] {
-  const result: ProposedSetting[] = [];
-  for (const [stepIndex, step] of steps.entries()) {
-    const peeps = step.peep === undefined ? [undefined] : distinct(ends(step.peep));
-    for (const fio2 of distinct(ends(step.fio2))) {
-      for (const peep of peeps) result.push({ fio2, peep, flow: step.flow, stepIndex });
-    }
-  }
-  return result;
-}
-
-function sign(a: number | undefined, b: number | undefined, tolerance: number): -1 | 0 | 1 {
-  if (a === undefined || b === undefined) return 0;
-  return a > b + tolerance ? 1 : a < b - tolerance ? -1 : 0;
-}
-
-/**
- * How a table setting relates to the current one, on every dimension both
- * define: `above` gives more of something and less of nothing, `below` the
- * reverse, `apart` more of one and less of another.
- */
-function relation(candidate: Setting, current: Setting): "same" | "above" | "below" | "apart" {
-  const signs = [
-    sign(candidate.fio2, current.fio2, SAME.fio2),
-    sign(candidate.peep, current.peep, SAME.peep),
-    sign(candidate.flow, current.flow, SAME.flow),
-  ];
-  const more = signs.includes(1);
-  const less = signs.includes(-1);
-  return more ? (less ? "apart" : "above") : less ? "below" : "same";
-}
-
-function inside(
-  value: number | undefined,
-  min: number | undefined,
-  max: number | undefined,
-  tolerance: number,
-): boolean {
-  return (
-    value === undefined ||
-    ((min === undefined || value >= min - tolerance) &&
-      (max === undefined || value <= max + tolerance))
-  );
-}
-
-function withinLimits(setting: Setting, limits: OrderLimits): boolean {
-  return (
-    inside(setting.fio2, limits.fio2Min, limits.fio2Max, SAME.fio2) &&
-    inside(setting.peep, limits.peepMin, limits.peepMax, SAME.peep) &&
-    inside(setting.flow, limits.flowMin, limits.flowMax, SAME.flow)
-  );
-}
-
-/** Which of the order's limits a table setting breaks, in words ("the order's FiO2 maximum 0.6"). */
-function brokenLimit(setting: Setting, limits: OrderLimits): string | null {
-  const over = (value: number | undefined, max: number | undefined, tolerance: number) =>
-    value !== undefined && max !== undefined && value > max + tolerance;
-  const under = (value: number | undefined, min: number | undefined, tolerance: number) =>
-    value !== undefined && min !== undefined && value < min - tolerance;
-  if (over(setting.fio2, limits.fio2Max, SAME.fio2))
-    return `the order's FiO2 maximum ${format(limits.fio2Max)}`;
-  if (over(setting.peep, limits.peepMax, SAME.peep))
-    return `the order's PEEP maximum ${format(limits.peepMax ?? 0, 1)} cmH2O`;
-  if (over(setting.flow, limits.flowMax, SAME.flow))
-    return `the order's flow maximum ${format(limits.flowMax ?? 0, 1)} L/min`;
-  if (under(setting.fio2, limits.fio2Min, SAME.fio2))
-    return `the order's FiO2 minimum ${format(limits.fio2Min)}`;
-  if (under(setting.peep, limits.peepMin, SAME.peep))
-    return `the order's PEEP minimum ${format(limits.peepMin ?? 0, 1)} cmH2O`;
-  if (under(setting.flow, limits.flowMin, SAME.flow))
-    return `the order's flow minimum ${format(limits.flowMin ?? 0, 1)} L/min`;
-  return null;
-}
-
-function checkSetting(
-  field: string,
-  value: SettingValue,
-  range: { min: number; max: number; unit: string },
-): void {
-  const [low, high] = ends(value);
-  checkRange(field, low, range);
-  checkBetween(field, high, low, range.max, range.unit);
-}
-
-function checkOptional(
-  field: string,
-  value: number | undefined,
-  min: number,
-  max: number,
-  unit: string,
-): void {
-  if (value !== undefined) checkBetween(field, value, min, max, unit);
-}
-
-function checkInput({
-  order,
-  current,
-  latestReading,
-  latestBloodGas,
-  barometricPressure,
-}: ProposeStepInput): void {
-  const { spo2Target, limits, steps, pao2Target } = order;
-  if (pao2Target) {
-    checkRange("order.pao2Target.lower", pao2Target.lower, RANGES.pao2Target);
-    checkBetween(
-      "order.pao2Target.upper",
-      pao2Target.upper,
-      pao2Target.lower,
-      RANGES.pao2Target.max,
-      RANGES.pao2Target.unit,
-    );
-  }
-  checkRange("order.spo2Target.lower", spo2Target.lower, RANGES.spo2Target);
-  checkBetween(
-    "order.spo2Target.upper",
-    spo2Target.upper,
-    spo2Target.lower,
-    RANGES.spo2Target.max,
-    RANGES.spo2Target.unit,
-  );
-  checkRange("order.limits.fio2Min", limits.fio2Min, RANGES.fio2);
-  checkBetween(
-    "order.limits.fio2Max",
-    limits.fio2Max,
-    limits.fio2Min,
-    RANGES.fio2.max,
-    RANGES.fio2.unit,
-  );
-  checkOptional(
-    "order.limits.peepMin",
-    limits.peepMin,
-    RANGES.peep.min,
-    RANGES.peep.max,
-    RANGES.peep.unit,
-  );
-  checkOptional(
-    "order.limits.peepMax",
-    limits.peepMax,
-    limits.peepMin ?? RANGES.peep.min,
-    RANGES.peep.max,
-    RANGES.peep.unit,
-  );
-  checkOptional(
-    "order.limits.flowMin",
-    limits.flowMin,
-    RANGES.flow.min,
-    RANGES.flow.max,
-    RANGES.flow.unit,
-  );
-  checkOptional(
-    "order.limits.flowMax",
-    limits.flowMax,
-    limits.flowMin ?? RANGES.flow.min,
-    RANGES.flow.max,
-    RANGES.flow.unit,
-  );
-  for (const [index, step] of steps.entries()) {
-    checkSetting(`order.steps[${index}].fio2`, step.fio2, RANGES.fio2);
-    if (step.peep !== undefined) checkSetting(`order.steps[${index}].peep`, step.peep, RANGES.peep);
-    if (step.flow !== undefined) checkRange(`order.steps[${index}].flow`, step.flow, RANGES.flow);
-  }
-  checkRange("current.fio2", current.fio2, RANGES.fio2);
-  if (current.peep !== undefined) checkRange("current.peep", current.peep, RANGES.peep);
-  if (current.flow !== undefined) checkRange("current.flow", current.flow, RANGES.flow);
-  checkRange("latestReading.spo2", latestReading.spo2, RANGES.spo2);
-  if (latestReading.fio2 !== undefined)
-    checkRange("latestReading.fio2", latestReading.fio2, RANGES.fio2);
-  if (latestBloodGas) {
-    checkRange("latestBloodGas.pao2", latestBloodGas.pao2, RANGES.pao2);
-    checkRange("latestBloodGas.paco2", latestBloodGas.paco2, RANGES.paco2);
-    checkRange("latestBloodGas.fio2", latestBloodGas.fio2, RANGES.fio2);
-    if (latestBloodGas.hemoglobin !== undefined)
-      checkRange("latestBloodGas.hemoglobin", latestBloodGas.hemoglobin, RANGES.hemoglobin);
-    if (latestBloodGas.peep !== undefined)
-      checkRange("latestBloodGas.peep", latestBloodGas.peep, RANGES.peep);
-  }
-  if (barometricPressure !== undefined)
-    checkRange("barometricPressure", barometricPressure, RANGES.barometricPressure);
-}
-
 function forecastFor(
   input: ProposeStepInput,
   step: ProposedSetting,
@@ -451,7 +260,7 @@ function urgentStep(
  * or from a PaO2 imputed from SpO2 ≤ 96 % when there is none.
  */
 export function proposeStep(input: ProposeStepInput): Proposal {
-  checkInput(input);
+  checkProposeStepInput(input);
   const { order, current, latestReading, latestBloodGas } = input;
   const urgency = input.urgency ?? DEFAULT_URGENCY;
   const spo2 = latestReading.spo2;
