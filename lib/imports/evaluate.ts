@@ -1,26 +1,21 @@
-import { Readable } from "node:stream";
-import { CsvError, parse } from "csv-parse";
+// Plans the small imports (blood gas CSV, HL7 results) whole: each row matched,
+// checked and turned into what would be written. The streamed monitor CSV is in
+// ./monitor-csv.
+
 import type { Knex } from "knex";
-import { afterReadingsCharted, type ChartedReading } from "../alerts/service";
-import type { LedgerActor } from "../ledger/service";
 import type { RejectedRow, RowReason } from "./kinds";
 import {
   bloodGasCandidates,
   bloodGasMappingSchema,
   guessBloodGasMapping,
-  ImportFileError,
-  monitorCandidate,
   readCsvTable,
-  readMonitorHeader,
   type BloodGasMapping,
-  type MonitorHeader,
 } from "./csv";
 import { parseOruR01, type Hl7Result } from "./hl7";
 import { hl7Candidates } from "./hl7-results";
 import {
   findAdmittedByMrn,
   planGas,
-  readingOxygen,
   storedGasTimes,
   storedReadingTimes,
   timeWindowReason,
@@ -81,7 +76,7 @@ function gasView(g: PlannedGas): AcceptedRowView {
   };
 }
 
-function readingView(r: PlannedReading): AcceptedRowView {
+export function readingView(r: PlannedReading): AcceptedRowView {
   return {
     label: r.label,
     mrn: r.patient.mrn,
@@ -262,7 +257,8 @@ export async function planHl7(
   };
 }
 
-function readingReason(
+/** Why a charted or imported reading cannot be taken (patient, time window, duplicate), or null. */
+export function readingReason(
   row: ImportedReading,
   patient: MatchedPatient | undefined,
   unit: ImportUnit,
@@ -300,209 +296,3 @@ function readingReason(
 }
 
 /** The row columns of readings written by an import. */
-export function readingInsertRow(
-  r: { patient: MatchedPatient; row: ImportedReading },
-  importId: number,
-  recordedBy: number | null,
-) {
-  const oxygen = readingOxygen(r.patient.settings!);
-  return {
-    patient_id: r.patient.patientId,
-    admission_id: r.patient.admissionId,
-    taken_at: r.row.takenAt,
-    spo2_pct: r.row.spo2,
-    respiratory_rate_per_min: null,
-    pulse_rate_per_min: r.row.pulseRate ?? null,
-    device: oxygen.device,
-    flow_l_min: oxygen.flow,
-    fio2: oxygen.fio2,
-    fio2_estimated: oxygen.fio2Estimated,
-    source: "monitor" as const,
-    recorded_by: recordedBy,
-    import_id: importId,
-  };
-}
-
-export function chartedReadings(rows: ReturnType<typeof readingInsertRow>[]): ChartedReading[] {
-  return rows.map((r) => ({
-    takenAt: r.taken_at,
-    spo2: r.spo2_pct,
-    fio2: r.fio2,
-    flow: r.flow_l_min,
-    source: "monitor",
-  }));
-}
-
-export const alertAdmissionOf = (p: MatchedPatient) => ({
-  admissionId: p.admissionId,
-  patientId: p.patientId,
-  unitId: p.unitId,
-  bedId: p.bedId,
-});
-
-/**
- * A stored file as a stream of 64 KiB chunks. One big chunk would let the CSV
- * parser turn the whole file into records before the first batch is written;
- * small chunks keep backpressure, so only a batch or so of rows is ever held.
- */
-export function fileStream(content: Buffer, chunkBytes = 64 * 1024): Readable {
-  return Readable.from(
-    (function* () {
-      for (let at = 0; at < content.length; at += chunkBytes)
-        yield content.subarray(at, at + chunkBytes);
-    })(),
-    { objectMode: false },
-  );
-}
-
-/** Rows per multi-row INSERT of a monitor file. */
-export const MONITOR_BATCH = 1000;
-
-export type MonitorWriter = {
-  trx: Knex.Transaction;
-  importId: number;
-  recordedBy: number | null;
-  ledgerActor: LedgerActor;
-};
-
-export type MonitorOutcome = {
-  patient: MatchedPatient;
-  total: number;
-  accepted: number;
-  rejected: RejectedRow[];
-  sample: AcceptedRowView[];
-  firstAt: Date | null;
-  lastAt: Date | null;
-};
-
-/**
- * Streams a monitor CSV through csv-parse, checking each row and, when a
- * writer is given, inserting the good ones in batches of MONITOR_BATCH with
- * alert detection after each batch. Holds one batch of rows at a time (plus
- * the set of seen times, for the in-file duplicate check), never the file's
- * rows.
- */
-export async function streamMonitorCsv(
-  knex: Db,
-  source: Readable,
-  unit: ImportUnit,
-  who: { mrn: string; bed: string },
-  now: Date,
-  writer: MonitorWriter | null,
-): Promise<MonitorOutcome> {
-  const patients = await findAdmittedByMrn(knex, [who.mrn], [unit.id]);
-  const patient = patients.get(who.mrn);
-  if (!patient)
-    throw new ImportFileError(
-      `MRN ${who.mrn} is not an admitted patient on ${unit.code}; no row of the file was imported.`,
-    );
-  if (patient.bedLabel !== who.bed) {
-    throw new ImportFileError(
-      `MRN ${who.mrn} is admitted on ${unit.code} bed ${patient.bedLabel}, not bed ${who.bed}; check which monitor the file came from.`,
-    );
-  }
-  if (!patient.settings) {
-    throw new ImportFileError(
-      `MRN ${who.mrn} has no bedside settings (no oxygen order applied), so the device and FiO2 of the readings are unknown; apply the order first.`,
-    );
-  }
-  const outcome: MonitorOutcome = {
-    patient,
-    total: 0,
-    accepted: 0,
-    rejected: [],
-    sample: [],
-    firstAt: null,
-    lastAt: null,
-  };
-  const seen = new Set<number>();
-  let batch: { line: number; label: string; row: ImportedReading }[] = [];
-
-  const flush = async () => {
-    if (batch.length === 0) return;
-    const stored = await storedReadingTimes(
-      writer?.trx ?? knex,
-      patient.patientId,
-      batch.map((b) => b.row.takenAt),
-    );
-    const good = batch.filter((b) => {
-      if (!stored.has(b.row.takenAt.getTime())) return true;
-      outcome.rejected.push({
-        line: b.line,
-        label: b.label,
-        mrn: who.mrn,
-        reasons: [
-          {
-            code: "duplicate",
-            field: "takenAt",
-            message: `A monitor reading at ${iso(b.row.takenAt)} is already stored for this patient.`,
-          },
-        ],
-      });
-      return false;
-    });
-    for (const b of good) {
-      if (!outcome.firstAt || b.row.takenAt < outcome.firstAt) outcome.firstAt = b.row.takenAt;
-      if (!outcome.lastAt || b.row.takenAt > outcome.lastAt) outcome.lastAt = b.row.takenAt;
-      if (outcome.sample.length < SAMPLE_ROWS) outcome.sample.push(readingView({ ...b, patient }));
-    }
-    outcome.accepted += good.length;
-    if (writer && good.length > 0) {
-      const rows = good.map((b) =>
-        readingInsertRow({ patient, row: b.row }, writer.importId, writer.recordedBy),
-      );
-      await writer.trx("readings").insert(rows);
-      await afterReadingsCharted(
-        writer.trx,
-        writer.ledgerActor,
-        alertAdmissionOf(patient),
-        chartedReadings(rows),
-        now,
-      );
-    }
-    batch = [];
-  };
-
-  const parser = source.pipe(
-    parse({ bom: true, info: true, relax_column_count: true, skip_empty_lines: true, trim: true }),
-  );
-  let header: MonitorHeader | null = null;
-  let width = 0;
-  try {
-    for await (const record of parser as AsyncIterable<{
-      record: string[];
-      info: { lines: number };
-    }>) {
-      if (!header) {
-        header = readMonitorHeader(record.record);
-        width = record.record.length;
-        continue;
-      }
-      outcome.total += 1;
-      const line = record.info.lines;
-      const check = checkReadingCandidate(
-        monitorCandidate(record.record, line, header, width, who.mrn),
-        unit.timeZone,
-      );
-      if (!check.ok) {
-        outcome.rejected.push(check.rejected);
-        continue;
-      }
-      const reason = readingReason(check.row, patient, unit, now, seen, new Set());
-      if (reason) {
-        outcome.rejected.push({ line, label: check.label, mrn: who.mrn, reasons: [reason] });
-        continue;
-      }
-      batch.push({ line, label: check.label, row: check.row });
-      if (batch.length >= MONITOR_BATCH) await flush();
-    }
-  } catch (error) {
-    if (error instanceof CsvError)
-      throw new ImportFileError(`The file is not valid CSV: ${error.message}`);
-    throw error;
-  }
-  await flush();
-  if (!header) throw new ImportFileError("The file is empty.");
-  outcome.rejected.sort((a, b) => a.line - b.line);
-  return outcome;
-}

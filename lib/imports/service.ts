@@ -4,14 +4,8 @@ import type { TokenActor } from "../api-tokens/service";
 import type { Actor } from "../auth/actor";
 import { duplicateIndex } from "../db-errors";
 import { ConflictError, DomainError, NotFoundError } from "../errors";
-import {
-  fileStream,
-  loadUnit,
-  planBloodGasCsv,
-  planHl7,
-  streamMonitorCsv,
-  type ImportUnit,
-} from "./evaluate";
+import { loadUnit, planBloodGasCsv, planHl7, type ImportUnit } from "./evaluate";
+import { fileStream, streamMonitorCsv } from "./monitor-csv";
 import type { ImportKind } from "./kinds";
 import { getImportRow, toPreview, type ImportRow } from "./queries";
 import type { ImportPreview, StoredReport } from "./report";

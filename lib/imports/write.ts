@@ -3,16 +3,14 @@ import { afterBloodGasRecorded, afterReadingsCharted } from "../alerts/service";
 import { insertBloodGas } from "../blood-gases/service";
 import { DomainError } from "../errors";
 import { appendLedger, type LedgerActor } from "../ledger/service";
+import { planBloodGasCsv, planHl7, type ImportUnit } from "./evaluate";
 import {
   alertAdmissionOf,
   chartedReadings,
   fileStream,
-  planBloodGasCsv,
-  planHl7,
   readingInsertRow,
   streamMonitorCsv,
-  type ImportUnit,
-} from "./evaluate";
+} from "./monitor-csv";
 import { IMPORT_LEDGER_ACTIONS } from "./kinds";
 import type { MatchedPatient } from "./matching";
 import type { ImportRow } from "./queries";
