@@ -34,6 +34,16 @@ const ACTION_LABELS: Record<LedgerAction, string> & Record<string, string | unde
   "import.monitor_csv": "Monitor file imported",
   "api_token.create": "API token created",
   "api_token.revoke": "API token revoked",
+  "patient.admit": "Patient admitted",
+  "patient.transfer": "Patient transferred",
+  "patient.discharge": "Patient discharged",
+  "patient.update": "Patient details changed",
+  "unit.create": "Unit created",
+  "unit.update": "Unit changed",
+  "bed.create": "Bed added",
+  "bed.update": "Bed changed",
+  "assignment.set": "Shift assignments set",
+  "handoff.acknowledge": "Handoff acknowledged",
 };
 
 const ENTITY_LABELS: Record<LedgerEntityType, string> & Record<string, string | undefined> = {
@@ -50,6 +60,7 @@ const ENTITY_LABELS: Record<LedgerEntityType, string> & Record<string, string | 
   alert: "Alert",
   import: "Import",
   api_token: "API token",
+  shift: "Shift",
 };
 
 /** The human label of a ledger action code ("order.write" → "Order written and signed"). */

@@ -1,5 +1,6 @@
 import type { Knex } from "knex";
 import { hashPassword } from "../../lib/auth/password";
+import { DEVICES } from "../../lib/devices";
 import { DEMO_PASSWORD, DEMO_USERS, demoPatients } from "../demo/people";
 
 const UNITS = [
@@ -8,6 +9,8 @@ const UNITS = [
     name: "Medical ICU",
     kind: "icu",
     beds: 12,
+    devices: DEVICES,
+    fallbackEmail: "micu-desk@kestrel.example",
     occupied: [1, 2, 3, 4, 5, 6, 7, 8, 10, 11],
   },
   {
@@ -15,6 +18,9 @@ const UNITS = [
     name: "Respiratory Ward",
     kind: "ward",
     beds: 20,
+    // The ward does not ventilate: a patient who needs NIV or a ventilator moves to the ICU.
+    devices: DEVICES.filter((d) => d !== "niv" && d !== "invasive"),
+    fallbackEmail: "resp-desk@kestrel.example",
     occupied: [1, 2, 3, 4, 5, 6, 7, 9, 10, 11, 12, 14, 15, 16, 17, 19],
   },
 ] as const;
@@ -56,6 +62,10 @@ export async function seed(knex: Knex): Promise<void> {
         kind: u.kind,
         altitude_m: 40,
         time_zone: "UTC",
+        shift_start: "07:00",
+        shift_hours: 12,
+        devices_json: JSON.stringify(u.devices),
+        fallback_email: u.fallbackEmail,
       });
       unitIds.set(u.code, Number(unitId));
       for (let n = 1; n <= u.beds; n++) {

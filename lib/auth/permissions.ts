@@ -34,6 +34,17 @@ export const PERMISSIONS = {
   "blood_gas.record": CLINICAL,
   "alert.act": CLINICAL,
   "import.upload": ["therapist", "admin"],
+  /** Admit, transfer and discharge patients of one's units. */
+  "admission.manage": ["physician", "nurse", "admin"],
+  /** Create and edit units; add, rename and retire beds. */
+  "unit.manage": ["admin"],
+  /**
+   * Set a shift's bed assignments and charge nurse: admins, and nurses who
+   * hold the unit's charge duty (see lib/assignments/may-assign.ts).
+   */
+  "assignment.manage": ["nurse", "admin"],
+  /** The incoming nurse acknowledges the handoff of a bed. */
+  "handoff.acknowledge": ["nurse"],
   "user.manage": ["admin"],
   "api_token.manage": ["admin"],
   "step_table.manage": ["admin"],

@@ -30,6 +30,16 @@ export const LEDGER_ACTIONS = [
   "user.alert_email_preferences",
   "user.reauth_refused",
   "user.sign_out",
+  "patient.admit",
+  "patient.transfer",
+  "patient.discharge",
+  "patient.update",
+  "unit.create",
+  "unit.update",
+  "bed.create",
+  "bed.update",
+  "assignment.set",
+  "handoff.acknowledge",
 ] as const;
 
 export type LedgerAction = (typeof LEDGER_ACTIONS)[number];
@@ -48,5 +58,6 @@ export const LEDGER_ENTITY_TYPES = [
   "import",
   "api_token",
   "alert",
+  "shift",
 ] as const;
 export type LedgerEntityType = (typeof LEDGER_ENTITY_TYPES)[number];
