@@ -20,11 +20,30 @@ import { AlertActions } from "./AlertActions";
 
 export const ALERT_LIST_REFRESH_MS = 15_000;
 
-/** Who has been told at the current level, and whether their e-mail went out. */
+const BASIS_WORDS: Record<string, (duty: string) => string> = {
+  assigned: (duty) => `assigned ${duty}`,
+  prescriber: () => "the order's prescriber — no physician assigned",
+  charge: (duty) => `charge nurse — no ${duty} assigned to this bed`,
+  fallback: (duty) => `unit fallback address — no ${duty} and no charge nurse on this shift`,
+};
+
+type ToldDetail = { level: number; recipients: { name: string; basis: string }[] };
+
+/** The people (or address) this level reached, each with the reason they were chosen. */
+function toldWho(a: AlertView): string | null {
+  const told = a.detail.told as ToldDetail | undefined;
+  if (!told || told.level !== a.escalationLevel || !told.recipients.length) return null;
+  const duty = ESCALATION_DUTIES[a.escalationLevel] ?? "care team";
+  return told.recipients
+    .map((r) => `${r.name} (${BASIS_WORDS[r.basis]?.(duty) ?? r.basis})`)
+    .join(", ");
+}
+
+/** Who has been told at the current level, why, and whether their e-mail went out. */
 function toldText(a: AlertView): string {
-  const level = ESCALATION_LABELS[a.escalationLevel] ?? "care team";
+  const level = toldWho(a) ?? ESCALATION_LABELS[a.escalationLevel] ?? "care team";
   if (a.detail.unassignedLevel === a.escalationLevel)
-    return `no ${ESCALATION_DUTIES[a.escalationLevel]} assigned to this bed on this shift${a.nextEscalationAt ? " — it escalates unless acknowledged" : ""}`;
+    return `nobody: no ${ESCALATION_DUTIES[a.escalationLevel]} assigned, no charge nurse and no fallback address for this unit${a.nextEscalationAt ? " — it escalates unless acknowledged" : ""}`;
   // The current level's e-mail went out after the alert reached that level.
   const since = a.escalatedAt ?? a.openedAt;
   if (a.lastMailAt && a.lastMailAt >= since)

@@ -21,19 +21,45 @@ export async function findOpenAdmission(
   actor: Actor,
   patientId: number,
 ): Promise<OpenAdmission> {
-  const row = (await knex("admissions as a")
+  return findAdmission(knex, actor, patientId, false);
+}
+
+/**
+ * For reading a Chart: the open admission, or else the patient's latest
+ * discharged one on the actor's units, so records stay readable after
+ * discharge. Writes keep asking findOpenAdmission.
+ */
+export async function findReadableAdmission(
+  knex: Knex,
+  actor: Actor,
+  patientId: number,
+): Promise<OpenAdmission> {
+  return findAdmission(knex, actor, patientId, true);
+}
+
+async function findAdmission(
+  knex: Knex,
+  actor: Actor,
+  patientId: number,
+  orDischarged: boolean,
+): Promise<OpenAdmission> {
+  const q = knex("admissions as a")
     .join("beds as b", "b.id", "a.bed_id")
     .join("units as u", "u.id", "b.unit_id")
-    .where("a.patient_id", patientId)
-    .whereNull("a.discharged_at")
-    .first(
-      "a.id as admission_id",
-      "a.patient_id",
-      "b.id as bed_id",
-      "u.id as unit_id",
-      "u.altitude_m",
-      "u.time_zone",
-    )) as
+    .where("a.patient_id", patientId);
+  if (orDischarged) {
+    q.whereIn("u.id", actor.unitIds.length ? actor.unitIds : [0]).orderByRaw(
+      "a.discharged_at IS NULL DESC, a.id DESC",
+    );
+  } else q.whereNull("a.discharged_at");
+  const row = (await q.first(
+    "a.id as admission_id",
+    "a.patient_id",
+    "b.id as bed_id",
+    "u.id as unit_id",
+    "u.altitude_m",
+    "u.time_zone",
+  )) as
     | {
         admission_id: number;
         patient_id: number;

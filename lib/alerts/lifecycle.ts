@@ -3,7 +3,7 @@ import { appendLedger, type LedgerActor } from "../ledger/service";
 import type { AlertConfig } from "./config";
 import { idleWatch, restoreWatch, storableWatch, type WatchState } from "./detect";
 import type { AlertKind } from "./kinds";
-import { cancelPendingMail, queueAlertMail } from "./outbox";
+import { cancelPendingMail, queueAlertMail, type Told } from "./outbox";
 
 // The steps every alert goes through, whatever raised it: open (with its
 // e-mail in the outbox), close, and the detection state kept per admission.
@@ -112,7 +112,7 @@ export async function openAlert(
   const mail = await queueAlertMail(trx, alertId, spec.level, "notify", now, {
     exclude: spec.chartedBy ?? null,
   });
-  await noteUnassigned(trx, alertId, spec.level, mail.recipients.length === 0);
+  await noteRecipients(trx, alertId, spec.level, mail.told);
   await appendLedger(
     trx,
     actor,
@@ -131,6 +131,7 @@ export async function openAlert(
         escalationLevel: spec.level,
         ...spec.detail,
         mailQueuedFor: mail.mailed,
+        told: mail.told,
         notAssigned: mail.recipients.length === 0,
         optedOutOfEmail: mail.optedOut,
         notMailedAtBedside: mail.excluded,
@@ -157,16 +158,20 @@ export async function updateDetail(
 }
 
 /**
- * Records on the alert whether anyone holds the duty this level reaches, so
- * the screens can say "no nurse assigned" instead of "e-mail not yet delivered".
+ * Records on the alert who this level reached and why (assigned, prescriber,
+ * charge nurse, fallback address), so the screens can say who was told — or
+ * that nobody could be, when the unit has no charge nurse and no fallback.
  */
-export async function noteUnassigned(
+export async function noteRecipients(
   trx: Knex.Transaction,
   alertId: number,
   level: number,
-  unassigned: boolean,
+  told: Told,
 ): Promise<void> {
-  await updateDetail(trx, alertId, { unassignedLevel: unassigned ? level : null });
+  await updateDetail(trx, alertId, {
+    unassignedLevel: told.length === 0 ? level : null,
+    told: { level, recipients: told },
+  });
 }
 
 export async function closeAlert(

@@ -6,36 +6,78 @@ import { ESCALATION_DUTIES, type AlertKind } from "./kinds";
 
 export type Recipient = { id: number; email: string; name: string };
 
+/** Why a recipient was chosen: the bed's assignment first, never nobody if the unit has a fallback. */
+export type RecipientBasis = "assigned" | "prescriber" | "charge" | "fallback";
+
+/** An alert's recipient; the unit's fallback address has no user behind it. */
+export type AlertRecipient = {
+  id: number | null;
+  email: string;
+  name: string;
+  basis: RecipientBasis;
+};
+
 /**
  * Who an escalation level reaches now: the shift's care-team assignment for
  * the bed (nurse, therapist, physician); for the physician level, the order's
- * prescriber when no physician is assigned.
+ * prescriber when no physician is assigned; then the unit's charge nurse of
+ * the shift; then the unit's fallback address. Empty only when the unit has
+ * none of these.
  */
 export async function recipientsFor(
   trx: Knex.Transaction | Knex,
-  alert: { bedId: number; orderId: number | null },
+  alert: { bedId: number; unitId: number; orderId: number | null },
   level: number,
   now: Date,
-): Promise<Recipient[]> {
+): Promise<AlertRecipient[]> {
   const duty = ESCALATION_DUTIES[Math.min(level, 2)]!;
+  const people = (rows: Recipient[], basis: RecipientBasis) =>
+    rows.map((r) => ({ id: r.id, email: r.email, name: r.name, basis }));
   const assigned = (await trx("care_assignments as c")
     .join("users as u", "u.id", "c.user_id")
     .where({ "c.bed_id": alert.bedId, "c.duty": duty, "u.active": true })
     .where("c.starts_at", "<=", now)
     .where("c.ends_at", ">", now)
     .distinct("u.id", "u.email", "u.name")) as Recipient[];
-  if (assigned.length || duty !== "physician" || alert.orderId === null) return assigned;
-  return (await trx("orders as o")
-    .join("users as u", "u.id", "o.prescriber_id")
-    .where({ "o.id": alert.orderId, "u.active": true })
+  if (assigned.length) return people(assigned, "assigned");
+  if (duty === "physician" && alert.orderId !== null) {
+    const prescriber = (await trx("orders as o")
+      .join("users as u", "u.id", "o.prescriber_id")
+      .where({ "o.id": alert.orderId, "u.active": true })
+      .select("u.id", "u.email", "u.name")) as Recipient[];
+    if (prescriber.length) return people(prescriber, "prescriber");
+  }
+  const charge = (await trx("unit_charge_duties as d")
+    .join("users as u", "u.id", "d.user_id")
+    .where({ "d.unit_id": alert.unitId, "u.active": true })
+    .where("d.starts_at", "<=", now)
+    .where("d.ends_at", ">", now)
     .select("u.id", "u.email", "u.name")) as Recipient[];
+  if (charge.length) return people(charge, "charge");
+  const unit = (await trx("units").where({ id: alert.unitId }).first("code", "fallback_email")) as
+    { code: string; fallback_email: string | null } | undefined;
+  if (unit?.fallback_email) {
+    return [
+      {
+        id: null,
+        email: unit.fallback_email,
+        name: `${unit.code} fallback address`,
+        basis: "fallback",
+      },
+    ];
+  }
+  return [];
 }
+
+/** Who was told at one level and why, as the alert keeps it for the screens. */
+export type Told = { name: string; basis: RecipientBasis }[];
 
 type AlertMailContext = {
   id: number;
   kind: AlertKind;
   grade: "routine" | "urgent";
   bed_id: number;
+  unit_id: number;
   order_id: number | null;
   started_at: Date;
   band_lower_pct: number | null;
@@ -66,7 +108,13 @@ export async function queueAlertMail(
   purpose: string,
   now: Date,
   opts: { exclude?: number | null } = {},
-): Promise<{ recipients: number[]; mailed: number[]; optedOut: number[]; excluded: number[] }> {
+): Promise<{
+  recipients: (number | null)[];
+  told: Told;
+  mailed: (number | null)[];
+  optedOut: number[];
+  excluded: number[];
+}> {
   const a = (await trx("alerts as a")
     .join("units as u", "u.id", "a.unit_id")
     .join("beds as b", "b.id", "a.bed_id")
@@ -76,6 +124,7 @@ export async function queueAlertMail(
       "a.kind",
       "a.grade",
       "a.bed_id",
+      "a.unit_id",
       "a.order_id",
       "a.started_at",
       "a.band_lower_pct",
@@ -88,12 +137,18 @@ export async function queueAlertMail(
       "u.time_zone",
       "b.label as bed_label",
     )) as AlertMailContext;
-  const recipients = await recipientsFor(trx, { bedId: a.bed_id, orderId: a.order_id }, level, now);
-  if (!recipients.length) return { recipients: [], mailed: [], optedOut: [], excluded: [] };
+  const recipients = await recipientsFor(
+    trx,
+    { bedId: a.bed_id, unitId: a.unit_id, orderId: a.order_id },
+    level,
+    now,
+  );
+  if (!recipients.length)
+    return { recipients: [], told: [], mailed: [], optedOut: [], excluded: [] };
   const optedOut = (await trx("alert_email_preferences")
     .whereIn(
       "user_id",
-      recipients.map((r) => r.id),
+      recipients.flatMap((r) => (r.id === null ? [] : [r.id])),
     )
     .where({ kind: a.kind, email: false })
     .pluck("user_id")) as number[];
@@ -136,8 +191,12 @@ export async function queueAlertMail(
     baseUrl: env.NEXTAUTH_URL,
   });
   // Whoever charted the value that raised the alert is at the bedside: no e-mail for them.
-  const excluded = recipients.filter((r) => r.id === opts.exclude).map((r) => r.id);
-  const mailed = recipients.filter((r) => !optedOut.includes(r.id) && !excluded.includes(r.id));
+  const excluded = recipients.flatMap((r) =>
+    r.id !== null && r.id === opts.exclude ? [r.id] : [],
+  );
+  const mailed = recipients.filter(
+    (r) => r.id === null || (!optedOut.includes(r.id) && !excluded.includes(r.id)),
+  );
   if (mailed.length) {
     await trx("mail_outbox")
       .insert(
@@ -145,11 +204,13 @@ export async function queueAlertMail(
           alert_id: a.id,
           purpose,
           recipient_user_id: r.id,
+          recipient_basis: r.basis,
           to_address: r.email,
           subject: mail.subject,
           text_body: mail.text,
           html_body: mail.html,
-          message_id: alertMessageId(a.id, purpose, r.id, mailDomain(env.SMTP_FROM)),
+          // The fallback address has no user: 0 stands for it in the Message-ID.
+          message_id: alertMessageId(a.id, purpose, r.id ?? 0, mailDomain(env.SMTP_FROM)),
           state: "pending",
           next_attempt_at: now,
           created_at: now,
@@ -160,6 +221,7 @@ export async function queueAlertMail(
   }
   return {
     recipients: recipients.map((r) => r.id),
+    told: recipients.map((r) => ({ name: r.name, basis: r.basis })),
     mailed: mailed.map((r) => r.id),
     optedOut,
     excluded,
@@ -209,7 +271,7 @@ export async function queueUserMail(
  * Cancels an alert's e-mail that has not left yet, with the reason — an
  * alert resolved or acknowledged before its e-mail was sent is not announced
  * as if it still waited for someone. `purposes` limits it (by prefix).
- * Returns the recipients whose e-mail was cancelled.
+ * Returns the recipients whose e-mail was cancelled (null: the unit's fallback address).
  */
 export async function cancelPendingMail(
   trx: Knex.Transaction,
@@ -217,14 +279,14 @@ export async function cancelPendingMail(
   reason: string,
   now: Date,
   purposes?: readonly string[],
-): Promise<number[]> {
+): Promise<(number | null)[]> {
   const pending = (await trx("mail_outbox")
     .where({ alert_id: alertId, state: "pending" })
     .forUpdate()
     .select("id", "purpose", "recipient_user_id")) as {
     id: number;
     purpose: string;
-    recipient_user_id: number;
+    recipient_user_id: number | null;
   }[];
   const chosen = purposes
     ? pending.filter((m) => purposes.some((p) => m.purpose.startsWith(p)))
@@ -256,7 +318,7 @@ type OutboxRow = {
   id: number;
   alert_id: number | null;
   purpose: string;
-  recipient_user_id: number;
+  recipient_user_id: number | null;
   to_address: string;
   subject: string;
   text_body: string;

@@ -5,7 +5,7 @@ import { checkSignal, type WatchEvent } from "./detect";
 import { reassessmentOverdueMinutes } from "./due";
 import {
   lockWatch,
-  noteUnassigned,
+  noteRecipients,
   openAlert,
   openAlertOf,
   saveWatch,
@@ -67,7 +67,7 @@ export async function escalateDueAlerts(
           version: a.version + 1,
         });
       const mail = await queueAlertMail(trx, id, level, `escalate-${level}`, now);
-      await noteUnassigned(trx, id, level, mail.recipients.length === 0);
+      await noteRecipients(trx, id, level, mail.told);
       await appendLedger(
         trx,
         SYSTEM_ACTOR,
@@ -82,6 +82,7 @@ export async function escalateDueAlerts(
             state: "escalated",
             escalationLevel: level,
             mailQueuedFor: mail.mailed,
+            told: mail.told,
             notAssigned: mail.recipients.length === 0,
           },
           rationale: `Not acknowledged within ${Math.round(cfg.escalateAfterMs / 60_000)} min.`,

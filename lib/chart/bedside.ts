@@ -12,7 +12,7 @@ import type { Device } from "../devices";
 import { alertConfig } from "../alerts/config";
 import { gasAgeCaveat, gasFreshness, type GasFreshness } from "../blood-gases/freshness";
 import { getEnv } from "../env";
-import { findOpenAdmission, type OpenAdmission } from "../admissions/access";
+import { findReadableAdmission, type OpenAdmission } from "../admissions/access";
 
 export type BedsideSettings = {
   device: Device;
@@ -114,7 +114,7 @@ export async function getBedsideContext(
   options: { useStaleBloodGas?: boolean; now?: Date } = {},
 ): Promise<BedsideContext> {
   const now = options.now ?? new Date();
-  const admission = await findOpenAdmission(knex, actor, patientId);
+  const admission = await findReadableAdmission(knex, actor, patientId);
   const barometricPressure = barometricPressureAtAltitude(admission.altitudeM);
   // Rows are typed by assertion below, at the knex boundary.
   const first = (q: Knex.QueryBuilder): Promise<unknown> => q.first() as Promise<unknown>;

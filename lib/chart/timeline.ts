@@ -4,7 +4,7 @@ import type { Actor } from "../auth/actor";
 import { ValidationError } from "../errors";
 import { DEVICE_PROFILES, type Device } from "../devices";
 import { BELOW_OXIMETER_ACCURACY_LABEL, belowOximeterAccuracy } from "../oxygen/oximetry";
-import { findOpenAdmission } from "../admissions/access";
+import { findReadableAdmission } from "../admissions/access";
 
 // Alerts are a later issue: when they exist they join the timeline as a fifth kind.
 export const TIMELINE_KINDS = ["order", "adjustment", "reading", "blood_gas"] as const;
@@ -311,7 +311,7 @@ export async function listTimeline(
   patientId: number,
   query: TimelineQuery,
 ): Promise<TimelinePage> {
-  const admission = await findOpenAdmission(knex, actor, patientId);
+  const admission = await findReadableAdmission(knex, actor, patientId);
   const kinds =
     query.kinds && query.kinds.length > 0 ? [...new Set(query.kinds)] : [...TIMELINE_KINDS];
   const before = query.before ? decodeCursor(query.before) : null;

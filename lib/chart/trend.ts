@@ -1,7 +1,7 @@
 import type { Knex } from "knex";
 import type { Actor } from "../auth/actor";
 import { ValidationError } from "../errors";
-import { findOpenAdmission } from "../admissions/access";
+import { findReadableAdmission } from "../admissions/access";
 import { downsampleMinMax } from "./downsample";
 
 /** At most this many SpO2 points reach the chart; a denser series is thinned (see downsampleMinMax). */
@@ -71,7 +71,7 @@ export async function getTrend(
       to: ["The end of the range (to) must be after its start (from)."],
     });
   }
-  const admission = await findOpenAdmission(knex, actor, patientId);
+  const admission = await findReadableAdmission(knex, actor, patientId);
   const { admitted_at: admittedAt } = (await knex("admissions")
     .where({ id: admission.admissionId })
     .first("admitted_at")) as { admitted_at: Date };

@@ -34,6 +34,8 @@ export default async function NewOrderPage({ params }: { params: Promise<{ patie
   const parsed = paramsSchema.safeParse(await params);
   if (!parsed.success) notFound();
   const patient = await loadPatient(db(), actor, parsed.data.patientId);
+  // A discharged patient's Chart is read-only: no new orders.
+  if (patient.admission.dischargedAt) notFound();
   const { unit, bed } = patient.admission;
   const physician = can(actor, "order.sign");
   const [currentOrder, stepTables, physicians, units] = await Promise.all([

@@ -1,0 +1,29 @@
+import { defineRead, defineWrite } from "../boundary/operation";
+import { searchPatients } from "./queries";
+import { admitSchema, dischargeSchema, patientSearchSchema, transferSchema } from "./schema";
+import { admitPatient, dischargePatient, transferPatient } from "./service";
+
+export const admitOperation = defineWrite({
+  permission: "admission.manage",
+  schema: admitSchema,
+  run: (knex, actor, input, now) => admitPatient(knex, actor, input, now),
+});
+
+export const transferOperation = defineWrite({
+  permission: "admission.manage",
+  schema: transferSchema,
+  run: (knex, actor, input, now) => transferPatient(knex, actor, input, now),
+});
+
+export const dischargeOperation = defineWrite({
+  permission: "admission.manage",
+  schema: dischargeSchema,
+  run: (knex, actor, input, now) => dischargePatient(knex, actor, input, now),
+});
+
+/** The header's search: patients of the actor's units by MRN, name or bed. */
+export const searchPatientsOperation = defineRead({
+  permission: "record.read",
+  schema: patientSearchSchema,
+  run: (knex, actor, { query }) => searchPatients(knex, actor, query),
+});
