@@ -327,7 +327,7 @@ describe("transfer", () => {
       after_json: string;
       rationale: string;
     };
-    expect(JSON.parse(entry.before_json).bed.id).toBe(from);
+    expect((JSON.parse(entry.before_json) as { bed: { id: number } }).bed.id).toBe(from);
     expect(JSON.parse(entry.after_json)).toMatchObject({ bed: { id: to }, alertsMoved: 1 });
     expect(entry.rationale).toBe("Closer to the station");
   });
@@ -445,7 +445,8 @@ describe("discharge", () => {
       disposition: "other_hospital",
       rationale: "ECMO centre",
     });
-    expect(out).toMatchObject({ disposition: "other_hospital", dischargedAt: expect.any(String) });
+    expect(out.disposition).toBe("other_hospital");
+    expect(typeof out.dischargedAt).toBe("string");
     const order = (await knex("orders")
       .where({ admission_id: admission.admissionId })
       .first("status", "discontinue_reason")) as { status: string; discontinue_reason: string };
