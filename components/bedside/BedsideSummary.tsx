@@ -19,6 +19,8 @@ function minutesSince(iso: string, now: Date): number {
 export function bedsideActions(actor: Actor, context: BedsideContext) {
   const base = `/patients/${context.admission.patientId}`;
   const actions: { href: string; label: string }[] = [];
+  // A discharged patient's Chart is a record: nothing more is written to it.
+  if (context.admission.dischargedAt) return actions;
   // Which buttons to show comes from the permission table, as the server's checks do.
   if (can(actor, "order.write")) {
     actions.push({

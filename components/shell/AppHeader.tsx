@@ -5,6 +5,7 @@ import type { ThemeChoice } from "@/lib/preferences/theme";
 import type { AlertSummary } from "@/lib/alerts/queries";
 import { AlertBell } from "./AlertBell";
 import { NavLinks } from "./NavLinks";
+import { PatientSearch } from "./PatientSearch";
 import { SignOutButton } from "./SignOutButton";
 import { ThemeSwitcher } from "./ThemeSwitcher";
 import { UnitSwitcher } from "./UnitSwitcher";
@@ -15,6 +16,7 @@ export type NavItem = { href: string; label: string };
 function navFor(role: Role): NavItem[] {
   const items: NavItem[] = [{ href: "/board", label: "Board" }];
   if (can({ role }, "order.cosign")) items.push({ href: "/orders/cosign", label: "Co-sign" });
+  if (can({ role }, "admission.manage")) items.push({ href: "/admit", label: "Admit" });
   items.push({ href: "/ledger", label: "Ledger" });
   if (can({ role }, "import.upload")) items.push({ href: "/imports", label: "Uploads" });
   if (can({ role }, "user.manage")) items.push({ href: "/admin/users", label: "Users" });
@@ -52,6 +54,7 @@ export function AppHeader({
         <NavLinks items={navFor(user.role)} />
         <AlertBell initial={alertSummary} />
         <div className="ml-auto flex flex-wrap items-center gap-3">
+          <PatientSearch />
           <UnitSwitcher units={units} value={unitChoice} />
           <ThemeSwitcher value={theme} />
           <div className="text-right leading-tight" data-testid="current-user">

@@ -10,6 +10,8 @@ export type OpenAdmission = {
   altitudeM: number;
   /** The unit's time zone: times are typed and shown on its clock. */
   timeZone: string;
+  /** Set only by findReadableAdmission, for a discharged patient's Chart. */
+  dischargedAt: Date | null;
 };
 
 /**
@@ -59,6 +61,7 @@ async function findAdmission(
     "u.id as unit_id",
     "u.altitude_m",
     "u.time_zone",
+    "a.discharged_at",
   )) as
     | {
         admission_id: number;
@@ -67,6 +70,7 @@ async function findAdmission(
         unit_id: number;
         altitude_m: number;
         time_zone: string;
+        discharged_at: Date | null;
       }
     | undefined;
   if (!row || !actor.unitIds.includes(row.unit_id)) {
@@ -79,5 +83,6 @@ async function findAdmission(
     unitId: row.unit_id,
     altitudeM: row.altitude_m,
     timeZone: row.time_zone,
+    dischargedAt: row.discharged_at,
   };
 }

@@ -67,8 +67,7 @@ export const patientDetailsSchema = z.object({
 export type PatientDetails = z.output<typeof patientDetailsSchema>;
 
 /** Admit a new patient, or a returning one found by MRN, into a free bed. */
-export const admitSchema = z.object({
-  patient: patientDetailsSchema,
+export const admitSchema = patientDetailsSchema.extend({
   bedId: z.number({ error: "Choose a free bed." }).int().positive(),
   admittedAt: eventTime("Admission time"),
   rationale: z

@@ -209,7 +209,7 @@ async function findOrCreatePatient(
       if (duplicateIndex(error) === "patients_mrn_unique") {
         throw new ConflictError(
           `MRN ${details.mrn} was registered by someone else a moment ago; search for it and admit the patient found.`,
-          { "patient.mrn": ["Registered a moment ago by someone else."] },
+          { mrn: ["Registered a moment ago by someone else."] },
         );
       }
       throw error;
@@ -227,7 +227,7 @@ async function findOrCreatePatient(
   ) {
     throw new ConflictError(
       `MRN ${details.mrn} belongs to ${stored.family_name}, ${stored.given_name} (born ${birth}, ${stored.sex}), not to the patient typed. Check the MRN, or use the stored details.`,
-      { "patient.mrn": [`Belongs to ${stored.family_name}, ${stored.given_name}, born ${birth}.`] },
+      { mrn: [`Belongs to ${stored.family_name}, ${stored.given_name}, born ${birth}.`] },
     );
   }
   // Height and weight change over a life; a returning patient's new values win.
@@ -273,9 +273,9 @@ export async function admitPatient(
     new Date(now.getTime() - 7 * 86_400_000),
   );
   const bed = await bedForActor(knex, actor, input.bedId);
-  const who = `${input.patient.familyName}, ${input.patient.givenName} (MRN ${input.patient.mrn})`;
+  const who = `${input.familyName}, ${input.givenName} (MRN ${input.mrn})`;
   return once(knex, actor.id, input.idempotencyKey, "patient.admit", async (trx) => {
-    const patient = await findOrCreatePatient(trx, input.patient);
+    const patient = await findOrCreatePatient(trx, input);
     await lockPatientChain(trx, patient.id);
     let admissionId: number;
     try {
@@ -298,7 +298,18 @@ export async function admitPatient(
         entityId: admissionId,
         patientId: patient.id,
         unitId: bed.unit_id,
-        after: { ...view, patient: input.patient },
+        after: {
+          ...view,
+          patient: {
+            mrn: input.mrn,
+            familyName: input.familyName,
+            givenName: input.givenName,
+            birthDate: input.birthDate,
+            sex: input.sex,
+            heightCm: input.heightCm ?? null,
+            weightKg: input.weightKg ?? null,
+          },
+        },
         rationale: input.rationale || null,
       },
       now,

@@ -171,3 +171,36 @@ export async function listBeds(
         : null,
   }));
 }
+
+/** A bed with nobody in it, with its unit's name, clock and allowed devices. */
+export type FreeBedView = {
+  id: number;
+  label: string;
+  unitId: number;
+  unitCode: string;
+  unitName: string;
+  timeZone: string;
+  allowedDevices: Device[];
+};
+
+/** The free, active beds of the given units, by unit and bed order. */
+export async function listFreeBeds(knex: Knex, unitIds: readonly number[]): Promise<FreeBedView[]> {
+  if (unitIds.length === 0) return [];
+  const units = await listUnitDetails(knex, { onlyIds: unitIds });
+  const out: FreeBedView[] = [];
+  for (const unit of units) {
+    for (const bed of await listBeds(knex, unit.id)) {
+      if (bed.occupant) continue;
+      out.push({
+        id: bed.id,
+        label: bed.label,
+        unitId: unit.id,
+        unitCode: unit.code,
+        unitName: unit.name,
+        timeZone: unit.timeZone,
+        allowedDevices: unit.allowedDevices,
+      });
+    }
+  }
+  return out;
+}

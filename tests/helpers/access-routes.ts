@@ -20,6 +20,7 @@ import {
   type World,
 } from "./access-fixtures";
 import type { Cell, RouteEntry } from "./access-matrix";
+import { ADT_ROUTES } from "./access-routes-adt";
 import { appDb, uniqueEmail } from "./db";
 import { DEMO_PASSWORD } from "./browser";
 
@@ -477,4 +478,7 @@ const ROUTES: Omit<RouteEntry, "via">[] = [
   },
 ];
 
-export const ROUTE_ENTRIES: RouteEntry[] = ROUTES.map((e) => ({ ...e, via: "route" }));
+export const ROUTE_ENTRIES: RouteEntry[] = [...ROUTES, ...ADT_ROUTES].map((e) => ({
+  ...e,
+  via: "route",
+}));

@@ -145,7 +145,7 @@ async function admittedWithOrder(bedId: number, now = new Date()) {
   const admission = await admitOperation.invoke(
     knex,
     staff.nurse1!,
-    { patient: newPatient(), bedId, rationale: "From the emergency department" },
+    { ...newPatient(), bedId, rationale: "From the emergency department" },
     now,
   );
   await writeOrderOperation.invoke(knex, staff.physician!, hfncOrder(admission.patientId), now);
@@ -260,7 +260,7 @@ describe("an alert always reaches someone", () => {
     const admission = await admitOperation.invoke(
       knex,
       staff.nurse1!,
-      { patient: newPatient(), bedId },
+      { ...newPatient(), bedId },
       now,
     );
     await writeOrderOperation.invoke(
@@ -370,7 +370,7 @@ describe("admit", () => {
     const bedId = nextBed(ward);
     const results = await Promise.allSettled(
       [newPatient(), newPatient()].map((patient) =>
-        admitOperation.invoke(knex, staff.nurse1!, { patient, bedId }),
+        admitOperation.invoke(knex, staff.nurse1!, { ...patient, bedId }),
       ),
     );
     expect(results.filter((r) => r.status === "fulfilled")).toHaveLength(1);
@@ -383,7 +383,7 @@ describe("admit", () => {
   it("finds a returning patient by MRN instead of duplicating, and refuses a mismatched one", async () => {
     const patient = newPatient();
     const first = await admitOperation.invoke(knex, staff.nurse1!, {
-      patient,
+      ...patient,
       bedId: nextBed(ward),
     });
     await dischargeOperation.invoke(knex, staff.nurse1!, {
@@ -391,7 +391,8 @@ describe("admit", () => {
       disposition: "home",
     });
     const again = await admitOperation.invoke(knex, staff.nurse1!, {
-      patient: { ...patient, weightKg: 71 },
+      ...patient,
+      weightKg: 71,
       bedId: nextBed(ward),
     });
     expect(again).toMatchObject({ patientId: first.patientId, returning: true });
@@ -400,7 +401,8 @@ describe("admit", () => {
     ]);
     await expect(
       admitOperation.invoke(knex, staff.nurse1!, {
-        patient: { ...patient, givenName: "Someone" },
+        ...patient,
+        givenName: "Someone",
         bedId: nextBed(ward),
       }),
     ).rejects.toThrow(/belongs to Quellmoor/);
@@ -409,7 +411,7 @@ describe("admit", () => {
   it("is for physicians, nurses and admins of the unit: a therapist is refused, another unit is not found", async () => {
     await expect(
       admitOperation.invoke(knex, staff.therapist!, {
-        patient: newPatient(),
+        ...newPatient(),
         bedId: nextBed(ward),
       }),
     ).rejects.toBeInstanceOf(ForbiddenError);
@@ -418,14 +420,14 @@ describe("admit", () => {
       .where("u.code", "MICU")
       .first("b.id")) as { id: number };
     await expect(
-      admitOperation.invoke(knex, staff.nurse1!, { patient: newPatient(), bedId: micuBed.id }),
+      admitOperation.invoke(knex, staff.nurse1!, { ...newPatient(), bedId: micuBed.id }),
     ).rejects.toBeInstanceOf(NotFoundError);
   });
 
   it("refuses an admission time in the future, naming the field", async () => {
     await expect(
       admitOperation.invoke(knex, staff.nurse1!, {
-        patient: newPatient(),
+        ...newPatient(),
         bedId: nextBed(ward),
         admittedAt: new Date(Date.now() + 3600_000).toISOString(),
       }),
@@ -459,7 +461,7 @@ describe("discharge", () => {
     };
     expect(resolved.state).toBe("resolved");
     // The bed takes the next patient.
-    await admitOperation.invoke(knex, staff.nurse1!, { patient: newPatient(), bedId });
+    await admitOperation.invoke(knex, staff.nurse1!, { ...newPatient(), bedId });
     // The discharged patient's Chart still opens, as discharged.
     const chart = await getPatientForActor(knex, staff.physician!, admission.patientId);
     expect(chart.admission.dischargedAt).not.toBeNull();
@@ -474,7 +476,7 @@ describe("discharge", () => {
 describe("patient search", () => {
   it("finds by MRN prefix, by name and by bed, only on the user's units", async () => {
     const admission = await admitOperation.invoke(knex, staff.nurse1!, {
-      patient: newPatient({ familyName: "Zephyrine" }),
+      ...newPatient({ familyName: "Zephyrine" }),
       bedId: nextBed(ward),
     });
     const byMrn = await searchPatientsOperation.invoke(knex, staff.nurse1!, {

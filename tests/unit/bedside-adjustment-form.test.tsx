@@ -89,6 +89,7 @@ function hfncContext(overrides: Partial<BedsideContext> = {}): BedsideContext {
       unitId: 1,
       altitudeM: 0,
       timeZone: "UTC",
+      dischargedAt: null,
     },
     barometricPressure: 760,
     order: order("hfnc"),

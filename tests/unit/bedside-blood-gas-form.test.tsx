@@ -107,6 +107,7 @@ function context(): BedsideContext {
       unitId: 1,
       altitudeM: 0,
       timeZone: "UTC",
+      dischargedAt: null,
     },
     barometricPressure: 760,
     order: null,

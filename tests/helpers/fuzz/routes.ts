@@ -325,7 +325,30 @@ export function writeRoutes(ctx: Context): Record<string, fc.Arbitrary<FuzzCase>
     notAnObject,
     fc.constant(""),
   );
+  // No admission id is listed: moves and discharges are refused by body or by a path with no row.
+  const admissionId = fc.oneof(refusedSegment, idSegment(ids.patients));
   return {
+    "POST /api/v1/admissions": jsonWrite(
+      "POST /api/v1/admissions",
+      "physician",
+      fixed("/api/v1/admissions"),
+      refusedBody(specs.admit),
+      true,
+    ),
+    "POST /api/v1/admissions/[admissionId]/transfer": jsonWrite(
+      "POST /api/v1/admissions/[admissionId]/transfer",
+      "physician",
+      at("/api/v1/admissions", admissionId, "/transfer"),
+      refusedBody(specs.transfer),
+      true,
+    ),
+    "POST /api/v1/admissions/[admissionId]/discharge": jsonWrite(
+      "POST /api/v1/admissions/[admissionId]/discharge",
+      "physician",
+      at("/api/v1/admissions", admissionId, "/discharge"),
+      refusedBody(specs.discharge),
+      true,
+    ),
     "POST /api/v1/orders": jsonWrite(
       "POST /api/v1/orders",
       "physician",

@@ -76,6 +76,7 @@ export const WATCHED_TABLES = [
   "readings",
   "step_table_rows",
   "step_tables",
+  "unit_charge_duties",
   "unit_cosigners",
   "units",
   "user_units",

@@ -1,6 +1,13 @@
 import fc from "fast-check";
 import type { z } from "zod";
 import { ADJUSTMENT_REASONS, adjustmentSchema } from "@/lib/adjustments/schema";
+import {
+  admitSchema,
+  BODY_RANGES,
+  dischargeSchema,
+  DISPOSITIONS,
+  transferSchema,
+} from "@/lib/admissions/schema";
 import { acknowledgeSchema, resolveSchema } from "@/lib/alerts/schema";
 import { ROLES } from "@/lib/auth/roles";
 import { BLOOD_GAS_RANGES, bloodGasSchema } from "@/lib/blood-gases/schema";
@@ -290,7 +297,41 @@ export function bodySpecs(ids: Ids) {
     },
   };
 
+  const admit: BodySpec = {
+    fields: {
+      mrn: str(4, 20, true, fc.stringMatching(/^[A-Z0-9]{4,20}$/)),
+      familyName: str(1, 80),
+      givenName: str(1, 80),
+      birthDate: {
+        kind: "string",
+        required: true,
+        valid: fc.constantFrom("1948-07-30", "1970-02-03", "2001-11-09"),
+      },
+      sex: oneOf(["female", "male"]),
+      heightCm: optional(num(BODY_RANGES.heightCm.min, BODY_RANGES.heightCm.max)),
+      weightKg: optional(num(BODY_RANGES.weightKg.min, BODY_RANGES.weightKg.max)),
+      bedId: int(1),
+      admittedAt: optional(recent(24)),
+      rationale: optional(str(0, 500)),
+      idempotencyKey,
+    },
+  };
+  const transfer: BodySpec = {
+    fields: { bedId: int(1), rationale: str(3, 500), idempotencyKey },
+  };
+  const discharge: BodySpec = {
+    fields: {
+      disposition: oneOf(DISPOSITIONS),
+      dischargedAt: optional(recent(24)),
+      rationale: optional(str(0, 500)),
+      idempotencyKey,
+    },
+  };
+
   return {
+    admit,
+    transfer,
+    discharge,
     reading,
     bloodGas,
     adjustment,
@@ -315,6 +356,9 @@ export type BodySpecs = ReturnType<typeof bodySpecs>;
  * from its path (not from the body).
  */
 export const SCHEMAS: Record<keyof BodySpecs, { schema: z.ZodType; fromPath?: string[] }> = {
+  admit: { schema: admitSchema },
+  transfer: { schema: transferSchema, fromPath: ["admissionId"] },
+  discharge: { schema: dischargeSchema, fromPath: ["admissionId"] },
   reading: { schema: readingSchema },
   bloodGas: { schema: bloodGasSchema },
   adjustment: { schema: adjustmentSchema },

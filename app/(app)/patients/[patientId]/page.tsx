@@ -15,6 +15,7 @@ import { db } from "@/lib/db";
 import { NotFoundError } from "@/lib/errors";
 import { getBedsideContext } from "@/lib/chart/bedside";
 import { ageInYears } from "@/lib/admissions/display";
+import { DISPOSITION_LABELS, type Disposition } from "@/lib/admissions/schema";
 import { type ChartPatient, getPatientForActor } from "@/lib/admissions/queries";
 
 export const metadata: Metadata = { title: "Chart" };
@@ -48,7 +49,8 @@ export default async function ChartPage({ params }: { params: Promise<{ patientI
     listAlerts(db(), actor, { patientId: patient.id, status: "open" }),
   ]);
   const age = ageInYears(patient.birthDate, now);
-  const { bed, unit } = patient.admission;
+  const { bed, unit, dischargedAt, disposition } = patient.admission;
+  const mayMove = !dischargedAt && can(actor, "admission.manage");
   const facts: [string, string][] = [
     ["MRN", patient.mrn],
     ["Age", `${age} y`],
@@ -66,6 +68,19 @@ export default async function ChartPage({ params }: { params: Promise<{ patientI
           <h1 className="text-2xl font-semibold tracking-tight">
             {patient.givenName} {patient.familyName}
           </h1>
+          {dischargedAt ? (
+            <p
+              className="rounded-md border border-border-strong bg-surface-muted px-2 py-1 text-sm font-medium"
+              data-testid="discharged-banner"
+            >
+              Discharged{" "}
+              {disposition
+                ? `(${DISPOSITION_LABELS[disposition as Disposition].toLowerCase()}) `
+                : ""}
+              {dischargedAt.toISOString().slice(0, 16).replace("T", " ")} UTC — this Chart is a
+              read-only record of the stay.
+            </p>
+          ) : null}
           <dl className="flex flex-wrap gap-x-5 gap-y-1 text-sm" data-testid="patient-facts">
             {facts.map(([term, value]) => (
               <div key={term} className="flex gap-1.5">
@@ -84,6 +99,19 @@ export default async function ChartPage({ params }: { params: Promise<{ patientI
           >
             Export (FHIR R4)
           </a>
+          {mayMove ? (
+            <>
+              <Link href={`/patients/${patient.id}/move`} className={buttonClasses("secondary")}>
+                Move
+              </Link>
+              <Link
+                href={`/patients/${patient.id}/discharge`}
+                className={buttonClasses("secondary")}
+              >
+                Discharge
+              </Link>
+            </>
+          ) : null}
           <Link href="/board" className={buttonClasses("secondary")}>
             Back to the Board
           </Link>
