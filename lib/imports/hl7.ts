@@ -17,7 +17,7 @@ export class Hl7MessageError extends Error {
   }
 }
 
-type Encoding = {
+export type Encoding = {
   field: string;
   component: string;
   repetition: string;
@@ -121,13 +121,13 @@ export function splitHl7(text: string): { encoding: Encoding; segments: Hl7Segme
   return { encoding, segments };
 }
 
-const field = (s: Hl7Segment, n: number): string => s.fields[n] ?? "";
+export const field = (s: Hl7Segment, n: number): string => s.fields[n] ?? "";
 
-function component(value: string, enc: Encoding, n: number): string {
+export function component(value: string, enc: Encoding, n: number): string {
   return unescape(value.split(enc.repetition)[0]!.split(enc.component)[n - 1] ?? "", enc).trim();
 }
 
-function requireFields(s: Hl7Segment, count: number, what: string): void {
+export function requireFields(s: Hl7Segment, count: number, what: string): void {
   // Fields beyond the last one with content may be left off, but a segment cut
   // before a required field is a truncated message.
   if (s.fields.length - 1 < count) {
