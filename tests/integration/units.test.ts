@@ -421,7 +421,9 @@ describe("bed administration", () => {
     });
     expect(restored.active).toBe(true);
     const rows = await ledgerRows("bed", bed!.id);
-    expect(rows.map((r) => [r.action, JSON.parse(r.after_json!).active])).toEqual([
+    expect(
+      rows.map((r) => [r.action, (JSON.parse(r.after_json!) as { active: boolean }).active]),
+    ).toEqual([
       ["bed.update", false],
       ["bed.update", true],
     ]);
