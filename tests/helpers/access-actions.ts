@@ -10,6 +10,7 @@ import {
   writtenOrder,
 } from "./access-fixtures";
 import type { ActionEntry } from "./access-matrix";
+import { UNIT_ACTIONS } from "./access-routes-units";
 import {
   adjustmentAllows,
   adjustmentBody,
@@ -212,4 +213,7 @@ const ACTIONS: Omit<ActionEntry, "via">[] = [
   },
 ];
 
-export const ACTION_ENTRIES: ActionEntry[] = ACTIONS.map((e) => ({ ...e, via: "action" }));
+export const ACTION_ENTRIES: ActionEntry[] = [...ACTIONS, ...UNIT_ACTIONS].map((e) => ({
+  ...e,
+  via: "action",
+}));

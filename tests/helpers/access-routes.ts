@@ -20,6 +20,7 @@ import {
   type World,
 } from "./access-fixtures";
 import type { Cell, RouteEntry } from "./access-matrix";
+import { UNIT_ROUTES } from "./access-routes-units";
 import { appDb, uniqueEmail } from "./db";
 import { DEMO_PASSWORD } from "./browser";
 
@@ -477,4 +478,7 @@ const ROUTES: Omit<RouteEntry, "via">[] = [
   },
 ];
 
-export const ROUTE_ENTRIES: RouteEntry[] = ROUTES.map((e) => ({ ...e, via: "route" }));
+export const ROUTE_ENTRIES: RouteEntry[] = [...ROUTES, ...UNIT_ROUTES].map((e) => ({
+  ...e,
+  via: "route",
+}));
