@@ -20,6 +20,7 @@ function navFor(role: Role): NavItem[] {
   items.push({ href: "/ledger", label: "Ledger" });
   if (can({ role }, "import.upload")) items.push({ href: "/imports", label: "Uploads" });
   if (can({ role }, "user.manage")) items.push({ href: "/admin/users", label: "Users" });
+  if (can({ role }, "unit.manage")) items.push({ href: "/admin/units", label: "Units" });
   if (can({ role }, "step_table.manage"))
     items.push({ href: "/admin/step-tables", label: "Step tables" });
   if (can({ role }, "api_token.manage"))

@@ -204,3 +204,88 @@ export async function listFreeBeds(knex: Knex, unitIds: readonly number[]): Prom
   }
   return out;
 }
+
+/** A unit on the admin pages: its settings with how many beds it has and how many are occupied. */
+export type UnitOverview = UnitDetail & { beds: number; occupiedBeds: number; retiredBeds: number };
+
+/** The given units with their bed counts (retired units too, so an admin can still see them). */
+export async function listUnitOverviews(
+  knex: Knex,
+  onlyIds: readonly number[],
+): Promise<UnitOverview[]> {
+  if (onlyIds.length === 0) return [];
+  const units = await listUnitDetails(knex, { onlyIds, includeRetired: true });
+  const counts = (await knex("beds as b")
+    .leftJoin("admissions as a", function () {
+      this.on("a.bed_id", "b.id").andOnNull("a.discharged_at");
+    })
+    .whereIn("b.unit_id", onlyIds)
+    .groupBy("b.unit_id")
+    .select("b.unit_id")
+    .select(knex.raw("SUM(b.active = 1) AS beds"))
+    .select(knex.raw("SUM(b.active = 0) AS retired"))
+    .select(knex.raw("COUNT(a.id) AS occupied"))) as {
+    unit_id: number;
+    beds: number | string | null;
+    retired: number | string | null;
+    occupied: number | string;
+  }[];
+  const byUnit = new Map(counts.map((c) => [c.unit_id, c]));
+  return units.map((u) => {
+    const c = byUnit.get(u.id);
+    return {
+      ...u,
+      beds: Number(c?.beds ?? 0),
+      retiredBeds: Number(c?.retired ?? 0),
+      occupiedBeds: Number(c?.occupied ?? 0),
+    };
+  });
+}
+
+/** A patient whose order in effect uses a device the unit no longer allows. */
+export type DeviceWarning = {
+  patientId: number;
+  mrn: string;
+  name: string;
+  bedLabel: string;
+  device: Device;
+};
+
+/** Orders in effect (active or awaiting co-signature) on the unit's beds with a device outside `allowed`. */
+export async function ordersOutsideDevices(
+  knex: Knex,
+  unitId: number,
+  allowed: readonly Device[],
+): Promise<DeviceWarning[]> {
+  const rows = (await knex("orders as o")
+    .join("admissions as a", "a.id", "o.admission_id")
+    .join("beds as b", "b.id", "a.bed_id")
+    .join("patients as p", "p.id", "o.patient_id")
+    .where("b.unit_id", unitId)
+    .whereNull("a.discharged_at")
+    .whereIn("o.status", ["active", "awaiting_cosign"])
+    .whereNotIn("o.device", allowed.length ? [...allowed] : [""])
+    .orderBy([{ column: "b.sort_order" }, { column: "b.label" }])
+    .select(
+      "p.id as patient_id",
+      "p.mrn",
+      "p.given_name",
+      "p.family_name",
+      "b.label",
+      "o.device",
+    )) as {
+    patient_id: number;
+    mrn: string;
+    given_name: string;
+    family_name: string;
+    label: string;
+    device: Device;
+  }[];
+  return rows.map((r) => ({
+    patientId: r.patient_id,
+    mrn: r.mrn,
+    name: `${r.family_name}, ${r.given_name}`,
+    bedLabel: r.label,
+    device: r.device,
+  }));
+}

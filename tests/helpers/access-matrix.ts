@@ -1,6 +1,7 @@
 import { can, type Permission } from "@/lib/auth/permissions";
 import type { Role } from "@/lib/auth/roles";
 import { OTHER, OWN, type UnitCode, type World } from "./access-fixtures";
+import { unitPageParams } from "./access-routes-units";
 import { Session } from "./http";
 import { actionPage, builtAction, callAction } from "./server-actions";
 
@@ -141,6 +142,7 @@ async function send(w: World, entry: Entry, cell: Cell, prepared: Prepared): Pro
     orderId: own.orderId,
     userId: w.userId,
     tableId: own.stepTableId,
+    ...unitPageParams(w),
   });
   const outcome = await callAction(session, action, page, (prepared as { arg: unknown }).arg);
   if (outcome.status >= 300 && outcome.status < 400) {

@@ -27,6 +27,9 @@ export type Own = {
   victimUserId: number;
   victimEmail: string;
   therapistId: number;
+  /** A unit of the fuzz's own (its admin a member) and one of its beds: unit writes change only these. */
+  fuzzUnitId: number;
+  fuzzBedId: number;
 };
 
 type Late =
@@ -37,7 +40,8 @@ type Late =
   | "ALERT_ID"
   | "GAS_IMPORT_ID"
   | "GAS_IMPORT_ACCEPTED"
-  | "USER_VERSION";
+  | "USER_VERSION"
+  | "UNIT_VERSION";
 const late = (name: Late) => new Raw(`__${name}__`);
 
 /** The placeholders' values now: the own patient's latest order and alert, the own import, the victim's version. */
@@ -64,6 +68,9 @@ export async function lateValues(knex: Knex, own: Own): Promise<Record<Late, num
   const user = (await knex("users").where({ id: own.victimUserId }).first("version")) as {
     version: number;
   };
+  const unit = (await knex("units").where({ id: own.fuzzUnitId }).first("version")) as {
+    version: number;
+  };
   // 999999999 names nothing: the request is then refused as not found.
   return {
     ORDER_ID: order?.id ?? 999_999_999,
@@ -74,6 +81,7 @@ export async function lateValues(knex: Knex, own: Own): Promise<Record<Late, num
     GAS_IMPORT_ID: imp?.id ?? 999_999_999,
     GAS_IMPORT_ACCEPTED: imp?.rows_accepted ?? 0,
     USER_VERSION: user.version,
+    UNIT_VERSION: unit.version,
   };
 }
 
@@ -200,6 +208,10 @@ function deepSpecs(s: BodySpecs, own: Own): Record<string, BodySpec> {
       version: fixed(late("USER_VERSION")),
       currentPassword: fixed(DEMO_PASSWORD),
     }),
+    unitCreate: s.unitCreate,
+    unitUpdate: aim(s.unitUpdate, { version: fixed(late("UNIT_VERSION")) }),
+    bedCreate: s.bedCreate,
+    bedUpdate: s.bedUpdate,
   };
 }
 
@@ -409,6 +421,25 @@ export function deepRequests(
       `/api/v1/imports/monitor?mrn=${own.mrn}&bed=${own.bed}&unit=${own.unitCode}&partial=accept`,
       monitorCsv,
       "text/csv",
+    ),
+    "POST /api/v1/units": json("POST /api/v1/units", "admin", "/api/v1/units", spec.unitCreate!),
+    "PATCH /api/v1/units/[unitId]": json(
+      "PATCH /api/v1/units/[unitId]",
+      "admin",
+      `/api/v1/units/${own.fuzzUnitId}`,
+      spec.unitUpdate!,
+    ),
+    "POST /api/v1/units/[unitId]/beds": json(
+      "POST /api/v1/units/[unitId]/beds",
+      "admin",
+      `/api/v1/units/${own.fuzzUnitId}/beds`,
+      spec.bedCreate!,
+    ),
+    "PATCH /api/v1/units/[unitId]/beds/[bedId]": json(
+      "PATCH /api/v1/units/[unitId]/beds/[bedId]",
+      "admin",
+      `/api/v1/units/${own.fuzzUnitId}/beds/${own.fuzzBedId}`,
+      spec.bedUpdate!,
     ),
     "POST /api/v1/users": json("POST /api/v1/users", "admin", "/api/v1/users", spec.userCreate!),
     "PATCH /api/v1/users/[userId]": json(

@@ -313,6 +313,7 @@ export function writeRoutes(ctx: Context): Record<string, fc.Arbitrary<FuzzCase>
   const orderId = idSegment(ids.orders);
   const alertId = idSegment(ids.alerts);
   const importId = idSegment(ids.imports);
+  const unitId = idSegment(ids.units);
   // Accounts other tests sign in with are never the target of an account write, even a broken one.
   const userId = fc.oneof(fc.constant(String(ctx.victimUserId)), refusedSegment);
   const at = (prefix: string, seg: fc.Arbitrary<string>, suffix = "") =>
@@ -440,6 +441,36 @@ export function writeRoutes(ctx: Context): Record<string, fc.Arbitrary<FuzzCase>
     ),
     "POST /api/v1/imports/hl7": tokenRoute("hl7", ctx.token),
     "POST /api/v1/imports/monitor": tokenRoute("monitor", ctx.token),
+    "POST /api/v1/units": jsonWrite(
+      "POST /api/v1/units",
+      "admin",
+      fixed("/api/v1/units"),
+      refusedBody(specs.unitCreate),
+    ),
+    "PATCH /api/v1/units/[unitId]": jsonWrite(
+      "PATCH /api/v1/units/[unitId]",
+      "admin",
+      at("/api/v1/units", unitId),
+      refusedBody(specs.unitUpdate),
+    ),
+    "POST /api/v1/units/[unitId]/beds": jsonWrite(
+      "POST /api/v1/units/[unitId]/beds",
+      "admin",
+      at("/api/v1/units", unitId, "/beds"),
+      refusedBody(specs.bedCreate),
+    ),
+    // No field is required alone (a label or active), so no random object: each is refusable only when broken.
+    "PATCH /api/v1/units/[unitId]/beds/[bedId]": jsonWrite(
+      "PATCH /api/v1/units/[unitId]/beds/[bedId]",
+      "admin",
+      fc
+        .tuple(unitId, fc.oneof(fc.integer({ min: 1, max: 40 }).map(String), refusedSegment))
+        .map(([u, b]) => `/api/v1/units/${u}/beds/${b}`),
+      fc.oneof(
+        { weight: 4, arbitrary: brokenObject(specs.bedUpdate).map(toJson) },
+        { weight: 1, arbitrary: notAnObject },
+      ),
+    ),
     "POST /api/v1/users": jsonWrite(
       "POST /api/v1/users",
       "admin",

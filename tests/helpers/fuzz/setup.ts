@@ -111,7 +111,18 @@ export async function ownRows(clients: Clients, accounts: Accounts): Promise<Own
   );
   if (res.status !== 201)
     throw new Error(`the own patient's first order was refused: ${res.status} ${await res.text()}`);
+  // The unit writes' own unit (the fuzz admin a member), so no other test's unit changes.
+  const [fuzzUnitId] = await knex("units").insert({
+    code: `FZ${randomUUID().slice(0, 8).toUpperCase()}`,
+    name: "Fuzz Unit",
+    kind: "ward",
+    devices_json: JSON.stringify(["nasal_cannula", "venturi_mask"]),
+  });
+  await knex("user_units").insert({ user_id: accounts.admin.id, unit_id: fuzzUnitId });
+  const [fuzzBedId] = await knex("beds").insert({ unit_id: fuzzUnitId, label: "FZ1" });
   return {
+    fuzzUnitId: Number(fuzzUnitId),
+    fuzzBedId: Number(fuzzBedId),
     patientId,
     mrn,
     bed: label,

@@ -28,6 +28,13 @@ import {
   RESPIRATORY_SUPPORTS,
 } from "@/lib/oxygenation/schema";
 import { readingSchema } from "@/lib/readings/schema";
+import {
+  bedCreateSchema,
+  bedUpdateSchema,
+  UNIT_KINDS,
+  unitCreateSchema,
+  unitUpdateSchema,
+} from "@/lib/units/schema";
 import { userActiveSchema, userCreateSchema, userUpdateSchema } from "@/lib/users/schema";
 import type { BodySpec, Field } from "./bodies";
 
@@ -327,11 +334,48 @@ export function bodySpecs(ids: Ids) {
       idempotencyKey,
     },
   };
+  const unitFields: Record<string, Field> = {
+    name: str(2, 120),
+    kind: oneOf(UNIT_KINDS),
+    altitudeM: int(-500, 5500),
+    timeZone: str(1, 64, true, fc.constantFrom("UTC", "Europe/Amsterdam", "America/Chicago")),
+    shiftStart: str(5, 5, false, fc.constantFrom("07:00", "19:30", "00:00")),
+    shiftHours: { ...int(6, 24), valid: fc.constantFrom(6, 8, 12, 24) },
+    allowedDevices: {
+      kind: "array",
+      required: true,
+      valid: fc.subarray([...DEVICES], { minLength: 1 }),
+    },
+    fallbackEmail: optional(str(0, 254, true, fc.constantFrom("", "desk@kestrel.example"))),
+    rationale: optional(str(0, 500)),
+  };
+  const unitCreate: BodySpec = {
+    fields: {
+      ...unitFields,
+      code: str(2, 16, true, fc.stringMatching(/^FZ[A-Z0-9]{6,10}$/)),
+      initialBeds: optional(int(0, 60, fc.integer({ min: 0, max: 3 }))),
+      idempotencyKey,
+    },
+  };
+  const unitUpdate: BodySpec = { fields: { ...unitFields, version: int(1) } };
+  const bedLabel = str(1, 16, true, fc.stringMatching(/^FZ[A-Z0-9]{2,8}$/));
+  const bedCreate: BodySpec = { fields: { label: bedLabel, idempotencyKey } };
+  // Both optional, but one of the two is needed; a wrong type or length is refused.
+  const bedUpdate: BodySpec = {
+    fields: {
+      label: { ...bedLabel, required: "typed" },
+      active: { kind: "boolean", required: "typed", valid: fc.boolean() },
+    },
+  };
 
   return {
     admit,
     transfer,
     discharge,
+    unitCreate,
+    unitUpdate,
+    bedCreate,
+    bedUpdate,
     reading,
     bloodGas,
     adjustment,
@@ -374,4 +418,8 @@ export const SCHEMAS: Record<keyof BodySpecs, { schema: z.ZodType; fromPath?: st
   userCreate: { schema: userCreateSchema },
   userUpdate: { schema: userUpdateSchema, fromPath: ["id"] },
   userActive: { schema: userActiveSchema, fromPath: ["id"] },
+  unitCreate: { schema: unitCreateSchema },
+  unitUpdate: { schema: unitUpdateSchema, fromPath: ["unitId"] },
+  bedCreate: { schema: bedCreateSchema, fromPath: ["unitId"] },
+  bedUpdate: { schema: bedUpdateSchema, fromPath: ["unitId", "bedId"] },
 };
