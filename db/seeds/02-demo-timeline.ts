@@ -9,6 +9,8 @@ import { writeOrder } from "../../lib/orders/service";
 import { po2FromSaturation } from "../../lib/oxygen";
 import { chartReading } from "../../lib/readings/service";
 import { adjustmentSchema, type AdjustmentInput } from "../../lib/adjustments/schema";
+import { admitSchema, dischargeSchema, transferSchema } from "../../lib/admissions/schema";
+import { admitPatient, dischargePatient, transferPatient } from "../../lib/admissions/service";
 import { bloodGasSchema, type BloodGasInput } from "../../lib/blood-gases/schema";
 import { orderInputSchema } from "../../lib/orders/schema";
 import { readingSchema, type ReadingInput } from "../../lib/readings/schema";
@@ -420,7 +422,70 @@ export async function seed(knex: Knex): Promise<void> {
     );
     counts = { ...counts, orders: counts.orders + 1 };
   }
+  await seedStay(knex, staff, end);
   console.log(
     `[seed] demo timeline: ${counts.orders} orders, ${counts.readings} readings, ${counts.adjustments} adjustments, ${counts.gases} blood gases`,
+  );
+}
+
+/**
+ * One whole stay inside the demo's two days, through the same services as the
+ * screens: admitted to the ICU from the emergency department, stepped down to
+ * the ward the next day, discharged home this morning. The beds it used are
+ * free again at the end, so the Board looks as before.
+ */
+async function seedStay(
+  knex: Knex,
+  staff: Record<"MICU" | "RESP", { physician: Actor; nurse: Actor }>,
+  end: number,
+): Promise<void> {
+  const bed = async (label: string) =>
+    ((await knex("beds").where({ label }).first("id")) as { id: number }).id;
+  const admittedAt = new Date(end - 44 * 3600_000);
+  const admitted = await admitPatient(
+    knex,
+    staff.MICU.nurse,
+    parseInput(admitSchema, {
+      mrn: "KH409911",
+      familyName: "Vantwell",
+      givenName: "Oskar",
+      birthDate: "1957-08-19",
+      sex: "male",
+      heightCm: 178,
+      weightKg: 84,
+      bedId: await bed("I09"),
+      rationale: "From the emergency department: community-acquired pneumonia.",
+    }),
+    admittedAt,
+  );
+  await seedOrder(
+    knex,
+    staff.MICU.physician,
+    orderInput(WARD_PLANS[1]!, admitted.patientId, undefined),
+    new Date(admittedAt.getTime() + 15 * 60_000),
+  );
+  // A physician of both units moves him; the order in effect goes with him.
+  const both = (await knex("users").where({ email: "ines.varga@kestrel.example" }).first("id")) as {
+    id: number;
+  };
+  await transferPatient(
+    knex,
+    await loadActor(knex, both.id),
+    parseInput(transferSchema, {
+      admissionId: admitted.admissionId,
+      bedId: await bed("R08"),
+      rationale: "Stable on low-flow oxygen: stepped down to the respiratory ward.",
+    }),
+    new Date(end - 20 * 3600_000),
+  );
+  await dischargePatient(
+    knex,
+    staff.RESP.nurse,
+    parseInput(dischargeSchema, {
+      admissionId: admitted.admissionId,
+      disposition: "home",
+      rationale: "Weaned to room air overnight.",
+    }),
+    new Date(end - 3 * 3600_000),
   );
 }
