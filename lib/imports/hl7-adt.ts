@@ -39,10 +39,12 @@ export function messageTypeOf(text: string): { type: string; trigger: string } {
 }
 
 /**
- * HL7 table 0112 (discharge disposition), the codes Tidemark's three map to:
- * 01 discharged to home or self care; 02 to a short-term general hospital
- * (and 05, another type of institution, 43 a federal hospital, read as
- * another hospital); 20 expired (41 expired in a medical facility).
+ * PV1-36 discharge disposition. HL7 leaves table 0112 to the site; registration
+ * systems commonly fill it with the UB-04 patient discharge status codes, of
+ * which these map to Tidemark's three (codes recalled from memory; a site
+ * with its own table changes this map): 01 home or self care, 06 home with a
+ * home health service; 02 a short-term general hospital, 05 another type of
+ * institution, 43 a federal hospital; 20 expired, 41 expired in a medical facility.
  */
 const DISPOSITION_CODES: Record<string, Disposition> = {
   "01": "home",
