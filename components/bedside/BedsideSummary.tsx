@@ -68,7 +68,12 @@ export function BedsideSummary({
           </nav>
         ) : null}
       </div>
-      {!order ? (
+      {!order && context.admission.dischargedAt ? (
+        <EmptyState title="Discharged: no order in effect">
+          The order of the stay was discontinued at discharge; its history is in the timeline below
+          and in the ledger.
+        </EmptyState>
+      ) : !order ? (
         <EmptyState title="No oxygen order in effect">
           A physician writes the order (device, SpO2 target band, limits). Until then settings
           cannot be changed in Tidemark; readings and blood gases can still be charted.

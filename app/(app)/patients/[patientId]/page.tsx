@@ -32,9 +32,9 @@ async function loadPatient(...args: Parameters<typeof getPatientForActor>): Prom
   }
 }
 
-function admittedAgo(admittedAt: Date, now: Date): string {
+function stayLength(admittedAt: Date, now: Date): string {
   const hours = Math.max(0, Math.round((now.getTime() - admittedAt.getTime()) / 3600_000));
-  return hours < 48 ? `${hours} h ago` : `${Math.round(hours / 24)} d ago`;
+  return hours < 48 ? `${hours} h` : `${Math.round(hours / 24)} d`;
 }
 
 /** The Chart (first part): who the patient is, where they lie, and blood-gas evaluation. */
@@ -57,7 +57,9 @@ export default async function ChartPage({ params }: { params: Promise<{ patientI
     ["Sex", patient.sex === "female" ? "Female" : "Male"],
     ["Bed", bed.label],
     ["Unit", `${unit.name} (${unit.code})`],
-    ["Admitted", admittedAgo(patient.admission.admittedAt, now)],
+    dischargedAt
+      ? ["Stay", `${stayLength(patient.admission.admittedAt, dischargedAt)} long`]
+      : ["Admitted", `${stayLength(patient.admission.admittedAt, now)} ago`],
   ];
 
   return (
