@@ -29,6 +29,23 @@ import {
   orderSupersededMessageId,
 } from "./supersede-email";
 import { can } from "../auth/permissions";
+import type { Device } from "../devices";
+import { parseDevices } from "../units/queries";
+
+/** A unit allows only some devices (a ward that does not ventilate): an order for another is refused. */
+async function assertUnitAllowsDevice(knex: Knex, unitId: number, device: Device): Promise<void> {
+  const unit = (await knex("units").where({ id: unitId }).first("name", "devices_json")) as {
+    name: string;
+    devices_json: string | null;
+  };
+  if (parseDevices(unit.devices_json).includes(device)) return;
+  const label = DEVICE_PROFILES[device].label;
+  throw new ValidationError("Some fields need attention.", {
+    device: [
+      `${unit.name} does not allow ${label}. Choose another device, or move the patient to a unit that allows it.`,
+    ],
+  });
+}
 
 type ParsedOrder = ReturnType<typeof orderInputSchema.parse>;
 
@@ -59,6 +76,7 @@ export async function writeOrder(
     });
   }
   const admission = await findOpenAdmission(knex, actor, input.patientId);
+  await assertUnitAllowsDevice(knex, admission.unitId, input.device);
   if (input.entryMode === "written") {
     await confirmPassword(knex, actor.id, input.password);
   } else {

@@ -190,14 +190,15 @@ describe("the order composer", () => {
         expect(other.status).toBe(201);
         const otherId = ((await other.json()) as { order: OrderView }).order.id;
 
-        await page.getByLabel("Delivery device").selectOption("invasive");
+        // The ward does not ventilate: high flow is the most it allows.
+        await page.getByLabel("Delivery device").selectOption("hfnc");
         await typeInto(page, "FiO2 minimum", "0.3");
         await typeInto(page, "FiO2 maximum", "0.8");
         await typeInto(page, "Starting FiO2", "0.5");
-        await typeInto(page, "PEEP minimum (cmH2O)", "5");
-        await typeInto(page, "PEEP maximum (cmH2O)", "14");
-        await typeInto(page, "Starting PEEP (cmH2O)", "8");
-        await typeInto(page, "Rationale", "Intubated for worsening hypoxaemia");
+        await typeInto(page, "Flow minimum (L/min)", "30");
+        await typeInto(page, "Flow maximum (L/min)", "60");
+        await typeInto(page, "Starting flow (L/min)", "40");
+        await typeInto(page, "Rationale", "High flow for worsening hypoxaemia");
         await typeInto(page, "Password to sign", DEMO_PASSWORD);
         await page.keyboard.press("Enter");
 
@@ -208,7 +209,7 @@ describe("the order composer", () => {
           await alert.getByRole("link", { name: /Reload this page/ }).getAttribute("href"),
         ).toBe(`/patients/${PATIENT_CONFLICT}/orders/new`);
         expect(await page.getByLabel("Rationale").inputValue()).toBe(
-          "Intubated for worsening hypoxaemia",
+          "High flow for worsening hypoxaemia",
         );
         expect((await currentOrder(api, PATIENT_CONFLICT))?.id).toBe(otherId);
 
@@ -218,7 +219,7 @@ describe("the order composer", () => {
           .poll(() => page.getByTestId("order-in-effect").innerText(), { timeout: 30_000 })
           .toContain(`Order #${otherId}`);
         expect(await page.getByLabel("Rationale").inputValue()).toBe(
-          "Intubated for worsening hypoxaemia",
+          "High flow for worsening hypoxaemia",
         );
       } finally {
         await context.close();

@@ -502,3 +502,17 @@ describe("patient search", () => {
     );
   });
 });
+
+describe("a unit's devices", () => {
+  it("refuses an order for a device the unit does not allow, naming the unit and the device", async () => {
+    const admission = await admitOperation.invoke(knex, staff.nurse1!, {
+      ...newPatient(),
+      bedId: nextBed(ward),
+    });
+    await expect(
+      writeOrderOperation.invoke(knex, staff.physician!, hfncOrder(admission.patientId)),
+    ).rejects.toMatchObject({
+      fieldErrors: { device: [expect.stringMatching(/does not allow High-flow nasal cannula/)] },
+    });
+  });
+});

@@ -259,11 +259,11 @@ describe("orders", () => {
   it("an order names who signed it, what it replaced and what replaced it; its history stays on its unit", async () => {
     const { patientId } = await admitTestPatient("RESP");
     const physician = await actorByEmail(SEEDED.physician);
-    const first = await writeOrderOperation.invoke(appDb(), physician, ventilatorOrder(patientId));
+    const first = await writeOrderOperation.invoke(appDb(), physician, hfncOrder(patientId));
     const second = await writeOrderOperation.invoke(
       appDb(),
       physician,
-      ventilatorOrder(patientId, { supersedesOrderId: first.id }),
+      hfncOrder(patientId, { supersedesOrderId: first.id }),
     );
     const replaced = await getOrder(appDb(), first.id);
     expect(replaced).toMatchObject({
@@ -387,7 +387,7 @@ describe("orders", () => {
   it("discontinues with a reason; another unit's order answers not found", async () => {
     const { patientId } = await admitTestPatient("RESP");
     const physician = await actorByEmail(SEEDED.physician);
-    const order = await writeOrderOperation.invoke(appDb(), physician, ventilatorOrder(patientId));
+    const order = await writeOrderOperation.invoke(appDb(), physician, hfncOrder(patientId));
     const micuOnly = await actorByEmail("tobias.renwick@kestrel.example");
     await expect(
       discontinueOrderOperation.invoke(appDb(), micuOnly, {
