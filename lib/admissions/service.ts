@@ -133,13 +133,15 @@ export async function transferIn(
   rationale: string,
   now: Date,
 ): Promise<AdmissionView> {
-  if (to.bed_id === from.bed.id) {
-    throw new ValidationError("Some fields need attention.", {
-      bedId: [`${from.name} is already in bed ${from.bed.label}.`],
-    });
-  }
   await lockPatientChain(trx, from.patientId);
   const row = await lockOpenAdmission(trx, from.admissionId);
+  // Read again under the lock: someone may have moved the patient since the screen was drawn.
+  const before = await admissionView(trx, row.id);
+  if (to.bed_id === before.bed.id) {
+    throw new ValidationError("Some fields need attention.", {
+      bedId: [`${before.name} is already in bed ${before.bed.label}.`],
+    });
+  }
   const device = await deviceInEffect(trx, from.admissionId);
   if (device && !parseDevices(to.devices_json).includes(device)) {
     throw new ConflictError(
@@ -179,7 +181,7 @@ export async function transferIn(
       entityId: row.id,
       patientId: from.patientId,
       unitId: to.unit_id,
-      before: { bed: from.bed, unit: from.unit },
+      before: { bed: before.bed, unit: before.unit },
       after: { bed: after.bed, unit: after.unit, ordersMoved, alertsMoved: openAlerts.length },
       rationale,
     },
