@@ -10,6 +10,7 @@ import {
   writtenOrder,
 } from "./access-fixtures";
 import type { ActionEntry } from "./access-matrix";
+import { ASSIGNMENT_ACTIONS } from "./access-routes-assignments";
 import {
   adjustmentAllows,
   adjustmentBody,
@@ -210,6 +211,7 @@ const ACTIONS: Omit<ActionEntry, "via">[] = [
       pao2_above_band: true,
     }),
   },
+  ...ASSIGNMENT_ACTIONS,
 ];
 
 export const ACTION_ENTRIES: ActionEntry[] = ACTIONS.map((e) => ({ ...e, via: "action" }));

@@ -20,6 +20,7 @@ import {
   type World,
 } from "./access-fixtures";
 import type { Cell, RouteEntry } from "./access-matrix";
+import { ASSIGNMENT_ROUTES } from "./access-routes-assignments";
 import { appDb, uniqueEmail } from "./db";
 import { DEMO_PASSWORD } from "./browser";
 
@@ -475,6 +476,7 @@ const ROUTES: Omit<RouteEntry, "via">[] = [
       json: { fio2: 0.4, pao2: 80, paco2: 40, unitId: w.unitId[c.unit] },
     }),
   },
+  ...ASSIGNMENT_ROUTES,
 ];
 
 export const ROUTE_ENTRIES: RouteEntry[] = ROUTES.map((e) => ({ ...e, via: "route" }));

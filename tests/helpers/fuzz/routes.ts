@@ -417,6 +417,13 @@ export function writeRoutes(ctx: Context): Record<string, fc.Arbitrary<FuzzCase>
     ),
     "POST /api/v1/imports/hl7": tokenRoute("hl7", ctx.token),
     "POST /api/v1/imports/monitor": tokenRoute("monitor", ctx.token),
+    "PUT /api/v1/units/[unitId]/assignments": jsonWrite(
+      "PUT /api/v1/units/[unitId]/assignments",
+      "admin",
+      at("/api/v1/units", idSegment(ids.units), "/assignments"),
+      refusedBody(specs.assignmentSet),
+      true,
+    ),
     "POST /api/v1/users": jsonWrite(
       "POST /api/v1/users",
       "admin",

@@ -21,6 +21,7 @@ import {
   RESPIRATORY_SUPPORTS,
 } from "@/lib/oxygenation/schema";
 import { readingSchema } from "@/lib/readings/schema";
+import { assignmentWriteSchema } from "@/lib/assignments/schema";
 import { userActiveSchema, userCreateSchema, userUpdateSchema } from "@/lib/users/schema";
 import type { BodySpec, Field } from "./bodies";
 
@@ -290,7 +291,23 @@ export function bodySpecs(ids: Ids) {
     },
   };
 
+  // Cells and the charge nurse are optional (an empty list and null are valid): never the broken field.
+  const assignmentSet: BodySpec = {
+    fields: {
+      shift: oneOf(["current", "next"]),
+      chargeNurseId: {
+        ...int(1, undefined, fc.constant(null)),
+        nullable: true,
+        required: false,
+      },
+      cells: { kind: "array", required: false, valid: fc.constant([]) },
+      copyFrom: { ...oneOf(["previous"]), required: "typed" },
+      idempotencyKey,
+    },
+  };
+
   return {
+    assignmentSet,
     reading,
     bloodGas,
     adjustment,
@@ -315,6 +332,7 @@ export type BodySpecs = ReturnType<typeof bodySpecs>;
  * from its path (not from the body).
  */
 export const SCHEMAS: Record<keyof BodySpecs, { schema: z.ZodType; fromPath?: string[] }> = {
+  assignmentSet: { schema: assignmentWriteSchema, fromPath: ["unitId"] },
   reading: { schema: readingSchema },
   bloodGas: { schema: bloodGasSchema },
   adjustment: { schema: adjustmentSchema },
