@@ -13,7 +13,10 @@ import { can } from "@/lib/auth/permissions";
 export type NavItem = { href: string; label: string };
 
 function navFor(role: Role): NavItem[] {
-  const items: NavItem[] = [{ href: "/board", label: "Board" }];
+  const items: NavItem[] = [
+    { href: "/board", label: "Board" },
+    { href: "/assignments", label: "Assignments" },
+  ];
   if (can({ role }, "order.cosign")) items.push({ href: "/orders/cosign", label: "Co-sign" });
   items.push({ href: "/ledger", label: "Ledger" });
   if (can({ role }, "import.upload")) items.push({ href: "/imports", label: "Uploads" });

@@ -5,14 +5,7 @@ import { once } from "../idempotency";
 import { appendLedger, type LedgerActor } from "../ledger/service";
 import type { UnitDetail } from "../units/queries";
 import { previousShift, type Shift } from "../units/shifts";
-import {
-  cellKey,
-  cellsToCopy,
-  chargeToCopy,
-  fitsDuty,
-  type FilledCell,
-  type StaffMember,
-} from "./copy";
+import { cellKey, cellsToCopy, chargeToCopy, fitsDuty, type StaffMember } from "./copy";
 import { mayAssign } from "./may-assign";
 import {
   activeBeds,
