@@ -109,22 +109,25 @@ export function AssignmentGrid({ grid }: { grid: Grid }) {
       setStatus("Nothing to save: no cell was changed.");
       return;
     }
+    // From the grid, not the resolver's output (which holds the shift as a Date).
     const result = await setAssignmentsAction({
-      unitId: values.unitId,
-      shift: values.shift,
+      unitId: grid.unit.id,
+      shift: grid.shift.startsAt,
       cells: sent.map(({ cell }) => cell),
       ...(chargeChanged ? { chargeNurseId: values.chargeNurseId } : {}),
     });
     if (!result.ok) {
-      setFormError(result.message);
+      // Errors of a cell or the charge nurse land beside it; any other (the shift) in the message.
+      const elsewhere: string[] = [];
       for (const [path, messages] of Object.entries(result.fieldErrors ?? {})) {
         const m = /^cells\.(\d+)\.\w+$/.exec(path);
         const index = m ? sent[Number(m[1])]?.index : undefined;
-        if (index !== undefined)
-          setError(`cells.${index}.userId`, { type: "server", message: messages.join(" ") });
-        if (path === "chargeNurseId")
-          setError("chargeNurseId", { type: "server", message: messages.join(" ") });
+        const message = messages.join(" ");
+        if (index !== undefined) setError(`cells.${index}.userId`, { type: "server", message });
+        else if (path === "chargeNurseId") setError("chargeNurseId", { type: "server", message });
+        else if (message !== result.message) elsewhere.push(message);
       }
+      setFormError([result.message, ...elsewhere].join(" "));
       return;
     }
     setStatus(
