@@ -184,6 +184,21 @@ export function AssignmentGrid({ grid }: { grid: Grid }) {
           </p>
         </div>
 
+        {/* Above the table, so a long grid does not hide Save from the keyboard. */}
+        {grid.editable ? (
+          <div className="flex flex-wrap items-center gap-2">
+            <Button variant="secondary" onClick={copyPrevious}>
+              Copy from previous shift
+            </Button>
+            <Button type="submit" disabled={isSubmitting}>
+              {isSubmitting ? "Saving…" : "Save"}
+            </Button>
+            {isDirty ? <span className="text-sm text-ink-muted">Unsaved changes</span> : null}
+          </div>
+        ) : null}
+        <p role="status" aria-live="polite" className="min-h-5 text-sm">
+          {formError ? <span className="font-medium text-below">{formError}</span> : status}
+        </p>
         {grid.beds.length === 0 ? (
           <p className="text-sm text-ink-muted">This unit has no active beds.</p>
         ) : (
@@ -256,22 +271,7 @@ export function AssignmentGrid({ grid }: { grid: Grid }) {
             </table>
           </div>
         )}
-
-        {grid.editable ? (
-          <div className="flex flex-wrap items-center gap-2">
-            <Button variant="secondary" onClick={copyPrevious}>
-              Copy from previous shift
-            </Button>
-            <Button type="submit" disabled={isSubmitting}>
-              {isSubmitting ? "Saving…" : "Save"}
-            </Button>
-            {isDirty ? <span className="text-sm text-ink-muted">Unsaved changes</span> : null}
-          </div>
-        ) : null}
       </fieldset>
-      <p role="status" aria-live="polite" className="min-h-5 text-sm">
-        {formError ? <span className="font-medium text-below">{formError}</span> : status}
-      </p>
     </form>
   );
 }

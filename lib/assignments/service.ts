@@ -3,10 +3,10 @@ import type { Actor } from "../auth/actor";
 import { ForbiddenError, ValidationError, type FieldErrors } from "../errors";
 import { once } from "../idempotency";
 import { appendLedger, type LedgerActor } from "../ledger/service";
-import type { UnitDetail } from "../units/queries";
 import { previousShift, type Shift } from "../units/shifts";
 import { cellKey, cellsToCopy, chargeToCopy, fitsDuty, type StaffMember } from "./copy";
-import { mayAssign } from "./may-assign";
+import { getUnit, type UnitDetail } from "../units/queries";
+import { mayAssign, ONLY_CHARGE_OR_ADMIN } from "./may-assign";
 import {
   activeBeds,
   getAssignmentGrid,
@@ -191,6 +191,16 @@ export async function setAssignments(
   input: AssignmentWriteData,
   now: Date = new Date(),
 ): Promise<AssignmentWriteResult> {
+  // A nurse who is not the unit's charge nurse now is refused alike for every unit, hers or
+  // not, existing or not (403, leaking nothing); for admins another unit's answers 404.
+  if (actor.role !== "admin") {
+    const known = await getUnit(knex, input.unitId);
+    const charge =
+      known !== null &&
+      actor.unitIds.includes(known.id) &&
+      (await holdsCurrentCharge(knex, known, actor.id, now));
+    if (!charge) throw new ForbiddenError(ONLY_CHARGE_OR_ADMIN);
+  }
   const unit = await unitForActor(knex, actor, input.unitId);
   const shift = unitShift(unit, input.shift, now);
   const changed = await once(

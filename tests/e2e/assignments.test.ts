@@ -10,10 +10,10 @@ afterAll(async () => {
   await browser?.close();
 });
 
-/** Presses Tab until the focused element matches the selector, as a keyboard user would. */
-async function tabTo(page: Page, selector: string) {
+/** Presses Tab (or Shift+Tab) until the focused element matches the selector, as a keyboard user would. */
+async function tabTo(page: Page, selector: string, key: "Tab" | "Shift+Tab" = "Tab") {
   for (let i = 0; i < 150; i++) {
-    await page.keyboard.press("Tab");
+    await page.keyboard.press(key);
     const there = await page.evaluate(
       (sel) => document.activeElement?.matches(sel) ?? false,
       selector,
@@ -53,7 +53,8 @@ describe("shift assignments", () => {
         (el) => (el as HTMLSelectElement).selectedOptions[0]?.textContent ?? "",
       );
 
-      await tabTo(page, "button[type='submit']");
+      // Save sits above the grid: back from the cell.
+      await tabTo(page, "button[type='submit']", "Shift+Tab");
       await page.keyboard.press("Enter");
       await page
         .getByRole("status")
