@@ -14,7 +14,10 @@ import { can } from "@/lib/auth/permissions";
 export type NavItem = { href: string; label: string };
 
 function navFor(role: Role): NavItem[] {
-  const items: NavItem[] = [{ href: "/board", label: "Board" }];
+  const items: NavItem[] = [
+    { href: "/board", label: "Board" },
+    { href: "/assignments", label: "Assignments" },
+  ];
   if (can({ role }, "order.cosign")) items.push({ href: "/orders/cosign", label: "Co-sign" });
   if (can({ role }, "admission.manage")) items.push({ href: "/admit", label: "Admit" });
   items.push({ href: "/ledger", label: "Ledger" });

@@ -16,6 +16,8 @@ prepare || { echo "Preparation failed; see the messages above." >&2; exit 1; }
 say "Migrating and seeding the demo database"
 knex_cli migrate:latest
 knex_cli seed:run
+# The seeded shifts age; bring assignments and charge duties forward to the current and next shift.
+npx tsx db/scripts/roll-assignments.ts
 
 if build_is_stale; then
   say "Building the app"

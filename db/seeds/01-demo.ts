@@ -114,6 +114,7 @@ export async function seed(knex: Knex): Promise<void> {
     const id = (email: string) => userIds.get(email)!;
     const teams = [
       {
+        charge: { MICU: "hana.whitlock", RESP: "greta.sorensen" },
         nurses: {
           MICU: ["hana.whitlock", "felix.adeyemi"],
           RESP: ["greta.sorensen", "mateo.ruskin"],
@@ -121,6 +122,7 @@ export async function seed(knex: Knex): Promise<void> {
         therapist: { MICU: "jonah.pell", RESP: "saoirse.mendez" },
       },
       {
+        charge: { MICU: "lior.brandt", RESP: "noor.halvorsen" },
         nurses: {
           MICU: ["lior.brandt", "lior.brandt"],
           RESP: ["noor.halvorsen", "noor.halvorsen"],
@@ -129,11 +131,18 @@ export async function seed(knex: Knex): Promise<void> {
       },
     ];
     const rows: Record<string, unknown>[] = [];
+    const chargeRows: Record<string, unknown>[] = [];
     for (const offset of [-1, 0, 1]) {
       const startsAt = new Date(current.getTime() + offset * 12 * 3600_000);
       const endsAt = new Date(startsAt.getTime() + 12 * 3600_000);
       const team = teams[Math.abs(offset) % 2]!;
       for (const u of UNITS) {
+        chargeRows.push({
+          unit_id: unitIds.get(u.code)!,
+          user_id: id(`${team.charge[u.code]}@kestrel.example`),
+          starts_at: startsAt,
+          ends_at: endsAt,
+        });
         for (let n = 1; n <= u.beds; n++) {
           const bedId = bedIds.get(`${u.code}:${n}`)!;
           const nurse = team.nurses[u.code][n <= u.beds / 2 ? 0 : 1]!;
@@ -163,6 +172,7 @@ export async function seed(knex: Knex): Promise<void> {
       }
     }
     await trx.batchInsert("care_assignments", rows, 200);
+    await trx("unit_charge_duties").insert(chargeRows);
   });
   console.log(`[seed] demo seeded: ${DEMO_USERS.length} users, ${occupied()} occupied beds`);
 }

@@ -12,6 +12,7 @@ import {
 import type { ActionEntry } from "./access-matrix";
 import { ADT_ACTIONS } from "./access-routes-adt";
 import { UNIT_ACTIONS } from "./access-routes-units";
+import { ASSIGNMENT_ACTIONS } from "./access-routes-assignments";
 import {
   adjustmentAllows,
   adjustmentBody,
@@ -212,6 +213,7 @@ const ACTIONS: Omit<ActionEntry, "via">[] = [
       pao2_above_band: true,
     }),
   },
+  ...ASSIGNMENT_ACTIONS,
 ];
 
 export const ACTION_ENTRIES: ActionEntry[] = [...ACTIONS, ...ADT_ACTIONS, ...UNIT_ACTIONS].map(

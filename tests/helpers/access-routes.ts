@@ -22,6 +22,7 @@ import {
 import type { Cell, RouteEntry } from "./access-matrix";
 import { ADT_ROUTES } from "./access-routes-adt";
 import { UNIT_ROUTES } from "./access-routes-units";
+import { ASSIGNMENT_ROUTES } from "./access-routes-assignments";
 import { appDb, uniqueEmail } from "./db";
 import { DEMO_PASSWORD } from "./browser";
 
@@ -477,6 +478,7 @@ const ROUTES: Omit<RouteEntry, "via">[] = [
       json: { fio2: 0.4, pao2: 80, paco2: 40, unitId: w.unitId[c.unit] },
     }),
   },
+  ...ASSIGNMENT_ROUTES,
 ];
 
 export const ROUTE_ENTRIES: RouteEntry[] = [...ROUTES, ...ADT_ROUTES, ...UNIT_ROUTES].map((e) => ({

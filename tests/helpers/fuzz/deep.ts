@@ -194,6 +194,14 @@ function deepSpecs(s: BodySpecs, own: Own): Record<string, BodySpec> {
       ...gas(s.forecast),
       unitId: pinId({ ...s.forecast.fields.unitId!, valid: fc.constant(own.unitId) }),
     }),
+    // The next shift of the own unit, written with nothing to change.
+    assignmentSet: aim(s.assignmentSet, {
+      shift: { ...s.assignmentSet.fields.shift!, valid: fc.constant("next") },
+      // Perturbed only to refused values, so no seeded charge nurse or cell changes.
+      chargeNurseId: fixed(undefined),
+      copyFrom: pinId({ ...s.assignmentSet.fields.copyFrom!, valid: fc.constant(undefined) }),
+      cells: pinId({ ...s.assignmentSet.fields.cells!, valid: fc.constant([]) }),
+    }),
     userCreate: aim(s.userCreate, {
       unitIds: pinId({ ...s.userCreate.fields.unitIds!, valid: fc.constant([own.unitId]) }),
       currentPassword: fixed(DEMO_PASSWORD),
@@ -440,6 +448,12 @@ export function deepRequests(
       "admin",
       `/api/v1/units/${own.fuzzUnitId}/beds/${own.fuzzBedId}`,
       spec.bedUpdate!,
+    ),
+    "PUT /api/v1/units/[unitId]/assignments": json(
+      "PUT /api/v1/units/[unitId]/assignments",
+      "admin",
+      `/api/v1/units/${own.unitId}/assignments`,
+      spec.assignmentSet!,
     ),
     "POST /api/v1/users": json("POST /api/v1/users", "admin", "/api/v1/users", spec.userCreate!),
     "PATCH /api/v1/users/[userId]": json(

@@ -170,6 +170,16 @@ export function parameterisedReads(all: Ids & ReadIds): Record<string, fc.Arbitr
       "therapist",
       under("/api/v1/imports", ids(all.imports), "/report", fc.constant("")),
     ),
+    "GET /api/v1/units/[unitId]/assignments": read(
+      "GET /api/v1/units/[unitId]/assignments",
+      "physician",
+      under(
+        "/api/v1/units",
+        ids(all.units),
+        "/assignments",
+        queryString({ shift: fc.oneof(oneOf(["current", "next", "previous"]), time) }),
+      ),
+    ),
     "GET /api/v1/users/[userId]": read(
       "GET /api/v1/users/[userId]",
       "admin",

@@ -471,6 +471,13 @@ export function writeRoutes(ctx: Context): Record<string, fc.Arbitrary<FuzzCase>
         { weight: 1, arbitrary: notAnObject },
       ),
     ),
+    "PUT /api/v1/units/[unitId]/assignments": jsonWrite(
+      "PUT /api/v1/units/[unitId]/assignments",
+      "admin",
+      at("/api/v1/units", idSegment(ids.units), "/assignments"),
+      refusedBody(specs.assignmentSet),
+      true,
+    ),
     "POST /api/v1/users": jsonWrite(
       "POST /api/v1/users",
       "admin",

@@ -35,6 +35,7 @@ import {
   unitCreateSchema,
   unitUpdateSchema,
 } from "@/lib/units/schema";
+import { assignmentWriteSchema } from "@/lib/assignments/schema";
 import { userActiveSchema, userCreateSchema, userUpdateSchema } from "@/lib/users/schema";
 import type { BodySpec, Field } from "./bodies";
 
@@ -368,6 +369,21 @@ export function bodySpecs(ids: Ids) {
     },
   };
 
+  // Cells and the charge nurse are optional (an empty list and null are valid): never the broken field.
+  const assignmentSet: BodySpec = {
+    fields: {
+      shift: oneOf(["current", "next"]),
+      chargeNurseId: {
+        ...int(1, undefined, fc.constant(null)),
+        nullable: true,
+        required: false,
+      },
+      cells: { kind: "array", required: false, valid: fc.constant([]) },
+      copyFrom: { ...oneOf(["previous"]), required: "typed" },
+      idempotencyKey,
+    },
+  };
+
   return {
     admit,
     transfer,
@@ -376,6 +392,7 @@ export function bodySpecs(ids: Ids) {
     unitUpdate,
     bedCreate,
     bedUpdate,
+    assignmentSet,
     reading,
     bloodGas,
     adjustment,
@@ -403,6 +420,7 @@ export const SCHEMAS: Record<keyof BodySpecs, { schema: z.ZodType; fromPath?: st
   admit: { schema: admitSchema },
   transfer: { schema: transferSchema, fromPath: ["admissionId"] },
   discharge: { schema: dischargeSchema, fromPath: ["admissionId"] },
+  assignmentSet: { schema: assignmentWriteSchema, fromPath: ["unitId"] },
   reading: { schema: readingSchema },
   bloodGas: { schema: bloodGasSchema },
   adjustment: { schema: adjustmentSchema },
