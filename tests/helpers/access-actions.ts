@@ -11,6 +11,7 @@ import {
 } from "./access-fixtures";
 import type { ActionEntry } from "./access-matrix";
 import { ADT_ACTIONS } from "./access-routes-adt";
+import { HANDOFF_ACTIONS } from "./access-routes-handoff";
 import { UNIT_ACTIONS } from "./access-routes-units";
 import {
   adjustmentAllows,
@@ -214,9 +215,12 @@ const ACTIONS: Omit<ActionEntry, "via">[] = [
   },
 ];
 
-export const ACTION_ENTRIES: ActionEntry[] = [...ACTIONS, ...ADT_ACTIONS, ...UNIT_ACTIONS].map(
-  (e) => ({
-    ...e,
-    via: "action",
-  }),
-);
+export const ACTION_ENTRIES: ActionEntry[] = [
+  ...ACTIONS,
+  ...ADT_ACTIONS,
+  ...UNIT_ACTIONS,
+  ...HANDOFF_ACTIONS,
+].map((e) => ({
+  ...e,
+  via: "action",
+}));

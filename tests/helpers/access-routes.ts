@@ -21,6 +21,7 @@ import {
 } from "./access-fixtures";
 import type { Cell, RouteEntry } from "./access-matrix";
 import { ADT_ROUTES } from "./access-routes-adt";
+import { HANDOFF_ROUTES } from "./access-routes-handoff";
 import { UNIT_ROUTES } from "./access-routes-units";
 import { appDb, uniqueEmail } from "./db";
 import { DEMO_PASSWORD } from "./browser";
@@ -479,7 +480,12 @@ const ROUTES: Omit<RouteEntry, "via">[] = [
   },
 ];
 
-export const ROUTE_ENTRIES: RouteEntry[] = [...ROUTES, ...ADT_ROUTES, ...UNIT_ROUTES].map((e) => ({
+export const ROUTE_ENTRIES: RouteEntry[] = [
+  ...ROUTES,
+  ...ADT_ROUTES,
+  ...UNIT_ROUTES,
+  ...HANDOFF_ROUTES,
+].map((e) => ({
   ...e,
   via: "route",
 }));
