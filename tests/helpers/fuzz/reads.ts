@@ -111,10 +111,7 @@ export function parameterisedReads(all: Ids & ReadIds): Record<string, fc.Arbitr
       "GET /api/v1/units/[unitId]/handoff",
       "nurse",
       fc
-        .tuple(
-          ids(all.units),
-          queryString({ shift: fc.oneof(oneOf(["next", "current"]), time) }),
-        )
+        .tuple(ids(all.units), queryString({ shift: fc.oneof(oneOf(["next", "current"]), time) }))
         .map(([u, q]) => `/api/v1/units/${u}/handoff${q}`),
     ),
     "GET /api/v1/ledger": read(
