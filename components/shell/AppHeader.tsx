@@ -20,6 +20,7 @@ function navFor(role: Role): NavItem[] {
   ];
   if (can({ role }, "order.cosign")) items.push({ href: "/orders/cosign", label: "Co-sign" });
   if (can({ role }, "admission.manage")) items.push({ href: "/admit", label: "Admit" });
+  items.push({ href: "/handoff", label: "Handoff" });
   items.push({ href: "/ledger", label: "Ledger" });
   if (can({ role }, "import.upload")) items.push({ href: "/imports", label: "Uploads" });
   if (can({ role }, "user.manage")) items.push({ href: "/admin/users", label: "Users" });

@@ -11,6 +11,7 @@ import {
 } from "./access-fixtures";
 import type { ActionEntry } from "./access-matrix";
 import { ADT_ACTIONS } from "./access-routes-adt";
+import { HANDOFF_ACTIONS } from "./access-routes-handoff";
 import { UNIT_ACTIONS } from "./access-routes-units";
 import { ASSIGNMENT_ACTIONS } from "./access-routes-assignments";
 import {
@@ -216,9 +217,12 @@ const ACTIONS: Omit<ActionEntry, "via">[] = [
   ...ASSIGNMENT_ACTIONS,
 ];
 
-export const ACTION_ENTRIES: ActionEntry[] = [...ACTIONS, ...ADT_ACTIONS, ...UNIT_ACTIONS].map(
-  (e) => ({
-    ...e,
-    via: "action",
-  }),
-);
+export const ACTION_ENTRIES: ActionEntry[] = [
+  ...ACTIONS,
+  ...ADT_ACTIONS,
+  ...UNIT_ACTIONS,
+  ...HANDOFF_ACTIONS,
+].map((e) => ({
+  ...e,
+  via: "action",
+}));

@@ -21,6 +21,7 @@ import {
 } from "./access-fixtures";
 import type { Cell, RouteEntry } from "./access-matrix";
 import { ADT_ROUTES } from "./access-routes-adt";
+import { HANDOFF_ROUTES } from "./access-routes-handoff";
 import { UNIT_ROUTES } from "./access-routes-units";
 import { ASSIGNMENT_ROUTES } from "./access-routes-assignments";
 import { appDb, uniqueEmail } from "./db";
@@ -481,7 +482,12 @@ const ROUTES: Omit<RouteEntry, "via">[] = [
   ...ASSIGNMENT_ROUTES,
 ];
 
-export const ROUTE_ENTRIES: RouteEntry[] = [...ROUTES, ...ADT_ROUTES, ...UNIT_ROUTES].map((e) => ({
+export const ROUTE_ENTRIES: RouteEntry[] = [
+  ...ROUTES,
+  ...ADT_ROUTES,
+  ...UNIT_ROUTES,
+  ...HANDOFF_ROUTES,
+].map((e) => ({
   ...e,
   via: "route",
 }));

@@ -25,7 +25,8 @@ export type Field =
   | (Common & { kind: "string"; min?: number; max?: number; trim?: boolean })
   | (Common & { kind: "enum"; values: readonly string[] })
   | (Common & { kind: "boolean" })
-  | (Common & { kind: "array" })
+  /** `max`: the most items the schema takes (50 unless told); one more is refused. */
+  | (Common & { kind: "array"; max?: number })
   /** Coerced by the schema (z.coerce.date): perturbed, never the field that is broken on purpose. */
   | (Common & { kind: "coerced" });
 
@@ -101,7 +102,12 @@ export function breakField(f: Field): fc.Arbitrary<Broken> {
             maxLength: 4,
           }),
         ),
-        as(fc.array(fc.integer({ min: 1, max: 9 }), { minLength: 51, maxLength: 60 })),
+        as(
+          fc.array(fc.integer({ min: 1, max: 9 }), {
+            minLength: (f.max ?? 50) + 1,
+            maxLength: (f.max ?? 50) + 10,
+          }),
+        ),
       );
     case "coerced":
       throw new Error("a coerced field is never the broken one");

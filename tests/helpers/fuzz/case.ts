@@ -1,6 +1,7 @@
 /** One generated request of the API fuzz, and how it is printed when it fails. */
 
-export type Who = "physician" | "therapist" | "admin" | "anonymous" | "token" | "badToken";
+export type Who =
+  "physician" | "therapist" | "nurse" | "admin" | "anonymous" | "token" | "badToken";
 
 export type Part =
   { name: string; value: string } | { name: string; fileName: string; content: string };

@@ -107,6 +107,13 @@ export function parameterisedReads(all: Ids & ReadIds): Record<string, fc.Arbitr
       "physician",
       queryString({ unitId: ids(all.units) }).map((q) => `/api/v1/board${q}`),
     ),
+    "GET /api/v1/units/[unitId]/handoff": read(
+      "GET /api/v1/units/[unitId]/handoff",
+      "nurse",
+      fc
+        .tuple(ids(all.units), queryString({ shift: fc.oneof(oneOf(["next", "current"]), time) }))
+        .map(([u, q]) => `/api/v1/units/${u}/handoff${q}`),
+    ),
     "GET /api/v1/ledger": read(
       "GET /api/v1/ledger",
       "physician",

@@ -459,6 +459,12 @@ export function writeRoutes(ctx: Context): Record<string, fc.Arbitrary<FuzzCase>
       at("/api/v1/units", unitId, "/beds"),
       refusedBody(specs.bedCreate),
     ),
+    "POST /api/v1/units/[unitId]/handoff/acknowledge": jsonWrite(
+      "POST /api/v1/units/[unitId]/handoff/acknowledge",
+      "nurse",
+      at("/api/v1/units", unitId, "/handoff/acknowledge"),
+      refusedBody(specs.handoffAcknowledge),
+    ),
     // No field is required alone (a label or active), so no random object: each is refusable only when broken.
     "PATCH /api/v1/units/[unitId]/beds/[bedId]": jsonWrite(
       "PATCH /api/v1/units/[unitId]/beds/[bedId]",

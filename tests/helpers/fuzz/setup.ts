@@ -68,6 +68,8 @@ export async function fuzzSetup(): Promise<{ clients: Clients; ctx: Context; acc
   const physician = await newUser(knex, "physician", hash, units);
   const therapist = await newUser(knex, "therapist", hash, units);
   const admin = await newUser(knex, "admin", hash, units);
+  // Acknowledges handoffs (a nurse-only write), so its bodies reach the schema.
+  const nurse = await newUser(knex, "nurse", hash, units);
   // The only account the account-write routes may name: a nurse no one signs in as.
   const victim = await newUser(knex, "nurse", hash, units);
   const { token } = await createApiToken(knex, await actorByEmail(admin.email), {
@@ -81,6 +83,7 @@ export async function fuzzSetup(): Promise<{ clients: Clients; ctx: Context; acc
     physician: await Session.signIn(physician.email),
     therapist: await Session.signIn(therapist.email),
     admin: await Session.signIn(admin.email),
+    nurse: await Session.signIn(nurse.email),
   };
   const ids = await gatherIds(knex);
   return {

@@ -13,6 +13,7 @@ import { ROLES } from "@/lib/auth/roles";
 import { BLOOD_GAS_RANGES, bloodGasSchema } from "@/lib/blood-gases/schema";
 import { confirmSchema } from "@/lib/imports/upload-rules";
 import { DEVICES } from "@/lib/devices";
+import { handoffAcknowledgeSchema } from "@/lib/handoff/schema";
 import {
   cosignSchema,
   discontinueSchema,
@@ -383,6 +384,19 @@ export function bodySpecs(ids: Ids) {
       idempotencyKey,
     },
   };
+  // A shift is "next" or an ISO start; anything else, and an empty or oversized list, is refused.
+  const handoffAcknowledge: BodySpec = {
+    fields: {
+      shift: { ...oneOf(["next"]), required: "typed" },
+      admissionIds: {
+        kind: "array",
+        required: true,
+        max: 100,
+        valid: fc.array(fc.integer({ min: 1, max: 2 ** 31 - 1 }), { minLength: 1, maxLength: 5 }),
+      },
+      idempotencyKey,
+    },
+  };
 
   return {
     admit,
@@ -393,6 +407,7 @@ export function bodySpecs(ids: Ids) {
     bedCreate,
     bedUpdate,
     assignmentSet,
+    handoffAcknowledge,
     reading,
     bloodGas,
     adjustment,
@@ -440,4 +455,5 @@ export const SCHEMAS: Record<keyof BodySpecs, { schema: z.ZodType; fromPath?: st
   unitUpdate: { schema: unitUpdateSchema, fromPath: ["unitId"] },
   bedCreate: { schema: bedCreateSchema, fromPath: ["unitId"] },
   bedUpdate: { schema: bedUpdateSchema, fromPath: ["unitId", "bedId"] },
+  handoffAcknowledge: { schema: handoffAcknowledgeSchema, fromPath: ["unitId"] },
 };
