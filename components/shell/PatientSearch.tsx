@@ -30,7 +30,8 @@ export function PatientSearch() {
     <div className="relative w-56" data-testid="patient-search">
       <Combobox<PatientHit | null> value={null} onChange={open}>
         <ComboboxInput
-          aria-label="Find a patient by MRN, name or bed"
+          aria-label="Find a patient"
+          title="Find a patient of your units by MRN, name or bed"
           placeholder="Find patient (MRN, name, bed)"
           autoComplete="off"
           className="w-full rounded-md border border-border-strong bg-surface px-2.5 py-1 text-sm text-ink placeholder:text-ink-muted"
@@ -38,8 +39,10 @@ export function PatientSearch() {
           displayValue={() => query}
         />
         {deferred.length >= 2 ? (
+          // Not modal: a search in the header must never freeze the page behind it.
           <ComboboxOptions
             static
+            modal={false}
             className="absolute z-30 mt-1 max-h-80 w-80 overflow-auto rounded-md border border-border bg-surface py-1 text-sm shadow-card"
           >
             {error ? (
