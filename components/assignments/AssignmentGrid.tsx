@@ -110,12 +110,20 @@ export function AssignmentGrid({ grid }: { grid: Grid }) {
       return;
     }
     // From the grid, not the resolver's output (which holds the shift as a Date).
-    const result = await setAssignmentsAction({
-      unitId: grid.unit.id,
-      shift: grid.shift.startsAt,
-      cells: sent.map(({ cell }) => cell),
-      ...(chargeChanged ? { chargeNurseId: values.chargeNurseId } : {}),
-    });
+    let result: Awaited<ReturnType<typeof setAssignmentsAction>>;
+    try {
+      result = await setAssignmentsAction({
+        unitId: grid.unit.id,
+        shift: grid.shift.startsAt,
+        cells: sent.map(({ cell }) => cell),
+        ...(chargeChanged ? { chargeNurseId: values.chargeNurseId } : {}),
+      });
+    } catch {
+      setFormError(
+        "Tidemark could not be reached; nothing was saved. Check the connection and save again — your choices are kept.",
+      );
+      return;
+    }
     if (!result.ok) {
       // Errors of a cell or the charge nurse land beside it; any other (the shift) in the message.
       const elsewhere: string[] = [];

@@ -22,7 +22,9 @@ describe("step-table library", () => {
       await page.getByRole("heading", { name: "ARDS Network lower PEEP / higher FiO2" }).waitFor();
       await page.getByRole("link", { name: "New unit table" }).click();
       const name = `MICU CPAP ladder ${Date.now()}`;
-      await page.getByLabel("Name").fill(name);
+      await page.getByLabel("Name", { exact: true }).fill(name);
+      // Other tests add units: name the one this table is for.
+      await page.getByLabel("Unit", { exact: true }).selectOption({ label: "MICU · Medical ICU" });
       // Step 2 starts below step 1: refused, named by step.
       await page.locator("#rows-1-fio2Min").fill("0.25");
       await page.getByLabel(/Reason for the change/).fill("Unit CPAP protocol");
