@@ -8,7 +8,7 @@ import { IconCheck, IconWarning } from "@/components/ui/icons";
 import type { FieldErrors } from "@/lib/errors";
 import { toNumber } from "@/lib/number-input";
 import { DEVICE_PROFILES, DEVICES, estimateFio2, type Device } from "@/lib/devices";
-import { wallTimeToInstant, zoneOffsetMs } from "@/lib/time/zone";
+import { formatUnitTime, wallTimeToInstant, zoneOffsetMs } from "@/lib/time/zone";
 
 // Pieces the bedside forms (adjustment, reading, blood gas) and the blood-gas
 // evaluator share: number inputs, the unit's wall-clock time, the idempotency
@@ -335,17 +335,8 @@ export function describeDeviceFio2(device: Device, flow: number | undefined): st
   }
 }
 
-/** A stored instant as the unit's wall-clock time: "02 Dec 14:05". Deterministic on server and client. */
-export function formatUnitTime(iso: string, timeZone: string): string {
-  return new Intl.DateTimeFormat("en-GB", {
-    timeZone,
-    day: "2-digit",
-    month: "short",
-    hour: "2-digit",
-    minute: "2-digit",
-    hourCycle: "h23",
-  }).format(new Date(iso));
-}
+/** A stored instant as the unit's wall-clock time ("02 Dec 14:05"), for the forms' importers. */
+export { formatUnitTime };
 
 /** The bedside context as the forms read it from api/v1 (SWR). */
 export async function fetchJson<T>(url: string): Promise<T> {

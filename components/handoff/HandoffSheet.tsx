@@ -2,20 +2,11 @@ import type { ReactNode } from "react";
 import { Caution } from "@/components/ui/Caution";
 import { EmptyState } from "@/components/ui/EmptyState";
 import { ALERT_KIND_LABELS } from "@/lib/alerts/kinds";
+import { formatUnitTime } from "@/lib/time/zone";
 import type { CareTeam, HandoffBed, HandoffView, ShiftView } from "@/lib/handoff/queries";
 import { AcknowledgeButton, PrintButton, PrintedAt } from "./HandoffControls";
 
-/** "03 Dec 19:00" in the unit's zone. */
-function at(iso: string, timeZone: string): string {
-  return new Intl.DateTimeFormat("en-GB", {
-    timeZone,
-    day: "2-digit",
-    month: "short",
-    hour: "2-digit",
-    minute: "2-digit",
-    hourCycle: "h23",
-  }).format(new Date(iso));
-}
+const at = formatUnitTime;
 
 function hm(iso: string, timeZone: string): string {
   return new Intl.DateTimeFormat("en-GB", {

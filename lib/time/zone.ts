@@ -90,3 +90,15 @@ export function wallTimeToInstant(wallMs: number, timeZone: string): Date {
   const guess = wallMs - zoneOffsetMs(wallMs, timeZone);
   return new Date(wallMs - zoneOffsetMs(guess, timeZone));
 }
+
+/** "03 Dec 19:00": an instant as a clock in the unit's zone shows it, to the minute. */
+export function formatUnitTime(iso: string, timeZone: string): string {
+  return new Intl.DateTimeFormat("en-GB", {
+    timeZone,
+    day: "2-digit",
+    month: "short",
+    hour: "2-digit",
+    minute: "2-digit",
+    hourCycle: "h23",
+  }).format(new Date(iso));
+}

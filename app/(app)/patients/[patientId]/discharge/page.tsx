@@ -1,18 +1,11 @@
 import type { Metadata } from "next";
 import Link from "next/link";
-import { notFound } from "next/navigation";
-import { z } from "zod";
 import { DischargeForm } from "@/components/admissions/MoveDischargeForms";
 import { buttonClasses } from "@/components/ui/Button";
-import { admissionChangeContext } from "@/lib/admissions/page-data";
-import { pagePermission } from "@/lib/auth/page-guard";
-import { db } from "@/lib/db";
+import { loadAdmissionChange } from "../admission-change";
 import { DEVICE_PROFILES } from "@/lib/devices";
-import { NotFoundError } from "@/lib/errors";
 
 export const metadata: Metadata = { title: "Discharge patient" };
-
-const paramsSchema = z.object({ patientId: z.coerce.number().int().positive() });
 
 /** Discharge: home, another hospital or death; the Chart stays readable afterwards. */
 export default async function DischargePage({
@@ -20,16 +13,7 @@ export default async function DischargePage({
 }: {
   params: Promise<{ patientId: string }>;
 }) {
-  const actor = await pagePermission("admission.manage");
-  const parsed = paramsSchema.safeParse(await params);
-  if (!parsed.success) notFound();
-  const context = await admissionChangeContext(db(), actor, parsed.data.patientId).catch(
-    (error: unknown) => {
-      if (error instanceof NotFoundError) notFound();
-      throw error;
-    },
-  );
-  const { patient, order, openAlerts, timeZone } = context;
+  const { patient, order, openAlerts, timeZone } = await loadAdmissionChange(params);
   const consequences = [
     order
       ? `discontinue order #${order.id} (${DEVICE_PROFILES[order.device].label}) with the discharge as its reason`

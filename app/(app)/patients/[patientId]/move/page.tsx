@@ -1,32 +1,17 @@
 import type { Metadata } from "next";
 import Link from "next/link";
-import { notFound } from "next/navigation";
-import { z } from "zod";
 import { MoveForm } from "@/components/admissions/MoveDischargeForms";
 import { buttonClasses } from "@/components/ui/Button";
-import { admissionChangeContext } from "@/lib/admissions/page-data";
-import { pagePermission } from "@/lib/auth/page-guard";
+import { loadAdmissionChange } from "../admission-change";
 import { db } from "@/lib/db";
 import { DEVICE_PROFILES } from "@/lib/devices";
-import { NotFoundError } from "@/lib/errors";
 import { listFreeBeds } from "@/lib/units/queries";
 
 export const metadata: Metadata = { title: "Move patient" };
 
-const paramsSchema = z.object({ patientId: z.coerce.number().int().positive() });
-
 /** Move the patient to another bed; the order, alerts and records follow. */
 export default async function MovePage({ params }: { params: Promise<{ patientId: string }> }) {
-  const actor = await pagePermission("admission.manage");
-  const parsed = paramsSchema.safeParse(await params);
-  if (!parsed.success) notFound();
-  const context = await admissionChangeContext(db(), actor, parsed.data.patientId).catch(
-    (error: unknown) => {
-      if (error instanceof NotFoundError) notFound();
-      throw error;
-    },
-  );
-  const { patient, order, openAlerts } = context;
+  const { actor, patient, order, openAlerts } = await loadAdmissionChange(params);
   const beds = await listFreeBeds(db(), actor.unitIds);
   return (
     <div className="max-w-2xl space-y-4">
