@@ -3,7 +3,7 @@
 import type { ActionResult } from "../action-result";
 import { runWriteAction, type Revalidation } from "../boundary/next";
 import { admitOperation, dischargeOperation, transferOperation } from "./operations";
-import type { AdmissionView } from "./service";
+import type { AdmissionView } from "./lookups";
 
 const admissionPages = (a: AdmissionView): Revalidation[] => ["/board", `/patients/${a.patientId}`];
 

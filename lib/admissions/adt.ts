@@ -6,8 +6,8 @@ import { Hl7MessageError } from "../imports/hl7";
 import { parseAdt, type AdtMessage } from "../imports/hl7-adt";
 import { parseImportTime } from "../imports/time";
 import { appendLedger, lockPatientChain } from "../ledger/service";
-import { checkEventTime, type AdmissionView } from "./lookups";
-import { admitIn, bedFor, dischargeIn, openAdmissionFor, transferIn, type Doer } from "./service";
+import { bedFor, checkEventTime, openAdmissionFor, type AdmissionView } from "./lookups";
+import { admitIn, dischargeIn, transferIn, type Doer } from "./service";
 
 /** What an ADT message did: the admission as it now stands (A08: the patient's new details). */
 export type AdtOutcome = {

@@ -323,5 +323,3 @@ export async function dischargePatient(
     ),
   );
 }
-
-export { bedFor, openAdmissionFor, type AdmissionView, type BedRow };
