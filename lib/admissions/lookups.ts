@@ -144,7 +144,9 @@ export async function openAdmissionFor(
     );
   }
   if (view.dischargedAt) {
-    throw new ConflictError(`${view.name} was discharged at ${view.dischargedAt}.`);
+    throw new ConflictError(
+      `${view.name} was discharged on ${view.dischargedAt.slice(0, 16).replace("T", " ")} UTC; the stay can no longer be changed.`,
+    );
   }
   return view;
 }

@@ -14,21 +14,16 @@ export async function admissionChangeContext(
   patient: ChartPatient;
   order: { id: number; device: Device } | null;
   openAlerts: number;
-  timeZone: string;
 }> {
   const patient = await getPatientForActor(knex, actor, patientId);
   if (patient.admission.dischargedAt) throw new NotFoundError("The patient is discharged.");
-  const [order, alerts, unit] = await Promise.all([
+  const [order, alerts] = await Promise.all([
     getCurrentOrder(knex, patientId),
     knex("alerts").where({ open_admission_id: patient.admission.id }).count({ n: "*" }),
-    knex("units").where({ id: patient.admission.unit.id }).first("time_zone") as Promise<{
-      time_zone: string;
-    }>,
   ]);
   return {
     patient,
     order: order ? { id: order.id, device: order.device } : null,
     openAlerts: Number((alerts[0] as { n: number | string }).n),
-    timeZone: unit.time_zone,
   };
 }

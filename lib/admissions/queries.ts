@@ -18,7 +18,7 @@ export type ChartPatient = {
     dischargedAt: Date | null;
     disposition: string | null;
     bed: { id: number; label: string };
-    unit: { id: number; code: string; name: string; altitudeM: number };
+    unit: { id: number; code: string; name: string; altitudeM: number; timeZone: string };
   };
 };
 
@@ -59,6 +59,7 @@ export async function getPatientForActor(
       "u.code as unit_code",
       "u.name as unit_name",
       "u.altitude_m",
+      "u.time_zone",
     )) as
     | {
         id: number;
@@ -78,6 +79,7 @@ export async function getPatientForActor(
         unit_code: string;
         unit_name: string;
         altitude_m: number;
+        time_zone: string;
       }
     | undefined;
   if (!row) throw new NotFoundError();
@@ -100,6 +102,7 @@ export async function getPatientForActor(
         code: row.unit_code,
         name: row.unit_name,
         altitudeM: row.altitude_m,
+        timeZone: row.time_zone,
       },
     },
   };

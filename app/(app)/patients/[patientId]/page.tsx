@@ -16,6 +16,7 @@ import { NotFoundError } from "@/lib/errors";
 import { getBedsideContext } from "@/lib/chart/bedside";
 import { ageInYears } from "@/lib/admissions/display";
 import { DISPOSITION_LABELS, type Disposition } from "@/lib/admissions/schema";
+import { formatUnitTime } from "@/lib/time/zone";
 import { type ChartPatient, getPatientForActor } from "@/lib/admissions/queries";
 
 export const metadata: Metadata = { title: "Chart" };
@@ -79,8 +80,8 @@ export default async function ChartPage({ params }: { params: Promise<{ patientI
               {disposition
                 ? `(${DISPOSITION_LABELS[disposition as Disposition].toLowerCase()}) `
                 : ""}
-              {dischargedAt.toISOString().slice(0, 16).replace("T", " ")} UTC — this Chart is a
-              read-only record of the stay.
+              {formatUnitTime(dischargedAt.toISOString(), unit.timeZone)} (unit time) — this Chart
+              is a read-only record of the stay.
             </p>
           ) : null}
           <dl className="flex flex-wrap gap-x-5 gap-y-1 text-sm" data-testid="patient-facts">

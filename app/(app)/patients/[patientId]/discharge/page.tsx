@@ -13,7 +13,7 @@ export default async function DischargePage({
 }: {
   params: Promise<{ patientId: string }>;
 }) {
-  const { patient, order, openAlerts, timeZone } = await loadAdmissionChange(params);
+  const { patient, order, openAlerts } = await loadAdmissionChange(params);
   const consequences = [
     order
       ? `discontinue order #${order.id} (${DEVICE_PROFILES[order.device].label}) with the discharge as its reason`
@@ -35,7 +35,7 @@ export default async function DischargePage({
       <DischargeForm
         admissionId={patient.admission.id}
         patientId={patient.id}
-        timeZone={timeZone}
+        timeZone={patient.admission.unit.timeZone}
         consequences={consequences}
       />
       <Link href={`/patients/${patient.id}`} className={buttonClasses("secondary")}>

@@ -22,14 +22,15 @@ export function POST(request: Request) {
     const url = new URL(request.url);
     const partial = partialAccepted(url.searchParams.get("partial"));
     const content = await readBodyBytes(request, MAX_IMPORT_BYTES.hl7);
+    const text = content.toString("utf8");
     let type: string;
     try {
-      type = messageTypeOf(content.toString("utf8")).type;
+      type = messageTypeOf(text).type;
     } catch (error) {
       throw asDomain(error);
     }
     if (type === "ADT") {
-      const { replayed, outcome } = await applyAdtMessage(db(), token, content.toString("utf8"));
+      const { replayed, outcome } = await applyAdtMessage(db(), token, text);
       return NextResponse.json({ adt: outcome, replayed }, { status: replayed ? 200 : 201 });
     }
     const unit = (await loadUnit(db(), token.unitIds[0]!))!;
