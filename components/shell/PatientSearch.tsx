@@ -2,7 +2,7 @@
 
 import { Combobox, ComboboxInput, ComboboxOption, ComboboxOptions } from "@headlessui/react";
 import { useRouter } from "next/navigation";
-import { useDeferredValue, useState } from "react";
+import { useEffect, useState } from "react";
 import useSWR from "swr";
 import { getApiJson } from "@/components/ui/api-json";
 import type { PatientHit } from "@/lib/admissions/queries";
@@ -14,7 +14,12 @@ import type { PatientHit } from "@/lib/admissions/queries";
 export function PatientSearch() {
   const router = useRouter();
   const [query, setQuery] = useState("");
-  const deferred = useDeferredValue(query.trim());
+  // Asks the server once typing pauses, not on every key.
+  const [deferred, setDeferred] = useState("");
+  useEffect(() => {
+    const timer = setTimeout(() => setDeferred(query.trim()), 250);
+    return () => clearTimeout(timer);
+  }, [query]);
   const { data, error, isLoading } = useSWR<{ patients: PatientHit[] }, Error>(
     deferred.length >= 2 ? `/api/v1/patients?query=${encodeURIComponent(deferred)}` : null,
     (url: string) => getApiJson<{ patients: PatientHit[] }>(url, "the patient search"),
