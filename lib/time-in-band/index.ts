@@ -119,19 +119,33 @@ export type SeriesReading = {
   source: ReadingSource;
 };
 
-/**
- * The same computation over readings already sorted by time, with times in
- * milliseconds — for callers holding many readings (the Board), so they need
- * not build a Date per reading. {@link timeInBand} is a wrapper around it.
- */
-export function timeInBandOfSeries(input: {
-  series: readonly SeriesReading[];
-  bands: readonly BandPeriod[];
+/** One classified piece of the series: [from, to) held at `spo2` under `band`. */
+export type HeldPiece = {
   from: number;
   to: number;
-}): TimeInBand {
+  spo2: number;
+  lower: number;
+  upper: number;
+  cls: BandClass;
+};
+
+/**
+ * Walks the series over [from, to) and calls `visit` for each piece of time
+ * a reading held under one band (the carry rules above), in time order. The
+ * one place the rules live: time in band sums the pieces, the rollups split
+ * them into minutes.
+ */
+export function walkHeldSeries(
+  input: {
+    series: readonly SeriesReading[];
+    bands: readonly BandPeriod[];
+    from: number;
+    to: number;
+  },
+  visit: (piece: HeldPiece) => void,
+): void {
   const { series: readings, from: start, to: end } = input;
-  const period = Math.max(0, end - start);
+  if (end <= start) return;
   const bands = [...input.bands]
     .map((b) => ({
       from: b.from.getTime(),
@@ -141,12 +155,8 @@ export function timeInBandOfSeries(input: {
       manualCarry: manualCarryMs(b.reassessMinutes),
     }))
     .sort((a, b) => a.from - b.from);
-  // Plain numeric locals: the Board runs this over ~100k readings per refresh.
-  let below = 0;
-  let inBand = 0;
-  let above = 0;
   let previousMonitorT: number | null = null;
-  const n = period > 0 ? readings.length : 0;
+  const n = readings.length;
   for (let i = 0; i < n; i++) {
     const r = readings[i]!;
     const at = r.t;
@@ -178,14 +188,30 @@ export function timeInBandOfSeries(input: {
       const e = segEnd < band.to ? segEnd : band.to;
       if (e <= s) continue;
       // The excursion rule, as in classifySpo2.
-      if (r.spo2 < band.lower) below += e - s;
-      else if (r.spo2 > band.upper && onOxygen) above += e - s;
-      else inBand += e - s;
+      const cls: BandClass =
+        r.spo2 < band.lower ? "below" : r.spo2 > band.upper && onOxygen ? "above" : "inBand";
+      visit({ from: s, to: e, spo2: r.spo2, lower: band.lower, upper: band.upper, cls });
       cursor = e;
     }
   }
-  const sums = { below, inBand, above };
+}
 
+/**
+ * The same computation over readings already sorted by time, with times in
+ * milliseconds — for callers holding many readings, so they need not build a
+ * Date per reading. {@link timeInBand} is a wrapper around it.
+ */
+export function timeInBandOfSeries(input: {
+  series: readonly SeriesReading[];
+  bands: readonly BandPeriod[];
+  from: number;
+  to: number;
+}): TimeInBand {
+  const period = Math.max(0, input.to - input.from);
+  const sums = { below: 0, inBand: 0, above: 0 };
+  walkHeldSeries(input, (p) => {
+    sums[p.cls] += p.to - p.from;
+  });
   const unknown = Math.max(0, period - sums.below - sums.inBand - sums.above);
   const share = (ms: number) => (period > 0 ? ms / period : 0);
   return {

@@ -1,0 +1,213 @@
+import type { Knex } from "knex";
+import { MAX_CARRY_FORWARD_MS, MONITOR_MAX_CARRY_MS, type SeriesReading } from "../time-in-band";
+import { fio2Timeline, HOUR_MS, MINUTE_MS, minuteMeasures } from "./buckets";
+import { loadBands } from "./bands";
+import { loadStays, type Stay } from "./stays";
+
+/**
+ * Keeps rollup_minutes and rollup_hours equal to a recomputation from the raw
+ * rows. Every write that changes what the SpO2 series or the applied FiO2 of
+ * an admission did over some stretch calls {@link refreshRollups} for that
+ * stretch inside its own transaction; `npm run rollups:rebuild` does the same
+ * for any period.
+ */
+
+const floorTo = (ms: number, step: number) => ms - (((ms % step) + step) % step);
+const ceilTo = (ms: number, step: number) => floorTo(ms + step - 1, step);
+
+/** Monitor samples read before the refreshed stretch, so the first ones inside it know their interval. */
+const LEAD_MS = 2 * MONITOR_MAX_CARRY_MS;
+
+type ReadingRow = {
+  t: number | string;
+  spo2_pct: number;
+  fio2: number;
+  flow_l_min: number | null;
+  source: "manual" | "monitor";
+};
+
+async function loadSeries(
+  knex: Knex,
+  admissionId: number,
+  from: number,
+  to: number,
+): Promise<SeriesReading[]> {
+  const cols = `TIMESTAMPDIFF(MICROSECOND, '1970-01-01', taken_at) DIV 1000 AS t, spo2_pct, fio2, flow_l_min, source`;
+  const lead = new Date(from - LEAD_MS);
+  // The reading before the lead window too: a charted value may still hold.
+  const [[rows], [carry]] = (await Promise.all([
+    knex.raw(
+      `SELECT ${cols} FROM readings WHERE admission_id = ? AND taken_at >= ? AND taken_at < ? ORDER BY taken_at, id`,
+      [admissionId, lead, new Date(to)],
+    ),
+    knex.raw(
+      `SELECT ${cols} FROM readings WHERE admission_id = ? AND taken_at < ? ORDER BY taken_at DESC, id DESC LIMIT 1`,
+      [admissionId, lead],
+    ),
+  ])) as [[ReadingRow[]], [ReadingRow[]]];
+  return [...carry, ...rows].map((r) => ({
+    t: Number(r.t),
+    spo2: Number(r.spo2_pct),
+    fio2: Number(r.fio2),
+    flow: r.flow_l_min === null ? null : Number(r.flow_l_min),
+    source: r.source,
+  }));
+}
+
+const stayAt = (stays: readonly Stay[], t: number) =>
+  stays.find((s) => s.from <= t && t < s.to) ??
+  // A stay that starts inside the minute still owns it.
+  stays.find((s) => s.from < t + MINUTE_MS && t < s.to);
+
+/** Recomputes the admission's rollups over [from, to), widened to whole minutes and hours. */
+export async function refreshRollups(
+  trx: Knex | Knex.Transaction,
+  admissionId: number,
+  from: Date,
+  to: Date,
+): Promise<void> {
+  const start = floorTo(from.getTime(), MINUTE_MS);
+  const end = ceilTo(to.getTime(), MINUTE_MS);
+  if (end <= start) return;
+  const [stays, { bands, orders }, changes, series] = await Promise.all([
+    loadStays(trx, { admissionIds: [admissionId] }),
+    loadBands(trx, admissionId),
+    trx("adjustments")
+      .where({ admission_id: admissionId })
+      .where("applied_at", "<", new Date(end))
+      .select("applied_at", "to_fio2") as Promise<{ applied_at: Date; to_fio2: number }[]>,
+    loadSeries(trx, admissionId, start, end),
+  ]);
+  const minutes = minuteMeasures({
+    series,
+    bands,
+    fio2: fio2Timeline(
+      orders,
+      changes.map((c) => ({ at: c.applied_at.getTime(), fio2: Number(c.to_fio2) })),
+    ),
+    from: start,
+    to: end,
+  });
+  const rows = [];
+  for (const [minute, m] of minutes) {
+    const stay = stayAt(stays, minute);
+    if (!stay) continue; // before admission or after discharge
+    rows.push({
+      admission_id: admissionId,
+      minute_at: new Date(minute),
+      bed_id: stay.bedId,
+      unit_id: stay.unitId,
+      patient_id: stay.patientId,
+      below_ms: Math.round(m.belowMs),
+      in_band_ms: Math.round(m.inBandMs),
+      above_ms: Math.round(m.aboveMs),
+      below88_ms: Math.round(m.below88Ms),
+      below85_ms: Math.round(m.below85Ms),
+      below_area_pct_s: m.belowAreaPctS,
+      min_spo2_pct: m.minSpo2,
+      o2_ms: Math.round(m.o2Ms),
+      fio2_excess_s: m.fio2ExcessS,
+      fio2_high_ms: Math.round(m.fio2HighMs),
+    });
+  }
+  await trx("rollup_minutes")
+    .where({ admission_id: admissionId })
+    .where("minute_at", ">=", new Date(start))
+    .where("minute_at", "<", new Date(end))
+    .delete();
+  for (let i = 0; i < rows.length; i += 2000)
+    await trx("rollup_minutes").insert(rows.slice(i, i + 2000));
+
+  // The hours the stretch touches are summed again from their minutes.
+  const hourFrom = new Date(floorTo(start, HOUR_MS));
+  const hourTo = new Date(ceilTo(end, HOUR_MS));
+  await trx("rollup_hours")
+    .where({ admission_id: admissionId })
+    .where("hour_at", ">=", hourFrom)
+    .where("hour_at", "<", hourTo)
+    .delete();
+  await trx.raw(
+    `INSERT INTO rollup_hours (admission_id, hour_at, bed_id, patient_id, unit_id, below_ms, in_band_ms, above_ms,
+        below88_ms, below85_ms, below_area_pct_s, min_spo2_pct, o2_ms, fio2_excess_s, fio2_high_ms)
+     SELECT admission_id, DATE_FORMAT(minute_at, '%Y-%m-%d %H:00:00'), bed_id, MIN(patient_id), MIN(unit_id),
+        SUM(below_ms), SUM(in_band_ms), SUM(above_ms), SUM(below88_ms), SUM(below85_ms), SUM(below_area_pct_s),
+        MIN(min_spo2_pct), SUM(o2_ms), SUM(fio2_excess_s), SUM(fio2_high_ms)
+       FROM rollup_minutes
+      WHERE admission_id = ? AND minute_at >= ? AND minute_at < ?
+      GROUP BY admission_id, DATE_FORMAT(minute_at, '%Y-%m-%d %H:00:00'), bed_id`,
+    [admissionId, hourFrom, hourTo],
+  );
+}
+
+/**
+ * The stretch new readings at [first, last] can change: from the reading
+ * before them (whose value they cut short) to where their own values stop
+ * holding — a charted value at most 4 h, and the next monitor sample's carry
+ * (its interval may have changed) at most 5 min after it.
+ */
+export async function refreshAfterReadings(
+  trx: Knex.Transaction,
+  admissionId: number,
+  first: Date,
+  last: Date,
+): Promise<void> {
+  const [[before], [nextMonitor]] = (await Promise.all([
+    trx("readings")
+      .where({ admission_id: admissionId })
+      .where("taken_at", "<", first)
+      .max({ t: "taken_at" }),
+    trx("readings")
+      .where({ admission_id: admissionId, source: "monitor" })
+      .where("taken_at", ">", last)
+      .min({ t: "taken_at" }),
+  ])) as [{ t: Date | null }[], { t: Date | null }[]];
+  const from = before?.t ?? first;
+  const reach = last.getTime() + MAX_CARRY_FORWARD_MS;
+  const to = nextMonitor?.t
+    ? Math.min(reach, nextMonitor.t.getTime() + MONITOR_MAX_CARRY_MS)
+    : reach;
+  await refreshRollups(trx, admissionId, from, new Date(Math.max(to, last.getTime() + MINUTE_MS)));
+}
+
+/**
+ * After a change that holds from `at` on (an order written, superseded or
+ * discontinued, an adjustment, a move, a discharge): everything from `at` to
+ * the furthest a value already charted could still hold.
+ */
+export async function refreshFrom(
+  trx: Knex.Transaction,
+  admissionId: number,
+  at: Date,
+  now: Date,
+): Promise<void> {
+  const to = Math.max(at.getTime(), now.getTime()) + MAX_CARRY_FORWARD_MS;
+  await refreshRollups(trx, admissionId, at, new Date(to));
+}
+
+/** `npm run rollups:rebuild`: recomputes every admission's rollups over [from, to), a day per transaction. */
+export async function rebuildRollups(
+  knex: Knex,
+  period: { from: Date; to: Date; admissionIds?: readonly number[] },
+): Promise<{ admissions: number }> {
+  const q = knex("admissions")
+    .where("admitted_at", "<", period.to)
+    .where((w) => void w.whereNull("discharged_at").orWhere("discharged_at", ">", period.from))
+    .select("id", "admitted_at", "discharged_at");
+  if (period.admissionIds) void q.whereIn("id", period.admissionIds);
+  const admissions = (await q) as { id: number; admitted_at: Date; discharged_at: Date | null }[];
+  const DAY = 24 * HOUR_MS;
+  for (const a of admissions) {
+    const from = Math.max(period.from.getTime(), floorTo(a.admitted_at.getTime(), MINUTE_MS));
+    const to = Math.min(
+      period.to.getTime(),
+      a.discharged_at ? ceilTo(a.discharged_at.getTime(), MINUTE_MS) : Infinity,
+    );
+    for (let s = floorTo(from, HOUR_MS); s < to; s += DAY) {
+      const e = Math.min(to, s + DAY);
+      await knex.transaction((trx) =>
+        refreshRollups(trx, a.id, new Date(Math.max(s, from)), new Date(e)),
+      );
+    }
+  }
+  return { admissions: admissions.length };
+}
