@@ -24,8 +24,8 @@ const MEASURES = (t: Knex.CreateTableBuilder) => {
   t.double("below_area_pct_s").notNullable().defaultTo(0);
   // The lowest SpO2 held during the bucket.
   t.decimal("min_spo2_pct", 4, 1).nullable();
-  // Applied settings while an order is in effect: time on an FiO2 above 0.21,
-  // ∫ (FiO2 − 0.21) dt in FiO2·s, and time at FiO2 ≥ 0.6.
+  // Applied settings while an order is in effect and the SpO2 series known:
+  // time on an FiO2 above 0.21, ∫ (FiO2 − 0.21) dt in FiO2·s, time at FiO2 ≥ 0.6.
   t.integer("o2_ms").unsigned().notNullable().defaultTo(0);
   t.double("fio2_excess_s").notNullable().defaultTo(0);
   t.integer("fio2_high_ms").unsigned().notNullable().defaultTo(0);

@@ -1,5 +1,6 @@
 import type { Knex } from "knex";
 import type { Actor } from "../auth/actor";
+import { refreshFrom } from "../rollups/store";
 import { ConflictError, ForbiddenError, ValidationError } from "../errors";
 import { once } from "../idempotency";
 import { afterSettingsChanged } from "../alerts/service";
@@ -199,6 +200,8 @@ export async function recordAdjustment(
         updated_at: now,
         last_reassessed_at: input.appliedAt,
       });
+    // The applied FiO2 changes from here on: oxygen exposure in the rollups.
+    await refreshFrom(trx, admission.admissionId, input.appliedAt, now);
     const view: AdjustmentView = {
       id: Number(id),
       patientId: input.patientId,

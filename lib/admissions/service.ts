@@ -7,6 +7,8 @@ import { ConflictError, ValidationError } from "../errors";
 import { once } from "../idempotency";
 import { appendLedger, lockPatientChain, type LedgerActor } from "../ledger/service";
 import { parseDevices } from "../units/queries";
+import { refreshFrom } from "../rollups/store";
+import { closeStay, openStay } from "../rollups/stays";
 import {
   admissionView,
   bedFor,
@@ -61,6 +63,13 @@ export async function admitIn(
   } catch (error) {
     rethrowOccupied(error, bed.bed_label, who);
   }
+  await openStay(trx, {
+    admissionId,
+    patientId: patient.id,
+    bedId: bed.bed_id,
+    unitId: bed.unit_id,
+    at: admittedAt,
+  });
   const view = { ...(await admissionView(trx, admissionId)), returning: patient.returning };
   await appendLedger(
     trx,
@@ -149,6 +158,8 @@ export async function transferIn(
       { bedId: [`${to.unit_name} does not allow ${DEVICE_PROFILES[device].label}.`] },
     );
   }
+  // Time before the move stays with the old bed.
+  await closeStay(trx, row.id, now, { bedId: to.bed_id, unitId: to.unit_id });
   try {
     await trx("admissions").where({ id: row.id }).update({ bed_id: to.bed_id });
   } catch (error) {
@@ -171,6 +182,7 @@ export async function transferIn(
       )
       .update({ bed_id: to.bed_id, unit_id: to.unit_id });
   }
+  await refreshFrom(trx, row.id, now, now);
   const after = await admissionView(trx, row.id);
   const entry = await appendLedger(
     trx,
@@ -275,6 +287,8 @@ export async function dischargeIn(
     discharged_at: dischargedAt,
     discharge_disposition: disposition,
   });
+  await closeStay(trx, row.id, dischargedAt);
+  await refreshFrom(trx, row.id, dischargedAt, now);
   const after = await admissionView(trx, row.id);
   await appendLedger(
     trx,

@@ -3,13 +3,8 @@ import { openAlertsByAdmission, type AdmissionAlerts } from "../alerts/queries";
 import { belowOximeterAccuracy } from "../oxygen/oximetry";
 import { DEVICE_PROFILES, type Device } from "../devices";
 import { ageInYears, initialsOf } from "../admissions/display";
-import { readingWindow, type WindowReading } from "./reading-window";
-import {
-  classifySpo2,
-  MAX_CARRY_FORWARD_MS,
-  timeInBandOfSeries,
-  type BandPeriod,
-} from "../time-in-band";
+import { timeInBandFromRollups } from "../rollups/time-in-band";
+import { classifySpo2, type TimeInBand } from "../time-in-band";
 
 export type BoardRow = {
   bedId: number;
@@ -49,7 +44,7 @@ export type BoardRow = {
   } | null;
   /** The latest SpO2 against the band in effect; null without a reading or an order. */
   spo2Status: "in-band" | "below" | "above" | null;
-  /** Share of the last 24 h below / in / above the band, and unknown (lib/time-in-band). */
+  /** Share of the last 24 h (to the end of the minute in progress) below / in / above the band, and unknown, from the rollups. */
   timeInBand24h: { below: number; inBand: number; above: number; unknown: number };
   latestPf: { ratio: number; fio2Estimated: boolean; sampledAt: string } | null;
   lastReassessedAt: string | null;
@@ -181,9 +176,9 @@ type Clinical = Omit<
 
 /**
  * Everything clinical the Board shows for a set of admissions, in a fixed
- * number of queries (no per-bed round trips): bedside settings, the orders in
- * effect during the last 24 h, the readings of the last 24 h (plus the carry-in
- * window), the latest reading and the latest arterial P/F.
+ * number of queries (no per-bed round trips): bedside settings, the order in
+ * effect, the 24 h time in band from the rollups (nothing held in this
+ * process's memory), the latest reading and the latest arterial P/F.
  */
 async function loadClinical(
   knex: Knex,
@@ -191,12 +186,13 @@ async function loadClinical(
   patientIds: readonly number[],
   now: Date,
 ): Promise<(admissionId: number, patientId: number) => Clinical> {
-  const from = new Date(now.getTime() - DAY_MS);
-  const carryFrom = new Date(from.getTime() - MAX_CARRY_FORWARD_MS);
+  // The last 24 h to the end of the minute in progress: the rollups' grain.
+  const to = new Date(Math.ceil(now.getTime() / 60_000) * 60_000);
+  const from = new Date(to.getTime() - DAY_MS);
   const none = () => [] as never[];
-  const [settings, orders, readings, latest, gases] =
+  const [settings, orders, tibs, latest, gases] =
     admissionIds.length === 0
-      ? [none(), none(), new Map<number, WindowReading[]>(), none(), none()]
+      ? [none(), none(), new Map<number, TimeInBand>(), none(), none()]
       : await Promise.all([
           knex("bedside_settings")
             .whereIn("admission_id", admissionIds)
@@ -221,13 +217,8 @@ async function loadClinical(
           >,
           knex("orders")
             .whereIn("admission_id", admissionIds)
-            .whereNot("status", "draft")
+            .whereIn("status", ["active", "awaiting_cosign"])
             .where("created_at", "<=", now)
-            .where((q) => {
-              void q
-                .whereIn("status", ["active", "awaiting_cosign"])
-                .orWhere(knex.raw("COALESCE(discontinued_at, updated_at)"), ">", from);
-            })
             .select(
               "id",
               "admission_id",
@@ -236,27 +227,18 @@ async function loadClinical(
               "spo2_lower_pct",
               "spo2_upper_pct",
               "reassess_minutes",
-              "created_at",
-              knex.raw("COALESCE(discontinued_at, updated_at) AS ended_at"),
             ) as Promise<
             {
               id: number;
               admission_id: number;
-              status: "active" | "awaiting_cosign" | "superseded" | "discontinued";
+              status: "active" | "awaiting_cosign";
               device: Device;
               spo2_lower_pct: number;
               spo2_upper_pct: number;
               reassess_minutes: number;
-              created_at: Date;
-              ended_at: Date;
             }[]
           >,
-          readingWindow(
-            knex,
-            admissionIds.map((admissionId, i) => ({ admissionId, patientId: patientIds[i]! })),
-            carryFrom,
-            now,
-          ),
+          timeInBandFromRollups(knex, admissionIds, from, to),
           knex
             .raw(
               `SELECT r.admission_id, r.taken_at, r.spo2_pct, r.fio2, r.flow_l_min, r.source
@@ -302,27 +284,14 @@ async function loadClinical(
         ]);
 
   const settingsBy = new Map(settings.map((s) => [s.admission_id, s]));
-  const ordersBy = groupBy(orders, (o) => o.admission_id);
+  const currentBy = new Map(orders.map((o) => [o.admission_id, o]));
   const latestBy = new Map(latest.map((r) => [r.admission_id, r]));
   const gasBy = new Map(gases.map((g) => [g.admission_id, g]));
 
   return (admissionId) => {
     const s = settingsBy.get(admissionId);
-    const history = ordersBy.get(admissionId) ?? [];
-    const current = history.find((o) => o.status === "active" || o.status === "awaiting_cosign");
-    const bands: BandPeriod[] = history.map((o) => ({
-      from: o.created_at,
-      to: o.status === "active" || o.status === "awaiting_cosign" ? null : o.ended_at,
-      lower: o.spo2_lower_pct,
-      upper: o.spo2_upper_pct,
-      reassessMinutes: o.reassess_minutes,
-    }));
-    const tib = timeInBandOfSeries({
-      from: from.getTime(),
-      to: now.getTime(),
-      bands,
-      series: readings.get(admissionId) ?? [],
-    });
+    const current = currentBy.get(admissionId);
+    const tib = tibs.get(admissionId)!;
     const last = latestBy.get(admissionId);
     const gas = gasBy.get(admissionId);
     const device = s?.device ?? current?.device ?? null;
@@ -353,7 +322,7 @@ async function loadClinical(
       order: current
         ? {
             id: current.id,
-            status: current.status as "active" | "awaiting_cosign",
+            status: current.status,
             lower: current.spo2_lower_pct,
             upper: current.spo2_upper_pct,
             reassessMinutes: current.reassess_minutes,
@@ -387,17 +356,6 @@ async function loadClinical(
       overdue: current !== undefined && minutes !== null && minutes > current.reassess_minutes,
     };
   };
-}
-
-function groupBy<T, K>(items: readonly T[], key: (item: T) => K): Map<K, T[]> {
-  const map = new Map<K, T[]>();
-  for (const item of items) {
-    const k = key(item);
-    const list = map.get(k);
-    if (list) list.push(item);
-    else map.set(k, [item]);
-  }
-  return map;
 }
 
 /** Bed counts per unit, for the Board's header line and empty states. */

@@ -12,12 +12,7 @@ import {
 import { DEVICE_PROFILES } from "../devices";
 import { NotFoundError } from "../errors";
 import type { OrderView } from "../orders/queries";
-import {
-  MAX_CARRY_FORWARD_MS,
-  timeInBandOfSeries,
-  type BandPeriod,
-  type SeriesReading,
-} from "../time-in-band";
+import { timeInBandFromRollups } from "../rollups/time-in-band";
 import { getUnit, listBeds, type UnitDetail } from "../units/queries";
 import type { Shift } from "../units/shifts";
 import { lateHandover, outgoingWindow, resolveHandover, type HandoverChoice } from "./handover";
@@ -133,7 +128,7 @@ export async function loadHandoff(
   const admissionIds = occupied.map((b) => b.occupant!.admissionId);
   const bedIds = occupied.map((b) => b.id);
 
-  const [contexts, patients, assignments, acks, alerts, bands, readings] = await Promise.all([
+  const [contexts, patients, assignments, acks, alerts, tibs] = await Promise.all([
     Promise.all(
       occupied.map((b) => getBedsideContext(knex, actor, b.occupant!.patientId, { now })),
     ),
@@ -174,8 +169,7 @@ export async function loadHandoff(
     admissionIds.length
       ? listAlerts(knex, actor, { status: "open", unitId: unit.id, limit: 200 })
       : Promise.resolve([]),
-    loadBands(knex, admissionIds, window),
-    loadSeries(knex, admissionIds, window),
+    timeInBandFromRollups(knex, admissionIds, window.from, window.to),
   ]);
 
   const birth = new Map(patients.map((p) => [p.admission_id, p.birth_date]));
@@ -183,12 +177,7 @@ export async function loadHandoff(
     const occupant = bed.occupant!;
     const ctx = contexts[i]!;
     const order = ctx.order;
-    const tib = timeInBandOfSeries({
-      from: window.from.getTime(),
-      to: window.to.getTime(),
-      bands: bands.get(occupant.admissionId) ?? [],
-      series: readings.get(occupant.admissionId) ?? [],
-    });
+    const tib = tibs.get(occupant.admissionId)!;
     const incomingTeam = teamOf(assignments, bed.id, handover.incoming);
     const acknowledgements = acks
       .filter((a) => a.admission_id === occupant.admissionId)
@@ -267,90 +256,4 @@ export async function loadHandoff(
     now: now.toISOString(),
     beds,
   };
-}
-
-/** The bands of the orders in effect at some time in the window, per admission (as the Board reads them). */
-async function loadBands(
-  knex: Knex,
-  admissionIds: readonly number[],
-  window: { from: Date; to: Date },
-): Promise<Map<number, BandPeriod[]>> {
-  const out = new Map<number, BandPeriod[]>();
-  if (admissionIds.length === 0) return out;
-  const rows = (await knex("orders")
-    .whereIn("admission_id", admissionIds)
-    .whereNot("status", "draft")
-    .where("created_at", "<=", window.to)
-    .where((q) => {
-      void q
-        .whereIn("status", ["active", "awaiting_cosign"])
-        .orWhere(knex.raw("COALESCE(discontinued_at, updated_at)"), ">", window.from);
-    })
-    .select(
-      "admission_id",
-      "status",
-      "spo2_lower_pct",
-      "spo2_upper_pct",
-      "reassess_minutes",
-      "created_at",
-      knex.raw("COALESCE(discontinued_at, updated_at) AS ended_at"),
-    )) as {
-    admission_id: number;
-    status: string;
-    spo2_lower_pct: number;
-    spo2_upper_pct: number;
-    reassess_minutes: number;
-    created_at: Date;
-    ended_at: Date;
-  }[];
-  for (const o of rows) {
-    const list = out.get(o.admission_id) ?? [];
-    list.push({
-      from: o.created_at,
-      to: o.status === "active" || o.status === "awaiting_cosign" ? null : o.ended_at,
-      lower: o.spo2_lower_pct,
-      upper: o.spo2_upper_pct,
-      reassessMinutes: o.reassess_minutes,
-    });
-    out.set(o.admission_id, list);
-  }
-  return out;
-}
-
-/**
- * The readings of the window plus the carry-in before it, sorted. Read here,
- * not through the Board's in-memory window, which is kept for its own 24 h.
- */
-async function loadSeries(
-  knex: Knex,
-  admissionIds: readonly number[],
-  window: { from: Date; to: Date },
-): Promise<Map<number, SeriesReading[]>> {
-  const out = new Map<number, SeriesReading[]>();
-  if (admissionIds.length === 0) return out;
-  const rows = (await knex("readings")
-    .whereIn("admission_id", admissionIds)
-    .where("taken_at", ">=", new Date(window.from.getTime() - MAX_CARRY_FORWARD_MS))
-    .where("taken_at", "<=", window.to)
-    .orderBy("taken_at")
-    .select("admission_id", "taken_at", "spo2_pct", "fio2", "flow_l_min", "source")) as {
-    admission_id: number;
-    taken_at: Date;
-    spo2_pct: number;
-    fio2: number;
-    flow_l_min: number | null;
-    source: "manual" | "monitor";
-  }[];
-  for (const r of rows) {
-    const list = out.get(r.admission_id) ?? [];
-    list.push({
-      t: r.taken_at.getTime(),
-      spo2: r.spo2_pct,
-      fio2: r.fio2,
-      flow: r.flow_l_min,
-      source: r.source,
-    });
-    out.set(r.admission_id, list);
-  }
-  return out;
 }

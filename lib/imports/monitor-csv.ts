@@ -3,6 +3,7 @@
 // never sits in memory whole. The smaller files are planned in ./evaluate.
 
 import { Readable } from "node:stream";
+import { refreshAfterReadingRows } from "../rollups/store";
 import { CsvError, parse } from "csv-parse";
 import type { Knex } from "knex";
 import { afterReadingsCharted, type ChartedReading } from "../alerts/service";
@@ -174,6 +175,7 @@ export async function streamMonitorCsv(
         readingInsertRow({ patient, row: b.row }, writer.importId, writer.recordedBy),
       );
       await writer.trx("readings").insert(rows);
+      await refreshAfterReadingRows(writer.trx, rows);
       await afterReadingsCharted(
         writer.trx,
         writer.ledgerActor,

@@ -1,5 +1,6 @@
 import type { Knex } from "knex";
 import { afterBloodGasRecorded, afterReadingsCharted } from "../alerts/service";
+import { refreshAfterReadingRows } from "../rollups/store";
 import { insertBloodGas } from "../blood-gases/service";
 import { DomainError } from "../errors";
 import { appendLedger, type LedgerActor } from "../ledger/service";
@@ -142,6 +143,7 @@ export async function writeImport(
     for (const [patientId, readings] of byPatient) {
       const rows = readings.map((r) => readingInsertRow(r, row.id, recordedBy));
       await trx("readings").insert(rows);
+      await refreshAfterReadingRows(trx, rows);
       const patient = readings[0]!.patient;
       await afterReadingsCharted(
         trx,

@@ -5,6 +5,7 @@ import { ConflictError, ForbiddenError, NotFoundError, ValidationError } from ".
 import { once } from "../idempotency";
 import { queueUserMail } from "../alerts/outbox";
 import { afterOrderChanged } from "../alerts/service";
+import { refreshFrom } from "../rollups/store";
 import { appendLedger } from "../ledger/service";
 import { duplicateIndex, isLockWaitTimeout } from "../db-errors";
 import { findOpenAdmission, type OpenAdmission } from "../admissions/access";
@@ -243,6 +244,7 @@ async function writeOrderInTransaction(
     now,
   );
   await afterOrderChanged(trx, actor, admission, now);
+  await refreshFrom(trx, admission.admissionId, now, now);
   return order;
 }
 
@@ -470,6 +472,7 @@ export async function discontinueOrder(
       },
       now,
     );
+    await refreshFrom(trx, before.admissionId, now, now);
     return after;
   });
 }

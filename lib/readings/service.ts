@@ -4,6 +4,7 @@ import { ValidationError } from "../errors";
 import { once } from "../idempotency";
 import { afterReadingsCharted } from "../alerts/service";
 import { appendLedger } from "../ledger/service";
+import { refreshAfterReadings } from "../rollups/store";
 import { DEVICE_PROFILES, estimateFio2, type Device } from "../devices";
 import { findOpenAdmission } from "../admissions/access";
 import { type ReadingData } from "./schema";
@@ -107,6 +108,7 @@ export async function chartReading(
       },
       now,
     );
+    await refreshAfterReadings(trx, admission.admissionId, input.takenAt, input.takenAt);
     await afterReadingsCharted(
       trx,
       actor,

@@ -25,7 +25,7 @@ export type RollupMeasures = {
   belowAreaPctS: number;
   /** Lowest SpO2 held during the bucket; null when nothing was known. */
   minSpo2: number | null;
-  /** Time on an applied FiO2 above room air while an order was in effect. */
+  /** Time on an applied FiO2 above room air while an order was in effect and the SpO2 series known. */
   o2Ms: number;
   /** ∫ (FiO2 − 0.21) dt, in FiO2·s. */
   fio2ExcessS: number;
@@ -130,7 +130,9 @@ export function minuteMeasures(input: {
       s = e;
     }
   };
-  walkHeldSeries(input, (p) =>
+  const held: { from: number; to: number }[] = [];
+  walkHeldSeries(input, (p) => {
+    held.push({ from: p.from, to: p.to });
     split(p.from, p.to, (m, ms) => {
       if (p.cls === "below") {
         m.belowMs += ms;
@@ -140,17 +142,26 @@ export function minuteMeasures(input: {
       if (p.spo2 < 88) m.below88Ms += ms;
       if (p.spo2 < 85) m.below85Ms += ms;
       if (m.minSpo2 === null || p.spo2 < m.minSpo2) m.minSpo2 = p.spo2;
-    }),
-  );
-  for (const f of input.fio2) {
-    if (f.fio2 <= ROOM_AIR_FIO2) continue;
-    const from = Math.max(f.from, input.from);
-    const to = Math.min(f.to, input.to);
-    split(from, to, (m, ms) => {
-      m.o2Ms += ms;
-      m.fio2ExcessS += ((f.fio2 - ROOM_AIR_FIO2) * ms) / 1000;
-      if (f.fio2 >= HIGH_FIO2) m.fio2HighMs += ms;
     });
+  });
+  // Oxygen given counts over the time the series is known: an order left in
+  // effect with no one charting would otherwise accrue without end and
+  // without a write to record it.
+  const fio2 = [...input.fio2].sort((a, b) => a.from - b.from);
+  let k = 0;
+  for (const h of held) {
+    while (k < fio2.length && fio2[k]!.to <= h.from) k++;
+    for (let j = k; j < fio2.length && fio2[j]!.from < h.to; j++) {
+      const f = fio2[j]!;
+      if (f.fio2 <= ROOM_AIR_FIO2) continue;
+      const from = Math.max(f.from, h.from);
+      const to = Math.min(f.to, h.to);
+      split(from, to, (m, ms) => {
+        m.o2Ms += ms;
+        m.fio2ExcessS += ((f.fio2 - ROOM_AIR_FIO2) * ms) / 1000;
+        if (f.fio2 >= HIGH_FIO2) m.fio2HighMs += ms;
+      });
+    }
   }
   return out;
 }

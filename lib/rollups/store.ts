@@ -211,3 +211,21 @@ export async function rebuildRollups(
   }
   return { admissions: admissions.length };
 }
+
+/** {@link refreshAfterReadings} for rows just inserted, per admission. */
+export async function refreshAfterReadingRows(
+  trx: Knex.Transaction,
+  rows: readonly { admission_id: number; taken_at: Date }[],
+): Promise<void> {
+  const spans = new Map<number, { first: Date; last: Date }>();
+  for (const r of rows) {
+    const s = spans.get(r.admission_id);
+    if (!s) spans.set(r.admission_id, { first: r.taken_at, last: r.taken_at });
+    else {
+      if (r.taken_at < s.first) s.first = r.taken_at;
+      if (r.taken_at > s.last) s.last = r.taken_at;
+    }
+  }
+  for (const [admissionId, { first, last }] of spans)
+    await refreshAfterReadings(trx, admissionId, first, last);
+}
