@@ -50,12 +50,14 @@ async function storedRows(admissionId: number): Promise<{ minutes: Stored[]; hou
     }));
   return {
     minutes: clean(
-      await knex("rollup_minutes").where({ admission_id: admissionId }).orderBy("minute_at"),
+      (await knex("rollup_minutes")
+        .where({ admission_id: admissionId })
+        .orderBy("minute_at")) as Stored[],
     ),
     hours: clean(
-      await knex("rollup_hours")
+      (await knex("rollup_hours")
         .where({ admission_id: admissionId })
-        .orderBy(["hour_at", "bed_id"]),
+        .orderBy(["hour_at", "bed_id"])) as Stored[],
     ),
   };
 }
