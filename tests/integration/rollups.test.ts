@@ -11,6 +11,7 @@ import { chartReadingOperation } from "@/lib/readings/operations";
 import { loadBands } from "@/lib/rollups/bands";
 import { loadRollupPieces } from "@/lib/rollups/pieces";
 import { rebuildRollups } from "@/lib/rollups/store";
+import { loadStaySummary } from "@/lib/rollups/summary";
 import { timeInBandFromRollups } from "@/lib/rollups/time-in-band";
 import { timeInBand } from "@/lib/time-in-band";
 import { SEEDED, actorByEmail, admitTestPatient, appDb } from "../helpers/db";
@@ -231,6 +232,29 @@ describe("rollups kept on write", () => {
       admissionIds: [admission.id],
     });
     expect(await storedRows(admission.id)).toEqual(after);
+
+    // The Chart's summary of the stay reads the same rows, to discharge.
+    const admitted = (await knex("admissions").where({ id: admission.id }).first()) as {
+      admitted_at: Date;
+      discharged_at: Date;
+    };
+    const windows = await loadStaySummary(knex, {
+      id: admission.id,
+      admittedAt: admitted.admitted_at,
+      dischargedAt: admitted.discharged_at,
+    });
+    const stay = windows.find((w) => w.label === "This stay")!;
+    expect(stay.to).toBe(new Date(Math.ceil(dischargedAt.getTime() / MIN) * MIN).toISOString());
+    expect(
+      stay.belowMinutes + stay.inBandMinutes + stay.aboveMinutes + stay.unknownMinutes,
+    ).toBeCloseTo(stay.windowMinutes, 9);
+    const sums = (await knex("rollup_minutes")
+      .where({ admission_id: admission.id })
+      .sum({ below: "below_ms", excess: "fio2_excess_s" })
+      .first()) as { below: number | string; excess: number };
+    expect(stay.belowMinutes).toBeCloseTo(Number(sums.below) / MIN, 9);
+    expect(stay.fio2HoursAboveRoomAir).toBeCloseTo(Number(sums.excess) / 3600, 9);
+    expect(stay.windowMinutes).toBeGreaterThan(3 * 60);
   });
 
   it("serves hour rows inside a window and minute rows at its edges and cuts, with the same sums", async () => {

@@ -5,6 +5,7 @@ import { z } from "zod";
 import { AlertList } from "@/components/alerts/AlertList";
 import { BedsideSummary } from "@/components/bedside/BedsideSummary";
 import { Timeline } from "@/components/chart/Timeline";
+import { StaySummary } from "@/components/chart/StaySummary";
 import { TrendChart } from "@/components/chart/TrendChart";
 import { BloodGasEvaluator } from "@/components/oxygenation/BloodGasEvaluator";
 import { buttonClasses } from "@/components/ui/Button";
@@ -17,6 +18,7 @@ import { getBedsideContext } from "@/lib/chart/bedside";
 import { ageInYears } from "@/lib/admissions/display";
 import { DISPOSITION_LABELS, type Disposition } from "@/lib/admissions/schema";
 import { formatUnitTime } from "@/lib/time/zone";
+import { loadStaySummary } from "@/lib/rollups/summary";
 import { type ChartPatient, getPatientForActor } from "@/lib/admissions/queries";
 
 export const metadata: Metadata = { title: "Chart" };
@@ -45,9 +47,10 @@ export default async function ChartPage({ params }: { params: Promise<{ patientI
   if (!parsed.success) notFound();
   const patient = await loadPatient(db(), actor, parsed.data.patientId);
   const now = new Date();
-  const [bedside, alerts] = await Promise.all([
+  const [bedside, alerts, summary] = await Promise.all([
     getBedsideContext(db(), actor, patient.id),
     listAlerts(db(), actor, { patientId: patient.id, status: "open" }),
+    loadStaySummary(db(), patient.admission, now),
   ]);
   const age = ageInYears(patient.birthDate, now);
   const { bed, unit, dischargedAt, disposition } = patient.admission;
@@ -134,6 +137,8 @@ export default async function ChartPage({ params }: { params: Promise<{ patientI
       </section>
 
       <BedsideSummary actor={actor} context={bedside} now={now} />
+
+      <StaySummary windows={summary} />
 
       <TrendChart
         patientId={patient.id}
