@@ -18,6 +18,8 @@ knex_cli migrate:latest
 knex_cli seed:run
 # The seeded shifts age; bring assignments and charge duties forward to the current and next shift.
 npx tsx db/scripts/roll-assignments.ts
+# A database from before the rollups existed gets them once from its raw rows.
+npx tsx db/scripts/rebuild-rollups.ts --if-empty
 
 if build_is_stale; then
   say "Building the app"

@@ -1,5 +1,5 @@
 /**
- * `npm run rollups:rebuild -- [--from ISO] [--to ISO]`: recomputes the SpO2 and
+ * `npm run rollups:rebuild -- [--from ISO] [--to ISO] [--if-empty]`: recomputes the SpO2 and
  * FiO2 rollups of every admission over the period from the raw rows (default:
  * the last 30 days to 4 h ahead, as far as a charted value can hold). The
  * services keep the rollups on every write; this is for repair, for rows
@@ -21,8 +21,18 @@ function dateArg(name: string, value: string | undefined, fallback: Date): Date 
 
 async function main() {
   const { values } = parseArgs({
-    options: { from: { type: "string" }, to: { type: "string" } },
+    options: {
+      from: { type: "string" },
+      to: { type: "string" },
+      "if-empty": { type: "boolean", default: false },
+    },
   });
+  if (values["if-empty"]) {
+    const [[row]] = (await db().raw(
+      "SELECT EXISTS(SELECT 1 FROM rollup_minutes) AS kept, EXISTS(SELECT 1 FROM readings) AS readings",
+    )) as [[{ kept: number; readings: number }]];
+    if (row!.kept || !row!.readings) return;
+  }
   const now = Date.now();
   const from = dateArg("from", values.from, new Date(now - 30 * 24 * 3600_000));
   const to = dateArg("to", values.to, new Date(now + MAX_CARRY_FORWARD_MS));

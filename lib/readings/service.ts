@@ -108,7 +108,7 @@ export async function chartReading(
       },
       now,
     );
-    await refreshAfterReadings(trx, admission.admissionId, input.takenAt, input.takenAt);
+    await refreshAfterReadings(trx, admission.admissionId, input.takenAt, input.takenAt, "manual");
     await afterReadingsCharted(
       trx,
       actor,

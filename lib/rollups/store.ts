@@ -142,14 +142,16 @@ export async function refreshRollups(
 /**
  * The stretch new readings at [first, last] can change: from the reading
  * before them (whose value they cut short) to where their own values stop
- * holding — a charted value at most 4 h, and the next monitor sample's carry
- * (its interval may have changed) at most 5 min after it.
+ * holding — a charted value at most 4 h, a monitor sample at most 5 min —
+ * and the next monitor sample's carry (its interval may have changed) at
+ * most 5 min after it.
  */
 export async function refreshAfterReadings(
   trx: Knex.Transaction,
   admissionId: number,
   first: Date,
   last: Date,
+  source: "manual" | "monitor",
 ): Promise<void> {
   const [[before], [nextMonitor]] = (await Promise.all([
     trx("readings")
@@ -162,7 +164,8 @@ export async function refreshAfterReadings(
       .min({ t: "taken_at" }),
   ])) as [{ t: Date | null }[], { t: Date | null }[]];
   const from = before?.t ?? first;
-  const reach = last.getTime() + MAX_CARRY_FORWARD_MS;
+  const reach =
+    last.getTime() + (source === "manual" ? MAX_CARRY_FORWARD_MS : MONITOR_MAX_CARRY_MS);
   const to = nextMonitor?.t
     ? Math.min(reach, nextMonitor.t.getTime() + MONITOR_MAX_CARRY_MS)
     : reach;
@@ -215,17 +218,23 @@ export async function rebuildRollups(
 /** {@link refreshAfterReadings} for rows just inserted, per admission. */
 export async function refreshAfterReadingRows(
   trx: Knex.Transaction,
-  rows: readonly { admission_id: number; taken_at: Date }[],
+  rows: readonly { admission_id: number; taken_at: Date; source: "manual" | "monitor" }[],
 ): Promise<void> {
-  const spans = new Map<number, { first: Date; last: Date }>();
+  const spans = new Map<number, { first: Date; last: Date; manual: boolean }>();
   for (const r of rows) {
     const s = spans.get(r.admission_id);
-    if (!s) spans.set(r.admission_id, { first: r.taken_at, last: r.taken_at });
+    if (!s)
+      spans.set(r.admission_id, {
+        first: r.taken_at,
+        last: r.taken_at,
+        manual: r.source === "manual",
+      });
     else {
       if (r.taken_at < s.first) s.first = r.taken_at;
       if (r.taken_at > s.last) s.last = r.taken_at;
+      if (r.source === "manual") s.manual = true;
     }
   }
-  for (const [admissionId, { first, last }] of spans)
-    await refreshAfterReadings(trx, admissionId, first, last);
+  for (const [admissionId, { first, last, manual }] of spans)
+    await refreshAfterReadings(trx, admissionId, first, last, manual ? "manual" : "monitor");
 }
