@@ -1,6 +1,6 @@
 import type { Knex } from "knex";
 import { MAX_CARRY_FORWARD_MS, MONITOR_MAX_CARRY_MS, type SeriesReading } from "../time-in-band";
-import { fio2Timeline, HOUR_MS, MINUTE_MS, minuteMeasures } from "./buckets";
+import { fio2Timeline, HOUR_MS, MINUTE_MS, minuteMeasures, type RollupMeasures } from "./buckets";
 import { loadBands } from "./bands";
 import { loadStays, type Stay } from "./stays";
 
@@ -54,6 +54,42 @@ async function loadSeries(
   }));
 }
 
+/** A rollup_minutes row (the bench builds its rows with it too). */
+export function minuteRow(
+  where: { admissionId: number; patientId: number; bedId: number; unitId: number },
+  minute: number,
+  m: RollupMeasures,
+) {
+  return {
+    admission_id: where.admissionId,
+    minute_at: new Date(minute),
+    bed_id: where.bedId,
+    unit_id: where.unitId,
+    patient_id: where.patientId,
+    below_ms: Math.round(m.belowMs),
+    in_band_ms: Math.round(m.inBandMs),
+    above_ms: Math.round(m.aboveMs),
+    below88_ms: Math.round(m.below88Ms),
+    below85_ms: Math.round(m.below85Ms),
+    below_area_pct_s: m.belowAreaPctS,
+    min_spo2_pct: m.minSpo2,
+    o2_ms: Math.round(m.o2Ms),
+    fio2_excess_s: m.fio2ExcessS,
+    fio2_high_ms: Math.round(m.fio2HighMs),
+  };
+}
+
+/** Hour rows summed from minute rows: add a WHERE between the two parts. */
+export const HOURS_FROM_MINUTES = `INSERT INTO rollup_hours (admission_id, hour_at, bed_id, patient_id, unit_id,
+    below_ms, in_band_ms, above_ms, below88_ms, below85_ms, below_area_pct_s, min_spo2_pct, o2_ms,
+    fio2_excess_s, fio2_high_ms)
+  SELECT admission_id, DATE_FORMAT(minute_at, '%Y-%m-%d %H:00:00'), bed_id, MIN(patient_id), MIN(unit_id),
+    SUM(below_ms), SUM(in_band_ms), SUM(above_ms), SUM(below88_ms), SUM(below85_ms), SUM(below_area_pct_s),
+    MIN(min_spo2_pct), SUM(o2_ms), SUM(fio2_excess_s), SUM(fio2_high_ms)
+  FROM rollup_minutes`;
+export const HOURS_GROUP =
+  "GROUP BY admission_id, DATE_FORMAT(minute_at, '%Y-%m-%d %H:00:00'), bed_id";
+
 const stayAt = (stays: readonly Stay[], t: number) =>
   stays.find((s) => s.from <= t && t < s.to) ??
   // A stay that starts inside the minute still owns it.
@@ -92,23 +128,7 @@ export async function refreshRollups(
   for (const [minute, m] of minutes) {
     const stay = stayAt(stays, minute);
     if (!stay) continue; // before admission or after discharge
-    rows.push({
-      admission_id: admissionId,
-      minute_at: new Date(minute),
-      bed_id: stay.bedId,
-      unit_id: stay.unitId,
-      patient_id: stay.patientId,
-      below_ms: Math.round(m.belowMs),
-      in_band_ms: Math.round(m.inBandMs),
-      above_ms: Math.round(m.aboveMs),
-      below88_ms: Math.round(m.below88Ms),
-      below85_ms: Math.round(m.below85Ms),
-      below_area_pct_s: m.belowAreaPctS,
-      min_spo2_pct: m.minSpo2,
-      o2_ms: Math.round(m.o2Ms),
-      fio2_excess_s: m.fio2ExcessS,
-      fio2_high_ms: Math.round(m.fio2HighMs),
-    });
+    rows.push(minuteRow({ ...stay, admissionId }, minute, m));
   }
   await trx("rollup_minutes")
     .where({ admission_id: admissionId })
@@ -127,14 +147,7 @@ export async function refreshRollups(
     .where("hour_at", "<", hourTo)
     .delete();
   await trx.raw(
-    `INSERT INTO rollup_hours (admission_id, hour_at, bed_id, patient_id, unit_id, below_ms, in_band_ms, above_ms,
-        below88_ms, below85_ms, below_area_pct_s, min_spo2_pct, o2_ms, fio2_excess_s, fio2_high_ms)
-     SELECT admission_id, DATE_FORMAT(minute_at, '%Y-%m-%d %H:00:00'), bed_id, MIN(patient_id), MIN(unit_id),
-        SUM(below_ms), SUM(in_band_ms), SUM(above_ms), SUM(below88_ms), SUM(below85_ms), SUM(below_area_pct_s),
-        MIN(min_spo2_pct), SUM(o2_ms), SUM(fio2_excess_s), SUM(fio2_high_ms)
-       FROM rollup_minutes
-      WHERE admission_id = ? AND minute_at >= ? AND minute_at < ?
-      GROUP BY admission_id, DATE_FORMAT(minute_at, '%Y-%m-%d %H:00:00'), bed_id`,
+    `${HOURS_FROM_MINUTES} WHERE admission_id = ? AND minute_at >= ? AND minute_at < ? ${HOURS_GROUP}`,
     [admissionId, hourFrom, hourTo],
   );
 }

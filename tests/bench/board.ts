@@ -13,14 +13,13 @@
  */
 import "../../lib/local-env";
 import { execFileSync } from "node:child_process";
-import http from "node:http";
-import type { AddressInfo } from "node:net";
 import knex, { type Knex } from "knex";
 import mysql from "mysql2/promise";
 import { loadBoard } from "../../lib/board/queries";
 import { getTrend } from "../../lib/chart/trend";
 import { rebuildRollups } from "../../lib/rollups/store";
 import { connectionConfig } from "../../lib/db";
+import { agent, get, quantile, serve } from "./http-timing";
 
 const DB = "tidemark_bench_board";
 const BEDS = 60;
@@ -28,50 +27,6 @@ const DAYS = 7;
 const WARMUP = 30;
 const SAMPLES = 300;
 const POOL = 8;
-
-function quantile(sorted: number[], q: number): number {
-  return sorted[Math.min(sorted.length - 1, Math.floor(q * sorted.length))] ?? NaN;
-}
-
-async function serve(
-  handler: () => Promise<unknown>,
-): Promise<{ url: string; close: () => Promise<void> }> {
-  const server = http.createServer((_req, res) => {
-    handler()
-      .then((body) => {
-        res.writeHead(200, { "Content-Type": "application/json" });
-        res.end(JSON.stringify(body));
-      })
-      .catch((error: unknown) => {
-        res.writeHead(500);
-        res.end(String(error));
-      });
-  });
-  await new Promise<void>((resolve) => server.listen(0, "127.0.0.1", resolve));
-  const { port } = server.address() as AddressInfo;
-  return {
-    url: `http://127.0.0.1:${port}/`,
-    close: () => new Promise((resolve) => server.close(() => resolve())),
-  };
-}
-
-const agent = new http.Agent({ keepAlive: true, maxSockets: 1 });
-function get(url: string): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const start = performance.now();
-    http
-      .get(url, { agent }, (res) => {
-        let bytes = 0;
-        res.on("data", (chunk: Buffer) => (bytes += chunk.length));
-        res.on("end", () => {
-          if (res.statusCode !== 200) reject(new Error(`HTTP ${res.statusCode}`));
-          else resolve(performance.now() - start);
-          void bytes;
-        });
-      })
-      .on("error", reject);
-  });
-}
 
 async function measure(label: string, url: string): Promise<{ p50: number; p95: number }> {
   for (let i = 0; i < WARMUP; i++) await get(url);

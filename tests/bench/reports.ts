@@ -16,14 +16,14 @@
  */
 import "../../lib/local-env";
 import { execFileSync } from "node:child_process";
-import http from "node:http";
-import type { AddressInfo } from "node:net";
 import knex from "knex";
 import mysql from "mysql2/promise";
 import { connectionConfig } from "../../lib/db";
+import { agent, get, quantile, serve } from "./http-timing";
 import { loadReport } from "../../lib/reports/queries";
 import { REPORT_KINDS, type ReportGroup } from "../../lib/reports/types";
 import { fio2Timeline, minuteMeasures, MINUTE_MS } from "../../lib/rollups/buckets";
+import { HOURS_FROM_MINUTES, HOURS_GROUP, minuteRow } from "../../lib/rollups/store";
 import type { SeriesReading } from "../../lib/time-in-band";
 
 const DB = "tidemark_bench_reports";
@@ -36,10 +36,6 @@ const SAMPLES = 100;
 let seed = 12345;
 /** A small fixed-seed generator, so every run benches the same data. */
 const rnd = () => (seed = (seed * 48271) % 2147483647) / 2147483647;
-
-function quantile(sorted: number[], q: number): number {
-  return sorted[Math.min(sorted.length - 1, Math.floor(q * sorted.length))] ?? NaN;
-}
 
 function mysqlOptions(): mysql.ConnectionOptions {
   const c = connectionConfig("owner", DB);
@@ -281,37 +277,25 @@ async function seedUnit(): Promise<number> {
         from,
         to,
       });
-      const rows = [...minutes].map(([minute, m]) => ({
-        admission_id: admissionId,
-        minute_at: new Date(minute),
-        bed_id: bedId,
-        patient_id: patientId,
-        unit_id: unitId,
-        below_ms: Math.round(m.belowMs),
-        in_band_ms: Math.round(m.inBandMs),
-        above_ms: Math.round(m.aboveMs),
-        below88_ms: Math.round(m.below88Ms),
-        below85_ms: Math.round(m.below85Ms),
-        below_area_pct_s: m.belowAreaPctS,
-        min_spo2_pct: m.minSpo2,
-        o2_ms: Math.round(m.o2Ms),
-        fio2_excess_s: m.fio2ExcessS,
-        fio2_high_ms: Math.round(m.fio2HighMs),
-      }));
+      const rows = [...minutes].map(([minute, m]) =>
+        minuteRow(
+          {
+            admissionId: Number(admissionId),
+            patientId: Number(patientId),
+            bedId: Number(bedId),
+            unitId: Number(unitId),
+          },
+          minute,
+          m,
+        ),
+      );
       minuteRows += rows.length;
       if (rows.length) await insert("rollup_minutes", rows);
     }
     series.length = 0;
     process.stdout.write(`\rseeded bed ${b + 1}/${BEDS}`);
   }
-  await owner.raw(
-    `INSERT INTO rollup_hours (admission_id, hour_at, bed_id, patient_id, unit_id, below_ms, in_band_ms, above_ms,
-        below88_ms, below85_ms, below_area_pct_s, min_spo2_pct, o2_ms, fio2_excess_s, fio2_high_ms)
-     SELECT admission_id, DATE_FORMAT(minute_at, '%Y-%m-%d %H:00:00'), bed_id, MIN(patient_id), MIN(unit_id),
-        SUM(below_ms), SUM(in_band_ms), SUM(above_ms), SUM(below88_ms), SUM(below85_ms), SUM(below_area_pct_s),
-        MIN(min_spo2_pct), SUM(o2_ms), SUM(fio2_excess_s), SUM(fio2_high_ms)
-       FROM rollup_minutes GROUP BY admission_id, DATE_FORMAT(minute_at, '%Y-%m-%d %H:00:00'), bed_id`,
-  );
+  await owner.raw(`${HOURS_FROM_MINUTES} ${HOURS_GROUP}`);
   await owner.raw(
     "ANALYZE TABLE rollup_minutes, rollup_hours, readings, alerts, adjustments, orders",
   );
@@ -321,43 +305,6 @@ async function seedUnit(): Promise<number> {
   await bulk.end();
   await owner.destroy();
   return Number(unitId);
-}
-
-async function serve(handler: () => Promise<unknown>) {
-  const server = http.createServer((_req, res) => {
-    handler()
-      .then((body) => {
-        res.writeHead(200, { "Content-Type": "application/json" });
-        res.end(JSON.stringify(body));
-      })
-      .catch((error: unknown) => {
-        res.writeHead(500);
-        res.end(String(error));
-      });
-  });
-  await new Promise<void>((resolve) => server.listen(0, "127.0.0.1", resolve));
-  const { port } = server.address() as AddressInfo;
-  return {
-    url: `http://127.0.0.1:${port}/`,
-    close: () => new Promise<void>((resolve) => server.close(() => resolve())),
-  };
-}
-
-const agent = new http.Agent({ keepAlive: true, maxSockets: 1 });
-function get(url: string): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const t0 = performance.now();
-    http
-      .get(url, { agent }, (res) => {
-        res.resume();
-        res.on("end", () =>
-          res.statusCode === 200
-            ? resolve(performance.now() - t0)
-            : reject(new Error(`HTTP ${res.statusCode}`)),
-        );
-      })
-      .on("error", reject);
-  });
 }
 
 async function main() {

@@ -63,6 +63,19 @@ async function storedRows(admissionId: number): Promise<{ minutes: Stored[]; hou
   };
 }
 
+/** The rows a rebuild from the raw rows leaves, after deleting what the services kept. */
+async function rebuiltFromRaw(admissionId: number, since: number) {
+  const knex = appDb();
+  await knex("rollup_minutes").where({ admission_id: admissionId }).delete();
+  await knex("rollup_hours").where({ admission_id: admissionId }).delete();
+  await rebuildRollups(knex, {
+    from: new Date(since - 4 * 3600_000),
+    to: new Date(Date.now() + 5 * 3600_000),
+    admissionIds: [admissionId],
+  });
+  return storedRows(admissionId);
+}
+
 async function rawSeries(admissionId: number) {
   const rows = (await appDb()("readings")
     .where({ admission_id: admissionId })
@@ -192,14 +205,7 @@ describe("rollups kept on write", () => {
     expect(kept.minutes.length).toBeGreaterThan(20);
     expect(new Set(kept.minutes.map((m) => m.bed_id))).toEqual(new Set([bedId, Number(toBed)]));
 
-    await knex("rollup_minutes").where({ admission_id: admission.id }).delete();
-    await knex("rollup_hours").where({ admission_id: admission.id }).delete();
-    await rebuildRollups(knex, {
-      from: new Date(start - 4 * 3600_000),
-      to: new Date(Date.now() + 5 * 3600_000),
-      admissionIds: [admission.id],
-    });
-    expect(await storedRows(admission.id)).toEqual(kept);
+    expect(await rebuiltFromRaw(admission.id, start)).toEqual(kept);
 
     // The rollups' time in band over the stay so far is the rules' answer on the raw rows.
     const from = new Date(Math.floor(start / MIN) * MIN);
@@ -224,14 +230,7 @@ describe("rollups kept on write", () => {
     const after = await storedRows(admission.id);
     const lastMinute = Math.max(...after.minutes.map((m) => (m.minute_at as Date).getTime()));
     expect(lastMinute).toBeLessThanOrEqual(dischargedAt.getTime());
-    await knex("rollup_minutes").where({ admission_id: admission.id }).delete();
-    await knex("rollup_hours").where({ admission_id: admission.id }).delete();
-    await rebuildRollups(knex, {
-      from: new Date(start - 4 * 3600_000),
-      to: new Date(Date.now() + 5 * 3600_000),
-      admissionIds: [admission.id],
-    });
-    expect(await storedRows(admission.id)).toEqual(after);
+    expect(await rebuiltFromRaw(admission.id, start)).toEqual(after);
 
     // The Chart's summary of the stay reads the same rows, to discharge.
     const admitted = (await knex("admissions").where({ id: admission.id }).first()) as {
