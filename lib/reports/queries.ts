@@ -29,14 +29,18 @@ import type {
   TimeInBandReport,
 } from "./types";
 
-/** What every report starts from: the unit, its stays in the period, the rows. */
-async function context(knex: Knex, params: ReportParams, now: Date) {
-  const from = params.from.getTime();
-  const to = params.to.getTime();
+/**
+ * What every report starts from: the unit, its stays in the period, the rows.
+ * Time after `now` is not counted (nobody lay there yet); its rows still show.
+ */
+async function context(knex: Knex, requested: ReportParams, now: Date) {
+  const from = requested.from.getTime();
+  const to = Math.max(from, Math.min(requested.to.getTime(), now.getTime()));
+  const params = { ...requested, to: new Date(to) };
   const unit = await loadUnit(knex, params.unitId);
   const slots: TimeSlot[] =
     params.groupBy === "shift" || params.groupBy === "day"
-      ? timeSlots(unit.pattern, params.groupBy, from, to)
+      ? timeSlots(unit.pattern, params.groupBy, from, requested.to.getTime())
       : [];
   const stays = await loadUnitStays(knex, unit.id, params.from, params.to);
   const names = await loadNames(knex, unit.id, stays);
@@ -47,6 +51,7 @@ async function context(knex: Knex, params: ReportParams, now: Date) {
     startsAt: s.startsAt,
   }));
   return {
+    params,
     from,
     to,
     unit,
@@ -62,7 +67,7 @@ async function context(knex: Knex, params: ReportParams, now: Date) {
       unitName: unit.name,
       timeZone: unit.pattern.timeZone,
       from: params.from.toISOString(),
-      to: params.to.toISOString(),
+      to: requested.to.toISOString(),
       groupBy: params.groupBy,
       generatedAt: now.toISOString(),
     },
@@ -210,10 +215,10 @@ export async function loadReport<K extends ReportKind>(
 ): Promise<ReportOf<K>> {
   const c = await context(knex, params, now);
   const build: Record<ReportKind, () => Promise<ReportOf<ReportKind>>> = {
-    "time-in-band": () => timeInBand(knex, params, c),
-    alerts: () => alerts(knex, params, c),
-    "oxygen-exposure": () => exposure(knex, params, c),
-    orders: () => orders(knex, params, c, now),
+    "time-in-band": () => timeInBand(knex, c.params, c),
+    alerts: () => alerts(knex, c.params, c),
+    "oxygen-exposure": () => exposure(knex, c.params, c),
+    orders: () => orders(knex, c.params, c, now),
   };
   return (await build[kind]()) as ReportOf<K>;
 }
