@@ -29,7 +29,8 @@ export const reportQuerySchema = z
     // A malformed time is a continuable issue: nothing to compare then.
     if (!(q.from instanceof Date) || !(q.to instanceof Date)) return;
     const span = q.to.getTime() - q.from.getTime();
-    if (span <= 0) ctx.addIssue({ code: "custom", path: ["to"], message: "to must be after from." });
+    if (span <= 0)
+      ctx.addIssue({ code: "custom", path: ["to"], message: "to must be after from." });
     else if (span > MAX_REPORT_DAYS * 86_400_000)
       ctx.addIssue({
         code: "custom",
