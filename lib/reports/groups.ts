@@ -54,9 +54,6 @@ export function timeSlots(
   return out;
 }
 
-/** The boundaries inside [from, to) where a row changes (for loadRollupPieces' cuts). */
-export const slotCuts = (slots: readonly TimeSlot[]): number[] => slots.map((s) => s.from);
-
 /**
  * The row a moment belongs to. Time slots must be sorted; a moment outside
  * every slot belongs to none.

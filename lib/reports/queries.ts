@@ -1,9 +1,9 @@
 import type { Knex } from "knex";
-import { loadRollupPieces } from "../rollups/pieces";
 import { alertMeasures, alertRows } from "./alerts";
 import { basisOf } from "./basis";
 import { exposureMeasures } from "./exposure";
-import { makeGrouper, slotCuts, timeSlots, type TimeSlot } from "./groups";
+import { makeGrouper, timeSlots, type TimeSlot } from "./groups";
+import { loadRollupSums } from "./rollups";
 import {
   loadAdjustments,
   loadAlerts,
@@ -52,6 +52,7 @@ async function context(knex: Knex, requested: ReportParams, now: Date) {
   }));
   return {
     params,
+    admissionIds: [...new Set(stays.map((s) => s.admissionId))],
     from,
     to,
     unit,
@@ -78,11 +79,12 @@ type Context = Awaited<ReturnType<typeof context>>;
 
 async function timeInBand(knex: Knex, params: ReportParams, c: Context): Promise<TimeInBandReport> {
   const [pieces, gases, spans] = await Promise.all([
-    loadRollupPieces(knex, {
-      unitIds: [c.unit.id],
+    loadRollupSums(knex, {
+      unitId: c.unit.id,
+      admissionIds: c.admissionIds,
       from: params.from,
       to: params.to,
-      cuts: slotCuts(c.slots),
+      slots: c.slots,
     }),
     loadArterialGases(knex, c.stays, params.from, params.to),
     loadOrderSpans(knex, c.stays, params.to),
@@ -119,11 +121,12 @@ async function exposure(
   params: ReportParams,
   c: Context,
 ): Promise<OxygenExposureReport> {
-  const pieces = await loadRollupPieces(knex, {
-    unitIds: [c.unit.id],
+  const pieces = await loadRollupSums(knex, {
+    unitId: c.unit.id,
+    admissionIds: c.admissionIds,
     from: params.from,
     to: params.to,
-    cuts: slotCuts(c.slots),
+    slots: c.slots,
   });
   const { summary, rows } = timeInBandRows({ ...c, pieces, gases: [] });
   return {

@@ -1,14 +1,14 @@
-import type { RollupPiece } from "../rollups/pieces";
 import { addMeasures, emptyMeasures, type RollupMeasures } from "../rollups/buckets";
 import type { GroupKey, TimeInBandMeasures } from "./types";
 import { Rows, type Where } from "./groups";
 import type { StaySegment } from "./stays";
 import { minutes, round, shareOf } from "./stats";
+import type { RollupSum } from "./rollups";
 
 /**
  * Time in band, below and above it on oxygen, and unknown, with the
- * hypoxaemia burden and arterial gases above the PaO2 band. Pure: pieces
- * (rollups), stay segments and gases in, rows out.
+ * hypoxaemia burden and arterial gases above the PaO2 band. Pure: rollup
+ * sums, stay segments and gases in, rows out.
  */
 
 /** An arterial gas with the upper PaO2 bound of the order in effect when it was sampled. */
@@ -66,7 +66,8 @@ export function timeMeasures(a: TimeAcc): TimeInBandMeasures {
  */
 export function timeInBandRows(input: {
   segments: readonly StaySegment[];
-  pieces: readonly RollupPiece[];
+  /** Rollup buckets or sums inside [from, to), each at the start of its row's time. */
+  pieces: readonly RollupSum[];
   gases: readonly GasAgainstBand[];
   group: (w: Where) => GroupKey | null;
   locate: (admissionId: number, at: number) => Where | null;
@@ -84,7 +85,6 @@ export function timeInBandRows(input: {
     if (key) rows.get(key, true).stayMs += s.to - s.from;
   }
   for (const p of input.pieces) {
-    if (p.at < input.from || p.at + p.ms > input.to) continue;
     addMeasures(summary.m, p.m);
     const key = input.group({ patientId: p.patientId, bedId: p.bedId, at: p.at });
     if (key) addMeasures(rows.get(key).m, p.m);

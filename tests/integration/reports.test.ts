@@ -406,6 +406,27 @@ describe("the time-in-band report", () => {
   });
 });
 
+describe("shifts that start at half past", () => {
+  it("sum the minute rollups of the hours a shift boundary cuts", async () => {
+    // Shifts 19:30–07:30 and 07:30–19:30: the period's rows are 07:00–07:30
+    // (A below), 07:30–19:30 (A below 07:30–10:00 and 15–17, B below 60 min)
+    // and 19:30–07:00 (A until 21:00, nothing known).
+    await appDb()("units").where({ id: unitId }).update({ shift_start: "07:30" });
+    try {
+      const report = await loadReport(appDb(), "time-in-band", params("shift"), NOW);
+      expect(
+        report.rows.map((r) => [r.startsAt, r.patientMinutes, r.belowMinutes, r.unknownMinutes]),
+      ).toEqual([
+        ["2026-11-01T19:30:00.000Z", 30, 30, 0],
+        ["2026-11-02T07:30:00.000Z", 1080, 330, 510],
+        ["2026-11-02T19:30:00.000Z", 90, 0, 90],
+      ]);
+    } finally {
+      await appDb()("units").where({ id: unitId }).update({ shift_start: "07:00" });
+    }
+  });
+});
+
 describe("the oxygen exposure report", () => {
   it("integrates the applied FiO2 while on the unit", async () => {
     // A: 0.41 07–12, 0.60 12–18, 0.30 18–21 → 14 h; 5 × 0.20 + 6 × 0.39 + 3 × 0.09 = 3.61; 6 h ≥ 0.6.
