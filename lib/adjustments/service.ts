@@ -20,6 +20,7 @@ import { gasAgeCaveat } from "../blood-gases/freshness";
 import { loadLatestArterialGas } from "../chart/bedside";
 import { type AdjustmentData } from "./schema";
 import { mayAdjustDevice } from "../auth/permissions";
+import { proposalFollowed } from "./proposal";
 
 export type AdjustmentView = {
   id: number;
@@ -171,6 +172,7 @@ export async function recordAdjustment(
 
     const from = { fio2: current.fio2, peep: current.peep_cmh2o, flow: current.flow_l_min };
     const to = { fio2: toFio2, peep: input.toPeep ?? null, flow: input.toFlow ?? null };
+    const followed = await proposalFollowed(trx, admission, order, gas, from, to);
     const [id] = await trx("adjustments").insert({
       patient_id: input.patientId,
       admission_id: admission.admissionId,
@@ -188,6 +190,7 @@ export async function recordAdjustment(
       recorded_by: actor.id,
       forecast_json: forecast ? JSON.stringify(forecast) : null,
       engine_version: ENGINE_VERSION,
+      followed_proposal: followed,
     });
     await trx("bedside_settings")
       .where({ admission_id: admission.admissionId })

@@ -90,6 +90,55 @@ export async function loadSteps(knex: Knex, stepTableId: number | null): Promise
 }
 
 /**
+ * The engine's proposal from the order's step table for the settings in use,
+ * the latest reading and the gas the forecast may start from: what the
+ * bedside shows, and what a recorded adjustment is compared with.
+ */
+export function proposeAtBedside(input: {
+  order: OrderView;
+  steps: OrderStep[];
+  current: { fio2: number; peep: number | null; flow: number | null };
+  latestReading: { spo2: number; fio2: number };
+  gas: Pick<LatestBloodGasView, "pao2" | "paco2" | "fio2" | "hb" | "peep"> | null;
+  barometricPressure: number;
+}): Proposal {
+  const { order, current, gas } = input;
+  const cfg = alertConfig();
+  return proposeStep({
+    order: {
+      spo2Target: order.spo2Band,
+      pao2Target: order.pao2Band,
+      limits: {
+        fio2Min: order.limits.fio2Min,
+        fio2Max: order.limits.fio2Max,
+        ...(order.limits.peepMin !== null ? { peepMin: order.limits.peepMin } : {}),
+        ...(order.limits.peepMax !== null ? { peepMax: order.limits.peepMax } : {}),
+        ...(order.limits.flowMin !== null ? { flowMin: order.limits.flowMin } : {}),
+        ...(order.limits.flowMax !== null ? { flowMax: order.limits.flowMax } : {}),
+      },
+      steps: input.steps,
+    },
+    current: {
+      fio2: current.fio2,
+      ...(current.peep !== null ? { peep: current.peep } : {}),
+      ...(current.flow !== null ? { flow: current.flow } : {}),
+    },
+    latestReading: { spo2: input.latestReading.spo2, fio2: input.latestReading.fio2 },
+    latestBloodGas: gas
+      ? {
+          pao2: gas.pao2,
+          paco2: gas.paco2,
+          fio2: gas.fio2,
+          ...(gas.hb !== null ? { hemoglobin: gas.hb } : {}),
+          ...(gas.peep !== null ? { peep: gas.peep } : {}),
+        }
+      : null,
+    barometricPressure: input.barometricPressure,
+    urgency: { belowPct: cfg.urgentBelowPct, marginPct: cfg.urgentMarginPct },
+  });
+}
+
+/**
  * The latest arterial gas of an admission with its age against the site's
  * limit: what a forecast starts from (the bedside proposal, a recorded change).
  */
@@ -189,39 +238,13 @@ export async function getBedsideContext(
   let proposalError: string | null = null;
   if (order && settings && latestReading) {
     try {
-      const cfg = alertConfig();
-      proposal = proposeStep({
-        order: {
-          spo2Target: order.spo2Band,
-          pao2Target: order.pao2Band,
-          limits: {
-            fio2Min: order.limits.fio2Min,
-            fio2Max: order.limits.fio2Max,
-            ...(order.limits.peepMin !== null ? { peepMin: order.limits.peepMin } : {}),
-            ...(order.limits.peepMax !== null ? { peepMax: order.limits.peepMax } : {}),
-            ...(order.limits.flowMin !== null ? { flowMin: order.limits.flowMin } : {}),
-            ...(order.limits.flowMax !== null ? { flowMax: order.limits.flowMax } : {}),
-          },
-          steps,
-        },
-        current: {
-          fio2: settings.fio2,
-          ...(settings.peep !== null ? { peep: settings.peep } : {}),
-          ...(settings.flow !== null ? { flow: settings.flow } : {}),
-        },
-        latestReading: { spo2: latestReading.spo2, fio2: latestReading.fio2 },
-        latestBloodGas:
-          latestArterialGas && forecastUsesGas
-            ? {
-                pao2: latestArterialGas.pao2,
-                paco2: latestArterialGas.paco2,
-                fio2: latestArterialGas.fio2,
-                ...(latestArterialGas.hb !== null ? { hemoglobin: latestArterialGas.hb } : {}),
-                ...(latestArterialGas.peep !== null ? { peep: latestArterialGas.peep } : {}),
-              }
-            : null,
+      proposal = proposeAtBedside({
+        order,
+        steps,
+        current: settings,
+        latestReading,
+        gas: latestArterialGas && forecastUsesGas ? latestArterialGas : null,
         barometricPressure,
-        urgency: { belowPct: cfg.urgentBelowPct, marginPct: cfg.urgentMarginPct },
       });
       if (latestArterialGas)
         proposal.caveats.unshift(gasAgeCaveat(latestArterialGas.freshness, forecastUsesGas));

@@ -22,6 +22,7 @@ import {
 import type { Cell, RouteEntry } from "./access-matrix";
 import { ADT_ROUTES } from "./access-routes-adt";
 import { HANDOFF_ROUTES } from "./access-routes-handoff";
+import { REPORT_ROUTES } from "./access-routes-reports";
 import { UNIT_ROUTES } from "./access-routes-units";
 import { ASSIGNMENT_ROUTES } from "./access-routes-assignments";
 import { appDb, uniqueEmail } from "./db";
@@ -487,6 +488,7 @@ export const ROUTE_ENTRIES: RouteEntry[] = [
   ...ADT_ROUTES,
   ...UNIT_ROUTES,
   ...HANDOFF_ROUTES,
+  ...REPORT_ROUTES,
 ].map((e) => ({
   ...e,
   via: "route",

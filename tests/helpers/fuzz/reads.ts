@@ -114,6 +114,41 @@ export function parameterisedReads(all: Ids & ReadIds): Record<string, fc.Arbitr
         .tuple(ids(all.units), queryString({ shift: fc.oneof(oneOf(["next", "current"]), time) }))
         .map(([u, q]) => `/api/v1/units/${u}/handoff${q}`),
     ),
+    ...Object.fromEntries(
+      (["time-in-band", "alerts", "oxygen-exposure", "orders"] as const).map((kind) => {
+        const route = `GET /api/v1/reports/${kind}`;
+        return [
+          route,
+          read(
+            route,
+            "physician",
+            fc
+              .oneof(
+                queryString({
+                  unitId: ids(all.units),
+                  from: time,
+                  to: time,
+                  groupBy: oneOf(["patient", "bed", "shift", "day", "ward"]),
+                }),
+                // A period the route accepts (to after from, at most 93 days), so the query reaches the database.
+                fc
+                  .tuple(
+                    fc.constantFrom(...(all.units.length ? all.units : [1])),
+                    fc.integer({ min: 0, max: 24 * 100 }),
+                    fc.integer({ min: -2, max: 24 * 95 }),
+                    oneOf(["patient", "bed", "shift", "day"]),
+                  )
+                  .map(([unitId, ago, hours, groupBy]) => {
+                    const from = new Date(Date.now() - ago * 3600_000);
+                    const to = new Date(from.getTime() + hours * 3600_000);
+                    return `?unitId=${unitId}&from=${enc(from.toISOString())}&to=${enc(to.toISOString())}&groupBy=${groupBy}`;
+                  }),
+              )
+              .map((q) => `/api/v1/reports/${kind}${q}`),
+          ),
+        ];
+      }),
+    ),
     "GET /api/v1/ledger": read(
       "GET /api/v1/ledger",
       "physician",

@@ -1,0 +1,134 @@
+import type { Knex } from "knex";
+import { HOUR_MS, MINUTE_MS, type RollupMeasures } from "../rollups/buckets";
+import type { TimeSlot } from "./groups";
+
+/**
+ * The unit's rollups over [from, to), summed in the database per admission,
+ * bed and row (a shift or day; the whole period for patient and bed rows).
+ * The same hour and minute ranges as lib/rollups/pieces.ts — hour rows where
+ * no row boundary falls inside the hour, minute rows elsewhere — but summed
+ * where they are, so 30 days of a 60-bed unit return a few thousand sums
+ * instead of tens of thousands of buckets (and a shift starting at half past
+ * reads its minute rows without sending them).
+ */
+export type RollupSum = {
+  admissionId: number;
+  patientId: number;
+  bedId: number;
+  /** Start of the row's time (its slot, or the period), ms. */
+  at: number;
+  m: RollupMeasures;
+};
+
+type Row = {
+  admission_id: number;
+  patient_id: number;
+  bed_id: number;
+  slot: number | string;
+  below_ms: number | string;
+  in_band_ms: number | string;
+  above_ms: number | string;
+  below88_ms: number | string;
+  below85_ms: number | string;
+  below_area_pct_s: number | string;
+  min_spo2_pct: number | string | null;
+  o2_ms: number | string;
+  fio2_excess_s: number | string;
+  fio2_high_ms: number | string;
+};
+
+const SUMS = `SUM(below_ms) AS below_ms, SUM(in_band_ms) AS in_band_ms, SUM(above_ms) AS above_ms,
+  SUM(below88_ms) AS below88_ms, SUM(below85_ms) AS below85_ms, SUM(below_area_pct_s) AS below_area_pct_s,
+  MIN(min_spo2_pct) AS min_spo2_pct, SUM(o2_ms) AS o2_ms, SUM(fio2_excess_s) AS fio2_excess_s,
+  SUM(fio2_high_ms) AS fio2_high_ms`;
+
+/** [start, end) split into whole hours with no cut inside (hour rows) and the rest (minute rows). */
+export function rollupRanges(
+  start: number,
+  end: number,
+  cutsInside: readonly number[],
+): { hours: [number, number][]; minutes: [number, number][] } {
+  const cuts = cutsInside.filter((c) => c > start && c < end && c % HOUR_MS !== 0);
+  const cutHours = new Set(cuts.map((c) => c - (c % HOUR_MS)));
+  const firstHour = Math.ceil(start / HOUR_MS) * HOUR_MS;
+  const lastHour = Math.floor(end / HOUR_MS) * HOUR_MS;
+  const minutes: [number, number][] = [];
+  const hours: [number, number][] = [];
+  if (firstHour >= lastHour) minutes.push([start, end]);
+  else {
+    if (start < firstHour) minutes.push([start, firstHour]);
+    let runStart = firstHour;
+    for (let h = firstHour; h < lastHour; h += HOUR_MS) {
+      if (!cutHours.has(h)) continue;
+      if (h > runStart) hours.push([runStart, h]);
+      minutes.push([h, h + HOUR_MS]);
+      runStart = h + HOUR_MS;
+    }
+    if (lastHour > runStart) hours.push([runStart, lastHour]);
+    if (lastHour < end) minutes.push([lastHour, end]);
+  }
+  return { hours, minutes };
+}
+
+export async function loadRollupSums(
+  knex: Knex,
+  where: {
+    unitId: number;
+    /** The admissions that lay on the unit in the period (the stays'). */
+    admissionIds: readonly number[];
+    from: Date;
+    to: Date;
+    slots: readonly TimeSlot[];
+  },
+): Promise<RollupSum[]> {
+  const start = Math.ceil(where.from.getTime() / MINUTE_MS) * MINUTE_MS;
+  const end = Math.floor(where.to.getTime() / MINUTE_MS) * MINUTE_MS;
+  if (end <= start || where.admissionIds.length === 0) return [];
+  const bounds = where.slots.slice(1).map((s) => s.from);
+  const { hours, minutes } = rollupRanges(start, end, bounds);
+  const query = (table: string, col: string, ranges: [number, number][]) => {
+    if (ranges.length === 0) return Promise.resolve([] as Row[]);
+    // The row a bucket belongs to: the index of its slot (0 without slots).
+    const slot =
+      bounds.length === 0
+        ? "0"
+        : `CASE ${bounds.map((_, i) => `WHEN ${col} < ? THEN ${i}`).join(" ")} ELSE ${bounds.length} END`;
+    return knex
+      .raw(
+        // By admission first: the primary key (admission_id, time) keeps each
+        // range one contiguous read, where the unit index would look up every row.
+        `SELECT admission_id, patient_id, bed_id, ${slot} AS slot, ${SUMS} FROM ${table} FORCE INDEX (PRIMARY)
+          WHERE admission_id IN (${where.admissionIds.map(() => "?").join(",")}) AND unit_id = ? AND (${ranges.map(() => `(${col} >= ? AND ${col} < ?)`).join(" OR ")})
+          GROUP BY admission_id, patient_id, bed_id, slot`,
+        [
+          ...bounds.map((b) => new Date(b)),
+          ...where.admissionIds,
+          where.unitId,
+          ...ranges.flatMap(([a, b]) => [new Date(a), new Date(b)]),
+        ],
+      )
+      .then(([rows]: [Row[]]) => rows);
+  };
+  const [h, m] = await Promise.all([
+    query("rollup_hours", "hour_at", hours),
+    query("rollup_minutes", "minute_at", minutes),
+  ]);
+  return [...h, ...m].map((r) => ({
+    admissionId: r.admission_id,
+    patientId: r.patient_id,
+    bedId: r.bed_id,
+    at: where.slots.length ? where.slots[Number(r.slot)]!.from : start,
+    m: {
+      belowMs: Number(r.below_ms),
+      inBandMs: Number(r.in_band_ms),
+      aboveMs: Number(r.above_ms),
+      below88Ms: Number(r.below88_ms),
+      below85Ms: Number(r.below85_ms),
+      belowAreaPctS: Number(r.below_area_pct_s),
+      minSpo2: r.min_spo2_pct === null ? null : Number(r.min_spo2_pct),
+      o2Ms: Number(r.o2_ms),
+      fio2ExcessS: Number(r.fio2_excess_s),
+      fio2HighMs: Number(r.fio2_high_ms),
+    },
+  }));
+}
