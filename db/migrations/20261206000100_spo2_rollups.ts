@@ -5,12 +5,13 @@ import type { Knex } from "knex";
 // existed get one stay in their current bed.
 //
 // Rollups of the SpO2 series and the applied FiO2, per admission and minute
-// and per admission, hour and bed, written in the same transaction as the
+// and per admission, half hour and bed, written in the same transaction as the
 // readings, adjustments, orders and moves that change them (lib/rollups). A
 // minute row exists only for a minute with something known; time nobody
-// knew is the stay's time minus the known time. Hour rows are the sums of
-// the minute rows, so a report over 30 days reads hours and only the minutes
-// at its edges.
+// knew is the stay's time minus the known time. Half-hour rows are the sums
+// of the minute rows, so a report over 30 days reads half hours and only the
+// minutes at its edges (shift and day boundaries fall on the half hour in
+// nearly every unit and time zone).
 
 const MEASURES = (t: Knex.CreateTableBuilder) => {
   t.integer("patient_id").unsigned().notNullable();
@@ -55,18 +56,18 @@ export async function up(knex: Knex): Promise<void> {
     t.primary(["admission_id", "minute_at"]);
     t.index(["unit_id", "minute_at"], "rollup_minutes_unit_index");
   });
-  await knex.schema.createTable("rollup_hours", (t) => {
+  await knex.schema.createTable("rollup_slots", (t) => {
     t.integer("admission_id").unsigned().notNullable().references("admissions.id");
-    t.datetime("hour_at").notNullable();
+    t.datetime("slot_at").notNullable();
     t.integer("bed_id").unsigned().notNullable();
     MEASURES(t);
-    t.primary(["admission_id", "hour_at", "bed_id"]);
-    t.index(["unit_id", "hour_at"], "rollup_hours_unit_index");
+    t.primary(["admission_id", "slot_at", "bed_id"]);
+    t.index(["unit_id", "slot_at"], "rollup_slots_unit_index");
   });
 }
 
 export async function down(knex: Knex): Promise<void> {
-  await knex.schema.dropTableIfExists("rollup_hours");
+  await knex.schema.dropTableIfExists("rollup_slots");
   await knex.schema.dropTableIfExists("rollup_minutes");
   await knex.schema.dropTableIfExists("admission_stays");
 }

@@ -110,19 +110,19 @@ export const BASIS = {
   },
   oxygenHours: {
     label: "Hours on oxygen",
-    definition: `Hours at an applied FiO2 above room air (0.21) while an order was in effect. ${ROLLUPS}`,
+    definition: `Hours at an applied FiO2 above room air (0.21) while an order was in effect and a reading held (time nobody charted is not counted: a lower bound). ${ROLLUPS}`,
     source:
       "The applied settings: each order's starting FiO2 (a low-flow device's estimated from its flow), then each adjustment (lib/rollups fio2Timeline).",
   },
   fio2Hours: {
     label: "FiO2-hours above room air",
     definition:
-      "∫ (FiO2 − 0.21) dt over the applied settings, in FiO2·hours (an hour at FiO2 0.41 is 0.2).",
+      "∫ (FiO2 − 0.21) dt over the applied settings while a reading held, in FiO2·hours (an hour at FiO2 0.41 is 0.2).",
     source: "Cumulative oxygen exposure; the app's definition over the applied settings.",
   },
   highFio2Hours: {
     label: "Hours at FiO2 ≥ 0.6",
-    definition: "Hours at an applied FiO2 of 0.6 or more.",
+    definition: "Hours at an applied FiO2 of 0.6 or more while a reading held.",
     source:
       "FiO2 ≥ 0.6, the level above which oxygen toxicity is usually discussed (common practice).",
   },

@@ -1,15 +1,15 @@
 import type { Knex } from "knex";
-import { HOUR_MS, MINUTE_MS, type RollupMeasures } from "../rollups/buckets";
+import { MINUTE_MS, type RollupMeasures } from "../rollups/buckets";
+import { rollupRanges } from "../rollups/pieces";
 import type { TimeSlot } from "./groups";
 
 /**
  * The unit's rollups over [from, to), summed in the database per admission,
  * bed and row (a shift or day; the whole period for patient and bed rows).
- * The same hour and minute ranges as lib/rollups/pieces.ts — hour rows where
- * no row boundary falls inside the hour, minute rows elsewhere — but summed
+ * The same ranges as lib/rollups/pieces.ts — half-hour rows where no row
+ * boundary falls inside the half hour, minute rows elsewhere — but summed
  * where they are, so 30 days of a 60-bed unit return a few thousand sums
- * instead of tens of thousands of buckets (and a shift starting at half past
- * reads its minute rows without sending them).
+ * instead of tens of thousands of buckets.
  */
 export type RollupSum = {
   admissionId: number;
@@ -42,34 +42,6 @@ const SUMS = `SUM(below_ms) AS below_ms, SUM(in_band_ms) AS in_band_ms, SUM(abov
   MIN(min_spo2_pct) AS min_spo2_pct, SUM(o2_ms) AS o2_ms, SUM(fio2_excess_s) AS fio2_excess_s,
   SUM(fio2_high_ms) AS fio2_high_ms`;
 
-/** [start, end) split into whole hours with no cut inside (hour rows) and the rest (minute rows). */
-export function rollupRanges(
-  start: number,
-  end: number,
-  cutsInside: readonly number[],
-): { hours: [number, number][]; minutes: [number, number][] } {
-  const cuts = cutsInside.filter((c) => c > start && c < end && c % HOUR_MS !== 0);
-  const cutHours = new Set(cuts.map((c) => c - (c % HOUR_MS)));
-  const firstHour = Math.ceil(start / HOUR_MS) * HOUR_MS;
-  const lastHour = Math.floor(end / HOUR_MS) * HOUR_MS;
-  const minutes: [number, number][] = [];
-  const hours: [number, number][] = [];
-  if (firstHour >= lastHour) minutes.push([start, end]);
-  else {
-    if (start < firstHour) minutes.push([start, firstHour]);
-    let runStart = firstHour;
-    for (let h = firstHour; h < lastHour; h += HOUR_MS) {
-      if (!cutHours.has(h)) continue;
-      if (h > runStart) hours.push([runStart, h]);
-      minutes.push([h, h + HOUR_MS]);
-      runStart = h + HOUR_MS;
-    }
-    if (lastHour > runStart) hours.push([runStart, lastHour]);
-    if (lastHour < end) minutes.push([lastHour, end]);
-  }
-  return { hours, minutes };
-}
-
 export async function loadRollupSums(
   knex: Knex,
   where: {
@@ -85,7 +57,7 @@ export async function loadRollupSums(
   const end = Math.floor(where.to.getTime() / MINUTE_MS) * MINUTE_MS;
   if (end <= start || where.admissionIds.length === 0) return [];
   const bounds = where.slots.slice(1).map((s) => s.from);
-  const { hours, minutes } = rollupRanges(start, end, bounds);
+  const { slots: halfHours, minutes } = rollupRanges(start, end, bounds);
   const query = (table: string, col: string, ranges: [number, number][]) => {
     if (ranges.length === 0) return Promise.resolve([] as Row[]);
     // The row a bucket belongs to: the index of its slot (0 without slots).
@@ -110,7 +82,7 @@ export async function loadRollupSums(
       .then(([rows]: [Row[]]) => rows);
   };
   const [h, m] = await Promise.all([
-    query("rollup_hours", "hour_at", hours),
+    query("rollup_slots", "slot_at", halfHours),
     query("rollup_minutes", "minute_at", minutes),
   ]);
   return [...h, ...m].map((r) => ({

@@ -5,11 +5,14 @@ import { walkHeldSeries, type BandPeriod, type SeriesReading } from "../time-in-
  * Per-minute sums of what the SpO2 series and the applied FiO2 did. Pure: the
  * store (./store.ts) feeds it rows and writes what it returns, the tests feed
  * it invented series. Minutes are UTC minutes (ms since the epoch, multiples
- * of 60 000), so they nest in UTC hours and in every unit's local hours.
+ * of 60 000), so they nest in UTC half hours and in every unit's local half
+ * hours.
  */
 
 export const MINUTE_MS = 60_000;
 export const HOUR_MS = 3_600_000;
+/** The coarser stored grain: half-hour slots (rollup_slots), UTC-aligned. */
+export const SLOT_MS = 30 * MINUTE_MS;
 /** Room air's FiO2: oxygen exposure counts what is given above it. */
 export const ROOM_AIR_FIO2 = 0.21;
 /** "High FiO2" for exposure counts (FiO2 ≥ 0.6, the level above which oxygen toxicity is usually discussed; common practice). */

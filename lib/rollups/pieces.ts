@@ -1,13 +1,13 @@
 import type { Knex } from "knex";
-import { HOUR_MS, MINUTE_MS, type RollupMeasures } from "./buckets";
+import { MINUTE_MS, SLOT_MS, type RollupMeasures } from "./buckets";
 
-/** One stored bucket: an hour row or a minute row, with where the patient lay. */
+/** One stored bucket: a half-hour row or a minute row, with where the patient lay. */
 export type RollupPiece = {
   admissionId: number;
   patientId: number;
   bedId: number;
   unitId: number;
-  /** Start (ms since the epoch) and length (60 000 or 3 600 000 ms). */
+  /** Start (ms since the epoch) and length (60 000 or 1 800 000 ms). */
   at: number;
   ms: number;
   m: RollupMeasures;
@@ -58,9 +58,39 @@ const toPiece =
   });
 
 /**
+ * [start, end) (whole minutes) split into the runs of whole half hours with no
+ * cut strictly inside them (read from rollup_slots) and the rest (read from
+ * rollup_minutes).
+ */
+export function rollupRanges(
+  start: number,
+  end: number,
+  cuts: readonly number[],
+): { slots: [number, number][]; minutes: [number, number][] } {
+  const inside = cuts.filter((c) => c > start && c < end && c % SLOT_MS !== 0);
+  const cutSlots = new Set(inside.map((c) => c - (c % SLOT_MS)));
+  const first = Math.ceil(start / SLOT_MS) * SLOT_MS;
+  const last = Math.floor(end / SLOT_MS) * SLOT_MS;
+  const minutes: [number, number][] = [];
+  const slots: [number, number][] = [];
+  if (first >= last) return { slots, minutes: [[start, end]] };
+  if (start < first) minutes.push([start, first]);
+  let runStart = first;
+  for (let h = first; h < last; h += SLOT_MS) {
+    if (!cutSlots.has(h)) continue;
+    if (h > runStart) slots.push([runStart, h]);
+    minutes.push([h, h + SLOT_MS]);
+    runStart = h + SLOT_MS;
+  }
+  if (last > runStart) slots.push([runStart, last]);
+  if (last < end) minutes.push([last, end]);
+  return { slots, minutes };
+}
+
+/**
  * The stored rollups of [from, to) (whole minutes; a partial minute is
- * dropped) for some admissions or some units: hour rows for the whole hours
- * no cut falls inside, minute rows for the rest — so no piece straddles
+ * dropped) for some admissions or some units: half-hour rows for the whole
+ * half hours no cut falls inside, minute rows for the rest — so no piece straddles
  * `from`, `to` or any cut (a shift or day boundary), and grouping pieces by
  * their start is exact to the minute.
  */
@@ -81,26 +111,7 @@ export async function loadRollupPieces(
   const key = where.admissionIds ? "admission_id" : "unit_id";
   const list = ids.map(() => "?").join(",");
 
-  // Whole hours inside [start, end) with no cut strictly inside them.
-  const cuts = (where.cuts ?? []).filter((c) => c > start && c < end && c % HOUR_MS !== 0);
-  const cutHours = new Set(cuts.map((c) => c - (c % HOUR_MS)));
-  const firstHour = Math.ceil(start / HOUR_MS) * HOUR_MS;
-  const lastHour = Math.floor(end / HOUR_MS) * HOUR_MS;
-  const minuteRanges: [number, number][] = [];
-  const hourRanges: [number, number][] = [];
-  if (firstHour >= lastHour) minuteRanges.push([start, end]);
-  else {
-    if (start < firstHour) minuteRanges.push([start, firstHour]);
-    let runStart = firstHour;
-    for (let h = firstHour; h < lastHour; h += HOUR_MS) {
-      if (!cutHours.has(h)) continue;
-      if (h > runStart) hourRanges.push([runStart, h]);
-      minuteRanges.push([h, h + HOUR_MS]);
-      runStart = h + HOUR_MS;
-    }
-    if (lastHour > runStart) hourRanges.push([runStart, lastHour]);
-    if (lastHour < end) minuteRanges.push([lastHour, end]);
-  }
+  const { slots: slotRanges, minutes: minuteRanges } = rollupRanges(start, end, where.cuts ?? []);
   const epoch = (col: string) => `TIMESTAMPDIFF(SECOND, '1970-01-01', ${col}) * 1000 AS at`;
   const query = (table: string, col: string, ranges: [number, number][]) =>
     ranges.length === 0
@@ -112,9 +123,9 @@ export async function loadRollupPieces(
             [...ids, ...ranges.flatMap(([a, b]) => [new Date(a), new Date(b)])],
           )
           .then(([rows]: [Row[]]) => rows);
-  const [hours, minutes] = await Promise.all([
-    query("rollup_hours", "hour_at", hourRanges),
+  const [slots, minutes] = await Promise.all([
+    query("rollup_slots", "slot_at", slotRanges),
     query("rollup_minutes", "minute_at", minuteRanges),
   ]);
-  return [...hours.map(toPiece(HOUR_MS)), ...minutes.map(toPiece(MINUTE_MS))];
+  return [...slots.map(toPiece(SLOT_MS)), ...minutes.map(toPiece(MINUTE_MS))];
 }

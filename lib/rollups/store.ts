@@ -1,11 +1,18 @@
 import type { Knex } from "knex";
 import { MAX_CARRY_FORWARD_MS, MONITOR_MAX_CARRY_MS, type SeriesReading } from "../time-in-band";
-import { fio2Timeline, HOUR_MS, MINUTE_MS, minuteMeasures, type RollupMeasures } from "./buckets";
+import {
+  fio2Timeline,
+  HOUR_MS,
+  MINUTE_MS,
+  minuteMeasures,
+  SLOT_MS,
+  type RollupMeasures,
+} from "./buckets";
 import { loadBands } from "./bands";
 import { loadStays, type Stay } from "./stays";
 
 /**
- * Keeps rollup_minutes and rollup_hours equal to a recomputation from the raw
+ * Keeps rollup_minutes and rollup_slots equal to a recomputation from the raw
  * rows. Every write that changes what the SpO2 series or the applied FiO2 of
  * an admission did over some stretch calls {@link refreshRollups} for that
  * stretch inside its own transaction; `npm run rollups:rebuild` does the same
@@ -79,16 +86,16 @@ export function minuteRow(
   };
 }
 
-/** Hour rows summed from minute rows: add a WHERE between the two parts. */
-export const HOURS_FROM_MINUTES = `INSERT INTO rollup_hours (admission_id, hour_at, bed_id, patient_id, unit_id,
+/** Half-hour rows summed from minute rows: add a WHERE between the two parts. */
+export const SLOTS_FROM_MINUTES = `INSERT INTO rollup_slots (admission_id, slot_at, bed_id, patient_id, unit_id,
     below_ms, in_band_ms, above_ms, below88_ms, below85_ms, below_area_pct_s, min_spo2_pct, o2_ms,
     fio2_excess_s, fio2_high_ms)
-  SELECT admission_id, DATE_FORMAT(minute_at, '%Y-%m-%d %H:00:00'), bed_id, MIN(patient_id), MIN(unit_id),
+  SELECT admission_id, minute_at - INTERVAL MINUTE(minute_at) % 30 MINUTE, bed_id, MIN(patient_id), MIN(unit_id),
     SUM(below_ms), SUM(in_band_ms), SUM(above_ms), SUM(below88_ms), SUM(below85_ms), SUM(below_area_pct_s),
     MIN(min_spo2_pct), SUM(o2_ms), SUM(fio2_excess_s), SUM(fio2_high_ms)
   FROM rollup_minutes`;
-export const HOURS_GROUP =
-  "GROUP BY admission_id, DATE_FORMAT(minute_at, '%Y-%m-%d %H:00:00'), bed_id";
+export const SLOTS_GROUP =
+  "GROUP BY admission_id, minute_at - INTERVAL MINUTE(minute_at) % 30 MINUTE, bed_id";
 
 const stayAt = (stays: readonly Stay[], t: number) =>
   stays.find((s) => s.from <= t && t < s.to) ??
@@ -138,17 +145,17 @@ export async function refreshRollups(
   for (let i = 0; i < rows.length; i += 2000)
     await trx("rollup_minutes").insert(rows.slice(i, i + 2000));
 
-  // The hours the stretch touches are summed again from their minutes.
-  const hourFrom = new Date(floorTo(start, HOUR_MS));
-  const hourTo = new Date(ceilTo(end, HOUR_MS));
-  await trx("rollup_hours")
+  // The half hours the stretch touches are summed again from their minutes.
+  const slotFrom = new Date(floorTo(start, SLOT_MS));
+  const slotTo = new Date(ceilTo(end, SLOT_MS));
+  await trx("rollup_slots")
     .where({ admission_id: admissionId })
-    .where("hour_at", ">=", hourFrom)
-    .where("hour_at", "<", hourTo)
+    .where("slot_at", ">=", slotFrom)
+    .where("slot_at", "<", slotTo)
     .delete();
   await trx.raw(
-    `${HOURS_FROM_MINUTES} WHERE admission_id = ? AND minute_at >= ? AND minute_at < ? ${HOURS_GROUP}`,
-    [admissionId, hourFrom, hourTo],
+    `${SLOTS_FROM_MINUTES} WHERE admission_id = ? AND minute_at >= ? AND minute_at < ? ${SLOTS_GROUP}`,
+    [admissionId, slotFrom, slotTo],
   );
 }
 

@@ -175,13 +175,13 @@ async function seed(): Promise<number[]> {
     to: new Date(now + 4 * 3_600_000),
   });
   const [[counts]] = (await owner.raw(
-    "SELECT (SELECT COUNT(*) FROM rollup_minutes) AS minutes, (SELECT COUNT(*) FROM rollup_hours) AS hours",
-  )) as [[{ minutes: number; hours: number }]];
+    "SELECT (SELECT COUNT(*) FROM rollup_minutes) AS minutes, (SELECT COUNT(*) FROM rollup_slots) AS slots",
+  )) as [[{ minutes: number; slots: number }]];
   console.log(
-    `rollups rebuilt for ${admissions} admissions (${Number(counts.minutes).toLocaleString("en")} minute rows, ${Number(counts.hours).toLocaleString("en")} hour rows) in ${((performance.now() - rebuildStart) / 1000).toFixed(1)} s (npm run rollups:rebuild does the same)`,
+    `rollups rebuilt for ${admissions} admissions (${Number(counts.minutes).toLocaleString("en")} minute rows, ${Number(counts.slots).toLocaleString("en")} half-hour rows) in ${((performance.now() - rebuildStart) / 1000).toFixed(1)} s (npm run rollups:rebuild does the same)`,
   );
   await owner.raw(
-    "ANALYZE TABLE readings, orders, admissions, beds, rollup_minutes, rollup_hours, admission_stays",
+    "ANALYZE TABLE readings, orders, admissions, beds, rollup_minutes, rollup_slots, admission_stays",
   );
   await bulk.end();
   await owner.destroy();

@@ -10,7 +10,7 @@
  * time and turned into rollup rows by `minuteMeasures`, the same function the
  * services run on every write; the raw 1 Hz readings themselves are not
  * stored, since no report reads them (the charted readings of the other beds
- * are). Hour rows are summed from the minute rows by SQL, as the services do.
+ * are). Half-hour rows are summed from the minute rows by SQL, as the services do.
  * Run on demand: `npm run bench:reports` (needs `npm run db:start`). Uses its
  * own database and drops it at the end (BENCH_KEEP=1 keeps it).
  */
@@ -23,7 +23,7 @@ import { agent, get, quantile, serve } from "./http-timing";
 import { loadReport } from "../../lib/reports/queries";
 import { REPORT_KINDS, type ReportGroup } from "../../lib/reports/types";
 import { fio2Timeline, minuteMeasures, MINUTE_MS } from "../../lib/rollups/buckets";
-import { HOURS_FROM_MINUTES, HOURS_GROUP, minuteRow } from "../../lib/rollups/store";
+import { SLOTS_FROM_MINUTES, SLOTS_GROUP, minuteRow } from "../../lib/rollups/store";
 import type { SeriesReading } from "../../lib/time-in-band";
 
 const DB = "tidemark_bench_reports";
@@ -295,9 +295,9 @@ async function seedUnit(): Promise<number> {
     series.length = 0;
     process.stdout.write(`\rseeded bed ${b + 1}/${BEDS}`);
   }
-  await owner.raw(`${HOURS_FROM_MINUTES} ${HOURS_GROUP}`);
+  await owner.raw(`${SLOTS_FROM_MINUTES} ${SLOTS_GROUP}`);
   await owner.raw(
-    "ANALYZE TABLE rollup_minutes, rollup_hours, readings, alerts, adjustments, orders",
+    "ANALYZE TABLE rollup_minutes, rollup_slots, readings, alerts, adjustments, orders",
   );
   console.log(
     `\nseeded ${BEDS} beds × ${DAYS} days: ${samples.toLocaleString("en")} SpO2 samples (${MONITORED} beds at 1 Hz), ${minuteRows.toLocaleString("en")} rollup minute rows`,

@@ -429,14 +429,16 @@ describe("shifts that start at half past", () => {
 
 describe("the oxygen exposure report", () => {
   it("integrates the applied FiO2 while on the unit", async () => {
-    // A: 0.41 07–12, 0.60 12–18, 0.30 18–21 → 14 h; 5 × 0.20 + 6 × 0.39 + 3 × 0.09 = 3.61; 6 h ≥ 0.6.
-    // B: 0.60 09:00–10:15, 0.50 to 15:00 → 6 h; 1.25 × 0.39 + 4.75 × 0.29 = 1.865; 1.25 h ≥ 0.6.
+    // Oxygen counts while a reading holds (07–11, 11–13, 15–17 for A; 09:30–10:30, 14–15 for B).
+    // A: 0.41 07–12, 0.60 12–13 and 15–17 → 8 h; 5 × 0.20 + 3 × 0.39 = 2.17; 3 h ≥ 0.6.
+    // B: 0.60 09:30–10:15, 0.50 10:15–10:30 and 14–15 → 2 h; 0.75 × 0.39 + 1.25 × 0.29 = 0.655;
+    // 0.75 h ≥ 0.6. Together: 10 h, 2.825 FiO2-hours, 3.75 h ≥ 0.6.
     const report = await loadReport(appDb(), "oxygen-exposure", params("patient"), NOW);
     expect(report.summary).toEqual({
       patientDays: 0.8333,
-      oxygenHours: 20,
-      fio2HoursAboveRoomAir: 5.475,
-      hoursAtFio2AtLeast60: 7.25,
+      oxygenHours: 10,
+      fio2HoursAboveRoomAir: 2.825,
+      hoursAtFio2AtLeast60: 3.75,
       aboveOnOxygenMinutes: 180,
     });
   });

@@ -56,9 +56,9 @@ async function storedRows(admissionId: number): Promise<{ minutes: Stored[]; hou
         .orderBy("minute_at")) as Stored[],
     ),
     hours: clean(
-      (await knex("rollup_hours")
+      (await knex("rollup_slots")
         .where({ admission_id: admissionId })
-        .orderBy(["hour_at", "bed_id"])) as Stored[],
+        .orderBy(["slot_at", "bed_id"])) as Stored[],
     ),
   };
 }
@@ -67,7 +67,7 @@ async function storedRows(admissionId: number): Promise<{ minutes: Stored[]; hou
 async function rebuiltFromRaw(admissionId: number, since: number) {
   const knex = appDb();
   await knex("rollup_minutes").where({ admission_id: admissionId }).delete();
-  await knex("rollup_hours").where({ admission_id: admissionId }).delete();
+  await knex("rollup_slots").where({ admission_id: admissionId }).delete();
   await rebuildRollups(knex, {
     from: new Date(since - 4 * 3600_000),
     to: new Date(Date.now() + 5 * 3600_000),
@@ -256,7 +256,7 @@ describe("rollups kept on write", () => {
     expect(stay.windowMinutes).toBeGreaterThan(3 * 60);
   });
 
-  it("serves hour rows inside a window and minute rows at its edges and cuts, with the same sums", async () => {
+  it("serves half-hour rows inside a window and minute rows at its edges and cuts, with the same sums", async () => {
     const knex = appDb();
     const { patientId } = await admitTestPatient("MICU");
     const admission = (await knex("admissions").where({ patient_id: patientId }).first("id")) as {
@@ -291,7 +291,7 @@ describe("rollups kept on write", () => {
       to,
       cuts: [cut],
     });
-    expect(pieces.some((p) => p.ms === 3_600_000)).toBe(true);
+    expect(pieces.some((p) => p.ms === 1_800_000)).toBe(true);
     for (const p of pieces) {
       expect(p.at).toBeGreaterThanOrEqual(from.getTime());
       expect(p.at + p.ms).toBeLessThanOrEqual(to.getTime());

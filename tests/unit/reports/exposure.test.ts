@@ -9,8 +9,9 @@ import { at, manual, names, piecesOf } from "./fixture";
 // One admission on unit 1 all day. A Venturi-mask order from 08:00 starts at
 // FiO2 0.41; an adjustment at 10:00 sets 0.61, one at 11:00 sets 0.21 (room
 // air). The order is discontinued at 12:00. Period 07:00–13:00, 3-hour shifts.
-//   on oxygen: 08:00–11:00 = 3 h
-//   FiO2-hours: 2 h × 0.20 + 1 h × 0.40 = 0.8
+// Oxygen counts only while the SpO2 series is known: from the first reading at 09:00.
+//   on oxygen: 09:00–11:00 = 2 h (08:00–09:00 nobody charted)
+//   FiO2-hours: 1 h × 0.20 + 1 h × 0.40 = 0.6
 //   at FiO2 ≥ 0.6: 10:00–11:00 = 1 h
 // SpO2 99 charted at 09:00 on FiO2 0.41, band 88–92: above on oxygen until
 // the 94 on room air at 11:00 (in band: no oxygen) → 120 min above.
@@ -64,8 +65,8 @@ describe("oxygen exposure", () => {
   it("integrates the applied FiO2 above room air", () => {
     expect(exposureMeasures(rows("patient").summary)).toEqual({
       patientDays: 0.25,
-      oxygenHours: 3,
-      fio2HoursAboveRoomAir: 0.8,
+      oxygenHours: 2,
+      fio2HoursAboveRoomAir: 0.6,
       hoursAtFio2AtLeast60: 1,
       aboveOnOxygenMinutes: 120,
     });
@@ -75,6 +76,6 @@ describe("oxygen exposure", () => {
     // 6-hour shifts from 07:00: the whole period is one shift.
     const r = rows("shift").rows;
     expect(r).toHaveLength(1);
-    expect(exposureMeasures(r[0]!.acc).oxygenHours).toBe(3);
+    expect(exposureMeasures(r[0]!.acc).oxygenHours).toBe(2);
   });
 });
