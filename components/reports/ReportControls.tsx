@@ -27,16 +27,23 @@ export function ReportControls({
     <div className="space-y-3 print:hidden">
       <form method="get" action="/reports" className="group flex flex-wrap items-end gap-3">
         <input type="hidden" name="report" value={choice.report} />
-        <label className="flex flex-col gap-1 text-sm font-medium">
-          Unit
-          <select name="unit" defaultValue={choice.unitId} className={selectClasses}>
+        <div className="flex flex-col gap-1">
+          <label htmlFor="report-unit" className="text-sm font-medium">
+            Unit
+          </label>
+          <select
+            id="report-unit"
+            name="unit"
+            defaultValue={choice.unitId}
+            className={selectClasses}
+          >
             {units.map((u) => (
               <option key={u.id} value={u.id}>
                 {u.code} · {u.name}
               </option>
             ))}
           </select>
-        </label>
+        </div>
         <fieldset className="flex flex-col gap-1">
           <legend className="mb-1 text-sm font-medium">Period</legend>
           <div className="flex flex-wrap gap-1">
