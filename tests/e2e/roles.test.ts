@@ -48,7 +48,7 @@ describe.each(ROLE_STORIES)("$role", ({ role, email, label, units }) => {
       if (role === "reviewer") {
         await page.waitForURL(`${BASE_URL}/reports`);
         await page.getByRole("heading", { name: "Reports", level: 1 }).waitFor();
-        await page.getByRole("link", { name: "Board" }).click();
+        await page.getByRole("link", { name: "Board", exact: true }).click();
       }
       await page.waitForURL(`${BASE_URL}/board`);
       await expect.poll(() => page.getByTestId("current-user").innerText()).toContain(label);
