@@ -22,6 +22,7 @@ function navFor(role: Role): NavItem[] {
   if (can({ role }, "admission.manage")) items.push({ href: "/admit", label: "Admit" });
   items.push({ href: "/handoff", label: "Handoff" });
   items.push({ href: "/ledger", label: "Ledger" });
+  items.push({ href: "/reports", label: "Reports" });
   if (can({ role }, "import.upload")) items.push({ href: "/imports", label: "Uploads" });
   if (can({ role }, "user.manage")) items.push({ href: "/admin/users", label: "Users" });
   if (can({ role }, "unit.manage")) items.push({ href: "/admin/units", label: "Units" });

@@ -403,7 +403,7 @@ describe("bedside writes over the API", () => {
       const page = await context.newPage();
       try {
         await signInThroughForm(page, REVIEWER);
-        await page.waitForURL(`${BASE_URL}/board`);
+        await page.waitForURL(`${BASE_URL}/reports`);
         for (const form of ["adjustments", "readings", "blood-gases"]) {
           const response = await page.goto(
             `${BASE_URL}/patients/${ADJUSTMENT_PATIENT}/${form}/new`,

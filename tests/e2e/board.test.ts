@@ -21,8 +21,13 @@ const ROLES = [
 const rows = (page: Page) => page.getByTestId("board-row");
 const bedOrder = (page: Page) => rows(page).locator("th").allInnerTexts();
 
-async function openBoard(page: Page, email: string) {
+async function openBoard(page: Page, email: string, role: string) {
   await signInThroughForm(page, email);
+  // A reviewer lands on Reports (their home) and opens the Board from there.
+  if (role === "reviewer") {
+    await page.waitForURL(`${BASE_URL}/reports`);
+    await page.goto(`${BASE_URL}/board`);
+  }
   await page.waitForURL(`${BASE_URL}/board`);
   await page.getByRole("heading", { name: "Board", level: 1 }).waitFor();
   await rows(page).first().waitFor();
@@ -33,7 +38,7 @@ describe.each(ROLES)("$role", ({ role, email, units }) => {
     const context = await browser.newContext({ viewport: { width: 1024, height: 768 } });
     const page = await context.newPage();
     try {
-      await openBoard(page, email);
+      await openBoard(page, email, role);
       expect(await page.getByRole("heading", { level: 2 }).count()).toBe(units);
       // Fits a tablet: no sideways scroll at 1024 px.
       expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(
@@ -94,7 +99,7 @@ describe("Board look", () => {
     await context.addCookies([{ name: "tm-theme", value: "night", url: BASE_URL }]);
     const page = await context.newPage();
     try {
-      await openBoard(page, ROLES[0].email);
+      await openBoard(page, ROLES[0].email, ROLES[0].role);
       expect(await page.evaluate(() => document.documentElement.dataset.theme)).toBe("night");
       expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(
         1024,

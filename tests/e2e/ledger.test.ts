@@ -186,7 +186,7 @@ describe("the Ledger page", () => {
     const page = await context.newPage();
     try {
       await signInThroughForm(page, REVIEWER);
-      await page.waitForURL(`${BASE_URL}/board`);
+      await page.waitForURL(`${BASE_URL}/reports`);
       const address = `${BASE_URL}/ledger?patientId=${MICU_PATIENT_ID}&action=reading.chart&from=${since.toISOString()}`;
       await page.goto(address);
       // The shared address fills the form: the period shows in the units' zone.

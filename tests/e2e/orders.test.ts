@@ -476,7 +476,7 @@ describe("who may write an order", () => {
       const page = await context.newPage();
       try {
         await signInThroughForm(page, REVIEWER);
-        await page.waitForURL(`${BASE_URL}/board`);
+        await page.waitForURL(`${BASE_URL}/reports`);
         const response = await page.goto(`${BASE_URL}/patients/${PATIENT_WRITTEN}/orders/new`);
         expect(response?.status()).toBe(403);
         await page.getByRole("heading", { name: "Not available to your role" }).waitFor();

@@ -44,6 +44,12 @@ describe.each(ROLE_STORIES)("$role", ({ role, email, label, units }) => {
     const page = await context.newPage();
     try {
       await signInThroughForm(page, email);
+      // Each role's home: a reviewer lands on Reports, everyone else on the Board.
+      if (role === "reviewer") {
+        await page.waitForURL(`${BASE_URL}/reports`);
+        await page.getByRole("heading", { name: "Reports", level: 1 }).waitFor();
+        await page.getByRole("link", { name: "Board", exact: true }).click();
+      }
       await page.waitForURL(`${BASE_URL}/board`);
       await expect.poll(() => page.getByTestId("current-user").innerText()).toContain(label);
       await page.getByRole("heading", { name: "Board", level: 1 }).waitFor();

@@ -39,7 +39,8 @@ async function asUser<T>(email: string, act: (page: Page) => Promise<T>): Promis
   const page = await context.newPage();
   try {
     await signInThroughForm(page, email);
-    await page.waitForURL(`${BASE_URL}/board`);
+    // A reviewer lands on Reports, everyone else on the Board.
+    await page.waitForURL(`${BASE_URL}${email === REVIEWER ? "/reports" : "/board"}`);
     return await act(page);
   } finally {
     await context.close();

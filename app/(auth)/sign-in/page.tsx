@@ -26,7 +26,8 @@ export default async function SignInPage({
 }) {
   const params = await searchParams;
   // Only same-site paths: an open redirect would let a link send staff elsewhere.
-  const callbackUrl = safeCallbackPath(params.callbackUrl);
+  // Without one, "/" sends each role to its home (lib/auth/home.ts).
+  const callbackUrl = params.callbackUrl === undefined ? "/" : safeCallbackPath(params.callbackUrl);
   if (await signedIn()) redirect(callbackUrl);
   const ended = params.ended === "idle" || params.ended === "ended" ? params.ended : null;
   return (
