@@ -153,7 +153,12 @@ describe("api/v1/patients/[patientId]/timeline and trend", () => {
 
 async function openChartFromBoard(page: Page, email: string, patientId: number) {
   await signInThroughForm(page, email);
-  await page.waitForURL(`${BASE_URL}/board`, { timeout: 60_000 });
+  // Each role lands on its home (a reviewer on Reports); the Board is one link away.
+  await page.waitForURL(new RegExp(`${BASE_URL}/(board|reports)`), { timeout: 60_000 });
+  if (!page.url().endsWith("/board")) {
+    await page.getByRole("link", { name: "Board", exact: true }).first().click();
+    await page.waitForURL(`${BASE_URL}/board`, { timeout: 60_000 });
+  }
   await page.locator(`a[href="/patients/${patientId}"]`).first().click();
   await page.waitForURL(new RegExp(`/patients/${patientId}$`), { timeout: 60_000 });
   await page.getByRole("heading", { level: 2, name: "Trend" }).waitFor({ timeout: 60_000 });
