@@ -33,7 +33,8 @@ async function chartReading(
 
 async function signInAndOpenLedger(page: Page, email: string): Promise<void> {
   await signInThroughForm(page, email);
-  await page.waitForURL(`${BASE_URL}/board`);
+  // A reviewer lands on Reports, everyone else on the Board; the Ledger is in the header of both.
+  await page.waitForURL(new RegExp(`${BASE_URL}/(board|reports)$`));
   await page.getByRole("link", { name: "Ledger" }).click();
   await page.waitForURL(`${BASE_URL}/ledger`);
   await page.getByRole("heading", { name: "Ledger", level: 1 }).waitFor();
