@@ -108,7 +108,13 @@ export async function chartReading(
       },
       now,
     );
-    await refreshAfterReadings(trx, admission.admissionId, input.takenAt, input.takenAt, "manual");
+    await refreshAfterReadings(
+      trx,
+      { admissionId: admission.admissionId, patientId: input.patientId },
+      input.takenAt,
+      input.takenAt,
+      "manual",
+    );
     await afterReadingsCharted(
       trx,
       actor,

@@ -35,7 +35,7 @@ type ReadingRow = {
 
 async function loadSeries(
   knex: Knex,
-  admissionId: number,
+  { admissionId, patientId }: { admissionId: number; patientId: number },
   from: number,
   to: number,
 ): Promise<SeriesReading[]> {
@@ -44,12 +44,12 @@ async function loadSeries(
   // The reading before the lead window too: a charted value may still hold.
   const [[rows], [carry]] = (await Promise.all([
     knex.raw(
-      `SELECT ${cols} FROM readings WHERE admission_id = ? AND taken_at >= ? AND taken_at < ? ORDER BY taken_at, id`,
-      [admissionId, lead, new Date(to)],
+      `SELECT ${cols} FROM readings WHERE patient_id = ? AND admission_id = ? AND taken_at >= ? AND taken_at < ? ORDER BY taken_at, id`,
+      [patientId, admissionId, lead, new Date(to)],
     ),
     knex.raw(
-      `SELECT ${cols} FROM readings WHERE admission_id = ? AND taken_at < ? ORDER BY taken_at DESC, id DESC LIMIT 1`,
-      [admissionId, lead],
+      `SELECT ${cols} FROM readings WHERE patient_id = ? AND admission_id = ? AND taken_at < ? ORDER BY taken_at DESC, id DESC LIMIT 1`,
+      [patientId, admissionId, lead],
     ),
   ])) as [[ReadingRow[]], [ReadingRow[]]];
   return [...carry, ...rows].map((r) => ({
@@ -112,6 +112,10 @@ export async function refreshRollups(
   const start = floorTo(from.getTime(), MINUTE_MS);
   const end = ceilTo(to.getTime(), MINUTE_MS);
   if (end <= start) return;
+  // Readings are found through (patient_id, taken_at), the index they have.
+  const { patient_id: patientId } = (await trx("admissions")
+    .where({ id: admissionId })
+    .first("patient_id")) as { patient_id: number };
   const [stays, { bands, orders }, changes, series] = await Promise.all([
     loadStays(trx, { admissionIds: [admissionId] }),
     loadBands(trx, admissionId),
@@ -119,7 +123,7 @@ export async function refreshRollups(
       .where({ admission_id: admissionId })
       .where("applied_at", "<", new Date(end))
       .select("applied_at", "to_fio2") as Promise<{ applied_at: Date; to_fio2: number }[]>,
-    loadSeries(trx, admissionId, start, end),
+    loadSeries(trx, { admissionId, patientId }, start, end),
   ]);
   const minutes = minuteMeasures({
     series,
@@ -168,18 +172,18 @@ export async function refreshRollups(
  */
 export async function refreshAfterReadings(
   trx: Knex.Transaction,
-  admissionId: number,
+  { admissionId, patientId }: { admissionId: number; patientId: number },
   first: Date,
   last: Date,
   source: "manual" | "monitor",
 ): Promise<void> {
   const [[before], [nextMonitor]] = (await Promise.all([
     trx("readings")
-      .where({ admission_id: admissionId })
+      .where({ patient_id: patientId, admission_id: admissionId })
       .where("taken_at", "<", first)
       .max({ t: "taken_at" }),
     trx("readings")
-      .where({ admission_id: admissionId, source: "monitor" })
+      .where({ patient_id: patientId, admission_id: admissionId, source: "monitor" })
       .where("taken_at", ">", last)
       .min({ t: "taken_at" }),
   ])) as [{ t: Date | null }[], { t: Date | null }[]];
@@ -238,13 +242,19 @@ export async function rebuildRollups(
 /** {@link refreshAfterReadings} for rows just inserted, per admission. */
 export async function refreshAfterReadingRows(
   trx: Knex.Transaction,
-  rows: readonly { admission_id: number; taken_at: Date; source: "manual" | "monitor" }[],
+  rows: readonly {
+    admission_id: number;
+    patient_id: number;
+    taken_at: Date;
+    source: "manual" | "monitor";
+  }[],
 ): Promise<void> {
-  const spans = new Map<number, { first: Date; last: Date; manual: boolean }>();
+  const spans = new Map<number, { patientId: number; first: Date; last: Date; manual: boolean }>();
   for (const r of rows) {
     const s = spans.get(r.admission_id);
     if (!s)
       spans.set(r.admission_id, {
+        patientId: r.patient_id,
         first: r.taken_at,
         last: r.taken_at,
         manual: r.source === "manual",
@@ -255,6 +265,12 @@ export async function refreshAfterReadingRows(
       if (r.source === "manual") s.manual = true;
     }
   }
-  for (const [admissionId, { first, last, manual }] of spans)
-    await refreshAfterReadings(trx, admissionId, first, last, manual ? "manual" : "monitor");
+  for (const [admissionId, { patientId, first, last, manual }] of spans)
+    await refreshAfterReadings(
+      trx,
+      { admissionId, patientId },
+      first,
+      last,
+      manual ? "manual" : "monitor",
+    );
 }

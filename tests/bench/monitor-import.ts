@@ -84,6 +84,7 @@ async function main() {
     prefix: "tdm_bench",
     scope: "write",
     created_by: userId,
+    expires_at: new Date(Date.now() + 24 * 3600_000),
   });
   await owner("api_token_units").insert({ api_token_id: tokenId, unit_id: unitId });
   const now = new Date();

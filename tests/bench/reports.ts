@@ -11,8 +11,10 @@
  * services run on every write; the raw 1 Hz readings themselves are not
  * stored, since no report reads them (the charted readings of the other beds
  * are). Half-hour rows are summed from the minute rows by SQL, as the services do.
- * Run on demand: `npm run bench:reports` (needs `npm run db:start`). Uses its
- * own database and drops it at the end (BENCH_KEEP=1 keeps it).
+ * Run on demand: `npm run bench:reports` (needs `npm run db:start`); the unit's
+ * clock and shifts are Europe/Berlin from 07:00 unless BENCH_TZ and BENCH_SHIFT
+ * say otherwise. Uses its own database and drops it at the end (BENCH_KEEP=1
+ * keeps it).
  */
 import "../../lib/local-env";
 import { execFileSync } from "node:child_process";
@@ -66,8 +68,8 @@ async function seedUnit(): Promise<number> {
     code: "BREP",
     name: "Bench unit",
     kind: "icu",
-    time_zone: "Europe/Berlin",
-    shift_start: "07:00",
+    time_zone: process.env.BENCH_TZ ?? "Europe/Berlin",
+    shift_start: process.env.BENCH_SHIFT ?? "07:00",
     shift_hours: 12,
   });
   const [physician] = await owner("users").insert({
@@ -316,7 +318,7 @@ async function main() {
     { stdio: "ignore", env: { ...process.env, DATABASE_NAME: DB } },
   );
   console.log(
-    `command: npm run bench:reports   node ${process.version}, MariaDB private instance (127.0.0.1:3399)`,
+    `command: npm run bench:reports   node ${process.version}, MariaDB private instance (127.0.0.1:3399); unit clock ${process.env.BENCH_TZ ?? "Europe/Berlin"}, shifts from ${process.env.BENCH_SHIFT ?? "07:00"}`,
   );
   const seeded = performance.now();
   const unitId = await seedUnit();
