@@ -52,7 +52,10 @@ export function ReportChart({ spec, id }: { spec: ChartSpec; id: string }) {
           tick={{ fill: "var(--tm-ink-muted)", fontSize: 11 }}
           stroke="var(--tm-border-strong)"
           width={44}
-          {...(spec.stacked ? { domain: [0, 100] } : {})}
+          // Shares rounded to 0.1 can stack to 100.1: keep the axis at 0–100 %.
+          {...(spec.stacked
+            ? { domain: [0, 100], allowDataOverflow: true, ticks: [0, 25, 50, 75, 100] }
+            : {})}
         />
         <Tooltip
           cursor={{ fill: "var(--tm-surface-muted)" }}

@@ -107,4 +107,28 @@ describe("Reports", () => {
       await context.close();
     }
   });
+
+  it("fits a phone: no page wider than 390 px, charts and tables included, in both themes", async () => {
+    for (const theme of ["day", "night"]) {
+      const context = await browser.newContext({ viewport: { width: 390, height: 844 } });
+      await context.addCookies([{ name: "tm-theme", value: theme, url: BASE_URL }]);
+      const page = await context.newPage();
+      try {
+        await signInThroughForm(page, SEEDED.reviewer);
+        await page.waitForURL(/\/reports$/);
+        for (const tab of ["time-in-band", "alerts", "oxygen-exposure", "orders"]) {
+          await page.goto(`${BASE_URL}/reports?unit=1&period=7d&report=${tab}`);
+          await page.getByTestId("report-view").waitFor();
+          const [scroll, inner] = await page.evaluate(() => [
+            document.documentElement.scrollWidth,
+            window.innerWidth,
+          ]);
+          expect(scroll, `${tab} at 390 px, ${theme}`).toBeLessThanOrEqual(inner!);
+        }
+        await page.screenshot({ path: `${ARTIFACTS}/reports-390-${theme}.png`, fullPage: true });
+      } finally {
+        await context.close();
+      }
+    }
+  });
 });
