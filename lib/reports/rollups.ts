@@ -1,6 +1,6 @@
 import type { Knex } from "knex";
 import { MINUTE_MS, type RollupMeasures } from "../rollups/buckets";
-import { rollupRanges } from "../rollups/pieces";
+import { measuresOfRow, rollupRanges, type MeasureColumns } from "../rollups/pieces";
 import type { TimeSlot } from "./groups";
 
 /**
@@ -20,21 +20,11 @@ export type RollupSum = {
   m: RollupMeasures;
 };
 
-type Row = {
+type Row = MeasureColumns & {
   admission_id: number;
   patient_id: number;
   bed_id: number;
   slot: number | string;
-  below_ms: number | string;
-  in_band_ms: number | string;
-  above_ms: number | string;
-  below88_ms: number | string;
-  below85_ms: number | string;
-  below_area_pct_s: number | string;
-  min_spo2_pct: number | string | null;
-  o2_ms: number | string;
-  fio2_excess_s: number | string;
-  fio2_high_ms: number | string;
 };
 
 const SUMS = `SUM(below_ms) AS below_ms, SUM(in_band_ms) AS in_band_ms, SUM(above_ms) AS above_ms,
@@ -90,17 +80,6 @@ export async function loadRollupSums(
     patientId: r.patient_id,
     bedId: r.bed_id,
     at: where.slots.length ? where.slots[Number(r.slot)]!.from : start,
-    m: {
-      belowMs: Number(r.below_ms),
-      inBandMs: Number(r.in_band_ms),
-      aboveMs: Number(r.above_ms),
-      below88Ms: Number(r.below88_ms),
-      below85Ms: Number(r.below85_ms),
-      belowAreaPctS: Number(r.below_area_pct_s),
-      minSpo2: r.min_spo2_pct === null ? null : Number(r.min_spo2_pct),
-      o2Ms: Number(r.o2_ms),
-      fio2ExcessS: Number(r.fio2_excess_s),
-      fio2HighMs: Number(r.fio2_high_ms),
-    },
+    m: measuresOfRow(r),
   }));
 }

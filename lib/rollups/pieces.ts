@@ -13,23 +13,42 @@ export type RollupPiece = {
   m: RollupMeasures;
 };
 
-type Row = {
+type Row = MeasureColumns & {
   admission_id: number;
   patient_id: number;
   bed_id: number;
   unit_id: number;
   at: number | string;
-  below_ms: number;
-  in_band_ms: number;
-  above_ms: number;
-  below88_ms: number;
-  below85_ms: number;
-  below_area_pct_s: number;
-  min_spo2_pct: number | null;
-  o2_ms: number;
-  fio2_excess_s: number;
-  fio2_high_ms: number;
 };
+
+/** The measure columns of a rollup row (or of their SQL sums), as mysql2 returns them. */
+export type MeasureColumns = {
+  below_ms: number | string;
+  in_band_ms: number | string;
+  above_ms: number | string;
+  below88_ms: number | string;
+  below85_ms: number | string;
+  below_area_pct_s: number | string;
+  min_spo2_pct: number | string | null;
+  o2_ms: number | string;
+  fio2_excess_s: number | string;
+  fio2_high_ms: number | string;
+};
+
+export function measuresOfRow(r: MeasureColumns): RollupMeasures {
+  return {
+    belowMs: Number(r.below_ms),
+    inBandMs: Number(r.in_band_ms),
+    aboveMs: Number(r.above_ms),
+    below88Ms: Number(r.below88_ms),
+    below85Ms: Number(r.below85_ms),
+    belowAreaPctS: Number(r.below_area_pct_s),
+    minSpo2: r.min_spo2_pct === null ? null : Number(r.min_spo2_pct),
+    o2Ms: Number(r.o2_ms),
+    fio2ExcessS: Number(r.fio2_excess_s),
+    fio2HighMs: Number(r.fio2_high_ms),
+  };
+}
 
 const COLUMNS = `admission_id, patient_id, bed_id, unit_id, below_ms, in_band_ms, above_ms, below88_ms, below85_ms,
   below_area_pct_s, min_spo2_pct, o2_ms, fio2_excess_s, fio2_high_ms`;
@@ -43,18 +62,7 @@ const toPiece =
     unitId: r.unit_id,
     at: Number(r.at),
     ms,
-    m: {
-      belowMs: Number(r.below_ms),
-      inBandMs: Number(r.in_band_ms),
-      aboveMs: Number(r.above_ms),
-      below88Ms: Number(r.below88_ms),
-      below85Ms: Number(r.below85_ms),
-      belowAreaPctS: Number(r.below_area_pct_s),
-      minSpo2: r.min_spo2_pct === null ? null : Number(r.min_spo2_pct),
-      o2Ms: Number(r.o2_ms),
-      fio2ExcessS: Number(r.fio2_excess_s),
-      fio2HighMs: Number(r.fio2_high_ms),
-    },
+    m: measuresOfRow(r),
   });
 
 /**
