@@ -47,8 +47,9 @@ export async function proposalFollowed(
 ): Promise<boolean | null> {
   const admissionId = admission.admissionId;
   const [reading, steps] = await Promise.all([
+    // Through (patient_id, taken_at): a monitored patient has tens of thousands of rows.
     trx("readings")
-      .where({ admission_id: admissionId })
+      .where({ patient_id: order.patientId, admission_id: admissionId })
       .orderBy("taken_at", "desc")
       .first("spo2_pct", "fio2") as Promise<{ spo2_pct: number; fio2: number } | undefined>,
     loadSteps(trx, order.stepTableId),
