@@ -139,6 +139,29 @@ function solvePO2ForContent(hemoglobin: number, target: number): number {
   return (low + high) / 2;
 }
 
+/**
+ * The shunt model's arterial PO2 (mmHg) for a shunt fraction Qs (0–1) at an
+ * alveolar PO2: the content deficit Cc'O2 − CaO2 = a–v difference · Qs/(1 − Qs)
+ * (Berggren 1942, with the assumed 5 mL/dL a–v difference), solved for PaO2 on the
+ * content equation by the same bisection the forecast uses, never above PAO2.
+ * Unchecked: for the engine's own callers and simulations that keep inputs in range.
+ */
+export function shuntArterialPO2(
+  hemoglobin: number,
+  alveolar: number,
+  shuntFraction: number,
+): number {
+  const deficit = (ASSUMED_ARTERIOVENOUS_DIFFERENCE * shuntFraction) / (1 - shuntFraction);
+  return pao2ForDeficit(hemoglobin, alveolar, deficit);
+}
+
+function pao2ForDeficit(hemoglobin: number, alveolar: number, deficit: number): number {
+  return Math.min(
+    solvePO2ForContent(hemoglobin, contentAtPO2(hemoglobin, alveolar) - deficit),
+    alveolar,
+  );
+}
+
 const model = (pao2: number): ModelForecast => ({ pao2, spo2: 100 * severinghausSaturation(pao2) });
 function mmHg(value: number): string {
   return `${Math.round(value)} mmHg`;
@@ -206,8 +229,7 @@ export function forecastFio2Change(input: ForecastInput): Fio2Forecast {
   const arterial = contentAtPO2(hemoglobin, pao2);
   const deficit = Math.max(endCapillary - arterial, 0);
   const shuntFraction = deficit / (deficit + ASSUMED_ARTERIOVENOUS_DIFFERENCE);
-  const targetContent = contentAtPO2(hemoglobin, next) - deficit;
-  const shuntPao2 = Math.min(solvePO2ForContent(hemoglobin, targetContent), next);
+  const shuntPao2 = pao2ForDeficit(hemoglobin, next, deficit);
   if (shuntPao2 < MIN_ALVEOLAR_PO2) {
     caveats.push(
       `At FiO2 ${nextFio2} the estimated shunt (${Math.round(shuntFraction * 100)} %) leaves no arterial oxygen in the shunt model.`,

@@ -97,6 +97,7 @@ export {
   FORECAST_ASSUMPTIONS,
   PEEP_NOT_FORECAST,
   forecastFio2Change,
+  shuntArterialPO2,
   InconsistentBloodGasError,
   type ForecastInput,
   type ModelForecast,
