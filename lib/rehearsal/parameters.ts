@@ -33,7 +33,7 @@ export type PatientParameters = {
   suctionPerHour: number;
   suctionRise: Span;
   suctionMinutes: Span;
-  /** Position changes: interval, and the spread of the lasting shift of the baseline they bring. */
+  /** Position changes: interval, and the spread of the shift of the baseline each new position brings (it lasts until the next). */
   repositionHours: number;
   repositionShiftSd: number;
   /** g/dL */
@@ -100,7 +100,7 @@ export const DEFAULT_PARAMETERS: RehearsalParameters = {
     ventilatedShunt: { low: 0.2, high: 0.33 },
     ventilatedShare: 0.25,
     shuntBounds: { low: 0.03, high: 0.45 },
-    driftPerRootHour: 0.02,
+    driftPerRootHour: 0.012,
     reversionHours: 6,
     recoveryPerDay: 0.02,
     desaturationPerHour: 1 / 8,
@@ -172,7 +172,7 @@ export function rehearsalBasis(p: RehearsalParameters = DEFAULT_PARAMETERS): Bas
     },
     {
       name: "Position changes",
-      value: `every ${v.repositionHours} h, lasting shift SD ${v.repositionShiftSd}`,
+      value: `every ${v.repositionHours} h, each position shifts the baseline (SD ${v.repositionShiftSd}) until the next`,
       source: "two-hourly repositioning: common practice; the shift it brings: assumed",
     },
     { name: "Haemoglobin", value: span(v.hemoglobin, " g/dL"), source: ASSUMED },

@@ -151,7 +151,7 @@ export class VirtualPatient {
       -this.deviation / (v.reversionHours * 3600) + (v.driftPerRootHour / 60) * r.normal();
     if (t >= this.nextReposition) {
       this.nextReposition += v.repositionHours * 3600;
-      this.reposition += v.repositionShiftSd * r.normal();
+      this.reposition = v.repositionShiftSd * r.normal();
     }
     if (t >= this.eventEnd) this.eventRise = 0;
     if (r.chance(v.desaturationPerHour / 3600)) {
