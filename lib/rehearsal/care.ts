@@ -6,6 +6,7 @@ import {
   type WatchState,
 } from "../alerts/detect";
 import { OxygenInputError, proposeStep, type Proposal, type ProposedSetting } from "../oxygen";
+import { classifySpo2 } from "../time-in-band";
 import { StreamMeasures } from "./measures";
 import type { Delay, RehearsalParameters } from "./parameters";
 import { VirtualPatient, type PatientProfile } from "./patient";
@@ -167,7 +168,8 @@ export function runStay(
       }
     } else if (t >= nextReference) {
       nextReference += care.referenceEverySeconds;
-      if (spo2 !== null) {
+      // In band the proposal is always "hold" (proposeStep's rule): no need to ask.
+      if (spo2 !== null && classifySpo2(spo2, setting, band) !== "inBand") {
         const proposal = propose(spo2);
         if (proposal && (proposal.direction === "up" || proposal.direction === "down"))
           apply(t, proposal.step);

@@ -23,8 +23,8 @@
  * - Measures come from the app's own functions (rollups' minuteMeasures over
  *   time in band's carry rules), streamed an hour at a time.
  * Every figure and its source: {@link rehearsalBasis}. With the defaults the
- * fixed-interval routine's median time in band is about 70 % (30 patients ×
- * 72 h, seeds 1–3 and 2021: 70–75 %), against the published manual-titration
+ * fixed-interval routine's median time in band is about 71 % (30 patients ×
+ * 72 h, seeds 1–3 and 2021: 69–74 %), against the published manual-titration
  * median of 71 % (BMJ Open Respir Res 2021;8:e000843); the shunt's drift
  * (0.012 per √h) and the position offsets (replaced, not summed) were set to
  * get there — both assumed, not measured.

@@ -115,7 +115,7 @@ export const DEFAULT_PARAMETERS: RehearsalParameters = {
     paco2: { low: 35, high: 50 },
     barometricPressure: 760,
     settleSeconds: 90,
-    physiologyEverySeconds: 10,
+    physiologyEverySeconds: 20,
   },
   oximeter: {
     biasSd: 1.5,

@@ -24,6 +24,12 @@ export type PatientProfile = {
 
 const draw = (random: Random, s: Span) => random.between(s.low, s.high);
 
+/** Seconds until the next event of a Poisson process with `perHour` events an hour (never, at 0). */
+function waitSeconds(random: Random, perHour: number): number {
+  if (perHour <= 0) return Infinity;
+  return Math.max(1, Math.round((-Math.log(1 - random.next()) * 3600) / perHour));
+}
+
 /**
  * Arterial saturation (%) at steady state for a shunt fraction and FiO2: the
  * alveolar gas equation, the engine's shunt model and the Severinghaus curve —
@@ -114,6 +120,10 @@ export class VirtualPatient {
   private artefactDrop = 0;
   private artefactEnd = 0;
   private probeOffEnd = 0;
+  private nextDesaturation: number;
+  private nextSuction: number;
+  private nextArtefact: number;
+  private nextProbeOff: number;
   private steadyAt = -1;
   private steadyFio2 = -1;
   private steady: number;
@@ -137,6 +147,12 @@ export class VirtualPatient {
     this.errorFactor = a;
     this.errorNoise = p.oximeter.precisionSd * Math.sqrt(1 - a * a);
     this.error = p.oximeter.precisionSd * this.random.normal();
+    // Events come as Poisson processes: each waits an exponential time for the next.
+    const suctionRate = profile.device === "ventilator" ? p.patient.suctionPerHour : 0;
+    this.nextDesaturation = waitSeconds(this.random, p.patient.desaturationPerHour);
+    this.nextSuction = waitSeconds(this.random, suctionRate);
+    this.nextArtefact = waitSeconds(this.random, p.oximeter.artefactPerHour);
+    this.nextProbeOff = waitSeconds(this.random, p.oximeter.probeOffPerHour);
     this.show();
   }
 
@@ -154,10 +170,13 @@ export class VirtualPatient {
       this.reposition = v.repositionShiftSd * r.normal();
     }
     if (t >= this.eventEnd) this.eventRise = 0;
-    if (r.chance(v.desaturationPerHour / 3600)) {
+    if (t >= this.nextDesaturation) {
+      this.nextDesaturation = t + waitSeconds(r, v.desaturationPerHour);
       this.eventRise = draw(r, v.desaturationRise);
       this.eventEnd = t + 60 * draw(r, v.desaturationMinutes);
-    } else if (this.profile.device === "ventilator" && r.chance(v.suctionPerHour / 3600)) {
+    }
+    if (t >= this.nextSuction) {
+      this.nextSuction = t + waitSeconds(r, v.suctionPerHour);
       this.eventRise = Math.max(this.eventRise, draw(r, v.suctionRise));
       this.eventEnd = Math.max(this.eventEnd, t + 60 * draw(r, v.suctionMinutes));
     }
@@ -174,12 +193,14 @@ export class VirtualPatient {
     // The oximeter.
     this.error = this.errorFactor * this.error + this.errorNoise * r.normal();
     if (t >= this.artefactEnd) this.artefactDrop = 0;
-    if (r.chance(o.artefactPerHour / 3600)) {
+    if (t >= this.nextArtefact) {
+      this.nextArtefact = t + waitSeconds(r, o.artefactPerHour);
       this.artefactDrop = draw(r, o.artefactDepth);
       this.artefactEnd = t + draw(r, o.artefactSeconds);
     }
-    if (t >= this.probeOffEnd && r.chance(o.probeOffPerHour / 3600)) {
+    if (t >= this.nextProbeOff) {
       this.probeOffEnd = t + 60 * r.logNormal(o.probeOffMedianMinutes, o.probeOffSigma);
+      this.nextProbeOff = this.probeOffEnd + waitSeconds(r, o.probeOffPerHour);
     }
     this.show();
   }
