@@ -1,6 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { forecastFio2Change } from "@/lib/oxygen";
 import {
+  CARE_MODELS,
   CHUNK_MS,
   DEFAULT_PARAMETERS,
   drawPatient,
@@ -129,6 +130,28 @@ describe("rehearsal measures", () => {
       if (p.spo2 < 88) below88 += p.to - p.from;
     });
     expect(stay.below88Ms).toBe(below88);
+  });
+});
+
+describe("care models", () => {
+  it("keep every applied FiO2 within the order's limits, and only the Tidemark workflow raises alerts", () => {
+    for (let i = 0; i < 4; i++) {
+      const profile = drawPatient(13, i, DEFAULT_PARAMETERS);
+      const { fio2Min, fio2Max } = profile.order.limits;
+      for (const model of CARE_MODELS) {
+        const seen = new Set<number>();
+        const stay = runStay(profile, model, 13, 12, DEFAULT_PARAMETERS, (_t, _spo2, fio2) => {
+          seen.add(fio2);
+        });
+        for (const fio2 of seen) {
+          expect(fio2).toBeGreaterThanOrEqual(fio2Min);
+          expect(fio2).toBeLessThanOrEqual(fio2Max);
+        }
+        expect(seen.size - 1).toBeLessThanOrEqual(stay.adjustments);
+        if (model === "tidemark") expect(stay.alerts).toBeGreaterThan(0);
+        else expect(stay.alerts).toBe(0);
+      }
+    }
   });
 });
 
