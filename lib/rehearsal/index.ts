@@ -48,6 +48,7 @@ export {
   DEFAULT_PARAMETERS,
   DEFAULT_BAND,
   defaultOrder,
+  orderFor,
   rehearsalBasis,
   type BasisEntry,
   type CareParameters,

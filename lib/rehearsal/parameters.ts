@@ -92,6 +92,12 @@ export type RehearsalParameters = {
   patient: PatientParameters;
   oximeter: OximeterParameters;
   care: CareParameters;
+  /**
+   * The protocol under rehearsal: the order (band, limits, step table) each
+   * device's patients get instead of {@link defaultOrder}. Orders take no
+   * random numbers, so two protocols on one seed meet the same patients.
+   */
+  protocol?: Partial<Record<DeviceKind, TitrationOrder>>;
 };
 
 export const DEFAULT_PARAMETERS: RehearsalParameters = {
@@ -232,6 +238,16 @@ export function rehearsalBasis(p: RehearsalParameters = DEFAULT_PARAMETERS): Bas
       value: `instant response every ${c.referenceEverySeconds} s`,
       source: "an upper bound, not a workflow",
     },
+    ...(["hfnc", "ventilator"] as const).map((device) => {
+      const o = orderFor(device, p);
+      return {
+        name: `Order, ${device === "hfnc" ? "high-flow nasal oxygen" : "ventilated"}`,
+        value: `SpO2 ${o.spo2Target.lower}–${o.spo2Target.upper} %, FiO2 ${o.limits.fio2Min}–${o.limits.fio2Max}, ${o.steps.length} steps`,
+        source: p.protocol?.[device]
+          ? "the protocol under rehearsal"
+          : "the default cohort's order",
+      };
+    }),
   ];
 }
 
@@ -244,6 +260,14 @@ const HFNC_STEPS: readonly OrderStep[] = [
 ].map((fio2) => ({ fio2, flow: 40 }));
 
 export type DeviceKind = "hfnc" | "ventilator";
+
+/** The order a device's patients get: the protocol's, else the default cohort's. */
+export function orderFor(
+  device: DeviceKind,
+  p: Pick<RehearsalParameters, "protocol">,
+): TitrationOrder {
+  return p.protocol?.[device] ?? defaultOrder(device);
+}
 
 /** The order each device gets in the default cohort. */
 export function defaultOrder(device: DeviceKind): TitrationOrder {

@@ -1,7 +1,7 @@
 import { alveolarPO2, saturationFromPO2, shuntArterialPO2 } from "../oxygen";
 import type { ProposedSetting, TitrationOrder } from "../oxygen";
 import { candidates, withinLimits } from "../oxygen/step-geometry";
-import { defaultOrder, type DeviceKind, type RehearsalParameters, type Span } from "./parameters";
+import { orderFor, type DeviceKind, type RehearsalParameters, type Span } from "./parameters";
 import { mixSeed, Random } from "./random";
 
 /** Who a virtual patient is: drawn once, the same for every care model. */
@@ -81,7 +81,7 @@ function startingSetting(
 export function drawPatient(seed: number, index: number, p: RehearsalParameters): PatientProfile {
   const random = new Random(mixSeed(seed, index, 1));
   const device: DeviceKind = random.chance(p.patient.ventilatedShare) ? "ventilator" : "hfnc";
-  const order = defaultOrder(device);
+  const order = orderFor(device, p);
   const base = {
     hemoglobin: draw(random, p.patient.hemoglobin),
     paco2: draw(random, p.patient.paco2),

@@ -1,9 +1,10 @@
 import { describe, expect, it } from "vitest";
-import { forecastFio2Change } from "@/lib/oxygen";
+import { ardsNetworkTable, forecastFio2Change } from "@/lib/oxygen";
 import {
   CARE_MODELS,
   CHUNK_MS,
   DEFAULT_PARAMETERS,
+  defaultOrder,
   drawPatient,
   Random,
   rehearsalBasis,
@@ -170,5 +171,53 @@ describe("rehearsal runs", () => {
       expect(entry.value).not.toBe("");
       expect(entry.source).not.toBe("");
     }
+  });
+});
+
+describe("a protocol under rehearsal", () => {
+  const higherPeep: RehearsalParameters = {
+    ...DEFAULT_PARAMETERS,
+    protocol: {
+      ventilator: {
+        ...defaultOrder("ventilator"),
+        // The ARDS Network higher-PEEP table (source: lib/oxygen ardsNetworkTableSource), in place of the lower-PEEP one.
+        steps: ardsNetworkTable("higher-peep"),
+      },
+    },
+  };
+
+  it("changes the orders, not the patients: the same seed meets the same cohort", () => {
+    let ventilated = 0;
+    for (let i = 0; i < 20; i++) {
+      const a = drawPatient(7, i, DEFAULT_PARAMETERS);
+      const b = drawPatient(7, i, higherPeep);
+      expect(b.hemoglobin).toBe(a.hemoglobin);
+      expect(b.startShunt).toBe(a.startShunt);
+      expect(b.device).toBe(a.device);
+      if (a.device === "ventilator") {
+        ventilated++;
+        expect(b.order.steps).toEqual(ardsNetworkTable("higher-peep"));
+        expect(a.order.steps).toEqual(ardsNetworkTable("lower-peep"));
+      } else expect(b.order).toEqual(a.order);
+    }
+    expect(ventilated).toBeGreaterThan(0);
+  });
+
+  it("repeats exactly, differs from the default where the orders differ, and names itself in the basis", () => {
+    const input = { seed: 11, patients: 6, hours: 4, models: ["fixed-interval" as const] };
+    const once = runRehearsal({ ...input, parameters: higherPeep });
+    const twice = runRehearsal({ ...input, parameters: higherPeep });
+    expect(twice.models).toEqual(once.models);
+    const base = runRehearsal(input);
+    const ventilatedIndex = once.stays.findIndex(
+      (_, i) => drawPatient(11, i, DEFAULT_PARAMETERS).device === "ventilator",
+    );
+    expect(ventilatedIndex).toBeGreaterThanOrEqual(0);
+    // A ventilated stay titrates along another table, so the FiO2 it is given differs.
+    expect(once.stays[ventilatedIndex]!.fio2HoursAboveRoomAir).not.toBe(
+      base.stays[ventilatedIndex]!.fio2HoursAboveRoomAir,
+    );
+    const basis = rehearsalBasis(higherPeep).find((b) => b.name === "Order, ventilated")!;
+    expect(basis.source).toBe("the protocol under rehearsal");
   });
 });
