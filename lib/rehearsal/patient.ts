@@ -40,12 +40,7 @@ export function steadySaturation(
   shunt: number,
   fio2: number,
 ): number {
-  const alveolar = alveolarPO2({
-    fio2,
-    paco2: profile.paco2,
-    barometricPressure: profile.barometricPressure,
-  });
-  return 100 * saturationFromPO2(shuntArterialPO2(profile.hemoglobin, alveolar, shunt));
+  return 100 * saturationFromPO2(steadyPao2(profile, shunt, fio2));
 }
 
 /** The arterial PO2 (mmHg) at steady state, for building a matching blood gas. */

@@ -37,12 +37,14 @@ async function context(knex: Knex, requested: ReportParams, now: Date) {
   const from = requested.from.getTime();
   const to = Math.max(from, Math.min(requested.to.getTime(), now.getTime()));
   const params = { ...requested, to: new Date(to) };
-  const unit = await loadUnit(knex, params.unitId);
+  const [unit, stays] = await Promise.all([
+    loadUnit(knex, params.unitId),
+    loadUnitStays(knex, params.unitId, params.from, params.to),
+  ]);
   const slots: TimeSlot[] =
     params.groupBy === "shift" || params.groupBy === "day"
       ? timeSlots(unit.pattern, params.groupBy, from, requested.to.getTime())
       : [];
-  const stays = await loadUnitStays(knex, unit.id, params.from, params.to);
   const names = await loadNames(knex, unit.id, stays);
   const segments = staySegments(stays, unit.id, from, to, slots);
   const always: GroupKey[] = slots.map((s) => ({
