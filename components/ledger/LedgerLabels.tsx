@@ -44,6 +44,8 @@ const ACTION_LABELS: Record<LedgerAction, string> & Record<string, string | unde
   "bed.update": "Bed changed",
   "assignment.set": "Shift assignments set",
   "handoff.acknowledge": "Handoff acknowledged",
+  "rehearsal.request": "Rehearsal requested",
+  "rehearsal.finish": "Rehearsal finished",
 };
 
 const ENTITY_LABELS: Record<LedgerEntityType, string> & Record<string, string | undefined> = {
@@ -57,6 +59,7 @@ const ENTITY_LABELS: Record<LedgerEntityType, string> & Record<string, string | 
   reading: "Reading",
   blood_gas: "Blood gas",
   step_table: "Step table",
+  rehearsal: "Rehearsal",
   alert: "Alert",
   import: "Import",
   api_token: "API token",

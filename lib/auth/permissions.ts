@@ -48,6 +48,8 @@ export const PERMISSIONS = {
   "user.manage": ["admin"],
   "api_token.manage": ["admin"],
   "step_table.manage": ["admin"],
+  /** Run a protocol rehearsal for one's unit (everyone on the unit reads the results). */
+  "rehearsal.run": ["physician", "admin"],
   /** The records of one's own units: Board, Chart, ledger, alerts, FHIR export. */
   "record.read": EVERYONE,
   /** Ledger rows and breaks outside any one unit (administration, every unit). */

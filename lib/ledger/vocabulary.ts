@@ -40,6 +40,8 @@ export const LEDGER_ACTIONS = [
   "bed.update",
   "assignment.set",
   "handoff.acknowledge",
+  "rehearsal.request",
+  "rehearsal.finish",
 ] as const;
 
 export type LedgerAction = (typeof LEDGER_ACTIONS)[number];
@@ -59,5 +61,6 @@ export const LEDGER_ENTITY_TYPES = [
   "api_token",
   "alert",
   "shift",
+  "rehearsal",
 ] as const;
 export type LedgerEntityType = (typeof LEDGER_ENTITY_TYPES)[number];

@@ -18,6 +18,8 @@ export type RehearsalInput = {
   hours: number;
   parameters?: RehearsalParameters;
   models?: readonly CareModel[];
+  /** Called after each patient (every care model), with patients done and asked for. */
+  onProgress?: (done: number, total: number) => void;
 };
 
 /** One care model over the cohort. Shares are fractions of the period (0–1). */
@@ -90,6 +92,7 @@ export function runRehearsal(input: RehearsalInput): RehearsalResult {
     const profile = drawPatient(input.seed, i, parameters);
     for (const model of models)
       stays.push(runStay(profile, model, input.seed, input.hours, parameters));
+    input.onProgress?.(i + 1, input.patients);
   }
   return {
     input: { seed: input.seed, patients: input.patients, hours: input.hours },

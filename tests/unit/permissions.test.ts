@@ -21,6 +21,7 @@ const TABLE: Record<Permission, Role[]> = {
   "user.manage": ["admin"],
   "api_token.manage": ["admin"],
   "step_table.manage": ["admin"],
+  "rehearsal.run": ["physician", "admin"],
   "record.read": ["physician", "therapist", "nurse", "reviewer", "admin"],
   "ledger.oversee": ["reviewer", "admin"],
   "account.self": ["physician", "therapist", "nurse", "reviewer", "admin"],
