@@ -20,11 +20,22 @@ const MAX_ATTEMPTS = 3;
 const PROGRESS_EVERY_MS = 500;
 
 /**
- * The thread loads the engine's TypeScript through tsx, from the checkout:
- * the server bundle cannot hold a worker's entry file.
+ * The thread bundles its entry with esbuild (about 0.1 s) and runs the
+ * bundle: the server's own bundle cannot hold a worker's entry file, and one
+ * bundled module runs the engine about a third faster than TypeScript loaded
+ * file by file.
  */
 const THREAD_FILE = path.join(process.cwd(), "lib", "rehearsal", "thread.ts");
-const BOOT = `require("tsx/cjs/api").register(); require(${JSON.stringify(THREAD_FILE)});`;
+const BOOT = `
+const { buildSync } = require("esbuild");
+const Module = require("node:module");
+const file = ${JSON.stringify(THREAD_FILE)};
+const built = buildSync({ entryPoints: [file], bundle: true, platform: "node", format: "cjs", write: false, logLevel: "silent" });
+const thread = new Module(file);
+thread.filename = file;
+thread.paths = Module._nodeModulePaths(${JSON.stringify(path.dirname(THREAD_FILE))});
+thread._compile(built.outputFiles[0].text, file);
+`;
 
 type Claimed = {
   id: number;
