@@ -2,7 +2,7 @@ import { randomInt } from "node:crypto";
 import type { Knex } from "knex";
 import { assertUnitAccess } from "../auth/actor-queries";
 import type { Actor } from "../auth/actor";
-import { NotFoundError, ValidationError } from "../errors";
+import { ConflictError, NotFoundError, ValidationError } from "../errors";
 import { appendLedger } from "../ledger/service";
 import { getStepTable, type StepTableView } from "../step-tables/queries";
 import { orderStepsOf } from "../step-tables/steps";
@@ -28,6 +28,12 @@ const tableRef = (t: StepTableView): RehearsalTableRef => ({
   builtIn: t.builtIn,
   rows: t.rows.length,
 });
+
+/**
+ * How many runs a unit may have waiting or running: the queue is worked one
+ * run at a time per process, so a unit cannot bury it.
+ */
+export const MAX_WAITING_PER_UNIT = 5;
 
 /** A table the unit may rehearse: active, built-in or the unit's own, of the device's kind. */
 async function usableTable(
@@ -65,6 +71,15 @@ export async function requestRehearsal(
 ): Promise<RehearsalView> {
   assertUnitAccess(actor, input.unitId);
   const id = await knex.transaction(async (trx) => {
+    const waiting = (await trx("rehearsals")
+      .where({ unit_id: input.unitId })
+      .whereIn("status", ["queued", "running"])
+      .count({ n: "*" })
+      .first()) as { n: number | string };
+    if (Number(waiting.n) >= MAX_WAITING_PER_UNIT)
+      throw new ConflictError(
+        `This unit already has ${MAX_WAITING_PER_UNIT} rehearsals waiting or running; ask again once one has finished.`,
+      );
     const ventilated = await usableTable(
       trx,
       input.ventilatedTableId,

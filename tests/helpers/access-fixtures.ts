@@ -2,7 +2,12 @@ import { randomBytes, randomUUID } from "node:crypto";
 import { hashApiToken } from "@/lib/api-tokens/service";
 import { hashPassword } from "@/lib/auth/password";
 import { ROLES, type Role } from "@/lib/auth/roles";
+import { alertConfig } from "@/lib/alerts/config";
+import { rehearsalFormDefaults } from "@/lib/rehearsal/form-defaults";
+import { rehearsalCreateSchema } from "@/lib/rehearsal/schema";
+import { requestRehearsal } from "@/lib/rehearsal/service";
 import { createStepTable } from "@/lib/step-tables/service";
+import { parseInput } from "@/lib/validation";
 import { DEMO_PASSWORD } from "./browser";
 import { actorByEmail, admitTestPatient, appDb, SEEDED, uniqueEmail } from "./db";
 import { Session } from "./http";
@@ -25,6 +30,7 @@ export type Shared = {
   alertId: number;
   importId: number;
   stepTableId: number;
+  rehearsalId: number;
 };
 
 export type World = {
@@ -252,12 +258,40 @@ export async function stepTable(unitId: number): Promise<{ id: number; version: 
   return { id: table.id, version: table.version };
 }
 
-/** One patient of the unit with an order, an open alert and a previewed upload; a unit step table. */
+/** A small rehearsal body for the unit (1 patient × 1 h on the published lower-PEEP table). */
+export async function rehearsalBody(unitId: number, label = "Matrix rehearsal") {
+  const lower = (await appDb()("step_tables")
+    .where({ code: "ardsnet-lower-peep" })
+    .first("id")) as { id: number };
+  const cfg = alertConfig();
+  return {
+    ...rehearsalFormDefaults({
+      unitId,
+      ventilatedTableId: lower.id,
+      detection: cfg,
+      escalateAfterMinutes: cfg.escalateAfterMs / 60_000,
+    }),
+    label,
+    patients: 1,
+    hours: 1,
+    seed: 1,
+  };
+}
+
+/** A unit's rehearsal, asked for by a seeded physician on both units. */
+async function rehearsal(unitId: number): Promise<number> {
+  const physician = await actorByEmail(SEEDED.physician);
+  const input = parseInput(rehearsalCreateSchema, await rehearsalBody(unitId));
+  return (await requestRehearsal(appDb(), physician, input)).id;
+}
+
+/** One patient of the unit with an order, an open alert and a previewed upload; a unit step table and a rehearsal. */
 async function sharedRecords(w: World, unit: UnitCode): Promise<void> {
   const { patientId, mrn, orderId } = await verbalOrder(w, unit);
   const alertId = await openAlert(w, unit, patientId);
   const stepTableId = (await stepTable(w.unitId[unit])).id;
-  w.shared[unit] = { patientId, mrn, orderId, alertId, stepTableId, importId: 0 };
+  const rehearsalId = await rehearsal(w.unitId[unit]);
+  w.shared[unit] = { patientId, mrn, orderId, alertId, stepTableId, rehearsalId, importId: 0 };
   // The upload names the shared patient, so it comes once the rest is in place.
   w.shared[unit].importId = (await previewedImport(w, unit)).importId;
 }

@@ -22,6 +22,7 @@ import {
 import type { Cell, RouteEntry } from "./access-matrix";
 import { ADT_ROUTES } from "./access-routes-adt";
 import { HANDOFF_ROUTES } from "./access-routes-handoff";
+import { REHEARSAL_ROUTES } from "./access-routes-rehearsals";
 import { REPORT_ROUTES } from "./access-routes-reports";
 import { UNIT_ROUTES } from "./access-routes-units";
 import { ASSIGNMENT_ROUTES } from "./access-routes-assignments";
@@ -489,6 +490,7 @@ export const ROUTE_ENTRIES: RouteEntry[] = [
   ...UNIT_ROUTES,
   ...HANDOFF_ROUTES,
   ...REPORT_ROUTES,
+  ...REHEARSAL_ROUTES,
 ].map((e) => ({
   ...e,
   via: "route",

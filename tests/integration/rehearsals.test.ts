@@ -1,6 +1,6 @@
 import { afterAll, describe, expect, it } from "vitest";
 import { closeDb } from "@/lib/db";
-import { ForbiddenError, NotFoundError, ValidationError } from "@/lib/errors";
+import { ConflictError, ForbiddenError, NotFoundError, ValidationError } from "@/lib/errors";
 import { alertConfig } from "@/lib/alerts/config";
 import { rehearsalFormDefaults } from "@/lib/rehearsal/form-defaults";
 import {
@@ -9,6 +9,7 @@ import {
   requestRehearsalOperation,
 } from "@/lib/rehearsal/operations";
 import { kickRehearsals, STALE_AFTER_MS } from "@/lib/rehearsal/runner";
+import { MAX_WAITING_PER_UNIT } from "@/lib/rehearsal/service";
 import { runRehearsal } from "@/lib/rehearsal";
 import type { RehearsalParameters } from "@/lib/rehearsal";
 import type { RehearsalCreateInput } from "@/lib/rehearsal/schema";
@@ -178,6 +179,42 @@ describe("rehearsals", () => {
     await expect(
       listRehearsalsOperation.invoke(appDb(), respPhysician, { unitId: run.unitId }),
     ).rejects.toBeInstanceOf(NotFoundError);
+  });
+
+  it("refuses a sixth run while a unit has five waiting or running, and takes it once one is done", async () => {
+    const physician = await actorByEmail(SEEDED.physician);
+    const base = await form({ patients: 1 });
+    await kickRehearsals(appDb());
+    // Five runs another process is working on (fresh heartbeats: nobody here claims them).
+    const template = (await appDb()("rehearsals").orderBy("id", "desc").first()) as Record<
+      string,
+      unknown
+    >;
+    const busy = await Promise.all(
+      Array.from({ length: MAX_WAITING_PER_UNIT }, async () => {
+        const [id] = await appDb()("rehearsals").insert({
+          ...template,
+          id: undefined,
+          status: "running",
+          claimed_by: "another-server",
+          heartbeat_at: new Date(),
+          outcome_json: null,
+        });
+        return Number(id);
+      }),
+    );
+    const refused = await requestRehearsalOperation
+      .invoke(appDb(), physician, base)
+      .catch((e: unknown) => e);
+    expect(refused).toBeInstanceOf(ConflictError);
+    expect((refused as ConflictError).message).toBe(
+      "This unit already has 5 rehearsals waiting or running; ask again once one has finished.",
+    );
+    await appDb()("rehearsals").whereIn("id", busy.slice(0, 1)).update({ status: "done" });
+    const taken = await requestRehearsalOperation.invoke(appDb(), physician, base);
+    expect(taken.status).toMatch(/queued|running/);
+    await appDb()("rehearsals").whereIn("id", busy).update({ status: "failed" });
+    await kickRehearsals(appDb());
   });
 
   it("claims a run again once its heartbeat stops, and finishes it once", async () => {

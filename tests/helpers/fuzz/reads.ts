@@ -102,6 +102,16 @@ export function parameterisedReads(all: Ids & ReadIds): Record<string, fc.Arbitr
         limit,
       }).map((q) => `/api/v1/alerts${q}`),
     ),
+    "GET /api/v1/rehearsals": read(
+      "GET /api/v1/rehearsals",
+      "nurse",
+      queryString({ unitId: ids(all.units) }).map((q) => `/api/v1/rehearsals${q}`),
+    ),
+    "GET /api/v1/rehearsals/[rehearsalId]": read(
+      "GET /api/v1/rehearsals/[rehearsalId]",
+      "nurse",
+      ids(all.units).map((id) => `/api/v1/rehearsals/${id}`),
+    ),
     "GET /api/v1/board": read(
       "GET /api/v1/board",
       "physician",

@@ -441,6 +441,12 @@ export function writeRoutes(ctx: Context): Record<string, fc.Arbitrary<FuzzCase>
     ),
     "POST /api/v1/imports/hl7": tokenRoute("hl7", ctx.token),
     "POST /api/v1/imports/monitor": tokenRoute("monitor", ctx.token),
+    "POST /api/v1/rehearsals": jsonWrite(
+      "POST /api/v1/rehearsals",
+      "physician",
+      fixed("/api/v1/rehearsals"),
+      refusedBody(specs.rehearsal),
+    ),
     "POST /api/v1/units": jsonWrite(
       "POST /api/v1/units",
       "admin",

@@ -74,6 +74,7 @@ export const WATCHED_TABLES = [
   "orders",
   "patients",
   "readings",
+  "rehearsals",
   "step_table_rows",
   "step_tables",
   "unit_charge_duties",

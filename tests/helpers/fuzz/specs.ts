@@ -29,6 +29,7 @@ import {
   RESPIRATORY_SUPPORTS,
 } from "@/lib/oxygenation/schema";
 import { readingSchema } from "@/lib/readings/schema";
+import { rehearsalCreateSchema } from "@/lib/rehearsal/schema";
 import {
   bedCreateSchema,
   bedUpdateSchema,
@@ -398,7 +399,37 @@ export function bodySpecs(ids: Ids) {
     },
   };
 
+  // Valid values keep every pair in order (lower < upper, urgent below the band).
+  const rehearsal: BodySpec = {
+    fields: {
+      unitId: int(1, undefined, pick(ids.units)),
+      label: str(1, 80),
+      ventilatedTableId: int(1),
+      hfncTableId: optional(int(1)),
+      spo2Lower: int(70, 100, fc.integer({ min: 88, max: 92 })),
+      spo2Upper: int(70, 100, fc.integer({ min: 94, max: 100 })),
+      ventilatedFio2Min: num(0.21, 1, { valid: fc.constantFrom(0.21, 0.3) }),
+      ventilatedFio2Max: num(0.21, 1, { valid: fc.constantFrom(0.8, 1) }),
+      peepMin: num(0, 30, { valid: fc.constantFrom(0, 5) }),
+      peepMax: num(0, 30, { valid: fc.constantFrom(18, 24) }),
+      hfncFio2Min: num(0.21, 1, { valid: fc.constant(0.21) }),
+      hfncFio2Max: num(0.21, 1, { valid: fc.constantFrom(0.6, 1) }),
+      sustainSeconds: int(10, 600),
+      sustainSharePct: int(50, 100),
+      urgentBelowPct: int(70, 92, fc.integer({ min: 70, max: 87 })),
+      urgentSustainSeconds: int(5, 120),
+      escalateAfterMinutes: int(1, 60),
+      nurseResponseMinutes: num(0.5, 60),
+      therapistMinutes: num(0.5, 60),
+      checkEveryMinutes: int(15, 240),
+      patients: int(1, 200, fc.integer({ min: 1, max: 3 })),
+      hours: int(1, 168, fc.integer({ min: 1, max: 3 })),
+      seed: optional(int(1, 2_147_483_647)),
+    },
+  };
+
   return {
+    rehearsal,
     admit,
     transfer,
     discharge,
@@ -432,6 +463,7 @@ export type BodySpecs = ReturnType<typeof bodySpecs>;
  * from its path (not from the body).
  */
 export const SCHEMAS: Record<keyof BodySpecs, { schema: z.ZodType; fromPath?: string[] }> = {
+  rehearsal: { schema: rehearsalCreateSchema },
   admit: { schema: admitSchema },
   transfer: { schema: transferSchema, fromPath: ["admissionId"] },
   discharge: { schema: dischargeSchema, fromPath: ["admissionId"] },

@@ -10,5 +10,4 @@ export const GET = readRoute(listRehearsalsOperation, {
 export const POST = writeRoute(requestRehearsalOperation, {
   respond: (rehearsal) => ({ rehearsal }),
   status: 202,
-  quota: "rehearsal",
 });
