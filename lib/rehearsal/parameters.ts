@@ -230,7 +230,7 @@ function basisOf(p: RehearsalParameters): BasisEntry[] {
     { name: "Routine therapist delay", value: delay(c.routineTherapist), source: ASSUMED },
     {
       name: "Alert detection",
-      value: `sustain ${c.detection.sustainMs / 1000} s at ${c.detection.sustainShare * 100} %, urgent ${c.detection.urgentSustainMs / 1000} s`,
+      value: `sustain ${c.detection.sustainMs / 1000} s at ${Math.round(c.detection.sustainShare * 100)} % out of band; urgent below ${c.detection.urgentBelowPct} % for ${c.detection.urgentSustainMs / 1000} s`,
       source: "the app's defaults (lib/alerts/detect.ts DEFAULT_DETECTION)",
     },
     { name: "Nurse response to an alert", value: delay(c.nurseResponse), source: ASSUMED },
