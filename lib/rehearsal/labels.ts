@@ -165,7 +165,8 @@ export function settingLines(view: Pick<RehearsalView, "settings" | "tables">): 
     { key: "hfncTable", label: "High-flow step table", value: view.tables.hfnc.name },
     ...NUMBER_SETTINGS.map((s) => ({
       key: s.name,
-      label: s.label,
+      // A stored run always has its seed.
+      label: s.label.replace(" (optional)", ""),
       value: settingValue(s, view.settings[s.name]),
     })),
   ];
