@@ -11,6 +11,7 @@ export const QUOTAS = {
   ledger_export: { perMinute: 10, what: "ledger exports" },
   fhir_export: { perMinute: 30, what: "FHIR exports" },
   forecast: { perMinute: 120, what: "forecasts" },
+  rehearsal: { perMinute: 6, what: "rehearsals" },
 } as const;
 export type QuotaBucket = keyof typeof QUOTAS;
 

@@ -14,6 +14,8 @@ import { admitPatient, dischargePatient, transferPatient } from "../../lib/admis
 import { bloodGasSchema, type BloodGasInput } from "../../lib/blood-gases/schema";
 import { orderInputSchema } from "../../lib/orders/schema";
 import { readingSchema, type ReadingInput } from "../../lib/readings/schema";
+import { stepTableCreateSchema } from "../../lib/step-tables/schema";
+import { createStepTable } from "../../lib/step-tables/service";
 import { parseInput } from "../../lib/validation";
 import { DEMO_PASSWORD } from "../demo/people";
 
@@ -261,6 +263,33 @@ export async function seed(knex: Knex): Promise<void> {
       therapist: await actorFor("saoirse.mendez@kestrel.example"),
     },
   };
+  // MICU's own FiO2/PEEP table (invented): FiO2 first at low PEEP, for the
+  // Rehearsals page to set against the published lower-PEEP table.
+  await createStepTable(
+    knex,
+    await actorFor("wren.achterberg@kestrel.example"),
+    parseInput(stepTableCreateSchema, {
+      unitId: ((await knex("units").where({ code: "MICU" }).first("id")) as { id: number }).id,
+      name: "MICU conservative PEEP ladder",
+      kind: "fio2_peep",
+      source: "MICU's own table (invented for the demo)",
+      rationale: "Unit table to rehearse against the published tables",
+      rows: [
+        [0.3, 5],
+        [0.4, 5],
+        [0.4, 8],
+        [0.5, 8],
+        [0.5, 10],
+        [0.6, 10],
+        [0.7, 10],
+        [0.7, 12],
+        [0.8, 12],
+        [0.9, 14],
+        [1, 14],
+        [1, 16],
+      ].map(([fio2, peep]) => ({ fio2Min: fio2, fio2Max: fio2, peepMin: peep, peepMax: peep })),
+    }),
+  );
   const tables = Object.fromEntries(
     ((await knex("step_tables").select("id", "code")) as { id: number; code: string }[]).map(
       (t) => [t.code, t.id],

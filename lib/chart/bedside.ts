@@ -6,13 +6,13 @@ import {
   proposeStep,
   type OrderStep,
   type Proposal,
-  type SettingValue,
 } from "../oxygen";
 import type { Device } from "../devices";
 import { alertConfig } from "../alerts/config";
 import { gasAgeCaveat, gasFreshness, type GasFreshness } from "../blood-gases/freshness";
 import { getEnv } from "../env";
 import { findReadableAdmission, type OpenAdmission } from "../admissions/access";
+import { orderStepsOf } from "../step-tables/steps";
 
 export type BedsideSettings = {
   device: Device;
@@ -65,9 +65,7 @@ export type BedsideContext = {
   proposalError: string | null;
 };
 
-const asSetting = (min: number | null, max: number | null): SettingValue | undefined =>
-  min === null || max === null ? undefined : min === max ? min : [min, max];
-
+/** The steps of the order's table, as the engine takes them. */
 export async function loadSteps(knex: Knex, stepTableId: number | null): Promise<OrderStep[]> {
   if (stepTableId === null) return [];
   const rows = (await knex("step_table_rows")
@@ -79,14 +77,15 @@ export async function loadSteps(knex: Knex, stepTableId: number | null): Promise
     peep_max_cmh2o: number | null;
     flow_l_min: number | null;
   }[];
-  return rows.map((r) => {
-    const peep = asSetting(r.peep_min_cmh2o, r.peep_max_cmh2o);
-    return {
-      fio2: asSetting(r.fio2_min, r.fio2_max)!,
-      ...(peep !== undefined ? { peep } : {}),
-      ...(r.flow_l_min !== null ? { flow: r.flow_l_min } : {}),
-    };
-  });
+  return orderStepsOf(
+    rows.map((r) => ({
+      fio2Min: r.fio2_min,
+      fio2Max: r.fio2_max,
+      peepMin: r.peep_min_cmh2o,
+      peepMax: r.peep_max_cmh2o,
+      flow: r.flow_l_min,
+    })),
+  );
 }
 
 /**

@@ -155,8 +155,20 @@ export type BasisEntry = { name: string; value: string; source: string };
 const span = (s: Span, unit = "") => `${s.low}–${s.high}${unit}`;
 const delay = (d: Delay) => `median ${d.medianMinutes} min, log-normal σ ${d.sigma}`;
 
-/** The defaults' basis, for the run's basis view. */
+/**
+ * Every figure of a run with its source, for the run's basis view; a figure
+ * set for the run (not the default) says so and keeps the default's source.
+ */
 export function rehearsalBasis(p: RehearsalParameters = DEFAULT_PARAMETERS): BasisEntry[] {
+  const defaults = basisOf(DEFAULT_PARAMETERS);
+  return basisOf(p).map((entry, i) => {
+    const d = defaults[i]!;
+    if (entry.value === d.value || entry.name.startsWith("Order,")) return entry;
+    return { ...entry, source: `set for this run; the default ${d.value}: ${d.source}` };
+  });
+}
+
+function basisOf(p: RehearsalParameters): BasisEntry[] {
   const { patient: v, oximeter: o, care: c } = p;
   return [
     { name: "Starting shunt, high-flow nasal oxygen", value: span(v.hfncShunt), source: ASSUMED },

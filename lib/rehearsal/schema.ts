@@ -62,7 +62,8 @@ export const rehearsalCreateSchema = z
     seed: optionalNumber(whole("Seed", R.seed)),
   })
   .superRefine((o, ctx) => {
-    const issue = (path: string, message: string) => ctx.addIssue({ code: "custom", path: [path], message });
+    const issue = (path: string, message: string) =>
+      ctx.addIssue({ code: "custom", path: [path], message });
     if (o.spo2Lower >= o.spo2Upper)
       issue("spo2Upper", "SpO2 upper bound must be above the lower bound.");
     if (o.ventilatedFio2Min > o.ventilatedFio2Max)
