@@ -14,7 +14,7 @@ import { Button } from "@/components/ui/Button";
 import { Field, inputClasses } from "@/components/ui/Field";
 import { SelectField } from "@/components/ui/SelectField";
 import { toNumber } from "@/lib/number-input";
-import { DEFAULT_HFNC_LADDER, NUMBER_SETTINGS, SETTING_GROUPS } from "@/lib/rehearsal/labels";
+import { DEFAULT_HFNC_OPTION, NUMBER_SETTINGS, SETTING_GROUPS } from "@/lib/rehearsal/labels";
 import {
   rehearsalCreateSchema,
   type RehearsalCreateData,
@@ -132,7 +132,7 @@ export function RehearsalForm({
                   name="hfncTableId"
                   label="High-flow patients' step table (flow/FiO2)"
                   options={hfncTables.map((t) => ({ value: String(t.id), label: t.name }))}
-                  emptyLabel={DEFAULT_HFNC_LADDER}
+                  emptyLabel={DEFAULT_HFNC_OPTION}
                   defaultValue=""
                   registerOptions={{ setValueAs: toNumber }}
                 />

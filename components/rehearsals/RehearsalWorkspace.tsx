@@ -51,14 +51,17 @@ export function RehearsalWorkspace({
   const router = useRouter();
   const searchParams = useSearchParams();
   const search = searchParams.toString();
-  const chosen = useMemo(() => {
+  const fromAddress = useMemo(() => {
     const params = new URLSearchParams(search);
     return parseRehearsalSearch({
       run: params.get("run") ?? undefined,
       compare: params.get("compare") ?? undefined,
     }).runs;
   }, [search]);
-  const [justQueued, setJustQueued] = useState<number | null>(null);
+  // A choice shows at once; the address (and the server's answer) follow.
+  const [optimistic, setOptimistic] = useState<{ runs: number[]; from: string } | null>(null);
+  const chosen = optimistic && optimistic.from === search ? optimistic.runs : fromAddress;
+  const [queued, setQueued] = useState<RehearsalView | null>(null);
 
   const list = useSWR<RehearsalListItem[], ApiRequestError>(listUrl(unit.id), fetchRuns, {
     fallbackData: initialRuns,
@@ -69,16 +72,19 @@ export function RehearsalWorkspace({
   const { mutate: mutateList } = list;
   const refreshList = useCallback(() => void mutateList(), [mutateList]);
 
-  const initial = (id: number | undefined) => initialViews.find((v) => v.id === id);
+  const initial = (id: number | undefined) =>
+    initialViews.find((v) => v.id === id) ?? (queued && queued.id === id ? queued : undefined);
   const [idA, idB] = [chosen[0] ?? null, chosen[1] ?? null];
   const runA = useRun(idA, initial(chosen[0]), refreshList);
   const runB = useRun(idB, initial(chosen[1]), refreshList);
 
-  const go = (runs: readonly number[]) =>
+  const go = (runs: readonly number[]) => {
+    setOptimistic({ runs: [...runs], from: search });
     router.push(rehearsalHref(unit.id, runs), { scroll: false });
+  };
 
   const onQueued = (run: RehearsalView) => {
-    setJustQueued(run.id);
+    setQueued(run);
     void mutateList((runs) => [listItem(run), ...(runs ?? []).filter((r) => r.id !== run.id)], {
       revalidate: true,
     });
@@ -137,7 +143,7 @@ export function RehearsalWorkspace({
           error={swr.error}
           onRetry={() => void swr.mutate()}
           timeZone={unit.timeZone}
-          focusOnMount={justQueued === id}
+          focusOnMount={queued?.id === id}
         />
       ))}
     </div>

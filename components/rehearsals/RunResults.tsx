@@ -47,8 +47,10 @@ export function ModelTiles({ outcome, runId }: { outcome: RehearsalOutcome; runI
   );
 }
 
-const tableWords = (t: RehearsalTableRef) =>
-  `${t.name}${t.rows ? `, ${t.rows} steps` : ""}${t.builtIn ? ", published" : t.id === null ? "" : ", the unit's own"}${t.source ? ` (${t.source})` : ""}`;
+function tableWords(t: RehearsalTableRef): string {
+  const kind = t.id === null ? "" : t.builtIn ? ", published" : ", the unit's own";
+  return `${t.name}${t.rows ? `, ${t.rows} steps` : ""}${kind}${t.source ? ` (${t.source})` : ""}`;
+}
 
 /** The basis: every figure the run used with its source, its settings and its tables. */
 export function RunBasis({ view }: { view: RehearsalView }) {

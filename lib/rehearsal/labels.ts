@@ -146,9 +146,8 @@ export const NUMBER_SETTINGS: readonly NumberSetting[] = [
   },
 ];
 
-/** The label of the default high-flow ladder (no stored table: an empty choice). */
-export const DEFAULT_HFNC_LADDER =
-  "Default high-flow ladder (40 L/min; FiO2 0.21–0.5 in 0.05 steps, then 0.1 steps to 1)";
+/** The default high-flow ladder's option (no stored table: the empty choice), as a run names it. */
+export const DEFAULT_HFNC_OPTION = "Default high-flow ladder (FiO2 0.21–1, 40 L/min)";
 
 /** A setting's value as the basis view writes it (FiO2 with two places). */
 export function settingValue(setting: NumberSetting, value: number): string {
