@@ -140,7 +140,7 @@ export function RunResults({
       <ModelTiles outcome={outcome} runId={view.id} />
       <section
         aria-label={`${spec.title}, run #${view.id}`}
-        className="grid min-w-0 gap-4 lg:grid-cols-2 print:grid-cols-1"
+        className="grid min-w-0 gap-4 lg:grid-cols-[minmax(0,2fr)_minmax(0,3fr)] print:grid-cols-1"
       >
         <ReportChart spec={spec} id={`rehearsal-${view.id}-shares`} />
         <RehearsalTableView

@@ -78,14 +78,16 @@ export function SideBySide({
     return (
       <>
         <SettingDiffList a={a} b={b} />
-        <div className="grid min-w-0 gap-4 lg:grid-cols-2 print:grid-cols-1">
-          <ReportChart spec={spec} id={`compare-${a.id}-${b.id}`} />
+        <div className="grid min-w-0 gap-4 lg:grid-cols-[minmax(0,2fr)_minmax(0,3fr)] print:grid-cols-1">
+          <div className="min-w-0 lg:sticky lg:top-4 lg:self-start">
+            <ReportChart spec={spec} id={`compare-${a.id}-${b.id}`} />
+          </div>
           <RehearsalTableView
             table={compareTable(runA, runB)}
             runs={[a, b]}
             timeZone={timeZone}
             caption={`Run A, ${runName(a)}, and run B, ${runName(b)}, side by side`}
-            note="Differences of shares are in percentage points; rates are per patient-day."
+            note={`Run A: ${runName(a)}. Run B: ${runName(b)}. Differences of shares are in percentage points; rates are per patient-day.`}
           />
         </div>
       </>

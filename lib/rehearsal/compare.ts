@@ -9,7 +9,9 @@ import type { RehearsalView } from "./views";
  * Two runs side by side: which settings differ, one table with a column per
  * run and the difference for each measure and care model, and the grouped
  * chart of time in band. Run A is the one chosen first; the difference is
- * B − A. Pure, no framework.
+ * B − A. Columns and legends name runs by letter and number ("Run A (#12)"),
+ * so they fit a phone; the page names both in full above them, the CSV in
+ * its first line. Pure, no framework.
  */
 
 type Run = Pick<RehearsalView, "id" | "label" | "settings" | "tables">;
@@ -55,13 +57,13 @@ export function compareTable(a: DoneRun, b: DoneRun): RehearsalTable {
   const find = (run: DoneRun, model: CareModel) => run.models.find((s) => s.model === model)!;
   return {
     id: "compare",
-    title: "Side by side",
+    title: "Measures of run A and run B",
     columns: [
       { key: "measure", label: "Measure", format: "text" },
       { key: "model", label: "Care model", format: "text" },
-      { key: "a", label: `A: ${runName(a)}`, format: "dec2" },
-      { key: "b", label: `B: ${runName(b)}`, format: "dec2" },
-      { key: "difference", label: "Difference (B − A)", format: "dec2", signed: true },
+      { key: "a", label: `Run A (#${a.id})`, format: "dec2" },
+      { key: "b", label: `Run B (#${b.id})`, format: "dec2" },
+      { key: "difference", label: "B − A", format: "dec2", signed: true },
     ],
     rows: MODEL_MEASURES.flatMap((measure) =>
       models.map((model) => {
@@ -91,8 +93,8 @@ export function compareChart(a: DoneRun, b: DoneRun): ChartSpec {
     unit: "% of patient time",
     stacked: false,
     series: [
-      { key: "a", label: `A: ${runName(a)}`, tone: "neutral" },
-      { key: "b", label: `B: ${runName(b)}`, tone: "unknown" },
+      { key: "a", label: `Run A (#${a.id})`, tone: "neutral" },
+      { key: "b", label: `Run B (#${b.id})`, tone: "unknown" },
     ],
     points: sharedModels(a, b).map((model) => ({
       key: model,

@@ -7,7 +7,8 @@ import type { RehearsalView } from "./views";
 /**
  * A rehearsal's table as CSV, as the Reports page writes its own: a first
  * line naming the table and the run (name, number, unit, seed, cohort and when
- * it was asked for, on the unit's clock), then the column header and the rows.
+ * it was asked for, on the unit's clock; two runs as A and B), then the
+ * column header and the rows.
  * Numbers are written as stored (no thousands separators, a point for
  * decimals); an empty value is an empty field; text a spreadsheet would run as
  * a formula is defused by papaparse's escapeFormulae. Pure: the download
@@ -29,7 +30,9 @@ export function rehearsalCsv(
   runs: readonly CsvRun[],
   timeZone: string,
 ): string {
-  const heading = `Protocol rehearsal: ${table.title}; ${runs.map((r) => runLine(r, timeZone)).join("; ")}`;
+  const letter = (i: number) => (runs.length > 1 ? `${String.fromCharCode(65 + i)}: ` : "");
+  const named = runs.map((r, i) => `${letter(i)}${runLine(r, timeZone)}`).join("; ");
+  const heading = `Protocol rehearsal: ${table.title}; ${named}`;
   const body = Papa.unparse(
     {
       fields: table.columns.map((c) => c.label),

@@ -16,10 +16,10 @@ export const CARE_MODEL_LABELS: Record<CareModel, string> = {
 };
 
 export const CARE_MODEL_NOTES: Record<CareModel, string> = {
-  "fixed-interval": "a routine check at a fixed interval; the therapist moves one step after it",
+  "fixed-interval": "A routine check at a fixed interval; the therapist moves one step after it.",
   tidemark:
-    "the app's alerts reach a nurse (escalated when unanswered); the therapist applies the proposal",
-  reference: "an instant response every 30 s: an upper bound, not a workflow",
+    "The app's alerts reach a nurse (escalated when unanswered); the therapist applies the proposal.",
+  reference: "An instant response every 30 s: an upper bound, not a workflow.",
 };
 
 /** The care models in the order the page shows them. */

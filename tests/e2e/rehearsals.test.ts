@@ -41,9 +41,10 @@ async function runRehearsal(page: Page, name: string, table: string): Promise<nu
   await page.getByLabel("Patients", { exact: true }).fill("12");
   await page.getByLabel("Length of each stay (h)").fill("24");
   await page.getByLabel("Seed (optional)").fill("2021");
+  const before = new URL(page.url()).searchParams.get("run");
   await page.getByRole("button", { name: "Run rehearsal" }).click();
   // The new run is chosen in the address and its progress shows while the worker has it.
-  await page.waitForURL(/[?&]run=\d+/);
+  await page.waitForURL((url) => (url.searchParams.get("run") ?? before) !== before);
   const id = Number(new URL(page.url()).searchParams.get("run"));
   const view = page.getByTestId(`run-view-${id}`);
   await view.getByRole("progressbar", { name: "Rehearsal progress" }).waitFor();
@@ -118,10 +119,14 @@ describe("Protocol rehearsal", () => {
       expect(headers).toEqual([
         "Measure",
         "Care model",
-        `A: MICU ladder, 92–96 % (#${made.ladder})`,
-        `B: ARDS lower PEEP, 92–96 % (#${made.lower})`,
-        "Difference (B − A)",
+        `Run A (#${made.ladder})`,
+        `Run B (#${made.lower})`,
+        "B − A",
       ]);
+      // Both runs by name, beside the table and in the heading.
+      expect(await table.innerText()).toContain(
+        `Run A: MICU ladder, 92–96 % (#${made.ladder}). Run B: ARDS lower PEEP, 92–96 % (#${made.lower}).`,
+      );
       const pooled = table
         .getByRole("row")
         .filter({ hasText: "In band, pooled (%)" })
@@ -161,17 +166,18 @@ describe("Protocol rehearsal", () => {
       // The side by side's CSV names both runs.
       const [both] = await Promise.all([
         page.waitForEvent("download"),
-        compare.getByRole("button", { name: "Download CSV: Side by side" }).click(),
+        compare.getByRole("button", { name: "Download CSV: Measures of run A and run B" }).click(),
       ]);
       expect(both.suggestedFilename()).toBe(
         `rehearsal-${made.ladder}-vs-${made.lower}-compare.csv`,
       );
       const bothLines = (await readFile((await both.path())!, "utf8")).trim().split(/\r\n/);
-      expect(bothLines[0]).toContain(`Run #${made.ladder}`);
-      expect(bothLines[0]).toContain(`Run #${made.lower}`);
+      expect(bothLines[0]).toContain(`; A: Run #${made.ladder} “MICU ladder, 92–96 %”, MICU,`);
+      expect(bothLines[0]).toContain(`; B: Run #${made.lower} “ARDS lower PEEP, 92–96 %”, MICU,`);
       expect(bothLines[1]).toBe(
-        `Measure,Care model,"A: MICU ladder, 92–96 % (#${made.ladder})","B: ARDS lower PEEP, 92–96 % (#${made.lower})",Difference (B − A)`,
+        `Measure,Care model,Run A (#${made.ladder}),Run B (#${made.lower}),B − A`,
       );
+      expect(bothLines).toHaveLength(2 + 11 * 3);
     } finally {
       await context.close();
     }

@@ -50,9 +50,9 @@ describe("two runs side by side", () => {
     expect(table.columns.map((c) => c.label)).toEqual([
       "Measure",
       "Care model",
-      "A: Lower PEEP, 92–96 % (#12)",
-      "B: MICU conservative PEEP ladder (#14)",
-      "Difference (B − A)",
+      "Run A (#12)",
+      "Run B (#14)",
+      "B − A",
     ]);
     expect(table.rows).toHaveLength(11 * 3);
     const row = (measure: string, model: string) =>

@@ -30,10 +30,11 @@ describe("a rehearsal's CSV", () => {
       { ...b, models: b.outcome!.models },
     );
     const rows = Papa.parse<string[]>(rehearsalCsv(table, [run, b], "UTC").trim()).data;
-    expect(rows[0]![0]).toContain("Run #12 “Lower PEEP, 92–96 %”");
-    expect(rows[0]![0]).toContain("Run #14");
-    // A name a spreadsheet would run is defused.
-    expect(rows[1]![3]!.startsWith("B: =")).toBe(true);
+    // Run A and run B by letter; a name a spreadsheet would run stays inside the text.
+    expect(rows[0]![0]).toBe(
+      "Protocol rehearsal: Measures of run A and run B; A: Run #12 “Lower PEEP, 92–96 %”, MICU, seed 42, 2 patients × 24 h, asked for 2026-12-03 08:15 (UTC); B: Run #14 “=cmd|' /C calc'!A0”, MICU, seed 42, 2 patients × 24 h, asked for 2026-12-03 08:15 (UTC)",
+    );
+    expect(rows[1]).toEqual(["Measure", "Care model", "Run A (#12)", "Run B (#14)", "B − A"]);
     expect(rows[2]).toEqual(["In band, median (%)", "Fixed-interval routine", "70", "70", "0"]);
   });
 

@@ -126,13 +126,10 @@ describe("two runs side by side", () => {
     const headers = within(table)
       .getAllByRole("columnheader")
       .map((h) => h.textContent);
-    expect(headers).toEqual([
-      "Measure",
-      "Care model",
-      "A: Lower PEEP, 92–96 % (#12)",
-      "B: MICU conservative PEEP ladder (#14)",
-      "Difference (B − A)",
-    ]);
+    expect(headers).toEqual(["Measure", "Care model", "Run A (#12)", "Run B (#14)", "B − A"]);
+    expect(screen.getByTestId("rehearsal-table-compare").textContent).toContain(
+      "Run A: Lower PEEP, 92–96 % (#12). Run B: MICU conservative PEEP ladder (#14).",
+    );
     const row = within(table)
       .getAllByRole("row")
       .find((r) => r.textContent?.startsWith("In band, pooled (%)Tidemark workflow"))!;
@@ -142,6 +139,8 @@ describe("two runs side by side", () => {
         .map((c) => c.textContent),
     ).toEqual(["Tidemark workflow", "80.0", "85.0", "+5.0"]);
     expect(screen.getByRole("figure").textContent).toContain("Time in band (pooled) by care model");
-    expect(screen.getByRole("button", { name: "Download CSV: Side by side" })).toBeTruthy();
+    expect(
+      screen.getByRole("button", { name: "Download CSV: Measures of run A and run B" }),
+    ).toBeTruthy();
   });
 });
