@@ -48,6 +48,7 @@ export function RehearsalTableView({
   caption,
   note,
   headingLevel = 3,
+  compact = false,
 }: {
   table: RehearsalTable;
   runs: readonly CsvRun[];
@@ -56,7 +57,10 @@ export function RehearsalTableView({
   caption: string;
   note?: ReactNode;
   headingLevel?: 3 | 4;
+  /** Smaller type and padding on a phone, so a narrow table fits without scrolling. */
+  compact?: boolean;
 }) {
+  const cell = compact ? "px-1.5 py-1 sm:px-2 sm:py-1.5" : "px-2 py-1.5";
   const headingId = `${table.id}-${runs.map((r) => r.id).join("-")}-heading`;
   const Heading = headingLevel === 3 ? "h3" : "h4";
   return (
@@ -80,7 +84,7 @@ export function RehearsalTableView({
         </p>
       ) : (
         <div className="overflow-x-auto rounded-card border border-border bg-surface print:overflow-visible">
-          <table className="w-full text-sm">
+          <table className={`w-full ${compact ? "text-xs sm:text-sm" : "text-sm"}`}>
             <caption className="sr-only">{caption}</caption>
             <thead className="bg-surface-muted text-left text-xs text-ink-muted">
               <tr>
@@ -88,7 +92,7 @@ export function RehearsalTableView({
                   <th
                     key={c.key}
                     scope="col"
-                    className={`px-2 py-1.5 font-semibold ${i > 0 && c.format !== "text" ? "text-right" : ""}`}
+                    className={`${cell} font-semibold ${i > 0 && c.format !== "text" ? "text-right" : ""}`}
                   >
                     {c.label}
                   </th>
@@ -100,17 +104,13 @@ export function RehearsalTableView({
                 <tr key={row.key} className="border-t border-border">
                   {table.columns.map((column, i) =>
                     i === 0 ? (
-                      <th
-                        key={column.key}
-                        scope="row"
-                        className="px-2 py-1.5 text-left font-medium"
-                      >
+                      <th key={column.key} scope="row" className={`${cell} text-left font-medium`}>
                         {cellText(table, row, i)}
                       </th>
                     ) : (
                       <td
                         key={column.key}
-                        className={`tabular px-2 py-1.5 ${column.format !== "text" ? "text-right" : ""}`}
+                        className={`tabular ${cell} ${column.format !== "text" ? "text-right" : ""}`}
                       >
                         {cellText(table, row, i)}
                       </td>

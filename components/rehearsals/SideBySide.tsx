@@ -86,6 +86,7 @@ export function SideBySide({
             table={compareTable(runA, runB)}
             runs={[a, b]}
             timeZone={timeZone}
+            compact
             caption={`Run A, ${runName(a)}, and run B, ${runName(b)}, side by side`}
             note={`Run A: ${runName(a)}. Run B: ${runName(b)}. Differences of shares are in percentage points; rates are per patient-day.`}
           />

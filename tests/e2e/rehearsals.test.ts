@@ -203,6 +203,23 @@ describe("Protocol rehearsal", () => {
     }
   });
 
+  it("keeps another unit's runs away from a reviewer of one unit", async () => {
+    expect(made.lower).toBeGreaterThan(0);
+    const context = await browser.newContext();
+    const page = await context.newPage();
+    try {
+      await signInThroughForm(page, "rafael.ostrowski@kestrel.example");
+      await page.waitForURL((url) => !url.pathname.startsWith("/sign-in"));
+      const own = await page.goto(`${BASE_URL}/rehearsals`);
+      expect(own?.status()).toBe(200);
+      await page.getByRole("heading", { name: "Runs on RESP" }).waitFor();
+      expect((await page.goto(`${BASE_URL}/rehearsals?unit=${made.unitId}`))?.status()).toBe(404);
+      expect((await page.goto(`${BASE_URL}/rehearsals?run=${made.lower}`))?.status()).toBe(404);
+    } finally {
+      await context.close();
+    }
+  });
+
   it("fits a phone: nothing wider than 390 px with two runs side by side, in both themes", async () => {
     expect(made.ladder).toBeGreaterThan(0);
     for (const theme of ["day", "night"]) {
