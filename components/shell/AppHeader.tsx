@@ -23,6 +23,7 @@ function navFor(role: Role): NavItem[] {
   items.push({ href: "/handoff", label: "Handoff" });
   items.push({ href: "/ledger", label: "Ledger" });
   items.push({ href: "/reports", label: "Reports" });
+  items.push({ href: "/rehearsals", label: "Rehearsals" });
   if (can({ role }, "import.upload")) items.push({ href: "/imports", label: "Uploads" });
   if (can({ role }, "user.manage")) items.push({ href: "/admin/users", label: "Users" });
   if (can({ role }, "unit.manage")) items.push({ href: "/admin/units", label: "Units" });
