@@ -37,7 +37,7 @@ export function forecastAccuracyBasis(
       )
         .map((r) => r.label.toLowerCase())
         .join("; ")}. None is left out silently.`,
-      source: "The app's definition.",
+      source: "The app's definition (assumed; no published source).",
     },
     {
       key: "error",
@@ -69,14 +69,14 @@ export function forecastAccuracyBasis(
       label: "Coverage of the shown range",
       definition:
         "Share of pairs whose measured PaO2 lies within the range shown with the forecast (the lowest to the highest of the three models, inclusive), with the counts below and above it. One figure for all three models: the range is theirs together.",
-      source: "The app's definition.",
+      source: "The app's definition (assumed; no published source).",
     },
     {
       key: "closest",
       label: "Closest model",
       definition:
         "The model with the lowest median absolute error over the pairs; at a tie, every tied model is named.",
-      source: "The app's definition.",
+      source: "The app's definition (assumed; no published source).",
     },
     {
       key: "fio2StepBand",

@@ -149,17 +149,17 @@ function checkOne(
 
   const venous = gases.find((g) => g.sampleType === "venous" && inWindow(g) && at(g) < stopAt);
   const venousNote = venous
-    ? ` A venous gas (gas ${venous.id}) at ${after(at(venous))} was not used: venous gases never are.`
+    ? ` A venous gas (gas ${venous.id}, ${after(at(venous))}) was not used: venous gases never are.`
     : "";
 
   if (stop && stop.at <= closes) {
     const blocked = arterial.find(inWindow);
     const what =
       stop.kind === "adjustment"
-        ? `FiO2 or PEEP was changed again (adjustment ${stop.id}) at ${after(stop.at)}`
-        : `The order changed at ${after(stop.at)}`;
+        ? `FiO2 or PEEP was changed again (adjustment ${stop.id}) ${after(stop.at)}`
+        : `The order changed ${after(stop.at)}`;
     const gasNote = blocked
-      ? `, before the first arterial gas in the window (gas ${blocked.id} at ${after(at(blocked))})`
+      ? `, before the first arterial gas in the window (gas ${blocked.id}, ${after(at(blocked))})`
       : `, and no arterial gas came before it in the ${window} window`;
     return unchecked(
       stop.kind === "adjustment" ? "changed_again" : "order_changed",
@@ -171,28 +171,28 @@ function checkOne(
   if (venous) {
     return unchecked(
       "venous_only",
-      `The only gas in the ${window} window was venous (gas ${venous.id} at ${after(at(venous))}); venous gases are never used.`,
+      `The only gas in the ${window} window was venous (gas ${venous.id}, ${after(at(venous))}); venous gases are never used.`,
       venous,
     );
   }
   const early = arterial.filter((g) => at(g) > t0 && at(g) < opens);
   const late = arterial.find((g) => at(g) > closes);
   const lateNote = late
-    ? `the next arterial gas (gas ${late.id}) came at ${after(at(late))}, after the window closed`
+    ? `the next arterial gas (gas ${late.id}) came ${after(at(late))}, after the window closed`
     : "no arterial gas came in the window";
   const firstEarly = early[0];
   if (firstEarly) {
     const count = early.length === 1 ? "arterial gas" : `first of ${early.length} arterial gases`;
     return unchecked(
       "gas_too_early",
-      `The ${count} after the change (gas ${firstEarly.id}) was sampled at ${after(at(firstEarly))}, before the ${window} window opened; ${lateNote}.`,
+      `The ${count} after the change (gas ${firstEarly.id}) was sampled ${after(at(firstEarly))}, before the ${window} window opened; ${lateNote}.`,
       firstEarly,
     );
   }
   if (late) {
     return unchecked(
       "gas_too_late",
-      `The first arterial gas after the change (gas ${late.id}) was sampled at ${after(at(late))}, after the ${window} window closed.`,
+      `The first arterial gas after the change (gas ${late.id}) was sampled ${after(at(late))}, after the ${window} window closed.`,
       late,
     );
   }
@@ -240,5 +240,5 @@ export function modelError(predicted: number, measured: number): ModelError {
 
 function minutesText(minutes: number): string {
   const rounded = Math.round(minutes * 10) / 10;
-  return `${rounded} min after the change`;
+  return `${rounded} min after this change`;
 }
