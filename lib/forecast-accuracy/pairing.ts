@@ -39,16 +39,23 @@ export function pairForecasts(
   );
   const orderChanges = events.orderChanges.map((o) => o.at.getTime()).sort((a, b) => a - b);
 
+  const arterial = gases.filter((g) => g.sampleType === "arterial");
+  const venous = gases.filter((g) => g.sampleType === "venous");
+  // The first later change of FiO2 or PEEP after each change, by one backward pass.
+  const nextChange: (AdjustmentEvent | undefined)[] = [];
+  let upcoming: AdjustmentEvent | undefined;
+  for (let i = adjustments.length - 1; i >= 0; i--) {
+    const adjustment = adjustments[i];
+    if (!adjustment) continue;
+    nextChange[i] = upcoming;
+    if (changesFio2OrPeep(adjustment)) upcoming = adjustment;
+  }
+
   const pairs: ForecastPair[] = [];
   const unchecked: UncheckedAdjustment[] = [];
   adjustments.forEach((adjustment, index) => {
-    const outcome = checkOne(
-      adjustment,
-      adjustments.slice(index + 1),
-      gases,
-      orderChanges,
-      settings,
-    );
+    const stop = firstInterruption(nextChange[index], orderChanges, adjustment.appliedAt.getTime());
+    const outcome = checkOne(adjustment, stop, { arterial, venous }, settings);
     if ("models" in outcome) pairs.push(outcome);
     else unchecked.push(outcome);
   });
@@ -83,11 +90,10 @@ function checkSettings(s: PairingSettings): void {
 type Interruption = { at: number; kind: "adjustment"; id: number } | { at: number; kind: "order" };
 
 function firstInterruption(
-  later: readonly AdjustmentEvent[],
+  change: AdjustmentEvent | undefined,
   orderChanges: readonly number[],
   t0: number,
 ): Interruption | null {
-  const change = later.find(changesFio2OrPeep);
   const order = orderChanges.find((at) => at > t0);
   const byChange: Interruption | null = change
     ? { at: change.appliedAt.getTime(), kind: "adjustment", id: change.id }
@@ -99,9 +105,8 @@ function firstInterruption(
 
 function checkOne(
   adjustment: AdjustmentEvent,
-  later: readonly AdjustmentEvent[],
-  gases: readonly BloodGasEvent[],
-  orderChanges: readonly number[],
+  stop: Interruption | null,
+  gases: { arterial: readonly BloodGasEvent[]; venous: readonly BloodGasEvent[] },
   settings: PairingSettings,
 ): ForecastPair | UncheckedAdjustment {
   const t0 = adjustment.appliedAt.getTime();
@@ -138,16 +143,15 @@ function checkOne(
   const opens = t0 + settings.minMinutes * MINUTE_MS;
   const closes = t0 + settings.maxMinutes * MINUTE_MS;
   const window = `${settings.minMinutes}–${settings.maxMinutes} min`;
-  const stop = firstInterruption(later, orderChanges, t0);
   const stopAt = stop?.at ?? Infinity;
   const at = (g: BloodGasEvent) => g.sampledAt.getTime();
-  const arterial = gases.filter((g) => g.sampleType === "arterial");
+  const { arterial } = gases;
   const inWindow = (g: BloodGasEvent) => at(g) >= opens && at(g) <= closes;
 
   const gas = arterial.find((g) => inWindow(g) && at(g) < stopAt);
   if (gas) return pairOf(adjustment, forecast, gas);
 
-  const venous = gases.find((g) => g.sampleType === "venous" && inWindow(g) && at(g) < stopAt);
+  const venous = gases.venous.find((g) => inWindow(g) && at(g) < stopAt);
   const venousNote = venous
     ? ` A venous gas (gas ${venous.id}, ${after(at(venous))}) was not used: venous gases never are.`
     : "";

@@ -61,6 +61,16 @@ describe("pairing a stored forecast with its arterial gas", () => {
     expect(above.pairs[0]?.inRange).toBe(false);
   });
 
+  it("pairs a change of FiO2 and PEEP together, flagged, since no model forecasts PEEP", () => {
+    // FiO2 0.50 → 0.40 with PEEP 8 → 10 at 0 min, gas at 60 min.
+    const input = events([change(1, 0, { toPeep: 10 })], [arterial(5, 60)]);
+    const before = JSON.stringify(input);
+    const [pair] = pairForecasts(input).pairs;
+    expect(pair).toMatchObject({ adjustmentId: 1, gasId: 5, peepChanged: true });
+    // The caller's events are left as they were (sorted copies only).
+    expect(JSON.stringify(input)).toBe(before);
+  });
+
   it("includes both ends of the 20–240 min window", () => {
     expect(DEFAULT_PAIRING_SETTINGS).toEqual({ minMinutes: 20, maxMinutes: 240 });
     expect(pairForecasts(events([change(1, 0)], [arterial(7, 20)])).pairs[0]?.gasId).toBe(7);

@@ -251,6 +251,34 @@ describe("the empirical interval", () => {
     expect(none.kind === "shown" && none.reason.startsWith("No checked forecasts")).toBe(true);
   });
 
+  it("is never narrower than the shown range, even when every past error has one sign", () => {
+    // Three changes, each forecast 100 / 100 / 100, measured 90, 80, 95: every model's
+    // errors are +10, +20, +5 (always too high). For 100 / 105 / 110:
+    //   pf 100 − 20 = 80 … 100 − 5 = 95; a/A 85 … 100; shunt 90 … 105 → models alone 80 … 105,
+    //   but the shown 100–110 stays inside: 80 … 110.
+    const measuredAs = (a: number, b: number, c: number) =>
+      pairForecasts(
+        events(
+          [
+            change(1, 0, { forecast: forecast(100, 100, 100) }),
+            change(2, 120, { forecast: forecast(100, 100, 100) }),
+            change(3, 240, { forecast: forecast(100, 100, 100) }),
+          ],
+          [arterial(11, 60, a), arterial(12, 180, b), arterial(13, 300, c)],
+        ),
+      ).pairs;
+    const tooHigh = forecastInterval(next, measuredAs(90, 80, 95));
+    expect(tooHigh.kind).toBe("empirical");
+    expect(tooHigh.kind === "empirical" && tooHigh.models.shunt.high).toBe(105);
+    expect([tooHigh.low.pao2, tooHigh.high.pao2]).toEqual([80, 110]);
+    // Measured 110, 120, 105: errors −10, −20, −5 (always too low).
+    //   pf 100 + 5 = 105 … 100 + 20 = 120; a/A 110 … 125; shunt 115 … 130 → models alone
+    //   105 … 130; with the shown 100–110: 100 … 130.
+    const tooLow = forecastInterval(next, measuredAs(110, 120, 105));
+    expect(tooLow.kind === "empirical" && tooLow.models.pf.low).toBe(105);
+    expect([tooLow.low.pao2, tooLow.high.pao2]).toEqual([100, 130]);
+  });
+
   it("never widens below 0 mmHg", () => {
     // pf 20 with the largest pf error +25: 20 − 25 = −5 → the interval starts at 0.
     const interval = forecastInterval(forecast(20, 30, 40), pairs);
