@@ -80,6 +80,10 @@ const envSchema = z
       .min(10)
       .max(7 * 24 * 60)
       .default(240),
+    /** A forecast is checked by the first arterial gas this many minutes after its change… */
+    FORECAST_CHECK_MIN_MINUTES: z.coerce.number().int().min(0).max(240).default(20),
+    /** …and no later than this. */
+    FORECAST_CHECK_MAX_MINUTES: z.coerce.number().int().min(10).max(24 * 60).default(240),
     SMTP_HOST: z.string().default("127.0.0.1"),
     SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(2525),
     SMTP_FROM: z.string().default("Tidemark <tidemark@kestrel.example>"),
@@ -99,6 +103,10 @@ const envSchema = z
     /** Where the worker writes the signed chain-head anchor; default .data/ledger-anchor.<DATABASE_NAME>.json. */
     LEDGER_ANCHOR_PATH: z.string().min(1).optional(),
     LEDGER_ANCHOR_MINUTES: z.coerce.number().int().min(1).max(1440).default(5),
+  })
+  .refine((e) => e.FORECAST_CHECK_MIN_MINUTES < e.FORECAST_CHECK_MAX_MINUTES, {
+    path: ["FORECAST_CHECK_MAX_MINUTES"],
+    message: "FORECAST_CHECK_MAX_MINUTES must be above FORECAST_CHECK_MIN_MINUTES",
   })
   .refine((e) => !e.SMTP_USER || !!e.SMTP_PASS, {
     path: ["SMTP_PASS"],
