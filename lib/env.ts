@@ -83,7 +83,12 @@ const envSchema = z
     /** A forecast is checked by the first arterial gas this many minutes after its change… */
     FORECAST_CHECK_MIN_MINUTES: z.coerce.number().int().min(0).max(240).default(20),
     /** …and no later than this. */
-    FORECAST_CHECK_MAX_MINUTES: z.coerce.number().int().min(10).max(24 * 60).default(240),
+    FORECAST_CHECK_MAX_MINUTES: z.coerce
+      .number()
+      .int()
+      .min(10)
+      .max(24 * 60)
+      .default(240),
     SMTP_HOST: z.string().default("127.0.0.1"),
     SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(2525),
     SMTP_FROM: z.string().default("Tidemark <tidemark@kestrel.example>"),
