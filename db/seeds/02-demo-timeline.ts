@@ -36,6 +36,9 @@ const seedAdjustment = (knex: Knex, actor: Actor, raw: AdjustmentInput, at?: Dat
 
 let state = 20261201;
 const random = () => (state = (state * 1664525 + 1013904223) >>> 0) / 2 ** 32;
+// The follow-up gases draw from their own stream, so the rest of the course stays as it was.
+let gasState = 20261203;
+const gasRandom = () => (gasState = (gasState * 1664525 + 1013904223) >>> 0) / 2 ** 32;
 const round = (v: number, step: number) => Math.round(v / step) * step;
 const clamp = (v: number, lo: number, hi: number) => Math.min(hi, Math.max(lo, v));
 
@@ -330,6 +333,7 @@ export async function seed(knex: Knex): Promise<void> {
     const mid = (plan.band[0] + plan.band[1]) / 2;
     let spo2 = mid + (random() - 0.5) * 4;
     const hb = round(9 + random() * 5, 0.1);
+    let lastArterialAt = -Infinity;
     // The reassessment of the sixth ward patient stopped five hours ago (overdue on the Board).
     const stopAt = p.code === "RESP" && position === 5 ? end - 5 * 3600_000 : end;
     for (
@@ -369,7 +373,7 @@ export async function seed(knex: Knex): Promise<void> {
           team.therapist,
           {
             patientId: p.patient_id,
-            sampledAt: new Date(t + 5 * 60_000),
+            sampledAt: new Date((lastArterialAt = t + 5 * 60_000)),
             sampleType: "arterial",
             ph: round(7.3 + random() * 0.12, 0.01),
             pao2,
@@ -407,6 +411,35 @@ export async function seed(knex: Knex): Promise<void> {
         }
         if (nextFio2 !== fio2 || nextFlow !== flow) {
           const appliedAt = new Date(t + 15 * 60_000);
+          // On the ICU a set-FiO2 change without a gas of the last 4 h gets one first,
+          // so the change is recorded with its forecast.
+          if (
+            p.code === "MICU" &&
+            profile.uses.fio2 === "set" &&
+            appliedAt.getTime() - lastArterialAt > 4 * 3600_000
+          ) {
+            lastArterialAt = appliedAt.getTime() - 10 * 60_000;
+            const sao2 = clamp(shownSpo2 + (gasRandom() - 0.5) * 2, 80, 99.5);
+            await seedBloodGas(
+              knex,
+              team.therapist,
+              {
+                patientId: p.patient_id,
+                sampledAt: new Date(lastArterialAt),
+                sampleType: "arterial",
+                ph: round(7.32 + gasRandom() * 0.1, 0.01),
+                pao2: round(po2FromSaturation(sao2 / 100) * (0.95 + gasRandom() * 0.1), 1),
+                paco2: round(36 + gasRandom() * 14, 1),
+                hemoglobin: hb,
+                device: plan.device,
+                fio2,
+                ...(peep !== undefined ? { peep } : {}),
+                ...(profile.uses.flow ? { flow } : {}),
+              },
+              new Date(lastArterialAt + 5 * 60_000),
+            );
+            counts.gases++;
+          }
           await seedAdjustment(
             knex,
             profile.lowFlow ? team.nurse : team.therapist,
@@ -429,6 +462,32 @@ export async function seed(knex: Knex): Promise<void> {
           flow = nextFlow;
           spo2 += direction * 2.5;
           counts.adjustments++;
+          // On the ICU, two changes in three of a set FiO2 are checked by an arterial gas
+          // 30–90 min later (before the next round): the Chart's "How the forecasts did".
+          if (p.code === "MICU" && profile.uses.fio2 === "set" && gasRandom() < 2 / 3) {
+            const sampledAt = new Date(appliedAt.getTime() + (30 + gasRandom() * 60) * 60_000);
+            lastArterialAt = sampledAt.getTime();
+            const sao2 = clamp(spo2 + (gasRandom() - 0.5) * 3, 80, 99.5);
+            await seedBloodGas(
+              knex,
+              team.therapist,
+              {
+                patientId: p.patient_id,
+                sampledAt,
+                sampleType: "arterial",
+                ph: round(7.32 + gasRandom() * 0.1, 0.01),
+                pao2: round(po2FromSaturation(sao2 / 100) * (0.9 + gasRandom() * 0.2), 1),
+                paco2: round(36 + gasRandom() * 14, 1),
+                hemoglobin: hb,
+                device: plan.device,
+                fio2,
+                ...(peep !== undefined ? { peep } : {}),
+                ...(profile.uses.flow ? { flow } : {}),
+              },
+              new Date(sampledAt.getTime() + 15 * 60_000),
+            );
+            counts.gases++;
+          }
         }
       }
     }

@@ -118,6 +118,13 @@ const ROUTES: Omit<RouteEntry, "via">[] = [
     call: (w, c) => ({ path: patient(w, c, "bedside") }),
   },
   {
+    name: "GET /api/v1/patients/[patientId]/forecast-accuracy",
+    permission: "record.read",
+    scope: "unit",
+    ok: 200,
+    call: (w, c) => ({ path: patient(w, c, "forecast-accuracy") }),
+  },
+  {
     name: "GET /api/v1/patients/[patientId]/trend",
     permission: "record.read",
     scope: "unit",

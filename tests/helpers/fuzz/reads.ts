@@ -193,6 +193,18 @@ export function parameterisedReads(all: Ids & ReadIds): Record<string, fc.Arbitr
         }),
       ),
     ),
+    "GET /api/v1/patients/[patientId]/forecast-accuracy": read(
+      "GET /api/v1/patients/[patientId]/forecast-accuracy",
+      "physician",
+      under("/api/v1/patients", patient, "/forecast-accuracy", fc.constant("")),
+    ),
+    "GET /api/v1/reports/forecast-accuracy": read(
+      "GET /api/v1/reports/forecast-accuracy",
+      "physician",
+      queryString({ unitId: ids(all.units), from: time, to: time }).map(
+        (q) => `/api/v1/reports/forecast-accuracy${q}`,
+      ),
+    ),
     "GET /api/v1/patients/[patientId]/trend": read(
       "GET /api/v1/patients/[patientId]/trend",
       "physician",
