@@ -177,7 +177,9 @@ export function AdjustmentForecast({
       ) : null}
       <div
         className={
-          outcome.kind === "ok" && forecastPairs ? "grid gap-2 sm:grid-cols-2" : "contents"
+          outcome.kind === "ok" && forecastPairs
+            ? "grid items-start gap-2 sm:grid-cols-2"
+            : "contents"
         }
       >
         <div

@@ -61,14 +61,13 @@ export function CalibrationChart({
         accessibilityLayer
         title={`Calibration: forecast against measured PaO2, ${unit}`}
         desc={`Scatter plot of ${n} checked forecasts for each of ${series.map((s) => s.label).join(", ")}: measured PaO2 across, the model's forecast up, with the identity line.`}
-        margin={{ top: 8, right: 12, bottom: 20, left: 4 }}
+        margin={{ top: 8, right: 16, bottom: 20, left: 8 }}
       >
         <CartesianGrid stroke="var(--tm-border)" />
         <XAxis
           type="number"
           dataKey="measured"
-          name="Measured PaO2"
-          unit={` ${unit}`}
+          name={`Measured PaO2 (${unit})`}
           domain={domain}
           allowDataOverflow
           tick={tick}
@@ -84,17 +83,18 @@ export function CalibrationChart({
         <YAxis
           type="number"
           dataKey="predicted"
-          name="Forecast PaO2"
-          unit={` ${unit}`}
+          name={`Forecast PaO2 (${unit})`}
           domain={domain}
           allowDataOverflow
-          width={64}
+          width={52}
           tick={tick}
           stroke="var(--tm-border-strong)"
           label={{
             value: `Forecast PaO2 (${unit})`,
             angle: -90,
             position: "insideLeft",
+            offset: -2,
+            style: { textAnchor: "middle" },
             fill: "var(--tm-ink-muted)",
             fontSize: 11,
           }}
@@ -125,6 +125,7 @@ export function CalibrationChart({
             data={s.points}
             fill={LOOK[s.model].fill}
             shape={LOOK[s.model].shape}
+            legendType={LOOK[s.model].shape}
             isAnimationActive={false}
           />
         ))}

@@ -174,7 +174,7 @@ export function ForecastAccuracyPanel({
 
       <details className="text-sm text-ink-muted" data-testid="forecast-accuracy-basis">
         <summary className="cursor-pointer">Basis</summary>
-        <p className="mt-2">
+        <p className="mt-2 break-words">
           Window: an arterial gas {settings.minMinutes} to {settings.maxMinutes} min after the
           change (the site&apos;s FORECAST_CHECK_MIN_MINUTES and FORECAST_CHECK_MAX_MINUTES).
           Forecasts are the ones stored with each change; gases and changes are this stay&apos;s.

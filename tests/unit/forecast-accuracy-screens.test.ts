@@ -22,6 +22,7 @@ import {
   signedPressureText,
 } from "@/lib/forecast-accuracy/words";
 import { csvFileName, tableToCsv } from "@/lib/reports/csv";
+import { formatCell } from "@/lib/reports/tables";
 import { parseReportSearch, REPORT_LABELS, REPORT_PAGES } from "@/lib/reports/period";
 import { REPORT_KINDS } from "@/lib/reports/types";
 import { summarizeByFio2Step } from "@/lib/forecast-accuracy";
@@ -294,6 +295,16 @@ describe("forecast-accuracy report tables", () => {
       ],
       axisMax: 25,
     });
+  });
+});
+
+describe("report cells", () => {
+  it("show a negative value with a true minus, and one that rounds to zero without a sign", () => {
+    expect(formatCell(-1.25, "dec1")).toBe("−1.3");
+    expect(formatCell(-1200, "int")).toBe("−1,200");
+    expect(formatCell(-0.04, "dec1")).toBe("0.0");
+    expect(formatCell(-0.4, "int")).toBe("0");
+    expect(formatCell(12.5, "pct")).toBe("12.5");
   });
 });
 
