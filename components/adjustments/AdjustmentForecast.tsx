@@ -25,6 +25,8 @@ import {
 import { formatAge, gasAgeCaveat } from "@/lib/blood-gases/freshness";
 import { forecastBasis } from "@/lib/oxygenation/forecast-basis";
 import type { BedsideContext } from "@/lib/chart/bedside";
+import type { ForecastPairView } from "@/lib/forecast-accuracy/views";
+import { EmpiricalInterval } from "./EmpiricalInterval";
 
 type Outcome =
   | { kind: "none"; message: string }
@@ -40,7 +42,8 @@ export const PEEP_CHANGE_NOTE =
  * from the latest arterial blood gas: the three models' range in words and on
  * the chart, each model's basis one click away, and the caveats. A gas older
  * than the site's limit is not used unless the clinician ticks the box; its
- * age is always said.
+ * age is always said. With the patient's checked forecasts, the empirical
+ * interval stands beside the range once there are enough of them.
  */
 export function AdjustmentForecast({
   gas,
@@ -52,6 +55,7 @@ export function AdjustmentForecast({
   peepChanges,
   pressureUnit,
   timeZone,
+  forecastPairs,
 }: {
   gas: BedsideContext["latestArterialGas"];
   /** The clinician chose to forecast from a gas older than the limit. */
@@ -64,6 +68,8 @@ export function AdjustmentForecast({
   peepChanges: boolean;
   pressureUnit: PressureUnit;
   timeZone: string;
+  /** This stay's checked forecasts (pairs), oldest first; without them no interval is shown. */
+  forecastPairs?: readonly ForecastPairView[];
 }) {
   const unit = pressureUnit;
   const stale = gas !== null && !gas.freshness.fresh;
@@ -170,32 +176,47 @@ export function AdjustmentForecast({
         </label>
       ) : null}
       <div
-        role="status"
-        aria-live="polite"
-        className="rounded-md bg-accent-soft px-3 py-2"
-        data-testid="forecast-range"
+        className={
+          outcome.kind === "ok" && forecastPairs
+            ? "grid items-start gap-2 sm:grid-cols-2"
+            : "contents"
+        }
       >
-        {outcome.kind === "ok" ? (
-          <>
-            <p className="tabular text-lg font-semibold">
-              PaO2 forecast {formatPressureNumber(outcome.forecast.range.low.pao2, unit)}–
-              {formatPressureNumber(outcome.forecast.range.high.pao2, unit)} {unit}
+        <div
+          role="status"
+          aria-live="polite"
+          className="rounded-md bg-accent-soft px-3 py-2"
+          data-testid="forecast-range"
+        >
+          {outcome.kind === "ok" ? (
+            <>
+              <p className="tabular text-lg font-semibold">
+                PaO2 forecast {formatPressureNumber(outcome.forecast.range.low.pao2, unit)}–
+                {formatPressureNumber(outcome.forecast.range.high.pao2, unit)} {unit}
+              </p>
+              <p className="tabular text-sm">
+                SpO2 forecast {formatNumber(outcome.forecast.range.low.spo2, 0)}–
+                {formatNumber(outcome.forecast.range.high.spo2, 0)} % (standard curve) at FiO2{" "}
+                {formatFio2Value(outcome.fio2)}
+                {fio2Estimated ? " (estimate)" : ""}
+              </p>
+            </>
+          ) : (
+            <p
+              className={`flex items-start gap-1.5 text-sm ${outcome.kind === "refused" ? "font-medium text-below" : "text-ink"}`}
+            >
+              <IconInfo className="mt-0.5 shrink-0" />
+              {outcome.message}
             </p>
-            <p className="tabular text-sm">
-              SpO2 forecast {formatNumber(outcome.forecast.range.low.spo2, 0)}–
-              {formatNumber(outcome.forecast.range.high.spo2, 0)} % (standard curve) at FiO2{" "}
-              {formatFio2Value(outcome.fio2)}
-              {fio2Estimated ? " (estimate)" : ""}
-            </p>
-          </>
-        ) : (
-          <p
-            className={`flex items-start gap-1.5 text-sm ${outcome.kind === "refused" ? "font-medium text-below" : "text-ink"}`}
-          >
-            <IconInfo className="mt-0.5 shrink-0" />
-            {outcome.message}
-          </p>
-        )}
+          )}
+        </div>
+        {outcome.kind === "ok" && forecastPairs ? (
+          <EmpiricalInterval
+            forecast={outcome.forecast}
+            pairs={forecastPairs}
+            pressureUnit={unit}
+          />
+        ) : null}
       </div>
       {peepChanges ? (
         <p

@@ -31,6 +31,7 @@ import type { PressureUnit, ProposalDirection, ProposedSetting } from "@/lib/oxy
 import { DEVICE_PROFILES, estimateFio2 } from "@/lib/devices";
 import type { OrderView } from "@/lib/orders/queries";
 import type { BedsideContext, BedsideSettings } from "@/lib/chart/bedside";
+import type { ForecastPairView } from "@/lib/forecast-accuracy/views";
 import { AdjustmentForecast } from "./AdjustmentForecast";
 import { BedsideContextCards } from "./BedsideContextCards";
 import {
@@ -58,6 +59,8 @@ export function AdjustmentForm(props: {
   initialContext: BedsideContext;
   pressureUnit: PressureUnit;
   timeZone: string;
+  /** This stay's checked forecasts: the empirical interval beside the forecast. */
+  forecastPairs?: readonly ForecastPairView[];
 }) {
   // A cache of this page's own: the context the server rendered is what the
   // form starts from, never one left in a shared cache by an earlier visit.
@@ -73,11 +76,13 @@ function AdjustmentFormWithContext({
   initialContext,
   pressureUnit,
   timeZone,
+  forecastPairs,
 }: {
   patientId: number;
   initialContext: BedsideContext;
   pressureUnit: PressureUnit;
   timeZone: string;
+  forecastPairs?: readonly ForecastPairView[];
 }) {
   const bedsideUrl = `/api/v1/patients/${patientId}/bedside`;
   // A blood gas older than the site's limit drives the proposal only when the
@@ -120,6 +125,7 @@ function AdjustmentFormWithContext({
       settings={settings}
       pressureUnit={pressureUnit}
       timeZone={timeZone}
+      forecastPairs={forecastPairs}
       reload={async () => {
         await mutate();
       }}
@@ -145,6 +151,7 @@ function AdjustmentFormBody({
   reloading,
   useStaleGas,
   onUseStaleGasChange,
+  forecastPairs,
 }: {
   patientId: number;
   context: BedsideContext;
@@ -152,6 +159,7 @@ function AdjustmentFormBody({
   settings: BedsideSettings;
   pressureUnit: PressureUnit;
   timeZone: string;
+  forecastPairs?: readonly ForecastPairView[] | undefined;
   reload: () => Promise<void>;
   reloading: boolean;
   useStaleGas: boolean;
@@ -456,6 +464,7 @@ function AdjustmentFormBody({
             peepChanges={peepChanges}
             pressureUnit={pressureUnit}
             timeZone={timeZone}
+            forecastPairs={forecastPairs}
           />
           <Caution />
         </div>

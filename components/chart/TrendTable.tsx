@@ -38,28 +38,32 @@ export function TrendTable({ trend, pressureUnit }: { trend: Trend; pressureUnit
       value: `PaO2 ${formatPressureNumber(g.pao2MmHg, pressureUnit)} ${pressureUnit}${g.pfRatio === null ? "" : `, P/F ${formatPfRatio(g.pfRatio, pressureUnit)}`}`,
     })),
   ].sort((a, b) => Date.parse(a.at) - Date.parse(b.at));
+  // Hidden by a wrapper: a table is never narrower than its widest row, so a
+  // hidden table itself can still widen the page on a phone.
   return (
-    <table className="sr-only" data-testid="trend-table">
-      <caption>
-        Trend values, oldest first
-        {trend.downsampled ? " (SpO2 thinned to the lowest and highest of each time slice)" : ""}
-      </caption>
-      <thead>
-        <tr>
-          <th scope="col">Time</th>
-          <th scope="col">Measure</th>
-          <th scope="col">Value</th>
-        </tr>
-      </thead>
-      <tbody>
-        {rows.map((r, i) => (
-          <tr key={i}>
-            <td>{formatUnitTime(r.at, trend.timeZone)}</td>
-            <td>{r.what}</td>
-            <td>{r.value}</td>
+    <div className="sr-only">
+      <table data-testid="trend-table">
+        <caption>
+          Trend values, oldest first
+          {trend.downsampled ? " (SpO2 thinned to the lowest and highest of each time slice)" : ""}
+        </caption>
+        <thead>
+          <tr>
+            <th scope="col">Time</th>
+            <th scope="col">Measure</th>
+            <th scope="col">Value</th>
           </tr>
-        ))}
-      </tbody>
-    </table>
+        </thead>
+        <tbody>
+          {rows.map((r, i) => (
+            <tr key={i}>
+              <td>{formatUnitTime(r.at, trend.timeZone)}</td>
+              <td>{r.what}</td>
+              <td>{r.value}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
   );
 }

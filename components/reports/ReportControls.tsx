@@ -4,10 +4,10 @@ import {
   PERIOD_CHOICES,
   PERIOD_LABELS,
   REPORT_LABELS,
+  REPORT_PAGES,
   reportHref,
   type ReportChoice,
 } from "@/lib/reports/period";
-import { REPORT_KINDS } from "@/lib/reports/types";
 
 const selectClasses = "rounded-md border border-border-strong bg-surface px-2 py-1.5 text-sm";
 
@@ -91,7 +91,7 @@ export function ReportControls({
       </form>
       <nav aria-label="Reports">
         <ul className="flex flex-wrap gap-1 border-b border-border">
-          {REPORT_KINDS.map((kind) => {
+          {REPORT_PAGES.map((kind) => {
             const current = kind === choice.report;
             return (
               <li key={kind}>

@@ -5,15 +5,11 @@ import { FORECAST_MODELS, type ForecastModel, type ForecastPair } from "./types"
 /** Pairs a patient needs before the shown range is widened to their own errors. */
 export const MIN_PAIRS_FOR_INTERVAL = 3;
 
-export const EMPIRICAL_INTERVAL_RULE =
-  `Once the patient has at least ${MIN_PAIRS_FOR_INTERVAL} checked forecasts (pairs), each model's new PaO2 forecast P is ` +
-  "widened by that model's own errors (e = predicted − measured) in those pairs: from P − (largest error) to " +
-  "P − (smallest error), the measured values the patient's past errors would have given. The interval shown is the " +
-  "union of the three models' intervals and the models' spread (so it is never narrower than the usual range), " +
-  "with its low end no lower than 0 mmHg; SpO2 at each end from the Severinghaus curve. If the next error behaves " +
-  "like the patient's past ones (exchangeable), it lies between the smallest and largest of n past errors with " +
-  "probability (n − 1)/(n + 1): 50 % with 3 pairs, 80 % with 9, 90 % with 19 (order statistics). With fewer than " +
-  `${MIN_PAIRS_FOR_INTERVAL} pairs the range stays the spread of the three models.`;
+// One template literal, not a concatenation: Next's production minifier
+// (SWC) drops the tail of the first template when it folds template + … +
+// template with constants inlined, which cut this text to its first and last
+// words in the server build.
+export const EMPIRICAL_INTERVAL_RULE = `Once the patient has at least ${MIN_PAIRS_FOR_INTERVAL} checked forecasts (pairs), each model's new PaO2 forecast P is widened by that model's own errors (e = predicted − measured) in those pairs: from P − (largest error) to P − (smallest error), the measured values the patient's past errors would have given. The interval shown is the union of the three models' intervals and the models' spread (so it is never narrower than the usual range), with its low end no lower than 0 mmHg; SpO2 at each end from the Severinghaus curve. If the next error behaves like the patient's past ones (exchangeable), it lies between the smallest and largest of n past errors with probability (n − 1)/(n + 1): 50 % with 3 pairs, 80 % with 9, 90 % with 19 (order statistics). With fewer than ${MIN_PAIRS_FOR_INTERVAL} pairs the range stays the spread of the three models.`;
 
 export type IntervalEnd = { pao2: number; spo2: number };
 

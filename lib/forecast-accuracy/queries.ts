@@ -16,30 +16,15 @@ import {
 } from "./summary";
 import type { ForecastPair, UncheckedAdjustment } from "./types";
 import {
+  pairFromView,
+  pairView,
+  uncheckedView,
   type ForecastAccuracyReport,
   type ForecastPairView,
   type PatientForecastAccuracy,
-  type UncheckedView,
 } from "./views";
 
-export const pairView = (p: ForecastPair): ForecastPairView => ({
-  ...p,
-  appliedAt: p.appliedAt.toISOString(),
-  sampledAt: p.sampledAt.toISOString(),
-});
-
-export const uncheckedView = (u: UncheckedAdjustment): UncheckedView => ({
-  ...u,
-  appliedAt: u.appliedAt.toISOString(),
-  interruptedAt: u.interruptedAt ? u.interruptedAt.toISOString() : null,
-});
-
-/** A pair as the pure functions take it again (the client's interval, from the API's view). */
-export const pairFromView = (p: ForecastPairView): ForecastPair => ({
-  ...p,
-  appliedAt: new Date(p.appliedAt),
-  sampledAt: new Date(p.sampledAt),
-});
+export { pairFromView, pairView, uncheckedView };
 
 /**
  * How the forecasts did for one patient: every change of the current (or,
@@ -149,4 +134,17 @@ export async function loadForecastAccuracyReport(
     unchecked: unchecked.map(({ stay, ...u }) => ({ ...uncheckedView(u), ...where(stay) })),
     basis: forecastAccuracyBasis(settings),
   };
+}
+
+/**
+ * One admission's checked forecasts, oldest first: what the adjustment form
+ * widens a new forecast's range with (forecastInterval). One read of the
+ * admission's events and the pure pairing; unit access is the caller's check.
+ */
+export async function loadAdmissionForecastPairs(
+  knex: Knex,
+  admissionId: number,
+): Promise<ForecastPairView[]> {
+  const events = (await loadAdmissionEvents(knex, [admissionId])).get(admissionId)!;
+  return pairForecasts(events, pairingSettings()).pairs.map(pairView);
 }

@@ -2,6 +2,8 @@ import type { MeasureBasis } from "../reports/types";
 import type { AccuracySummary, CalibrationPoint, Fio2StepBand } from "./summary";
 import type { ForecastPair, PairingSettings, UncheckedAdjustment } from "./types";
 
+// Shapes only and their plain converters, so a client component may import this file.
+
 /** A pair as the API sends it: times as ISO 8601 (UTC). */
 export type ForecastPairView = Omit<ForecastPair, "appliedAt" | "sampledAt"> & {
   appliedAt: string;
@@ -56,3 +58,22 @@ export type ForecastAccuracyReport = {
   unchecked: (UncheckedView & Where)[];
   basis: MeasureBasis[];
 };
+
+export const pairView = (p: ForecastPair): ForecastPairView => ({
+  ...p,
+  appliedAt: p.appliedAt.toISOString(),
+  sampledAt: p.sampledAt.toISOString(),
+});
+
+export const uncheckedView = (u: UncheckedAdjustment): UncheckedView => ({
+  ...u,
+  appliedAt: u.appliedAt.toISOString(),
+  interruptedAt: u.interruptedAt ? u.interruptedAt.toISOString() : null,
+});
+
+/** A pair as the pure functions take it again (the client's interval, from the API's view). */
+export const pairFromView = (p: ForecastPairView): ForecastPair => ({
+  ...p,
+  appliedAt: new Date(p.appliedAt),
+  sampledAt: new Date(p.sampledAt),
+});

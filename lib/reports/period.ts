@@ -1,4 +1,4 @@
-import { REPORT_KINDS, type ReportGroup, type ReportKind } from "./types";
+import { REPORT_KINDS, type ReportGroup } from "./types";
 import { shiftAt, type ShiftPattern } from "../units/shifts";
 import { wallParts, wallTimeToInstant } from "../time/zone";
 
@@ -18,11 +18,19 @@ export const PERIOD_LABELS: Record<PeriodChoice, string> = {
   custom: "Custom",
 };
 
-export const REPORT_LABELS: Record<ReportKind, string> = {
+/**
+ * The reports the page offers: the four grouped reports (REPORT_KINDS, built
+ * by loadReport) and forecast accuracy (lib/forecast-accuracy, its own shape).
+ */
+export const REPORT_PAGES = [...REPORT_KINDS, "forecast-accuracy"] as const;
+export type ReportPage = (typeof REPORT_PAGES)[number];
+
+export const REPORT_LABELS: Record<ReportPage, string> = {
   "time-in-band": "Time in band",
   alerts: "Alerts",
   "oxygen-exposure": "Oxygen exposure",
   orders: "Orders and adjustments",
+  "forecast-accuracy": "Forecast accuracy",
 };
 
 /** The longest custom period, in days: a quarter and a day. */
@@ -42,7 +50,7 @@ export type ReportSearch = {
 
 export type ReportChoice = {
   unitId: number | null;
-  report: ReportKind;
+  report: ReportPage;
   period: PeriodChoice;
   /** Custom days as typed (YYYY-MM-DD), on the unit's clock. */
   fromDay: string | null;
@@ -60,8 +68,8 @@ export function parseReportSearch(search: ReportSearch): ReportChoice {
   const toDay = one(search.to);
   return {
     unitId: Number.isInteger(unit) && unit > 0 ? unit : null,
-    report: (REPORT_KINDS as readonly string[]).includes(report ?? "")
-      ? (report as ReportKind)
+    report: (REPORT_PAGES as readonly string[]).includes(report ?? "")
+      ? (report as ReportPage)
       : "time-in-band",
     period: (PERIOD_CHOICES as readonly string[]).includes(period ?? "")
       ? (period as PeriodChoice)

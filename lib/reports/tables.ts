@@ -42,10 +42,16 @@ export const round = (v: number, places: number) => {
 export const pct = (share: number | null) => (share === null ? null : round(share * 100, 1));
 export const hours = (minutes: number) => round(minutes / 60, 1);
 
-/** A cell as the page shows it ("–" for no value; the unit is in the column's label). */
+/** A cell as the page shows it ("–" for no value, a true minus sign; the unit is in the column's label). */
 export function formatCell(value: Cell, format: ColumnFormat): string {
   if (value === null) return "–";
   if (typeof value === "string") return value;
+  const text = formatNumberCell(value, format);
+  // A value that rounds to zero is shown without a sign.
+  return /[1-9]/.test(text) ? text.replace("-", "−") : text.replace("-", "");
+}
+
+function formatNumberCell(value: number, format: ColumnFormat): string {
   switch (format) {
     case "int":
       return Math.round(value).toLocaleString("en-GB");

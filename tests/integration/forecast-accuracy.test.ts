@@ -7,6 +7,7 @@ import {
   readForecastAccuracyReportOperation,
   readPatientForecastAccuracyOperation,
 } from "@/lib/forecast-accuracy/operations";
+import { loadAdmissionForecastPairs } from "@/lib/forecast-accuracy/queries";
 import { writeOrderOperation } from "@/lib/orders/operations";
 import { actorByEmail, admitTestPatient, appDb, SEEDED } from "../helpers/db";
 import { hfncOrder } from "../helpers/orders";
@@ -127,6 +128,10 @@ describe("forecast accountability", () => {
       [third.id, "order_changed"],
     ]);
     expect(mine.interval).toMatchObject({ pairs: 2, minPairs: 3, active: false });
+    // What the adjustment form widens a new forecast with: the same pairs, oldest first.
+    const forForm = await loadAdmissionForecastPairs(appDb(), mine.admissionId);
+    expect(forForm.map((p) => p.adjustmentId)).toEqual([first.id, second.id]);
+    expect(forForm[0]).toEqual(pair);
 
     const report = await readForecastAccuracyReportOperation.invoke(appDb(), nurse, {
       unitId: String(unitId),

@@ -10,6 +10,7 @@ import type { AdjustmentView } from "@/lib/adjustments/service";
 import type { Device } from "@/lib/devices";
 import type { OrderView } from "@/lib/orders/queries";
 import type { BedsideContext } from "@/lib/chart/bedside";
+import type { ForecastPairView } from "@/lib/forecast-accuracy/views";
 
 const mocks = vi.hoisted(() => ({
   record: vi.fn<typeof recordAdjustmentAction>(),
@@ -133,15 +134,40 @@ function hfncContext(overrides: Partial<BedsideContext> = {}): BedsideContext {
   };
 }
 
-function renderForm(context: BedsideContext = hfncContext()) {
+function renderForm(
+  context: BedsideContext = hfncContext(),
+  forecastPairs?: readonly ForecastPairView[],
+) {
   return render(
     <AdjustmentForm
       patientId={PATIENT_ID}
       initialContext={context}
       pressureUnit="mmHg"
       timeZone="UTC"
+      {...(forecastPairs ? { forecastPairs } : {})}
     />,
   );
+}
+
+/** A checked forecast whose three models all erred by `error` mmHg (forecast − measured) against 80. */
+function checked(id: number, error: number): ForecastPairView {
+  const model = { predicted: 80 + error, measured: 80, error, absoluteError: Math.abs(error) };
+  return {
+    adjustmentId: id,
+    gasId: 100 + id,
+    device: "hfnc",
+    appliedAt: "2026-12-01T06:00:00.000Z",
+    sampledAt: "2026-12-01T06:40:00.000Z",
+    minutesAfter: 40,
+    fromFio2: 0.35,
+    toFio2: 0.4,
+    fio2Step: 0.05,
+    peepChanged: false,
+    measured: 80,
+    range: { low: 80 + error, high: 80 + error },
+    inRange: error === 0,
+    models: { pf: model, alveolarArterialRatio: model, shunt: model },
+  };
 }
 
 const input = (label: string) => screen.getByLabelText(label) as HTMLInputElement;
@@ -200,6 +226,27 @@ describe("AdjustmentForm", () => {
     ).toHaveLength(3);
     expect(screen.getByRole("note").textContent).toMatch(/decision support/);
     expect(screen.queryByTestId("peep-note")).toBeNull();
+  });
+
+  it("beside the range, widens it by the patient's own errors once three forecasts are checked", () => {
+    // Every model erred by −20, 0 and +20 mmHg: each model's interval is P − 20 … P + 20, so
+    // the interval is the models' range widened by 20 mmHg at each end.
+    renderForm(hfncContext(), [checked(1, -20), checked(2, 0), checked(3, 20)]);
+    type("New FiO2", "0.5");
+    const range = screen.getByTestId("forecast-range").textContent ?? "";
+    const [, low, high] = /PaO2 forecast (\d+)–(\d+) mmHg/.exec(range) ?? [];
+    const box = screen.getByTestId("empirical-interval");
+    expect(box.textContent).toContain("Empirical interval (3 pairs)");
+    expect(box.textContent).toContain(`PaO2 ${Number(low) - 20}–${Number(high) + 20} mmHg`);
+  });
+
+  it("says how many checked forecasts the widened range still needs", () => {
+    renderForm(hfncContext(), [checked(1, 5)]);
+    type("New FiO2", "0.5");
+    expect(screen.queryByTestId("empirical-interval")).toBeNull();
+    expect(screen.getByTestId("empirical-interval-pending").textContent).toContain(
+      "1 of 3 checked forecasts needed before the range widens.",
+    );
   });
 
   it("says there is no numeric forecast without an arterial gas", () => {

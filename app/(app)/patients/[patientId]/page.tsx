@@ -7,6 +7,7 @@ import { BedsideSummary } from "@/components/bedside/BedsideSummary";
 import { Timeline } from "@/components/chart/Timeline";
 import { StaySummary } from "@/components/chart/StaySummary";
 import { TrendChart } from "@/components/chart/TrendChart";
+import { ForecastAccuracyPanel } from "@/components/forecast-accuracy/ForecastAccuracyPanel";
 import { BloodGasEvaluator } from "@/components/oxygenation/BloodGasEvaluator";
 import { buttonClasses } from "@/components/ui/Button";
 import { listAlerts } from "@/lib/alerts/queries";
@@ -15,6 +16,7 @@ import { can } from "@/lib/auth/permissions";
 import { db } from "@/lib/db";
 import { NotFoundError } from "@/lib/errors";
 import { getBedsideContext } from "@/lib/chart/bedside";
+import { loadPatientForecastAccuracy } from "@/lib/forecast-accuracy/queries";
 import { ageInYears } from "@/lib/admissions/display";
 import { DISPOSITION_LABELS, type Disposition } from "@/lib/admissions/schema";
 import { formatUnitTime } from "@/lib/time/zone";
@@ -47,10 +49,11 @@ export default async function ChartPage({ params }: { params: Promise<{ patientI
   if (!parsed.success) notFound();
   const patient = await loadPatient(db(), actor, parsed.data.patientId);
   const now = new Date();
-  const [bedside, alerts, summary] = await Promise.all([
+  const [bedside, alerts, summary, forecasts] = await Promise.all([
     getBedsideContext(db(), actor, patient.id),
     listAlerts(db(), actor, { patientId: patient.id, status: "open" }),
     loadStaySummary(db(), patient.admission, now),
+    loadPatientForecastAccuracy(db(), actor, patient.id),
   ]);
   const age = ageInYears(patient.birthDate, now);
   const { bed, unit, dischargedAt, disposition } = patient.admission;
@@ -139,6 +142,12 @@ export default async function ChartPage({ params }: { params: Promise<{ patientI
       <BedsideSummary actor={actor} context={bedside} now={now} />
 
       <StaySummary windows={summary} />
+
+      <ForecastAccuracyPanel
+        data={forecasts}
+        pressureUnit={actor.pressureUnit}
+        timeZone={unit.timeZone}
+      />
 
       <TrendChart
         patientId={patient.id}

@@ -5,6 +5,8 @@ import { BedsideFormHeader, loadBedsidePage } from "@/components/adjustments/Bed
 import { buttonClasses } from "@/components/ui/Button";
 import { EmptyState } from "@/components/ui/EmptyState";
 import { pagePermission } from "@/lib/auth/page-guard";
+import { db } from "@/lib/db";
+import { loadAdmissionForecastPairs } from "@/lib/forecast-accuracy/queries";
 import { mayAdjustDevice } from "@/lib/auth/permissions";
 import { DEVICE_PROFILES } from "@/lib/devices";
 
@@ -57,12 +59,15 @@ export default async function NewAdjustmentPage({
       </EmptyState>
     );
   } else {
+    // This stay's checked forecasts: the empirical interval beside each new forecast.
+    const forecastPairs = await loadAdmissionForecastPairs(db(), context.admission.admissionId);
     body = (
       <AdjustmentForm
         patientId={patient.id}
         initialContext={context}
         pressureUnit={actor.pressureUnit}
         timeZone={timeZone}
+        forecastPairs={forecastPairs}
       />
     );
   }
