@@ -38,8 +38,8 @@ export function cellText(table: RehearsalTable, row: RehearsalRow, index: number
   const format = row.formats?.[index] ?? column.format;
   const text = formatCell(value, format);
   if (!column.signed || typeof value !== "number") return text;
-  if (value > 0) return `+${text}`;
-  return value < 0 ? `−${text.replace("-", "")}` : text;
+  // formatCell writes a negative with a true minus and a value rounding to zero without a sign.
+  return value > 0 && /[1-9]/.test(text) ? `+${text}` : text;
 }
 
 /** A measure of a care model: how it is labelled, written and compared. */
