@@ -6,7 +6,12 @@ import { closeDb } from "@/lib/db";
 import { EMPIRICAL_INTERVAL_RULE } from "@/lib/forecast-accuracy/interval";
 import type { ForecastModel } from "@/lib/forecast-accuracy/types";
 import { writeOrderOperation } from "@/lib/orders/operations";
+import type {
+  ForecastAccuracyReport,
+  PatientForecastAccuracy,
+} from "@/lib/forecast-accuracy/views";
 import { ARTIFACTS, BASE_URL, launchBrowser, signInThroughForm } from "../helpers/browser";
+import { Session } from "../helpers/http";
 import { actorByEmail, admitTestPatient, appDb, SEEDED } from "../helpers/db";
 import { hfncOrder } from "../helpers/orders";
 
@@ -109,6 +114,30 @@ describe("forecast accountability on the screens", () => {
     await care.gas(200, 70, 0.5); // 40 min after the change: its check
     // Constant P/F by hand: 60 / 0.40 × 0.50 = 75 mmHg, so its error against 70 is +5.
     expect(forecast.models.pf.pao2).toBeCloseTo(75, 6);
+
+    // Both routes answer the pair, one row per model.
+    const api = await Session.signIn(SEEDED.physician);
+    const mine = (await (
+      await api.fetch(`/api/v1/patients/${care.patientId}/forecast-accuracy`)
+    ).json()) as PatientForecastAccuracy;
+    expect(mine.pairs.map((p) => [p.adjustmentId, p.measured, p.minutesAfter])).toEqual([
+      [adjustment.id, 70, 40],
+    ]);
+    for (const m of MODELS)
+      expect(mine.pairs[0]!.models[m].error).toBeCloseTo(forecast.models[m].pao2 - 70, 9);
+    const q = new URLSearchParams({
+      unitId: String(care.unitId),
+      from: new Date(Date.now() - 6 * 3600_000).toISOString(),
+      to: new Date().toISOString(),
+    });
+    const report = (await (
+      await api.fetch(`/api/v1/reports/forecast-accuracy?${q.toString()}`)
+    ).json()) as ForecastAccuracyReport;
+    expect(
+      report.pairs
+        .filter((p) => p.patientId === care.patientId)
+        .map((p) => [p.adjustmentId, p.models.pf.error]),
+    ).toEqual([[adjustment.id, mine.pairs[0]!.models.pf.error]]);
 
     for (const width of [1280, 390]) {
       const context = await browser.newContext({ viewport: { width, height: 900 } });
