@@ -1,7 +1,7 @@
 import { BasisList } from "@/components/reports/BasisList";
+import { ReportFrame } from "@/components/reports/ReportFrame";
 import { ReportTableView } from "@/components/reports/ReportTableView";
 import { SummaryTiles } from "@/components/reports/SummaryTiles";
-import { Caution } from "@/components/ui/Caution";
 import { EmptyState } from "@/components/ui/EmptyState";
 import {
   calibrationSeries,
@@ -17,7 +17,6 @@ import {
 } from "@/lib/forecast-accuracy/report-tables";
 import type { ForecastAccuracyReport } from "@/lib/forecast-accuracy/views";
 import type { PressureUnit } from "@/lib/oxygen/units";
-import { periodLine, unitClock } from "@/lib/reports/csv";
 import { CalibrationChart } from "./CalibrationChart";
 
 /**
@@ -39,92 +38,71 @@ export function ForecastAccuracyReportView({
 }) {
   const label = FORECAST_REPORT_LABEL;
   const period = forecastReportPeriod(report, timeZone);
-  const when = periodLine(period);
   const common = { period, reportLabel: label };
   const calibration = calibrationSeries(report.calibration, pressureUnit);
   const { minMinutes, maxMinutes } = report.settings;
 
   return (
-    <table role="presentation" className="report-print">
-      <thead className="report-print-head" aria-hidden="true">
-        <tr>
-          <td className="border-b border-border pb-1 text-xs">
-            Tidemark · {label} · {when}
-          </td>
-        </tr>
-      </thead>
-      <tbody className="report-print-body">
-        <tr>
-          <td>
-            <div className="space-y-5" data-testid="report-view">
-              <header className="space-y-1">
-                <h2 className="text-xl font-semibold">
-                  {label} — {period.unitCode} ({period.unitName})
-                </h2>
-                <p className="text-sm text-ink-muted" data-testid="report-period">
-                  {when}. Generated {unitClock(period.generatedAt, period.timeZone)}.
-                </p>
-                <p className="text-sm">
-                  Every FiO2 change recorded on the unit in the period, its stored PaO2 forecast
-                  checked against the first arterial gas {minMinutes}–{maxMinutes} min after it
-                  (which may come after the period ends). Errors are forecast − measured, in{" "}
-                  {pressureUnit}.
-                </p>
-              </header>
-              <Caution />
-              {report.counts.changes === 0 ? (
-                <EmptyState title="No recorded change to check">
-                  No settings change was recorded on {period.unitCode} in this period, so no
-                  forecast could be checked. Choose a longer period or another unit.
-                </EmptyState>
-              ) : (
-                <>
-                  <SummaryTiles
-                    tiles={forecastTiles(report, pressureUnit)}
-                    label={`${label}, whole unit`}
-                  />
-                  <section
-                    aria-label="Forecast accuracy by model"
-                    className="grid gap-4 lg:grid-cols-2 print:grid-cols-1"
-                  >
-                    {report.summary.n > 0 ? (
-                      <CalibrationChart
-                        series={calibration.series}
-                        axisMax={calibration.axisMax}
-                        unit={pressureUnit}
-                        id="forecast-accuracy-calibration"
-                      />
-                    ) : null}
-                    <ReportTableView
-                      table={modelTable(report.summary, pressureUnit)}
-                      {...common}
-                      emptyText="No forecast was checked in this period."
-                    />
-                  </section>
-                  <ReportTableView table={deviceTable(report, pressureUnit)} {...common} />
-                  <ReportTableView table={fio2StepTable(report, pressureUnit)} {...common} />
-                  <ReportTableView
-                    table={reasonTable(report)}
-                    {...common}
-                    emptyText="Every change in this period was checked."
-                  />
-                  <ReportTableView
-                    table={pairsTable(report, pressureUnit, timeZone)}
-                    {...common}
-                    emptyText="No forecast was checked in this period."
-                  />
-                  <ReportTableView
-                    table={uncheckedTable(report, timeZone)}
-                    {...common}
-                    emptyText="Every change in this period was checked."
-                  />
-                </>
-              )}
-              <BasisList basis={report.basis} />
-            </div>
-          </td>
-        </tr>
-      </tbody>
-    </table>
+    <ReportFrame
+      label={label}
+      period={period}
+      intro={
+        <>
+          Every FiO2 change recorded on the unit in the period, its stored PaO2 forecast checked
+          against the first arterial gas {minMinutes}–{maxMinutes} min after it (which may come
+          after the period ends). Errors are forecast − measured, in {pressureUnit}.
+        </>
+      }
+    >
+      {report.counts.changes === 0 ? (
+        <EmptyState title="No recorded change to check">
+          No settings change was recorded on {period.unitCode} in this period, so no forecast could
+          be checked. Choose a longer period or another unit.
+        </EmptyState>
+      ) : (
+        <>
+          <SummaryTiles
+            tiles={forecastTiles(report, pressureUnit)}
+            label={`${label}, whole unit`}
+          />
+          <section
+            aria-label="Forecast accuracy by model"
+            className="grid gap-4 lg:grid-cols-2 print:grid-cols-1"
+          >
+            {report.summary.n > 0 ? (
+              <CalibrationChart
+                series={calibration.series}
+                axisMax={calibration.axisMax}
+                unit={pressureUnit}
+                id="forecast-accuracy-calibration"
+              />
+            ) : null}
+            <ReportTableView
+              table={modelTable(report.summary, pressureUnit)}
+              {...common}
+              emptyText="No forecast was checked in this period."
+            />
+          </section>
+          <ReportTableView table={deviceTable(report, pressureUnit)} {...common} />
+          <ReportTableView table={fio2StepTable(report, pressureUnit)} {...common} />
+          <ReportTableView
+            table={reasonTable(report)}
+            {...common}
+            emptyText="Every change in this period was checked."
+          />
+          <ReportTableView
+            table={pairsTable(report, pressureUnit, timeZone)}
+            {...common}
+            emptyText="No forecast was checked in this period."
+          />
+          <ReportTableView
+            table={uncheckedTable(report, timeZone)}
+            {...common}
+            emptyText="Every change in this period was checked."
+          />
+        </>
+      )}
+      <BasisList basis={report.basis} />
+    </ReportFrame>
   );
 }

@@ -1,11 +1,11 @@
 "use client";
 
 import type { ReactNode } from "react";
-import { buttonClasses } from "@/components/ui/Button";
+import { DownloadCsvButton } from "@/components/ui/DownloadCsvButton";
 import { rehearsalCsv, rehearsalCsvFileName, type CsvRun } from "@/lib/rehearsal/csv";
 import { cellText, type RehearsalTable } from "@/lib/rehearsal/tables";
 
-/** Builds the table's CSV in the browser (lib/rehearsal/csv.ts) and saves it through a Blob link. */
+/** A rehearsal table's CSV (lib/rehearsal/csv.ts), built in the browser. */
 export function RehearsalCsvButton({
   table,
   runs,
@@ -15,28 +15,12 @@ export function RehearsalCsvButton({
   runs: readonly CsvRun[];
   timeZone: string;
 }) {
-  const download = () => {
-    const blob = new Blob([rehearsalCsv(table, runs, timeZone)], {
-      type: "text/csv;charset=utf-8",
-    });
-    const url = URL.createObjectURL(blob);
-    const a = document.createElement("a");
-    a.href = url;
-    a.download = rehearsalCsvFileName(table, runs);
-    document.body.appendChild(a);
-    a.click();
-    a.remove();
-    setTimeout(() => URL.revokeObjectURL(url), 1000);
-  };
   return (
-    <button
-      type="button"
-      onClick={download}
-      className={buttonClasses("secondary", "print:hidden")}
-      aria-label={`Download CSV: ${table.title}${runs.length === 1 ? `, run #${runs[0]!.id}` : ""}`}
-    >
-      Download CSV
-    </button>
+    <DownloadCsvButton
+      build={() => rehearsalCsv(table, runs, timeZone)}
+      fileName={rehearsalCsvFileName(table, runs)}
+      label={`Download CSV: ${table.title}${runs.length === 1 ? `, run #${runs[0]!.id}` : ""}`}
+    />
   );
 }
 

@@ -1,11 +1,11 @@
 "use client";
 
-import { buttonClasses } from "@/components/ui/Button";
+import { DownloadCsvButton } from "@/components/ui/DownloadCsvButton";
 import { csvFileName, tableToCsv } from "@/lib/reports/csv";
 import type { ReportTable } from "@/lib/reports/tables";
 import type { ReportPeriod } from "@/lib/reports/types";
 
-/** Builds the table's CSV in the browser (lib/reports/csv.ts) and saves it through a Blob link. */
+/** A report table's CSV (lib/reports/csv.ts), built in the browser. */
 export function CsvDownload({
   table,
   period,
@@ -15,27 +15,11 @@ export function CsvDownload({
   period: ReportPeriod;
   reportLabel: string;
 }) {
-  const download = () => {
-    const blob = new Blob([tableToCsv(table, period, reportLabel)], {
-      type: "text/csv;charset=utf-8",
-    });
-    const url = URL.createObjectURL(blob);
-    const a = document.createElement("a");
-    a.href = url;
-    a.download = csvFileName(table, period);
-    document.body.appendChild(a);
-    a.click();
-    a.remove();
-    setTimeout(() => URL.revokeObjectURL(url), 1000);
-  };
   return (
-    <button
-      type="button"
-      onClick={download}
-      className={buttonClasses("secondary", "print:hidden")}
-      aria-label={`Download CSV: ${table.title}`}
-    >
-      Download CSV
-    </button>
+    <DownloadCsvButton
+      build={() => tableToCsv(table, period, reportLabel)}
+      fileName={csvFileName(table, period)}
+      label={`Download CSV: ${table.title}`}
+    />
   );
 }

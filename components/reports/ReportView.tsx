@@ -1,12 +1,11 @@
-import { Caution } from "@/components/ui/Caution";
 import { EmptyState } from "@/components/ui/EmptyState";
-import { periodLine, unitClock } from "@/lib/reports/csv";
 import { REPORT_LABELS } from "@/lib/reports/period";
 import { chartSpec, chartTable } from "@/lib/reports/charts";
 import { alertKindTable, GROUP_LABELS, groupTable } from "@/lib/reports/tables";
 import { summaryTiles } from "@/lib/reports/tiles";
 import type { AlertsReport, ReportGroup, ReportKind, ReportOf } from "@/lib/reports/types";
 import { BasisList } from "./BasisList";
+import { ReportFrame } from "./ReportFrame";
 import { ReportChart } from "./ReportChart";
 import { ReportTableView } from "./ReportTableView";
 import { SummaryTiles } from "./SummaryTiles";
@@ -31,7 +30,6 @@ export function ReportView({ set }: { set: ReportSet }) {
   const { kind, byPatient } = set;
   const label = REPORT_LABELS[kind];
   const period = byPatient.period;
-  const when = periodLine(period);
   const overTitle = `${label} by ${GROUP_LABELS[set.overTimeGroup].toLowerCase()}`;
   const overSpec = chartSpec(kind, set.overTime, overTitle);
   const bedSpec = chartSpec(kind, set.byBed, `${label} by bed`);
@@ -39,76 +37,40 @@ export function ReportView({ set }: { set: ReportSet }) {
   const common = { period, reportLabel: label };
 
   return (
-    <table role="presentation" className="report-print">
-      <thead className="report-print-head" aria-hidden="true">
-        <tr>
-          <td className="border-b border-border pb-1 text-xs">
-            Tidemark · {label} · {when}
-          </td>
-        </tr>
-      </thead>
-      <tbody className="report-print-body">
-        <tr>
-          <td>
-            <div className="space-y-5" data-testid="report-view">
-              <header className="space-y-1">
-                <h2 className="text-xl font-semibold">
-                  {label} — {period.unitCode} ({period.unitName})
-                </h2>
-                <p className="text-sm text-ink-muted" data-testid="report-period">
-                  {when}. Generated {unitClock(period.generatedAt, period.timeZone)}.
-                </p>
-              </header>
-              <Caution />
-              {byPatient.rows.length === 0 ? (
-                <EmptyState title="Nothing to report">
-                  No patient was on {period.unitCode} in this period, so there is nothing to count.
-                  Choose a longer period or another unit.
-                </EmptyState>
-              ) : (
-                <>
-                  <SummaryTiles
-                    tiles={summaryTiles(kind, byPatient)}
-                    label={`${label}, whole unit`}
-                  />
-                  <section
-                    aria-label={overTitle}
-                    className="grid gap-4 lg:grid-cols-2 print:grid-cols-1"
-                  >
-                    <ReportChart spec={overSpec} id={`${kind}-over-time`} />
-                    <ReportTableView
-                      table={chartTable(
-                        overSpec,
-                        `${kind}-${set.overTimeGroup}`,
-                        GROUP_LABELS[set.overTimeGroup],
-                      )}
-                      {...common}
-                    />
-                  </section>
-                  <section
-                    aria-label={`${label} by bed`}
-                    className="grid gap-4 lg:grid-cols-2 print:grid-cols-1"
-                  >
-                    <ReportChart spec={bedSpec} id={`${kind}-by-bed`} />
-                    <ReportTableView
-                      table={chartTable(bedSpec, `${kind}-bed`, "Bed")}
-                      {...common}
-                    />
-                  </section>
-                  {kind === "alerts" ? (
-                    <ReportTableView
-                      table={alertKindTable(byPatient as AlertsReport)}
-                      {...common}
-                    />
-                  ) : null}
-                  <ReportTableView table={patientTable} {...common} />
-                </>
+    <ReportFrame label={label} period={period}>
+      {byPatient.rows.length === 0 ? (
+        <EmptyState title="Nothing to report">
+          No patient was on {period.unitCode} in this period, so there is nothing to count. Choose a
+          longer period or another unit.
+        </EmptyState>
+      ) : (
+        <>
+          <SummaryTiles tiles={summaryTiles(kind, byPatient)} label={`${label}, whole unit`} />
+          <section aria-label={overTitle} className="grid gap-4 lg:grid-cols-2 print:grid-cols-1">
+            <ReportChart spec={overSpec} id={`${kind}-over-time`} />
+            <ReportTableView
+              table={chartTable(
+                overSpec,
+                `${kind}-${set.overTimeGroup}`,
+                GROUP_LABELS[set.overTimeGroup],
               )}
-              <BasisList basis={byPatient.basis} />
-            </div>
-          </td>
-        </tr>
-      </tbody>
-    </table>
+              {...common}
+            />
+          </section>
+          <section
+            aria-label={`${label} by bed`}
+            className="grid gap-4 lg:grid-cols-2 print:grid-cols-1"
+          >
+            <ReportChart spec={bedSpec} id={`${kind}-by-bed`} />
+            <ReportTableView table={chartTable(bedSpec, `${kind}-bed`, "Bed")} {...common} />
+          </section>
+          {kind === "alerts" ? (
+            <ReportTableView table={alertKindTable(byPatient as AlertsReport)} {...common} />
+          ) : null}
+          <ReportTableView table={patientTable} {...common} />
+        </>
+      )}
+      <BasisList basis={byPatient.basis} />
+    </ReportFrame>
   );
 }

@@ -334,6 +334,31 @@ export async function seed(knex: Knex): Promise<void> {
     let spo2 = mid + (random() - 0.5) * 4;
     const hb = round(9 + random() * 5, 0.1);
     let lastArterialAt = -Infinity;
+    // An ICU gas of the forecast checks, from its own random stream: SaO2 about `spo2`, PaO2
+    // from the curve within ±`spread`, at the FiO2 set then; entered 10 min after sampling.
+    const checkGas = async (sampledAt: number, spo2: number, spread: number) => {
+      lastArterialAt = sampledAt;
+      const sao2 = clamp(spo2 + (gasRandom() - 0.5) * 3, 80, 99.5);
+      await seedBloodGas(
+        knex,
+        team.therapist,
+        {
+          patientId: p.patient_id,
+          sampledAt: new Date(sampledAt),
+          sampleType: "arterial",
+          ph: round(7.32 + gasRandom() * 0.1, 0.01),
+          pao2: round(po2FromSaturation(sao2 / 100) * (1 - spread + gasRandom() * 2 * spread), 1),
+          paco2: round(36 + gasRandom() * 14, 1),
+          hemoglobin: hb,
+          device: plan.device,
+          fio2,
+          ...(peep !== undefined ? { peep } : {}),
+          ...(profile.uses.flow ? { flow } : {}),
+        },
+        new Date(sampledAt + 10 * 60_000),
+      );
+      counts.gases++;
+    };
     // The reassessment of the sixth ward patient stopped five hours ago (overdue on the Board).
     const stopAt = p.code === "RESP" && position === 5 ? end - 5 * 3600_000 : end;
     for (
@@ -418,27 +443,7 @@ export async function seed(knex: Knex): Promise<void> {
             profile.uses.fio2 === "set" &&
             appliedAt.getTime() - lastArterialAt > 4 * 3600_000
           ) {
-            lastArterialAt = appliedAt.getTime() - 10 * 60_000;
-            const sao2 = clamp(shownSpo2 + (gasRandom() - 0.5) * 2, 80, 99.5);
-            await seedBloodGas(
-              knex,
-              team.therapist,
-              {
-                patientId: p.patient_id,
-                sampledAt: new Date(lastArterialAt),
-                sampleType: "arterial",
-                ph: round(7.32 + gasRandom() * 0.1, 0.01),
-                pao2: round(po2FromSaturation(sao2 / 100) * (0.95 + gasRandom() * 0.1), 1),
-                paco2: round(36 + gasRandom() * 14, 1),
-                hemoglobin: hb,
-                device: plan.device,
-                fio2,
-                ...(peep !== undefined ? { peep } : {}),
-                ...(profile.uses.flow ? { flow } : {}),
-              },
-              new Date(lastArterialAt + 5 * 60_000),
-            );
-            counts.gases++;
+            await checkGas(appliedAt.getTime() - 10 * 60_000, shownSpo2, 0.05);
           }
           await seedAdjustment(
             knex,
@@ -465,28 +470,7 @@ export async function seed(knex: Knex): Promise<void> {
           // On the ICU, two changes in three of a set FiO2 are checked by an arterial gas
           // 30–90 min later (before the next round): the Chart's "How the forecasts did".
           if (p.code === "MICU" && profile.uses.fio2 === "set" && gasRandom() < 2 / 3) {
-            const sampledAt = new Date(appliedAt.getTime() + (30 + gasRandom() * 60) * 60_000);
-            lastArterialAt = sampledAt.getTime();
-            const sao2 = clamp(spo2 + (gasRandom() - 0.5) * 3, 80, 99.5);
-            await seedBloodGas(
-              knex,
-              team.therapist,
-              {
-                patientId: p.patient_id,
-                sampledAt,
-                sampleType: "arterial",
-                ph: round(7.32 + gasRandom() * 0.1, 0.01),
-                pao2: round(po2FromSaturation(sao2 / 100) * (0.9 + gasRandom() * 0.2), 1),
-                paco2: round(36 + gasRandom() * 14, 1),
-                hemoglobin: hb,
-                device: plan.device,
-                fio2,
-                ...(peep !== undefined ? { peep } : {}),
-                ...(profile.uses.flow ? { flow } : {}),
-              },
-              new Date(sampledAt.getTime() + 15 * 60_000),
-            );
-            counts.gases++;
+            await checkGas(appliedAt.getTime() + (30 + gasRandom() * 60) * 60_000, spo2, 0.1);
           }
         }
       }
