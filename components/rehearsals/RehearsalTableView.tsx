@@ -1,6 +1,7 @@
 "use client";
 
 import type { ReactNode } from "react";
+import { DataTable } from "@/components/ui/DataTable";
 import { DownloadCsvButton } from "@/components/ui/DownloadCsvButton";
 import { rehearsalCsv, rehearsalCsvFileName, type CsvRun } from "@/lib/rehearsal/csv";
 import { cellText, type RehearsalTable } from "@/lib/rehearsal/tables";
@@ -44,68 +45,22 @@ export function RehearsalTableView({
   /** Smaller type and padding on a phone, so a narrow table fits without scrolling. */
   compact?: boolean;
 }) {
-  const cell = compact ? "px-1.5 py-1 sm:px-2 sm:py-1.5" : "px-2 py-1.5";
-  const headingId = `${table.id}-${runs.map((r) => r.id).join("-")}-heading`;
-  const Heading = headingLevel === 3 ? "h3" : "h4";
   return (
-    <section
-      aria-labelledby={headingId}
-      className="min-w-0 space-y-2"
-      data-testid={`rehearsal-table-${table.id}`}
-    >
-      <div className="flex flex-wrap items-center justify-between gap-2">
-        <Heading id={headingId} className="text-base font-semibold">
-          {table.title}
-        </Heading>
-        {table.rows.length > 0 ? (
-          <RehearsalCsvButton table={table} runs={runs} timeZone={timeZone} />
-        ) : null}
-      </div>
-      {note ? <p className="text-xs text-ink-muted">{note}</p> : null}
-      {table.rows.length === 0 ? (
-        <p className="rounded-md border border-dashed border-border-strong px-3 py-4 text-sm text-ink-muted">
-          Nothing to show.
-        </p>
-      ) : (
-        <div className="overflow-x-auto rounded-card border border-border bg-surface print:overflow-visible">
-          <table className={`w-full ${compact ? "text-xs sm:text-sm" : "text-sm"}`}>
-            <caption className="sr-only">{caption}</caption>
-            <thead className="bg-surface-muted text-left text-xs text-ink-muted">
-              <tr>
-                {table.columns.map((c, i) => (
-                  <th
-                    key={c.key}
-                    scope="col"
-                    className={`${cell} font-semibold ${i > 0 && c.format !== "text" ? "text-right" : ""}`}
-                  >
-                    {c.label}
-                  </th>
-                ))}
-              </tr>
-            </thead>
-            <tbody>
-              {table.rows.map((row) => (
-                <tr key={row.key} className="border-t border-border">
-                  {table.columns.map((column, i) =>
-                    i === 0 ? (
-                      <th key={column.key} scope="row" className={`${cell} text-left font-medium`}>
-                        {cellText(table, row, i)}
-                      </th>
-                    ) : (
-                      <td
-                        key={column.key}
-                        className={`tabular ${cell} ${column.format !== "text" ? "text-right" : ""}`}
-                      >
-                        {cellText(table, row, i)}
-                      </td>
-                    ),
-                  )}
-                </tr>
-              ))}
-            </tbody>
-          </table>
-        </div>
-      )}
-    </section>
+    <DataTable
+      id={`${table.id}-${runs.map((r) => r.id).join("-")}`}
+      testId={`rehearsal-table-${table.id}`}
+      title={table.title}
+      headingLevel={headingLevel}
+      actions={<RehearsalCsvButton table={table} runs={runs} timeZone={timeZone} />}
+      note={note}
+      caption={caption}
+      columns={table.columns.map((c) => ({ ...c, numeric: c.format !== "text" }))}
+      rows={table.rows.map((row) => ({
+        key: row.key,
+        cells: table.columns.map((_, i) => cellText(table, row, i)),
+      }))}
+      emptyText="Nothing to show."
+      compact={compact}
+    />
   );
 }
