@@ -110,7 +110,9 @@ export function AlertList({
         <LoadError what="the alerts" message={error.message} onRetry={() => void mutate()} />
       ) : null}
       <p className="sr-only" aria-live="polite">
-        {isValidating ? "Refreshing alerts" : `${alerts.length} alerts shown`}
+        {isValidating
+          ? "Refreshing alerts"
+          : `${alerts.length} ${alerts.length === 1 ? "alert" : "alerts"} shown`}
       </p>
       {alerts.length === 0 && compactEmpty ? (
         <p className="text-sm text-ink-muted">{compactEmpty}</p>

@@ -22,8 +22,13 @@ export const BOARD_REFRESH_MS = 30_000;
 
 const fetchBoard = (url: string) => getApiJson<BoardData>(url, "the Board");
 
+/** 24-hour, as every time in the app ("04:17", never "04:17 AM"). */
 function timeOf(iso: string): string {
-  return new Date(iso).toLocaleTimeString([], { hour: "2-digit", minute: "2-digit" });
+  return new Date(iso).toLocaleTimeString("en-GB", {
+    hour: "2-digit",
+    minute: "2-digit",
+    hourCycle: "h23",
+  });
 }
 
 /**

@@ -77,7 +77,12 @@ export function describeAlert(
     case "limits_exhausted":
       return `SpO2 below the ${band} with ${(input.limitsAtMax ?? []).join(", ") || "a limit"} at the order's maximum: a new order is needed to go further.`;
     case "reassessment_overdue":
-      return `Reassessment is ${input.overdueMinutes ?? "?"} min past the interval the order sets.`;
+      if (input.overdueMinutes === undefined)
+        return "Reassessment is past the interval the order sets.";
+      // Whole minutes: under one past the interval, the reassessment is simply due.
+      return input.overdueMinutes < 1
+        ? "Reassessment is due now: the interval the order sets has passed."
+        : `Reassessment is ${input.overdueMinutes} min past the interval the order sets.`;
     case "signal_loss": {
       const side = input.excursion?.direction === "above" ? "above" : "below";
       const state = input.excursion?.phase === "open" ? "while SpO2 was" : "while SpO2 was going";

@@ -67,6 +67,17 @@ describe("composeAlertEmail", () => {
       }).text,
     ).toContain("12 min past");
   });
+
+  it("says an overdue reassessment under a minute past the interval is due now, not 0 min past", () => {
+    const overdue = { ...input, kind: "reassessment_overdue" as const, band: null, spo2: null };
+    expect(composeAlertEmail({ ...overdue, overdueMinutes: 0 }).text).toContain(
+      "Reassessment is due now: the interval the order sets has passed.",
+    );
+    expect(composeAlertEmail({ ...overdue, overdueMinutes: 0 }).text).not.toContain("0 min");
+    expect(composeAlertEmail({ ...overdue, overdueMinutes: 1 }).text).toContain(
+      "Reassessment is 1 min past the interval the order sets.",
+    );
+  });
 });
 
 describe("alertMessageId and retryDelayMs", () => {
