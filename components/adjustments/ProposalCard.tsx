@@ -59,7 +59,7 @@ export function ProposalCard({
         className="rounded-card border border-border bg-surface p-3 text-sm shadow-card"
         data-testid="proposal"
       >
-        <h2 className="text-sm font-semibold">Engine proposal</h2>
+        <h2 className="text-sm font-semibold">Suggested next step</h2>
         <p className="mt-1 text-ink-muted">
           {proposalError
             ? `No proposal: ${proposalError}`
@@ -97,7 +97,7 @@ export function ProposalCard({
       <div className="flex flex-wrap items-start justify-between gap-2">
         <div className="min-w-0 space-y-1">
           <h2 id="proposal-heading" className="text-sm font-semibold">
-            Engine proposal:{" "}
+            Suggested next step:{" "}
             <span className={`inline-flex items-center gap-1 ${look.className}`}>
               <look.Icon className="shrink-0" />
               {look.label}

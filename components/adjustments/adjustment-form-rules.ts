@@ -54,7 +54,7 @@ export function adjustmentFormSchema(device: Device, current: BedsideSettings | 
         if (unchanged && (uses.fio2 === "set" || uses.flow || uses.peep)) {
           issue(
             uses.fio2 === "set" ? "toFio2" : "toFlow",
-            "These are the settings in effect now: change at least one value (to record a reassessment, chart a reading).",
+            "These are the settings in effect now: change at least one value (to record a reassessment, chart SpO2).",
           );
         }
       },

@@ -177,7 +177,7 @@ export function AlertList({
                   </dd>
                   <dt>Opened</dt>
                   <dd className="tabular">{at(a.openedAt, tz)}</dd>
-                  <dt>Told</dt>
+                  <dt>Notified</dt>
                   <dd>{toldText(a)}</dd>
                   {a.nextEscalationAt ? (
                     <>

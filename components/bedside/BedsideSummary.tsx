@@ -32,7 +32,7 @@ export function bedsideActions(actor: Actor, context: BedsideContext) {
     actions.push({ href: `${base}/adjustments/new`, label: "Record adjustment" });
   }
   if (can(actor, "reading.chart"))
-    actions.push({ href: `${base}/readings/new`, label: "Chart reading" });
+    actions.push({ href: `${base}/readings/new`, label: "Chart SpO2" });
   if (can(actor, "blood_gas.record"))
     actions.push({ href: `${base}/blood-gases/new`, label: "Enter blood gas" });
   return actions;

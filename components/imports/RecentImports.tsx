@@ -66,7 +66,7 @@ export function RecentImports({ imports }: { imports: ImportSummary[] }) {
                     {i.status === "imported" ? (
                       <StatusBadge status="in-band" label="Imported" />
                     ) : (
-                      <StatusBadge status="overdue" label="Awaiting confirm" />
+                      <StatusBadge status="overdue" label="Checked, not imported" />
                     )}
                   </td>
                   <td className="tabular px-3 py-2 text-right">{i.counts.total}</td>

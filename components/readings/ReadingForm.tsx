@@ -189,7 +189,7 @@ export function ReadingForm({
     <form
       onSubmit={onSubmit}
       noValidate
-      aria-label="Chart reading"
+      aria-label="Chart SpO2"
       data-ready={hydrated ? "true" : undefined}
       className="rounded-card border border-border bg-surface p-4 shadow-card"
     >
@@ -270,7 +270,7 @@ export function ReadingForm({
 
         <div className="flex flex-wrap items-center gap-3">
           <Button type="submit" disabled={isSubmitting || saved}>
-            {isSubmitting ? "Charting…" : saved ? "Charted" : "Chart reading"}
+            {isSubmitting ? "Charting…" : saved ? "Charted" : "Chart SpO2"}
           </Button>
           <Link href={`/patients/${patientId}`} className={buttonClasses("ghost")}>
             Cancel

@@ -271,7 +271,7 @@ describe("charting a reading in the browser", () => {
         expect(await page.getByLabel("New FiO2").count()).toBe(0);
 
         await page.goto(`${BASE_URL}/patients/${READING_PATIENT}/readings/new`);
-        await page.getByRole("heading", { level: 1, name: "Chart reading" }).waitFor();
+        await page.getByRole("heading", { level: 1, name: "Chart SpO2" }).waitFor();
         await formReady(page);
         // Device and oxygen prefilled from the applied settings.
         expect(await page.getByLabel("Device").inputValue()).toBe("hfnc");

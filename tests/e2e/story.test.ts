@@ -114,7 +114,7 @@ describe("order, adjustment, reading, ledger", () => {
       // 3. The nurse charts a reading.
       await asUser(NURSE, async (page) => {
         await page.goto(`${BASE_URL}/patients/${PATIENT}/readings/new`);
-        await page.getByRole("heading", { level: 1, name: "Chart reading" }).waitFor();
+        await page.getByRole("heading", { level: 1, name: "Chart SpO2" }).waitFor();
         await page.locator("form[data-ready]").waitFor();
         await page.getByLabel("SpO2 (%)").fill("94");
         await page.getByLabel("Respiratory rate (/min)").fill("24");

@@ -95,7 +95,7 @@ describe("ReadingForm", () => {
     render(<ReadingForm patientId={PATIENT_ID} context={context()} timeZone="UTC" />);
     type("SpO2 (%)", "130");
     type("Respiratory rate (/min)", "22");
-    fireEvent.click(screen.getByRole("button", { name: "Chart reading" }));
+    fireEvent.click(screen.getByRole("button", { name: "Chart SpO2" }));
     await screen.findByText("SpO2 must be between 0 and 100 %.");
     expect(field("Respiratory rate (/min)").value).toBe("22");
     expect(mocks.chart).not.toHaveBeenCalled();
@@ -110,7 +110,7 @@ describe("ReadingForm", () => {
     expect(screen.queryByText(/below oximeter accuracy/)).toBeNull();
     type("SpO2 (%)", "45");
     type("Respiratory rate (/min)", "30");
-    fireEvent.click(screen.getByRole("button", { name: "Chart reading" }));
+    fireEvent.click(screen.getByRole("button", { name: "Chart SpO2" }));
     await waitFor(() => expect(mocks.chart).toHaveBeenCalledTimes(1));
     expect(mocks.chart.mock.calls[0]?.[0]).toMatchObject({ spo2: 45 });
   });
@@ -122,7 +122,7 @@ describe("ReadingForm", () => {
     type("Respiratory rate (/min)", "22");
     type("Device", "nasal_cannula");
     type("Flow (L/min)", "2");
-    fireEvent.click(screen.getByRole("button", { name: "Chart reading" }));
+    fireEvent.click(screen.getByRole("button", { name: "Chart SpO2" }));
     await waitFor(() => expect(mocks.push).toHaveBeenCalledWith(`/patients/${PATIENT_ID}`));
     const sent = mocks.chart.mock.calls[0]?.[0] as Record<string, unknown>;
     expect(sent).toMatchObject({

@@ -47,10 +47,10 @@ export default async function NewAdjustmentPage({
       <EmptyState title={`${device} changes are recorded by a therapist or physician`}>
         Nurses record settings changes on low-flow devices only (nasal cannula, simple and reservoir
         masks). Ask the respiratory therapist or the physician to record a change on {device}; you
-        can still chart a reading or enter a blood gas.
+        can still chart SpO2 or enter a blood gas.
         <span className="mt-3 flex flex-wrap justify-center gap-2">
           <Link href={`${chart}/readings/new`} className={buttonClasses("secondary")}>
-            Chart reading
+            Chart SpO2
           </Link>
           <Link href={chart} className={buttonClasses("ghost")}>
             Back to the Chart
