@@ -16,15 +16,12 @@ import {
 } from "./summary";
 import type { ForecastPair, UncheckedAdjustment } from "./types";
 import {
-  pairFromView,
   pairView,
   uncheckedView,
   type ForecastAccuracyReport,
   type ForecastPairView,
   type PatientForecastAccuracy,
 } from "./views";
-
-export { pairFromView, pairView, uncheckedView };
 
 /**
  * How the forecasts did for one patient: every change of the current (or,
@@ -37,16 +34,23 @@ export async function loadPatientForecastAccuracy(
   patientId: number,
 ): Promise<PatientForecastAccuracy> {
   const admission = await findReadableAdmission(knex, actor, patientId);
+  return loadAdmissionForecastAccuracy(knex, patientId, admission.admissionId);
+}
+
+/** The same for an admission the caller has already checked (the Chart has). */
+export async function loadAdmissionForecastAccuracy(
+  knex: Knex,
+  patientId: number,
+  admissionId: number,
+): Promise<PatientForecastAccuracy> {
   const settings = pairingSettings();
-  const events = (await loadAdmissionEvents(knex, [admission.admissionId])).get(
-    admission.admissionId,
-  )!;
+  const events = (await loadAdmissionEvents(knex, [admissionId])).get(admissionId)!;
   const { pairs, unchecked } = pairForecasts(events, settings);
   const newestFirst = <T extends { appliedAt: Date }>(xs: T[]) =>
     [...xs].sort((a, b) => b.appliedAt.getTime() - a.appliedAt.getTime());
   return {
     patientId,
-    admissionId: admission.admissionId,
+    admissionId,
     settings,
     pairs: newestFirst(pairs).map(pairView),
     unchecked: newestFirst(unchecked).map(uncheckedView),

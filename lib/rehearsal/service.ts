@@ -6,6 +6,7 @@ import { ConflictError, NotFoundError, ValidationError } from "../errors";
 import { appendLedger } from "../ledger/service";
 import { getStepTable, type StepTableView } from "../step-tables/queries";
 import { orderStepsOf } from "../step-tables/steps";
+import { DEFAULT_HFNC_OPTION } from "./labels";
 import { defaultOrder } from "./parameters";
 import { protocolOrders, protocolProblems, rehearsalParameters } from "./protocol";
 import { getRehearsal, listRehearsals, type StoredSettings } from "./queries";
@@ -15,7 +16,7 @@ import type { RehearsalListItem, RehearsalTableRef, RehearsalView } from "./view
 /** The default high-flow ladder, as a run names it. */
 export const DEFAULT_HFNC_LADDER: RehearsalTableRef = {
   id: null,
-  name: "Default high-flow ladder (FiO2 0.21–1, 40 L/min)",
+  name: DEFAULT_HFNC_OPTION,
   source: null,
   builtIn: true,
   rows: defaultOrder("hfnc").steps.length,

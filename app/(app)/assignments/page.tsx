@@ -4,7 +4,7 @@ import { AssignmentGrid } from "@/components/assignments/AssignmentGrid";
 import { ShiftTabs } from "@/components/assignments/ShiftTabs";
 import { buttonClasses } from "@/components/ui/Button";
 import { EmptyState } from "@/components/ui/EmptyState";
-import { inputClasses } from "@/components/ui/Field";
+import { UnitChooser } from "@/components/units/UnitChooser";
 import { getAssignmentGrid } from "@/lib/assignments/queries";
 import { pagePermission } from "@/lib/auth/page-guard";
 import { db } from "@/lib/db";
@@ -53,24 +53,7 @@ export default async function AssignmentsPage({
         <>
           <div className="flex flex-wrap items-end gap-4">
             {units.length > 1 ? (
-              <form method="get" className="flex items-end gap-2">
-                <input type="hidden" name="shift" value={shift} />
-                <div className="flex flex-col gap-1">
-                  <label htmlFor="unit" className="text-sm font-medium text-ink">
-                    Unit
-                  </label>
-                  <select id="unit" name="unit" defaultValue={unit.id} className={inputClasses}>
-                    {units.map((u) => (
-                      <option key={u.id} value={u.id}>
-                        {u.code} · {u.name}
-                      </option>
-                    ))}
-                  </select>
-                </div>
-                <button type="submit" className={buttonClasses("secondary")}>
-                  Show
-                </button>
-              </form>
+              <UnitChooser units={units} value={unit.id} action="/assignments" keep={{ shift }} />
             ) : (
               <p className="text-sm font-medium">
                 {unit.code} · {unit.name}

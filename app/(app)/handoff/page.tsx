@@ -3,7 +3,7 @@ import { cookies } from "next/headers";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { HandoffSheet, shiftLabel } from "@/components/handoff/HandoffSheet";
-import { UnitChooser } from "@/components/handoff/UnitChooser";
+import { UnitChooser } from "@/components/units/UnitChooser";
 import { EmptyState } from "@/components/ui/EmptyState";
 import { pagePermission } from "@/lib/auth/page-guard";
 import { can } from "@/lib/auth/permissions";
@@ -58,7 +58,7 @@ export default async function HandoffPage({ searchParams }: { searchParams: Prom
   return (
     <div className="space-y-4">
       <div className="flex flex-wrap items-end justify-between gap-3 print:hidden">
-        <UnitChooser units={units} value={unitId} />
+        <UnitChooser units={units} value={unitId} action="/handoff" />
         <nav aria-label="Handover" className="text-sm">
           {view.lateIncoming ? (
             <Link

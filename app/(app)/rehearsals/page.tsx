@@ -6,8 +6,8 @@ import {
   RehearsalWorkspace,
   type RehearsalFormSetup,
 } from "@/components/rehearsals/RehearsalWorkspace";
-import { UnitPicker } from "@/components/rehearsals/UnitPicker";
 import { Caution } from "@/components/ui/Caution";
+import { UnitChooser } from "@/components/units/UnitChooser";
 import { EmptyState } from "@/components/ui/EmptyState";
 import { alertConfig } from "@/lib/alerts/config";
 import { assertUnitAccess } from "@/lib/auth/actor-queries";
@@ -94,7 +94,7 @@ export default async function RehearsalsPage({
         <h1 className="text-2xl font-semibold tracking-tight">Protocol rehearsal</h1>
         {chosen.length > 0 ? <PrintButton /> : null}
       </div>
-      <UnitPicker units={units} unitId={unitId} />
+      <UnitChooser units={units} value={unitId} action="/rehearsals" id="rehearsal-unit" />
       <p className="text-sm text-ink-muted">
         {unit.code} ({unit.name}): virtual patients run through a protocol under a fixed-interval
         routine, the Tidemark workflow and an instant reference, on the same patients and courses.

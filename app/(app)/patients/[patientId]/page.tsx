@@ -16,7 +16,7 @@ import { can } from "@/lib/auth/permissions";
 import { db } from "@/lib/db";
 import { NotFoundError } from "@/lib/errors";
 import { getBedsideContext } from "@/lib/chart/bedside";
-import { loadPatientForecastAccuracy } from "@/lib/forecast-accuracy/queries";
+import { loadAdmissionForecastAccuracy } from "@/lib/forecast-accuracy/queries";
 import { ageInYears } from "@/lib/admissions/display";
 import { DISPOSITION_LABELS, type Disposition } from "@/lib/admissions/schema";
 import { formatUnitTime } from "@/lib/time/zone";
@@ -53,7 +53,7 @@ export default async function ChartPage({ params }: { params: Promise<{ patientI
     getBedsideContext(db(), actor, patient.id),
     listAlerts(db(), actor, { patientId: patient.id, status: "open" }),
     loadStaySummary(db(), patient.admission, now),
-    loadPatientForecastAccuracy(db(), actor, patient.id),
+    loadAdmissionForecastAccuracy(db(), patient.id, patient.admission.id),
   ]);
   const age = ageInYears(patient.birthDate, now);
   const { bed, unit, dischargedAt, disposition } = patient.admission;
