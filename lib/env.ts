@@ -97,6 +97,11 @@ const envSchema = z
     /** Relay credentials; empty or unset means no authentication (the local fake takes none). */
     SMTP_USER: z.string().optional(),
     SMTP_PASS: z.string().optional(),
+    /**
+     * How long a worker holds an outbox row while it sends it. A worker that
+     * dies mid-send leaves the row to the others once this has passed.
+     */
+    OUTBOX_CLAIM_SECONDS: z.coerce.number().int().min(5).max(3600).default(120),
     /** HTTP port of the local fake inbox's readable page (`npm run mail:inbox`, the demo). */
     MAIL_INBOX_PORT: z.coerce.number().int().min(1).max(65535).default(2580),
     // --- Ledger integrity (lib/ledger; README "What the ledger promises") ---

@@ -8,6 +8,7 @@ import { parseImportTime } from "../imports/time";
 import { appendLedger, lockPatientChain } from "../ledger/service";
 import { bedFor, checkEventTime, openAdmissionFor, type AdmissionView } from "./lookups";
 import { admitIn, dischargeIn, transferIn, type Doer } from "./service";
+import { transact } from "../transaction";
 
 /** What an ADT message did: the admission as it now stands (A08: the patient's new details). */
 export type AdtOutcome = {
@@ -122,7 +123,7 @@ export async function applyAdtMessage(
     }
   }
   try {
-    return await knex.transaction(async (trx) => {
+    return await transact(knex, async (trx) => {
       const admission = await write(trx);
       const outcome: AdtOutcome = {
         trigger: message.trigger,

@@ -6,6 +6,7 @@ import { restartWatch } from "./detect";
 import { closeAlert, lockWatch, saveWatch, type OpenAlertRow } from "./lifecycle";
 import { cancelPendingMail } from "./outbox";
 import { type AcknowledgeData, type ResolveData } from "./schema";
+import { transact } from "../transaction";
 
 // The steps a clinician takes on an alert: acknowledge it, or close it with a reason.
 
@@ -59,7 +60,7 @@ export async function acknowledgeAlert(
   input: AcknowledgeData,
   now: Date = new Date(),
 ): Promise<AlertStepResult> {
-  return knex.transaction(async (trx) => {
+  return transact(knex, async (trx) => {
     const alert = await lockAlertForActor(trx, actor, input.alertId);
     if (alert.state === "resolved") throw new ConflictError("This alert is already resolved.");
     if (alert.state === "acknowledged")
@@ -113,7 +114,7 @@ export async function resolveAlert(
   input: ResolveData,
   now: Date = new Date(),
 ): Promise<AlertStepResult> {
-  return knex.transaction(async (trx) => {
+  return transact(knex, async (trx) => {
     const alert = await lockAlertForActor(trx, actor, input.alertId);
     if (alert.state === "resolved") throw new ConflictError("This alert is already resolved.");
     await closeAlert(

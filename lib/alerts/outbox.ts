@@ -3,6 +3,7 @@ import { getEnv } from "../env";
 import { appendLedger, lockPatientChain, SYSTEM_ACTOR } from "../ledger/service";
 import { alertMessageId, composeAlertEmail, retryDelayMs } from "./email";
 import { ESCALATION_DUTIES, type AlertKind } from "./kinds";
+import { isRetryable, transact } from "../transaction";
 
 export type Recipient = { id: number; email: string; name: string };
 
@@ -340,7 +341,7 @@ export async function deliverOutbox(
   opts: { limit?: number; from?: string; claimMs?: number } = {},
 ): Promise<{ sent: number; failed: number }> {
   const from = opts.from ?? getEnv().SMTP_FROM;
-  const claimMs = opts.claimMs ?? 120_000;
+  const claimMs = opts.claimMs ?? getEnv().OUTBOX_CLAIM_SECONDS * 1000;
   const due = (await knex("mail_outbox")
     .where({ state: "pending" })
     .where("next_attempt_at", "<=", now)
@@ -364,12 +365,18 @@ export async function deliverOutbox(
   let sent = 0;
   let failed = 0;
   for (const row of due) {
+    // On a multi-primary cluster two workers can both see the row free on
+    // their own nodes; the second commit then fails certification: not ours.
     const claimed = await knex("mail_outbox")
       .where({ id: row.id, state: "pending" })
       .where((q) => {
         void q.whereNull("claimed_until").orWhere("claimed_until", "<", now);
       })
-      .update({ claimed_until: new Date(now.getTime() + claimMs) });
+      .update({ claimed_until: new Date(now.getTime() + claimMs) })
+      .catch((error: unknown) => {
+        if (isRetryable(error)) return 0;
+        throw error;
+      });
     if (!claimed) continue;
     if (row.alert_id !== null) {
       // Resolved meanwhile (a row queued before resolving cancelled its mail, or a race): not sent.
@@ -413,7 +420,7 @@ export async function deliverOutbox(
         });
       continue;
     }
-    await knex.transaction(async (trx) => {
+    await transact(knex, async (trx) => {
       // The patient's chain first, the lock order every clinical write keeps.
       const owner =
         row.alert_id === null

@@ -3,6 +3,7 @@ import type { Actor } from "../auth/actor";
 import { appendLedger } from "../ledger/service";
 import { ALERT_KINDS, type AlertKind, type AlertState } from "./kinds";
 import type { AlertFilter, EmailPreferences } from "./schema";
+import { transact } from "../transaction";
 
 export type AlertView = {
   id: number;
@@ -257,7 +258,7 @@ export async function setEmailPreferences(
   prefs: EmailPreferences,
   now: Date = new Date(),
 ): Promise<EmailPreferences> {
-  return knex.transaction(async (trx) => {
+  return transact(knex, async (trx) => {
     const before = await getEmailPreferences(trx, actor.id);
     for (const kind of ALERT_KINDS) {
       await trx("alert_email_preferences")

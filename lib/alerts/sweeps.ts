@@ -13,6 +13,7 @@ import {
 } from "./lifecycle";
 import { queueAlertMail } from "./outbox";
 import { applyEvents, currentOrder } from "./triggers";
+import { transact } from "../transaction";
 
 // Time-driven alert work the worker runs: escalation of what nobody
 // acknowledged, reassessments that fell due, and monitors that went silent.
@@ -35,7 +36,8 @@ export async function escalateDueAlerts(
     .pluck("id")) as number[];
   let moved = 0;
   for (const id of due) {
-    await knex.transaction(async (trx) => {
+    // Counted after the commit: a retried attempt must not count twice.
+    const done = await transact(knex, async (trx) => {
       const owner = (await trx("alerts").where({ id }).first("patient_id")) as {
         patient_id: number;
       };
@@ -89,8 +91,9 @@ export async function escalateDueAlerts(
         },
         now,
       );
-      moved++;
+      return true;
     });
+    if (done) moved++;
   }
   return moved;
 }
@@ -140,7 +143,8 @@ export async function openOverdueReassessments(
       unitId: r.unit_id,
       bedId: r.bed_id,
     };
-    await knex.transaction(async (trx) => {
+    // Counted after the commit: a retried attempt must not count twice.
+    const done = await transact(knex, async (trx) => {
       // Re-checked under the locks: a reading may have landed meanwhile.
       await lockPatientChain(trx, r.patient_id);
       await lockWatch(trx, r.admission_id, now);
@@ -178,8 +182,9 @@ export async function openOverdueReassessments(
         now,
         cfg,
       );
-      opened++;
+      return true;
     });
+    if (done) opened++;
   }
   return opened;
 }
@@ -218,7 +223,8 @@ export async function raiseSignalLosses(
       unitId: r.unit_id,
       bedId: r.bed_id,
     };
-    await knex.transaction(async (trx) => {
+    // Counted after the commit: a retried attempt must not count twice.
+    const done = await transact(knex, async (trx) => {
       await lockPatientChain(trx, r.patient_id);
       const order = await currentOrder(trx, r.patient_id);
       if (!order) return;
@@ -229,8 +235,9 @@ export async function raiseSignalLosses(
       if (!events.length) return;
       await applyEvents(trx, SYSTEM_ACTOR, admission, order, events, now, cfg);
       await saveWatch(trx, r.admission_id, state, now);
-      raised++;
+      return true;
     });
+    if (done) raised++;
   }
   return raised;
 }

@@ -13,6 +13,7 @@ import {
 import { appendLedger } from "../ledger/service";
 import { getApiToken, type ApiTokenSummary } from "./queries";
 import { type ApiTokenCreateData, type ApiTokenRevokeData, type ApiTokenScope } from "./schema";
+import { transact } from "../transaction";
 
 /** Every token starts with this, so a leaked one is easy to recognise in logs and scanners. */
 export const TOKEN_PREFIX = "tdm_";
@@ -46,7 +47,7 @@ export async function createApiToken(
   await confirmAdminPassword(knex, actor.id, input.currentPassword);
   const token = `${TOKEN_PREFIX}${randomBytes(32).toString("base64url")}`;
   const unitIds = [...new Set(input.unitIds)];
-  const summary = await knex.transaction(async (trx) => {
+  const summary = await transact(knex, async (trx) => {
     const found = (await trx("units")
       .whereIn("id", unitIds)
       .where({ active: true })
@@ -99,7 +100,7 @@ export async function revokeApiToken(
   now: Date = new Date(),
 ): Promise<ApiTokenSummary> {
   await confirmAdminPassword(knex, actor.id, input.currentPassword);
-  return knex.transaction(async (trx) => {
+  return transact(knex, async (trx) => {
     const row = (await trx("api_tokens")
       .where({ id: input.id })
       .forUpdate()

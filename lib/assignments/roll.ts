@@ -4,6 +4,7 @@ import { listUnitDetails, type UnitDetail } from "../units/queries";
 import { nextShift, shiftAt, type Shift } from "../units/shifts";
 import { shiftAssignments, unitStaff } from "./queries";
 import { copyChanges, ledgerShift, lockUnit, writeShift } from "./service";
+import { transact } from "../transaction";
 
 const DAY_MS = 86_400_000;
 
@@ -45,7 +46,7 @@ async function rollShift(
   shift: Shift,
   now: Date,
 ): Promise<RolledShift | null> {
-  return knex.transaction(async (trx) => {
+  return transact(knex, async (trx) => {
     await lockUnit(trx, unit.id);
     // Checked under the lock: a second run, or a writer first, leaves the shift alone.
     if (await hasAssignments(trx, unit.id, shift.startsAt)) return null;

@@ -8,6 +8,7 @@ import { safeRedirect } from "./redirects";
 import { isRole } from "./roles";
 import { endSession, startSession } from "./sessions";
 import { SIGN_IN_UNAVAILABLE, SignInError, verifySignIn } from "./sign-in";
+import { transact } from "../transaction";
 
 function forwardedFor(headers: Record<string, unknown> | undefined): string | undefined {
   const value = headers?.["x-forwarded-for"];
@@ -86,7 +87,7 @@ export const authOptions: NextAuthOptions = {
       const role = token?.role;
       if (typeof sid !== "string" || typeof uid !== "number" || !isRole(role)) return;
       await endSession(db(), sid, "sign_out");
-      await db().transaction((trx) =>
+      await transact(db(), (trx) =>
         appendLedger(
           trx,
           { id: uid, role },

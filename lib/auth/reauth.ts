@@ -4,6 +4,7 @@ import { appendLedger } from "../ledger/service";
 import { verifyPassword } from "./password";
 import { isRole } from "./roles";
 import { checkThrottle, recordAttempt, retryWords } from "./throttle";
+import { transact } from "../transaction";
 
 /**
  * Signing, discontinuing, and an administrator's changes to accounts and API
@@ -33,7 +34,7 @@ export async function confirmPassword(
     after: Record<string, unknown>,
   ): Promise<void> => {
     await recordAttempt(knex, { emailKey, clientIp: null, purpose: "reauth", outcome }, now);
-    await knex.transaction((trx) =>
+    await transact(knex, (trx) =>
       appendLedger(
         trx,
         actor,

@@ -26,6 +26,7 @@ import {
 } from "./upload-rules";
 import { writeImport } from "./write";
 import { assertCan } from "../auth/permissions";
+import { transact } from "../transaction";
 
 // The upload rules (schemas, size caps, Importer) live in ./upload-rules; re-exported for callers.
 export {
@@ -252,7 +253,7 @@ export async function confirmImport(
   await accessibleImport(knex, actor, input.importId);
   const who: Importer = { kind: "user", actor };
   try {
-    const id = await knex.transaction(async (trx) => {
+    const id = await transact(knex, async (trx) => {
       const locked = (await trx("imports")
         .where({ id: input.importId })
         .forUpdate()
@@ -342,7 +343,7 @@ export async function importFromToken(
     return { created: false, preview: toPreview(existing, { alreadyImported: true }) };
 
   try {
-    const id = await knex.transaction(async (trx) => {
+    const id = await transact(knex, async (trx) => {
       let importId: number;
       if (existing) {
         // A preview someone left in the app: the interface engine's delivery completes it.

@@ -32,6 +32,7 @@ import {
 import { can } from "../auth/permissions";
 import type { Device } from "../devices";
 import { parseDevices } from "../units/queries";
+import { transact } from "../transaction";
 
 /** A unit allows only some devices (a ward that does not ventilate): an order for another is refused. */
 async function assertUnitAllowsDevice(knex: Knex, unitId: number, device: Device): Promise<void> {
@@ -371,7 +372,7 @@ async function lockOrder(
  */
 export async function cosignOrder(knex: Knex, actor: Actor, input: CosignData): Promise<OrderView> {
   await confirmPassword(knex, actor.id, input.password);
-  return knex.transaction(async (trx) => {
+  return transact(knex, async (trx) => {
     const before = await lockOrder(trx, actor, input.orderId, input.version);
     if (before.status !== "awaiting_cosign") {
       throw new ConflictError(
@@ -426,7 +427,7 @@ export async function discontinueOrder(
   input: DiscontinueData,
 ): Promise<OrderView> {
   await confirmPassword(knex, actor.id, input.password);
-  return knex.transaction(async (trx) => {
+  return transact(knex, async (trx) => {
     const before = await lockOrder(trx, actor, input.orderId, input.version);
     if (before.status !== "active" && before.status !== "awaiting_cosign") {
       throw new ConflictError(`Order #${before.id} is already ${before.status.replace("_", " ")}.`);

@@ -6,6 +6,7 @@ import { appendLedger, SYSTEM_ACTOR } from "../ledger/service";
 import type { RehearsalParameters } from "./parameters";
 import type { ThreadJob, ThreadMessage } from "./thread";
 import type { RehearsalOutcome } from "./views";
+import { isRetryable, transact } from "../transaction";
 
 // Runs queued rehearsals in this process, one at a time, each in a worker
 // thread so the server's event loop stays free. The queue is the rehearsals
@@ -98,7 +99,12 @@ async function claimNext(knex: Knex, now: Date): Promise<Claimed | null> {
               started_at: now,
               heartbeat_at: now,
             },
-      );
+      )
+      // Lost a certification conflict on a multi-primary cluster: another node took it.
+      .catch((error: unknown) => {
+        if (isRetryable(error)) return 0;
+        throw error;
+      });
     if (claimed !== 1 || exhausted) continue; // another process took it, or it gave up
     return {
       id: candidate.id,
@@ -148,7 +154,7 @@ async function runClaimed(knex: Knex, run: Claimed): Promise<void> {
       );
     });
     await writing;
-    await knex.transaction(async (trx) => {
+    await transact(knex, async (trx) => {
       const now = new Date();
       const updated = await trx("rehearsals")
         .where({ id: run.id, claimed_by: run.token })

@@ -12,6 +12,7 @@ import { protocolOrders, protocolProblems, rehearsalParameters } from "./protoco
 import { getRehearsal, listRehearsals, type StoredSettings } from "./queries";
 import { REHEARSAL_RANGES, type RehearsalCreateData, type RehearsalSettings } from "./schema";
 import type { RehearsalListItem, RehearsalTableRef, RehearsalView } from "./views";
+import { transact } from "../transaction";
 
 /** The default high-flow ladder, as a run names it. */
 export const DEFAULT_HFNC_LADDER: RehearsalTableRef = {
@@ -71,7 +72,7 @@ export async function requestRehearsal(
   now: Date = new Date(),
 ): Promise<RehearsalView> {
   assertUnitAccess(actor, input.unitId);
-  const id = await knex.transaction(async (trx) => {
+  const id = await transact(knex, async (trx) => {
     const waiting = (await trx("rehearsals")
       .where({ unit_id: input.unitId })
       .whereIn("status", ["queued", "running"])

@@ -10,6 +10,7 @@ import {
 } from "./buckets";
 import { loadBands } from "./bands";
 import { loadStays, type Stay } from "./stays";
+import { transact } from "../transaction";
 
 /**
  * Keeps rollup_minutes and rollup_slots equal to a recomputation from the raw
@@ -231,7 +232,7 @@ export async function rebuildRollups(
     );
     for (let s = floorTo(from, HOUR_MS); s < to; s += DAY) {
       const e = Math.min(to, s + DAY);
-      await knex.transaction((trx) =>
+      await transact(knex, (trx) =>
         refreshRollups(trx, a.id, new Date(Math.max(s, from)), new Date(e)),
       );
     }

@@ -10,6 +10,7 @@ import {
   type StepTableCreateData,
   type StepTableUpdateData,
 } from "./schema";
+import { transact } from "../transaction";
 
 type Rows = ReturnType<typeof stepTableCreateSchema.parse>["rows"];
 
@@ -43,7 +44,7 @@ export async function createStepTable(
   actor: Actor,
   input: StepTableCreateData,
 ): Promise<StepTableView> {
-  return knex.transaction(async (trx) => {
+  return transact(knex, async (trx) => {
     await assertUnit(trx, input.unitId);
     const [id] = await trx("step_tables").insert({
       unit_id: input.unitId,
@@ -98,7 +99,7 @@ export async function updateStepTable(
   actor: Actor,
   input: StepTableUpdateData,
 ): Promise<StepTableView> {
-  return knex.transaction(async (trx) => {
+  return transact(knex, async (trx) => {
     const before = await lockEditable(trx, input.id, input.version);
     await assertUnit(trx, input.unitId);
     await trx("step_tables")
@@ -131,7 +132,7 @@ export async function setStepTableActive(
   actor: Actor,
   input: StepTableActiveData,
 ): Promise<StepTableView> {
-  return knex.transaction(async (trx) => {
+  return transact(knex, async (trx) => {
     const before = await lockEditable(trx, input.id, input.version);
     await trx("step_tables")
       .where({ id: input.id })

@@ -14,6 +14,7 @@ import {
   type UnitDetail,
 } from "./queries";
 import type { BedCreateData, BedUpdateData, UnitCreateData, UnitUpdateData } from "./schema";
+import { transact } from "../transaction";
 
 // Units and beds, administered by admins of the unit (actor.unitIds): another
 // unit answers 404 like every other record. Admin writes chain to the "admin"
@@ -121,7 +122,7 @@ export async function updateUnit(
   input: UnitUpdateData,
 ): Promise<UnitUpdateResult> {
   assertUnitAccess(actor, input.unitId);
-  return knex.transaction(async (trx) => {
+  return transact(knex, async (trx) => {
     const locked = (await trx("units").where({ id: input.unitId }).forUpdate().first("version")) as
       { version: number } | undefined;
     if (!locked) throw new NotFoundError();
@@ -221,7 +222,7 @@ function initials(name: string): string {
  * retired: the patient is discharged or moved first.
  */
 export async function updateBed(knex: Knex, actor: Actor, input: BedUpdateData): Promise<BedView> {
-  return knex.transaction(async (trx) => {
+  return transact(knex, async (trx) => {
     const unit = await lockUnit(trx, actor, input.unitId);
     const locked = (await trx("beds")
       .where({ id: input.bedId, unit_id: unit.id })

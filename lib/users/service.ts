@@ -8,6 +8,7 @@ import { ConflictError, NotFoundError, ValidationError } from "../errors";
 import { appendLedger } from "../ledger/service";
 import { getUser, type UserSummary } from "./queries";
 import { type UserActiveData, type UserCreateData, type UserUpdateData } from "./schema";
+import { transact } from "../transaction";
 
 /** What the ledger records of a user: never the password hash. */
 function ledgerView(u: UserSummary) {
@@ -53,7 +54,7 @@ export async function createUser(
   await confirmAdminPassword(knex, actor.id, input.currentPassword);
   const passwordHash = await hashPassword(input.password);
   try {
-    return await knex.transaction(async (trx) => {
+    return await transact(knex, async (trx) => {
       await assertUnitsExist(trx, input.unitIds);
       const [id] = await trx("users").insert({
         email: input.email,
@@ -112,7 +113,7 @@ export async function updateUser(
   }
   const passwordHash = input.password ? await hashPassword(input.password) : undefined;
   try {
-    return await knex.transaction(async (trx) => {
+    return await transact(knex, async (trx) => {
       const before = await lockForChange(trx, input.id, input.version);
       await assertUnitsExist(trx, input.unitIds);
       await trx("users")
@@ -171,7 +172,7 @@ export async function setUserActive(
       active: ["You cannot deactivate your own account; ask another administrator."],
     });
   }
-  return knex.transaction(async (trx) => {
+  return transact(knex, async (trx) => {
     const before = await lockForChange(trx, input.id, input.version);
     await trx("users")
       .where({ id: input.id })
