@@ -15,7 +15,8 @@ source "$ROOT/db/scripts/galera.sh"
 
 PORT="${PORT:-3000}"
 CLUSTER_DB_PORT="${CLUSTER_DB_PORT:-3410}"
-APP_PORTS=(3101 3102 3103)
+APP_PORT_BASE="${CLUSTER_APP_PORT_BASE:-3100}"
+APP_PORTS=($((APP_PORT_BASE + 1)) $((APP_PORT_BASE + 2)) $((APP_PORT_BASE + 3)))
 WORKERS=2
 MAIL_INBOX_PORT="${MAIL_INBOX_PORT:-2580}"
 export SMTP_PORT="${SMTP_PORT:-2525}"
@@ -154,7 +155,8 @@ up() {
   stop_proc haproxy
   haproxy -D -f "$CLUSTER_DIR/haproxy.cfg"
   for _ in $(seq 1 50); do [ -s "$CLUSTER_DIR/haproxy.pid" ] && break; sleep 0.1; done
-  if ! running mail-inbox; then
+  # The cluster tests bring their own SMTP fake, so they can stop and restart it.
+  if [ -z "${CLUSTER_EXTERNAL_SMTP:-}" ] && ! running mail-inbox; then
     MAIL_INBOX_PORT="$MAIL_INBOX_PORT" node_modules/.bin/tsx db/scripts/mail-inbox.ts >"$CLUSTER_DIR/mail-inbox.log" 2>&1 &
     echo $! >"$CLUSTER_DIR/mail-inbox.pid"
   fi
@@ -163,7 +165,7 @@ up() {
   for w in $(seq 1 "$WORKERS"); do running "worker$w" || start_worker "$w"; done
   for i in "${!APP_PORTS[@]}"; do wait_http "http://127.0.0.1:${APP_PORTS[$i]}/api/health" "app server $((i + 1))"; done
   wait_http "http://127.0.0.1:$PORT/api/health" "the load balancer"
-  wait_http "http://127.0.0.1:$MAIL_INBOX_PORT/api/messages" "the mail inbox"
+  [ -n "${CLUSTER_EXTERNAL_SMTP:-}" ] || wait_http "http://127.0.0.1:$MAIL_INBOX_PORT/api/messages" "the mail inbox"
   print_layout
 }
 
@@ -192,9 +194,39 @@ down() {
   galera_down
 }
 
+# One part at a time, for the fault-injection tests.
+part() {
+  local what="$1" n="${2:?which one}"
+  case "$what" in
+    node-kill) node_kill "$n" ;;
+    node-stop) node_stop "$n" ;;
+    node-start) node_start "$n" join ;;
+    node-wait) node_wait_synced "$n" ;;
+    node-pause) kill -STOP "$(cat "$(node_pid_file "$n")")" ;;
+    node-resume) kill -CONT "$(cat "$(node_pid_file "$n")")" ;;
+    node-cut) node_cut "$n" ;;
+    node-reconnect) node_reconnect "$n" ;;
+    app-kill) kill -9 "$(pid_of "app$n")" ;;
+    app-start) start_app "$((n - 1))"; wait_http "http://127.0.0.1:${APP_PORTS[$((n - 1))]}/api/health" "app server $n" ;;
+    worker-kill) kill -9 "$(pid_of "worker$n")" ;;
+    worker-pause) kill -STOP "$(pid_of "worker$n")" ;;
+    worker-resume) kill -CONT "$(pid_of "worker$n")" ;;
+    worker-start) start_worker "$n" ;;
+    *) echo "unknown part command $what" >&2; return 2 ;;
+  esac
+}
+
+# Node N's address for clients: "host port socket".
+nodes() {
+  local n
+  for n in $(seq 1 "$CLUSTER_NODES"); do echo "$n $(node_host "$n") $(node_sql_port "$n") $(node_socket "$n")"; done
+}
+
 case "${1:-run}" in
   up) up ;;
   down) down ;;
+  nodes) nodes ;;
+  node-* | app-* | worker-*) load_local_env; part "$1" "${2:-}" ;;
   run)
     trap 'echo; say "Stopping the cluster"; down; exit 0' INT TERM
     up

@@ -129,7 +129,7 @@ recovered_position() {
   grep -q '^seqno:[[:space:]]*-1' "$datadir/grastate.dat" 2>/dev/null || return 0
   out="$CLUSTER_DIR/node$n.recover.log"
   "$(command -v mariadbd || echo /usr/sbin/mariadbd)" --no-defaults --user="$user" --datadir="$datadir" \
-    --wsrep-on=ON --wsrep-provider="$(galera_provider)" --wsrep-recover \
+    --wsrep-on=ON --wsrep-provider="$(galera_provider)" --wsrep-cluster-address="$(cluster_address)" --wsrep-recover \
     --binlog-format=ROW --innodb-autoinc-lock-mode=2 --log-error="$out" >/dev/null 2>&1 || true
   sed -n 's/.*WSREP: Recovered position: *\([0-9a-f-]*:-\{0,1\}[0-9]*\).*/\1/p' "$out" | tail -1
 }
