@@ -62,12 +62,12 @@ export class TooManyRequestsError extends DomainError {
 
 /**
  * Engine input errors (lib/oxygen stays free of app imports) become a 400
- * naming the field and its range.
+ * naming the field and its range, or the words it accepts.
  */
 export function fromEngineError(error: unknown): DomainError | undefined {
   if (
     error instanceof Error &&
-    error.name === "OxygenInputError" &&
+    (error.name === "OxygenInputError" || error.name === "OxygenChoiceError") &&
     "field" in error &&
     typeof error.field === "string"
   ) {

@@ -40,3 +40,46 @@ export class OxygenInputError extends Error {
     this.unit = unit;
   }
 }
+
+/** What a refused choice carries: the argument, what was given, and what is accepted. */
+export interface OxygenChoiceErrorDetails {
+  field: string;
+  value: unknown;
+  allowed: readonly string[];
+  reason?: string;
+}
+
+/**
+ * Thrown for an argument that must be one of a fixed set of words (a sex, a
+ * unit, a cylinder size, an imputation method), or for a pair of arguments of
+ * which exactly one must be given. The typed check of a caller cannot reach
+ * values read from a form or a file; this refusal can.
+ */
+export class OxygenChoiceError extends Error {
+  override readonly name = "OxygenChoiceError";
+  readonly field: string;
+  readonly value: unknown;
+  readonly allowed: readonly string[];
+
+  constructor({ field, value, allowed, reason }: OxygenChoiceErrorDetails) {
+    super(
+      `${field} must be one of ${allowed.join(", ")}; got ${JSON.stringify(value) ?? String(value)}` +
+        (reason ? ` — ${reason}` : ""),
+    );
+    this.field = field;
+    this.value = value;
+    this.allowed = allowed;
+  }
+}
+
+/** Returns `value` if it is one of `allowed`, else throws an OxygenChoiceError. */
+export function checkChoice<const Choice extends string>(
+  field: string,
+  value: unknown,
+  allowed: readonly Choice[],
+): Choice {
+  if (typeof value !== "string" || !(allowed as readonly string[]).includes(value)) {
+    throw new OxygenChoiceError({ field, value, allowed });
+  }
+  return value as Choice;
+}

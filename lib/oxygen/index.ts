@@ -5,7 +5,12 @@
  */
 export const ENGINE_VERSION = "1.0.0";
 
-export { OxygenInputError, type OxygenInputErrorDetails } from "./errors";
+export {
+  OxygenInputError,
+  OxygenChoiceError,
+  type OxygenInputErrorDetails,
+  type OxygenChoiceErrorDetails,
+} from "./errors";
 export {
   RANGES,
   MIN_ALVEOLAR_PO2,
@@ -71,14 +76,47 @@ export {
   expectedAaGradient,
 } from "./indices";
 export {
+  PREDICTED_MINUTE_VENTILATION_PER_KG,
+  IDEAL_PACO2,
+  RSBI_THRESHOLD,
   predictedBodyWeight,
-  tidalVolumePerKilogram,
+  tidalVolumePerKg,
   drivingPressure,
   staticCompliance,
   mechanicalPower,
+  ventilatoryRatio,
+  rapidShallowBreathingIndex,
   type Sex,
   type MechanicalPowerInput,
 } from "./ventilation";
+export {
+  RICE_INTERCEPT,
+  RICE_SLOPE,
+  HIGHEST_SPO2_FOR_LINEAR_IMPUTING,
+  HIGHEST_SPO2_FOR_IMPUTING,
+  imputePfFromSf,
+  type PfImputationMethod,
+  type PfImputation,
+} from "./imputation";
+export {
+  CYLINDER_FACTORS,
+  DEFAULT_CYLINDER_RESERVE_PSI,
+  PSI_PER_BAR,
+  cylinderDuration,
+  type CylinderSize,
+  type CylinderPressureUnit,
+  type CylinderDurationInput,
+  type CylinderDuration,
+} from "./cylinder";
+export {
+  WEANING_THRESHOLDS,
+  weaningScreen,
+  type WeaningCriterionId,
+  type WeaningCriterionStatus,
+  type WeaningCriterion,
+  type WeaningScreen,
+  type WeaningScreenInput,
+} from "./weaning";
 export {
   classifyOxygenation,
   type RespiratorySupport,
@@ -112,7 +150,6 @@ export {
 } from "./step-tables";
 export {
   ASSUMED_PACO2,
-  HIGHEST_SPO2_FOR_IMPUTING,
   DEFAULT_URGENCY,
   proposeStep,
   type Urgency,

@@ -9,6 +9,7 @@ import {
   type Fio2Forecast,
   type ForecastInput,
 } from "./forecast";
+import { HIGHEST_SPO2_FOR_IMPUTING } from "./imputation";
 import { RANGES } from "./ranges";
 import type { SettingValue } from "./step-tables";
 import { checkProposeStepInput } from "./propose-step-input";
@@ -133,8 +134,6 @@ export interface Proposal {
 
 /** Used only when PaO2 is imputed from SpO2 without a blood gas, and said so. */
 export const ASSUMED_PACO2 = 40;
-/** Above this SpO2 the curve is too flat to impute PaO2 from it. */
-export const HIGHEST_SPO2_FOR_IMPUTING = 96;
 
 /**
  * SpO2 more than this many points under the saturation a blood gas's PaO2

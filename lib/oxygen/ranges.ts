@@ -42,7 +42,7 @@ export const RANGES = {
     40,
     100,
     "%",
-    "S/F, OSI, ROX and the global ARDS definition's S/F arm use SpO2 from 40 %: far below any oximeter's stated accuracy the indices mean nothing (Tidemark's floor, not a published one).",
+    "S/F, OSI, ROX, the P/F imputed from S/F and the global ARDS definition's S/F arm use SpO2 from 40 %: far below any oximeter's stated accuracy the indices mean nothing (Tidemark's floor, not a published one).",
   ),
   spo2Target: row(
     "SpO2 target",
@@ -110,6 +110,13 @@ export const RANGES = {
     700,
     "mmHg",
     "Under 10 mmHg is not a live arterial sample; above 700 mmHg needs hyperbaric oxygen (PAO2 at FiO2 1 and 800 mmHg is about 745 mmHg).",
+  ),
+  pfRatio: row(
+    "P/F ratio",
+    10,
+    3334,
+    "mmHg",
+    "An accepted PaO2 (10–700 mmHg) over an accepted FiO2 (0.21–1) lies between 10 and 3333 mmHg; outside, PaO2 and FiO2 were typed in the wrong units.",
   ),
   pao2Target: row(
     "PaO2 target",
@@ -244,6 +251,20 @@ export const RANGES = {
     "cm",
     "The ARDS Network PBW equation is for adults; at 102 cm it reaches 0 kg.",
   ),
+  predictedBodyWeight: row(
+    "Predicted body weight",
+    25,
+    121,
+    "kg",
+    "What the ARDS Network equation gives over the accepted heights: 25.1 kg (female, 130 cm) to 120.6 kg (male, 230 cm).",
+  ),
+  minuteVentilation: row(
+    "Minute ventilation",
+    0.5,
+    50,
+    "L/min",
+    "The least a ventilated adult breathes to more than any adult ventilator setting; outside, mL/min was typed as L/min (common practice).",
+  ),
   cardiacOutput: row(
     "Cardiac output",
     0.5,
@@ -259,6 +280,22 @@ export const RANGES = {
     "Above what 25 g/dL of haemoglobin carries fully saturated at PO2 700 mmHg (about 36 mL/dL).",
   ),
   ageYears: row("Age", 18, 120, "years", "The age/4 + 4 rule of thumb is an adult rule."),
+
+  // Oxygen cylinders (gauge pressure).
+  cylinderPressure: row(
+    "Cylinder pressure",
+    0,
+    300,
+    "bar",
+    "Empty to the highest filling pressure of medical oxygen cylinders in use (300 bar; US steel cylinders about 2000–2200 psi, 138–152 bar) (common practice). Stated in the caller's unit (psi, bar or kPa) when refused.",
+  ),
+  cylinderWaterCapacity: row(
+    "Cylinder water capacity",
+    0.5,
+    50,
+    "L",
+    "The smallest portable cylinder to the largest bank cylinder (common practice: 1 to 50 L water capacity).",
+  ),
 
   // Unit conversions accept anything physical, not only physiological values.
   pressureMmHg: row(

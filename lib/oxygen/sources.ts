@@ -35,6 +35,20 @@ export const SOURCES = {
     "Static compliance = VT / (Pplat − PEEP) (respiratory mechanics, common practice)",
   mechanicalPower:
     "Gattinoni L, et al. Ventilator-related causes of lung injury: the mechanical power. Intensive Care Med 2016;42:1567–75 (simplified equation for volume-controlled ventilation)",
+  ventilatoryRatio:
+    "Sinha P, Fauvel NJ, Singh S, Soni N. Ventilatory ratio: a simple bedside measure of ventilation. Br J Anaesth 2009;102:692–7 (VE predicted 100 mL/kg/min of PBW, PaCO2 ideal 5 kPa); in mmHg, VR = VE × PaCO2 / (PBW × 100 × 37.5): Sinha P, Calfee CS, Beitler JR, et al. Physiologic analysis and clinical performance of the ventilatory ratio in ARDS. Am J Respir Crit Care Med 2019;199:333–41 (volume and pages recalled from memory)",
+  rapidShallowBreathingIndex:
+    "Yang KL, Tobin MJ. A prospective study of indexes predicting the outcome of trials of weaning from mechanical ventilation. N Engl J Med 1991;324:1445–50 (f/VT; threshold 105 breaths/min/L)",
+  linearPfImputation:
+    "Rice TW, Wheeler AP, Bernard GR, et al. Comparison of the SpO2/FIO2 ratio and the PaO2/FIO2 ratio in patients with acute lung injury or ARDS. Chest 2007;132:410–7 (S/F = 64 + 0.84 × P/F, from SpO2 ≤ 97 %)",
+  nonlinearPfImputation:
+    "Brown SM, Grissom CK, Moss M, et al. Nonlinear imputation of PaO2/FIO2 from SpO2/FIO2 among patients with acute respiratory distress syndrome. Chest 2016;150:307–13 (PaO2 from SpO2 ≤ 96 % on the Severinghaus curve by Ellis's inverse)",
+  weaningReadiness:
+    "Boles JM, et al. Weaning from mechanical ventilation. Eur Respir J 2007;29:1033–56 (Table 5, considerations for assessing readiness to wean)",
+  weaningFio2:
+    "MacIntyre NR, et al. Evidence-based guidelines for weaning and discontinuing ventilatory support. Chest 2001;120(6 Suppl):375S–95S (FiO2 ≤ 0.4–0.5; the range recalled from memory)",
+  oxygenCylinder:
+    "Cylinder duration = (gauge pressure − reserve) × cylinder factor ÷ flow, or water capacity × pressure in bar ÷ flow, ideal gas (common practice; the US cylinder factors and the 200 psi reserve are common practice, not from one source)",
   icaoAtmosphere: "ICAO Doc 7488/3, Manual of the ICAO Standard Atmosphere, 3rd ed. 1993",
   berlin:
     "ARDS Definition Task Force (Ranieri VM, et al.). Acute respiratory distress syndrome: the Berlin Definition. JAMA 2012;307:2526–33",

@@ -1,10 +1,17 @@
 import { describe, expect, it } from "vitest";
 import {
   drivingPressure,
+  IDEAL_PACO2,
   mechanicalPower,
+  OxygenChoiceError,
+  OxygenInputError,
   predictedBodyWeight,
+  rapidShallowBreathingIndex,
+  RSBI_THRESHOLD,
   staticCompliance,
-  tidalVolumePerKilogram,
+  tidalVolumePerKg,
+  toMmHg,
+  ventilatoryRatio,
 } from "@/lib/oxygen";
 
 describe("predictedBodyWeight — ARDS Network, NEJM 2000", () => {
@@ -33,13 +40,108 @@ describe("predictedBodyWeight — ARDS Network, NEJM 2000", () => {
   });
 
   it("gives 6 mL/kg PBW for a 420 mL tidal volume in a 175 cm man (ARMA target; ≈ 70.6 kg)", () => {
-    expect(tidalVolumePerKilogram({ tidalVolumeMl: 420, heightCm: 175, sex: "male" })).toBeCloseTo(
+    expect(tidalVolumePerKg({ tidalVolumeMl: 420, heightCm: 175, sex: "male" })).toBeCloseTo(
       420 / (50 + 0.91 * 22.6),
       10,
     );
-    expect(tidalVolumePerKilogram({ tidalVolumeMl: 420, heightCm: 175, sex: "male" })).toBeCloseTo(
+    expect(tidalVolumePerKg({ tidalVolumeMl: 420, heightCm: 175, sex: "male" })).toBeCloseTo(6, 0);
+  });
+});
+
+describe("tidalVolumePerKg — VT / PBW, PBW by the ARDS Network equation (NEJM 2000)", () => {
+  it("gives a 170 cm man a PBW of 66.0 kg (50 + 0.91 × 17.6 = 66.016; the ARDS Network PBW table lists 66 kg at 67 in, 170.2 cm — recalled from memory)", () => {
+    expect(predictedBodyWeight({ heightCm: 170, sex: "male" })).toBeCloseTo(66.016, 10);
+  });
+
+  it("gives 420 mL in that man 6.36 mL/kg (420 / 66.016 = 6.3621)", () => {
+    expect(tidalVolumePerKg({ tidalVolumeMl: 420, heightCm: 170, sex: "male" })).toBeCloseTo(
+      6.3621,
+      4,
+    );
+  });
+
+  it("gives 6 mL/kg for 314.5 mL in a 160 cm woman (PBW 45.5 + 0.91 × 7.6 = 52.416; 6 × 52.416 = 314.496)", () => {
+    expect(tidalVolumePerKg({ tidalVolumeMl: 314.496, heightCm: 160, sex: "female" })).toBeCloseTo(
       6,
-      0,
+      10,
+    );
+  });
+
+  it("refuses a sex it does not know instead of taking it for female (engine contract)", () => {
+    expect(() =>
+      tidalVolumePerKg({ tidalVolumeMl: 420, heightCm: 170, sex: "Male" as "male" }),
+    ).toThrow(OxygenChoiceError);
+    expect(() => tidalVolumePerKg({ tidalVolumeMl: 20, heightCm: 170, sex: "male" })).toThrow(
+      OxygenInputError,
+    );
+  });
+});
+
+describe("ventilatoryRatio — (VE × PaCO2) / (PBW × 100 × 37.5) (Sinha et al., Br J Anaesth 2009; AJRCCM 2019)", () => {
+  it("is 1.0 when VE = PBW × 100 mL/min and PaCO2 = 37.5 mmHg (the definition)", () => {
+    // 70 kg × 100 mL/min = 7 L/min; (7000 × 37.5) / (70 × 100 × 37.5) = 1
+    expect(
+      ventilatoryRatio({ minuteVentilationLMin: 7, paco2: 37.5, predictedBodyWeightKg: 70 }),
+    ).toBeCloseTo(1, 12);
+    // 66.016 kg × 100 mL/min = 6.6016 L/min
+    expect(
+      ventilatoryRatio({
+        minuteVentilationLMin: 6.6016,
+        paco2: 37.5,
+        predictedBodyWeightKg: 66.016,
+      }),
+    ).toBeCloseTo(1, 12);
+  });
+
+  it("takes the ideal PaCO2 as 37.5 mmHg, Sinha 2009's 5 kPa (5 × 7.50062 = 37.503)", () => {
+    expect(IDEAL_PACO2).toBe(37.5);
+    expect(toMmHg(5, "kPa")).toBeCloseTo(IDEAL_PACO2, 2);
+  });
+
+  it("is 2.02 for VE 10 L/min and PaCO2 50 mmHg in a 66.016 kg PBW (500000 / 247560 = 2.0197)", () => {
+    // 10000 × 50 = 500000; 66.016 × 100 × 37.5 = 247560
+    expect(
+      ventilatoryRatio({ minuteVentilationLMin: 10, paco2: 50, predictedBodyWeightKg: 66.016 }),
+    ).toBeCloseTo(2.0197, 4);
+  });
+
+  it("takes PaCO2 in mmHg only: 5 typed for 5 kPa is refused (engine contract)", () => {
+    expect(() =>
+      ventilatoryRatio({ minuteVentilationLMin: 7, paco2: 5, predictedBodyWeightKg: 70 }),
+    ).toThrow(OxygenInputError);
+    // VE in mL/min typed as L/min
+    expect(() =>
+      ventilatoryRatio({ minuteVentilationLMin: 7000, paco2: 40, predictedBodyWeightKg: 70 }),
+    ).toThrow(OxygenInputError);
+  });
+});
+
+describe("rapidShallowBreathingIndex — f / VT (L) (Yang & Tobin, NEJM 1991)", () => {
+  it("is 100 breaths/min/L at f 30 and VT 300 mL (the definition: 30 / 0.3)", () => {
+    expect(rapidShallowBreathingIndex({ respiratoryRate: 30, tidalVolumeMl: 300 })).toBeCloseTo(
+      100,
+      12,
+    );
+  });
+
+  it("sits exactly on Yang & Tobin's threshold of 105 at f 21 and VT 200 mL (21 / 0.2)", () => {
+    expect(RSBI_THRESHOLD).toBe(105);
+    expect(rapidShallowBreathingIndex({ respiratoryRate: 21, tidalVolumeMl: 200 })).toBeCloseTo(
+      105,
+      12,
+    );
+  });
+
+  it("is 24 for quiet breathing at f 12 and VT 500 mL (12 / 0.5), far below 105", () => {
+    expect(rapidShallowBreathingIndex({ respiratoryRate: 12, tidalVolumeMl: 500 })).toBeCloseTo(
+      24,
+      12,
+    );
+  });
+
+  it("refuses a tidal volume typed in litres (0.3 for 300 mL) (engine contract)", () => {
+    expect(() => rapidShallowBreathingIndex({ respiratoryRate: 30, tidalVolumeMl: 0.3 })).toThrow(
+      OxygenInputError,
     );
   });
 });

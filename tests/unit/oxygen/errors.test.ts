@@ -1,6 +1,14 @@
 import { describe, expect, it } from "vitest";
+import { fromEngineError } from "@/lib/errors";
 import {
   alveolarPO2,
+  cylinderDuration,
+  imputePfFromSf,
+  OxygenChoiceError,
+  rapidShallowBreathingIndex,
+  tidalVolumePerKg,
+  ventilatoryRatio,
+  weaningScreen,
   barometricPressureAtAltitude,
   classifyOxygenation,
   drivingPressure,
@@ -150,6 +158,78 @@ const cases: Case[] = [
     (flow) => classifyOxygenation({ fio2: 0.5, spo2: 92, support: "hfnc", flow }),
   ],
   [
+    "tidalVolumePerKg",
+    "tidalVolumeMl",
+    RANGES.tidalVolumeMl,
+    (tidalVolumeMl) => tidalVolumePerKg({ tidalVolumeMl, heightCm: 170, sex: "male" }),
+  ],
+  [
+    "tidalVolumePerKg",
+    "heightCm",
+    RANGES.heightCm,
+    (heightCm) => tidalVolumePerKg({ tidalVolumeMl: 400, heightCm, sex: "female" }),
+  ],
+  [
+    "ventilatoryRatio",
+    "minuteVentilationLMin",
+    RANGES.minuteVentilation,
+    (minuteVentilationLMin) =>
+      ventilatoryRatio({ minuteVentilationLMin, paco2: 40, predictedBodyWeightKg: 70 }),
+  ],
+  [
+    "ventilatoryRatio",
+    "paco2",
+    RANGES.paco2,
+    (paco2) => ventilatoryRatio({ minuteVentilationLMin: 8, paco2, predictedBodyWeightKg: 70 }),
+  ],
+  [
+    "ventilatoryRatio",
+    "predictedBodyWeightKg",
+    RANGES.predictedBodyWeight,
+    (predictedBodyWeightKg) =>
+      ventilatoryRatio({ minuteVentilationLMin: 8, paco2: 40, predictedBodyWeightKg }),
+  ],
+  [
+    "rapidShallowBreathingIndex",
+    "respiratoryRate",
+    RANGES.respiratoryRate,
+    (respiratoryRate) => rapidShallowBreathingIndex({ respiratoryRate, tidalVolumeMl: 400 }),
+  ],
+  [
+    "rapidShallowBreathingIndex",
+    "tidalVolumeMl",
+    RANGES.tidalVolumeMl,
+    (tidalVolumeMl) => rapidShallowBreathingIndex({ respiratoryRate: 20, tidalVolumeMl }),
+  ],
+  [
+    "imputePfFromSf",
+    "spo2",
+    RANGES.spo2Index,
+    (spo2) => imputePfFromSf({ spo2, fio2: 0.5, method: "nonlinear" }),
+  ],
+  [
+    "imputePfFromSf",
+    "fio2",
+    RANGES.fio2,
+    (fio2) => imputePfFromSf({ spo2: 92, fio2, method: "linear" }),
+  ],
+  [
+    "cylinderDuration",
+    "flowLMin",
+    RANGES.flow,
+    (flowLMin) => cylinderDuration({ size: "E", pressure: { value: 2000, unit: "psi" }, flowLMin }),
+  ],
+  [
+    "cylinderDuration",
+    "waterCapacityLitres",
+    RANGES.cylinderWaterCapacity,
+    (waterCapacityLitres) =>
+      cylinderDuration({ waterCapacityLitres, pressure: { value: 200, unit: "bar" }, flowLMin: 2 }),
+  ],
+  ["weaningScreen", "fio2", RANGES.fio2, (fio2) => weaningScreen({ fio2 })],
+  ["weaningScreen", "peep", RANGES.peep, (peep) => weaningScreen({ peep })],
+  ["weaningScreen", "pf", RANGES.pfRatio, (pf) => weaningScreen({ pf })],
+  [
     "toMmHg",
     "value",
     { ...RANGES.pressureMmHg, max: RANGES.pressureMmHg.max },
@@ -221,5 +301,28 @@ describe("ranges that depend on other inputs", () => {
   it("states unit-conversion ranges in the caller's unit", () => {
     const error = thrown(() => toGramsPerDecilitre(400, "g/L"));
     expect([error.field, error.max, error.unit]).toEqual(["value", 300, "g/L"]);
+  });
+});
+
+describe("OxygenChoiceError", () => {
+  it("reads like 'sex must be one of female, male; got \"M\"' and becomes a 400 naming the field", () => {
+    let caught: unknown;
+    try {
+      tidalVolumePerKg({ tidalVolumeMl: 400, heightCm: 170, sex: "M" as "male" });
+    } catch (error) {
+      caught = error;
+    }
+    expect(caught).toBeInstanceOf(OxygenChoiceError);
+    const error = caught as OxygenChoiceError;
+    expect(error.message).toBe('sex must be one of female, male; got "M"');
+    expect([error.name, error.field, error.value, error.allowed]).toEqual([
+      "OxygenChoiceError",
+      "sex",
+      "M",
+      ["female", "male"],
+    ]);
+    const domain = fromEngineError(error);
+    expect(domain?.status).toBe(400);
+    expect(domain?.fieldErrors).toEqual({ sex: [error.message] });
   });
 });
