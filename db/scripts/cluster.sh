@@ -180,7 +180,11 @@ print_layout() {
   printf '  database      127.0.0.1:%s  (HAProxy over the Synced nodes)\n' "$CLUSTER_DB_PORT"
   for i in "${!APP_PORTS[@]}"; do printf '  app server %s  127.0.0.1:%s  pid %s\n' "$((i + 1))" "${APP_PORTS[$i]}" "$(pid_of "app$((i + 1))")"; done
   for w in $(seq 1 "$WORKERS"); do printf '  alert worker %s              pid %s\n' "$w" "$(pid_of "worker$w")"; done
-  printf '  mail inbox    http://127.0.0.1:%s (SMTP 127.0.0.1:%s)\n' "$MAIL_INBOX_PORT" "$SMTP_PORT"
+  if [ -n "${CLUSTER_EXTERNAL_SMTP:-}" ]; then
+    printf '  SMTP          127.0.0.1:%s (the caller'"'"'s own)\n' "$SMTP_PORT"
+  else
+    printf '  mail inbox    http://127.0.0.1:%s (SMTP 127.0.0.1:%s)\n' "$MAIL_INBOX_PORT" "$SMTP_PORT"
+  fi
   printf '  the app       http://localhost:%s  (HAProxy over the app servers)\n' "$PORT"
   echo
 }

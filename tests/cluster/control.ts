@@ -78,18 +78,33 @@ export async function until(
 }
 
 /**
- * Every base table's checksum on one node. Called with the writers stopped,
- * the workers paused and all nodes at the same committed seqno.
+ * Every table's content on one node: its row count and a 64-bit XOR of each
+ * row's MD5 over all columns (NULL marked), history rows of system-versioned
+ * tables included. CHECKSUM TABLE is not used: it differs between nodes holding
+ * identical rows when a table has stored generated columns. Called with the
+ * writers stopped, the workers paused and all nodes at the same seqno.
  */
 export async function tableChecksums(k: Knex): Promise<Map<string, string>> {
   const [tables] = (await k.raw(
-    "SELECT TABLE_NAME AS name FROM information_schema.TABLES WHERE TABLE_SCHEMA = DATABASE() AND TABLE_TYPE = 'BASE TABLE' ORDER BY TABLE_NAME",
-  )) as [{ name: string }[]];
+    `SELECT TABLE_NAME AS name, TABLE_TYPE AS type FROM information_schema.TABLES
+      WHERE TABLE_SCHEMA = DATABASE() AND TABLE_TYPE IN ('BASE TABLE', 'SYSTEM VERSIONED')
+      ORDER BY TABLE_NAME`,
+  )) as [{ name: string; type: string }[]];
   const out = new Map<string, string>();
-  for (const { name } of tables) {
-    const [rows] = (await k.raw(`CHECKSUM TABLE \`${name}\``)) as [{ Checksum: string | null }[]];
-    const [count] = (await k.raw(`SELECT COUNT(*) AS n FROM \`${name}\``)) as [{ n: number }[]];
-    out.set(name, `${count[0]?.n ?? 0} rows, checksum ${rows[0]?.Checksum ?? "null"}`);
+  for (const { name, type } of tables) {
+    const [cols] = (await k.raw(
+      `SELECT COLUMN_NAME AS c FROM information_schema.COLUMNS
+        WHERE TABLE_SCHEMA = DATABASE() AND TABLE_NAME = ? ORDER BY ORDINAL_POSITION`,
+      [name],
+    )) as [{ c: string }[]];
+    const versioned = type === "SYSTEM VERSIONED";
+    const columns = [...cols.map((r) => r.c), ...(versioned ? ["row_start", "row_end"] : [])];
+    const row = `CONCAT_WS('#', ${columns.map((c) => `IFNULL(HEX(\`${c}\`), 'N')`).join(", ")})`;
+    const [rows] = (await k.raw(
+      `SELECT COUNT(*) AS n, BIT_XOR(CAST(CONV(SUBSTRING(MD5(${row}), 1, 16), 16, 10) AS UNSIGNED)) AS h
+         FROM \`${name}\`${versioned ? " FOR SYSTEM_TIME ALL" : ""}`,
+    )) as [{ n: number; h: string }[]];
+    out.set(name, `${rows[0]?.n ?? 0} rows, hash ${rows[0]?.h ?? "none"}`);
   }
   return out;
 }

@@ -60,14 +60,13 @@ async function main(): Promise<void> {
     }
     console.log(`   (${Math.round((Date.now() - t0) / 1000)} s)`);
   };
-  await part("writes under a killed database node and a killed app server", () =>
-    loadWithFaults(),
-  );
+  await part("writes under a killed database node and a killed app server", () => loadWithFaults());
   await part("alert storm, a killed worker, SMTP down for 30 s", () => storm(mailbox));
   await part("one node cut off from the others", () => partition());
 
   console.log("\nResults:");
-  for (const o of outcomes) console.log(`  ${o.ok ? "✓" : "✗"} ${o.name}${o.detail ? ` — ${o.detail}` : ""}`);
+  for (const o of outcomes)
+    console.log(`  ${o.ok ? "✓" : "✗"} ${o.name}${o.detail ? ` — ${o.detail}` : ""}`);
   const passed = outcomes.filter((o) => o.ok).length;
   console.log(`\nCluster tests took ${Math.round((Date.now() - started) / 1000)} s`);
   console.log(`${passed} passed, ${outcomes.length - passed} failed`);

@@ -17,6 +17,7 @@ export type Ack = { kind: Kind; id: number; patientId: number; at: number };
 export type WriterStats = { sent: number; resent: number; refused: string[] };
 
 const ANSWER_LIMIT_MS = 60_000;
+export const ROWS_PER_UPLOAD = 30;
 
 /**
  * Sends until the server answers with anything but 5xx (or a lost connection);
@@ -143,22 +144,27 @@ export function readingWriter(session: Session, p: Patient): Writer {
   };
 }
 
-/** A monitor's minute of 1 Hz SpO2 per upload; the same file again answers with the first import. */
+/** Half a minute of 1 Hz SpO2 per upload; the same file again answers with the first import. */
 export function importWriter(token: string, p: Patient): Writer {
   const stats: WriterStats = { sent: 0, resent: 0, refused: [] };
-  let minute = 0;
-  const start = Date.now() - 6 * 3600_000;
+  let upload = 0;
+  let lastPost = 0;
+  // After the admission (an hour ago), and never in the future within a run.
+  const start = Date.now() - 50 * 60_000;
   return {
     kind: "import",
     patientId: p.patientId,
     stats,
     async step() {
+      // A monitor gateway posts about once a second; faster would run past "now".
+      await sleep(Math.max(0, lastPost + 1000 - Date.now()));
+      lastPost = Date.now();
       const lines = ["time,spo2,pulse_rate"];
-      for (let s = 0; s < 60; s++) {
-        const t = start + (minute * 60 + s) * 1000;
+      for (let s = 0; s < ROWS_PER_UPLOAD; s++) {
+        const t = start + (upload * ROWS_PER_UPLOAD + s) * 1000;
         lines.push(`${new Date(t).toISOString()},${93 + (s % 3)},${80 + (s % 5)}`);
       }
-      minute += 1;
+      upload += 1;
       const body = `${lines.join("\n")}\n`;
       const path = `/api/v1/imports/monitor?mrn=${encodeURIComponent(p.mrn)}&bed=${encodeURIComponent(p.bed)}`;
       const res = await settle(

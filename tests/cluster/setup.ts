@@ -26,7 +26,8 @@ export async function patientOnHfnc(
     ...hfncOrder(p.patientId, { rationale: "Cluster test patient" }),
     idempotencyKey: randomUUID(),
   });
-  if (res.status !== 201) throw new Error(`order for the test patient: ${res.status} ${await res.text()}`);
+  if (res.status !== 201)
+    throw new Error(`order for the test patient: ${res.status} ${await res.text()}`);
   const { order } = (await res.json()) as { order: { id: number } };
   const s = (await appDb()("bedside_settings")
     .where({ patient_id: p.patientId })

@@ -13,7 +13,13 @@ import { signIn } from "./setup";
 
 const SMTP_DOWN_MS = 30_000;
 
-type Target = { patient_id: number; device: string; spo2_lower_pct: number };
+type Target = {
+  patient_id: number;
+  device: string;
+  spo2_lower_pct: number;
+  initial_fio2: number | null;
+  initial_flow_l_min: number | null;
+};
 
 async function chartLow(sessions: Session[], t: Target): Promise<boolean> {
   for (const s of sessions) {
@@ -22,10 +28,16 @@ async function chartLow(sessions: Session[], t: Target): Promise<boolean> {
       takenAt: new Date().toISOString(),
       spo2: Math.max(70, t.spo2_lower_pct - 8),
       device: t.device,
+      // The device's own settings, as the order started it (flow for cannulae, FiO2 for masks…).
+      ...(t.initial_flow_l_min === null ? {} : { flow: Number(t.initial_flow_l_min) }),
+      ...(t.initial_fio2 === null ? {} : { fio2: Number(t.initial_fio2) }),
       idempotencyKey: randomUUID(),
     });
-    await res.body?.cancel();
+    const text = await res.text();
     if (res.status === 201) return true;
+    if (res.status !== 403 && res.status !== 404) {
+      console.log(`   patient ${t.patient_id} (${t.device}): ${res.status} ${text.slice(0, 200)}`);
+    }
   }
   return false;
 }
@@ -34,7 +46,7 @@ export async function storm(mailbox: Mailbox): Promise<Outcome[]> {
   const sessions = [await signIn("nurse"), await signIn("therapist"), await signIn("physician")];
   // Seeded patients on an active order whose bed has someone assigned now: their alerts are mailed.
   const [targets] = (await appDb().raw(
-    `SELECT o.patient_id, o.device, o.spo2_lower_pct FROM orders o
+    `SELECT o.patient_id, o.device, o.spo2_lower_pct, o.initial_fio2, o.initial_flow_l_min FROM orders o
        JOIN admissions a ON a.id = o.admission_id AND a.discharged_at IS NULL
       WHERE o.status = 'active' AND EXISTS (SELECT 1 FROM care_assignments c
         WHERE c.bed_id = a.bed_id AND c.starts_at <= UTC_TIMESTAMP() AND c.ends_at > UTC_TIMESTAMP())`,
@@ -56,14 +68,18 @@ export async function storm(mailbox: Mailbox): Promise<Outcome[]> {
   await sleep(5000);
   await part("worker-start", 1);
 
-  const drained = await until(async () => {
-    const pending = (await appDb()("mail_outbox")
-      .where("id", ">", before)
-      .where({ state: "pending" })
-      .count({ n: "*" })
-      .first()) as { n: number };
-    return Number(pending.n) === 0;
-  }, 300_000, 1000);
+  const drained = await until(
+    async () => {
+      const pending = (await appDb()("mail_outbox")
+        .where("id", ">", before)
+        .where({ state: "pending" })
+        .count({ n: "*" })
+        .first()) as { n: number };
+      return Number(pending.n) === 0;
+    },
+    300_000,
+    1000,
+  );
   console.log(`   outbox drained at ${Math.round((Date.now() - t0) / 1000)} s`);
 
   const sent = (await appDb()("mail_outbox")
@@ -88,13 +104,18 @@ export async function storm(mailbox: Mailbox): Promise<Outcome[]> {
     outcome(
       "every sent e-mail arrived",
       missing.length === 0,
-      missing.length ? `missing: ${missing.slice(0, 5).join(", ")}` : `${sent.length} of ${sent.length}`,
+      missing.length
+        ? `missing: ${missing.slice(0, 5).join(", ")}`
+        : `${sent.length} of ${sent.length}`,
     ),
     outcome(
       "no e-mail arrived twice (by Message-ID, the whole run)",
       twice.length === 0,
       twice.length
-        ? twice.map(([id, n]) => `${id} × ${n}`).slice(0, 5).join(", ")
+        ? twice
+            .map(([id, n]) => `${id} × ${n}`)
+            .slice(0, 5)
+            .join(", ")
         : `${received.size} distinct Message-IDs received`,
     ),
   ];

@@ -20,6 +20,7 @@ import {
   importWriter,
   orderWriter,
   readingWriter,
+  ROWS_PER_UPLOAD,
   type Ack,
   type Kind,
   type Writer,
@@ -50,7 +51,9 @@ async function writers(): Promise<Writer[]> {
   }
   for (let i = 0; i < 3; i++) {
     const p = await patientOnHfnc(physician);
-    out.push(adjustmentWriter(i === 0 ? therapist : await signIn("therapist"), p, p.settingsVersion));
+    out.push(
+      adjustmentWriter(i === 0 ? therapist : await signIn("therapist"), p, p.settingsVersion),
+    );
   }
   for (let i = 0; i < 2; i++) {
     const p = await patientOnHfnc(physician);
@@ -93,7 +96,7 @@ export async function agreement(nodes: ClusterNode[], dbs: Knex[]): Promise<Outc
     );
     out.push(
       outcome(
-        "the nodes agree row for row (CHECKSUM TABLE of every table)",
+        "the nodes agree row for row (every column of every table)",
         differ.length === 0 && sums[0]!.size > 20,
         differ.length
           ? differ.map((t) => `${t}: ${sums.map((s) => s.get(t)).join(" | ")}`).join("; ")
@@ -140,7 +143,9 @@ export async function loadWithFaults(): Promise<Outcome[]> {
   await part("app-start", 2);
 
   const out: Outcome[] = [];
-  out.push(outcome("the faults were injected as planned", faultError === null, faultError ?? undefined));
+  out.push(
+    outcome("the faults were injected as planned", faultError === null, faultError ?? undefined),
+  );
   const byKind = (k: Kind) => acks.filter((a) => a.kind === k);
   const resent = ws.reduce((n, w) => n + w.stats.resent, 0);
   const refused = ws.flatMap((w) => w.stats.refused);
@@ -183,7 +188,9 @@ export async function loadWithFaults(): Promise<Outcome[]> {
       outcome(
         `every acknowledged write is on node ${nodes[i]!.n}`,
         quiet && missing.length === 0,
-        missing.length ? `missing: ${missing.slice(0, 10).join(", ")}` : `${acks.length} of ${acks.length}`,
+        missing.length
+          ? `missing: ${missing.slice(0, 10).join(", ")}`
+          : `${acks.length} of ${acks.length}`,
       ),
     );
   }
@@ -198,12 +205,14 @@ export async function loadWithFaults(): Promise<Outcome[]> {
     let expected: number;
     if (w.kind === "import") {
       rows = Number(
-        ((await k("readings")
-          .where({ patient_id: w.patientId, source: "monitor" })
-          .count({ n: "*" })
-          .first()) as { n: number }).n,
+        (
+          (await k("readings")
+            .where({ patient_id: w.patientId, source: "monitor" })
+            .count({ n: "*" })
+            .first()) as { n: number }
+        ).n,
       );
-      expected = distinct * 60;
+      expected = distinct * ROWS_PER_UPLOAD;
     } else {
       const q = k(TABLE[w.kind]).where({ patient_id: w.patientId });
       if (w.kind === "reading") void q.where({ source: "manual" });
@@ -211,7 +220,8 @@ export async function loadWithFaults(): Promise<Outcome[]> {
       // The order writers' patients also hold the first order, written before the load.
       expected = distinct + (w.kind === "order" ? 1 : 0);
     }
-    if (rows !== expected) twice.push(`${w.kind} patient ${w.patientId}: ${rows} rows for ${expected}`);
+    if (rows !== expected)
+      twice.push(`${w.kind} patient ${w.patientId}: ${rows} rows for ${expected}`);
   }
   out.push(
     outcome(

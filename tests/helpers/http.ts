@@ -4,6 +4,9 @@ import { BASE_URL, DEMO_PASSWORD } from "./browser";
 export class Session {
   private cookies = new Map<string, string>();
 
+  /** `base`: another app than E2E_BASE_URL (the benchmarks compare two). */
+  constructor(private readonly base: string = BASE_URL) {}
+
   private remember(res: Response) {
     for (const line of res.headers.getSetCookie()) {
       const [pair] = line.split(";");
@@ -16,14 +19,18 @@ export class Session {
     const headers = new Headers(init.headers);
     if (this.cookies.size)
       headers.set("cookie", [...this.cookies].map(([k, v]) => `${k}=${v}`).join("; "));
-    const res = await fetch(`${BASE_URL}${path}`, { ...init, headers, redirect: "manual" });
+    const res = await fetch(`${this.base}${path}`, { ...init, headers, redirect: "manual" });
     this.remember(res);
     return res;
   }
 
   /** NextAuth's credentials flow over HTTP: CSRF token, then the callback. */
-  static async signIn(email: string, password = DEMO_PASSWORD): Promise<Session> {
-    const s = new Session();
+  static async signIn(
+    email: string,
+    password = DEMO_PASSWORD,
+    base: string = BASE_URL,
+  ): Promise<Session> {
+    const s = new Session(base);
     const csrf = (await (await s.fetch("/api/auth/csrf")).json()) as { csrfToken: string };
     await s.fetch("/api/auth/callback/credentials", {
       method: "POST",
@@ -40,7 +47,7 @@ export class Session {
 
   /** A second client holding the same cookies now: a copied (stolen) session token. */
   copy(): Session {
-    const other = new Session();
+    const other = new Session(this.base);
     for (const [k, v] of this.cookies) other.cookies.set(k, v);
     return other;
   }

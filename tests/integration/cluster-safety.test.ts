@@ -1,5 +1,6 @@
 import { randomUUID } from "node:crypto";
 import { afterAll, describe, expect, it } from "vitest";
+import { GET as health } from "@/app/api/health/route";
 import { transact } from "@/lib/transaction";
 import { appDb, ownerDb } from "../helpers/db";
 
@@ -14,7 +15,7 @@ describe("schema on a cluster", () => {
   it("gives every table a primary key", async () => {
     const rows = (await appDb().raw(
       `SELECT t.TABLE_NAME AS name FROM information_schema.TABLES t
-        WHERE t.TABLE_SCHEMA = DATABASE() AND t.TABLE_TYPE = 'BASE TABLE'
+        WHERE t.TABLE_SCHEMA = DATABASE() AND t.TABLE_TYPE IN ('BASE TABLE', 'SYSTEM VERSIONED')
           AND NOT EXISTS (SELECT 1 FROM information_schema.TABLE_CONSTRAINTS c
             WHERE c.TABLE_SCHEMA = t.TABLE_SCHEMA AND c.TABLE_NAME = t.TABLE_NAME
               AND c.CONSTRAINT_TYPE = 'PRIMARY KEY')`,
@@ -79,5 +80,13 @@ describe("transact", () => {
       }),
     ).rejects.toThrow(/no_such_table_here/);
     expect(calls).toBe(1);
+  });
+});
+
+describe("GET /api/health", () => {
+  it("answers 200 while the database answers, for the load balancer's check", async () => {
+    const res = await health();
+    expect(res.status).toBe(200);
+    expect(await res.json()).toEqual({ status: "ok" });
   });
 });
