@@ -7,7 +7,7 @@
  */
 import { randomUUID } from "node:crypto";
 import { BASE_URL } from "../helpers/browser";
-import { Session } from "../helpers/http";
+import { type Session } from "../helpers/http";
 import { hfncOrder } from "../helpers/orders";
 import { sleep } from "./control";
 
