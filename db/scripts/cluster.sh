@@ -115,15 +115,18 @@ ensure_haproxy() {
 
 start_app() {
   local i="$1" port="${APP_PORTS[$1]}"
-  DATABASE_HOST=127.0.0.1 DATABASE_PORT="$CLUSTER_DB_PORT" \
+  # HAProxy sets X-Forwarded-For: trusted, so sign-in throttling sees the client's address.
+  DATABASE_HOST=127.0.0.1 DATABASE_PORT="$CLUSTER_DB_PORT" TRUSTED_PROXIES="${TRUSTED_PROXIES:-127.0.0.1}" \
     node_modules/.bin/next start -H 127.0.0.1 -p "$port" >"$CLUSTER_DIR/app$((i + 1)).log" 2>&1 &
   echo $! >"$CLUSTER_DIR/app$((i + 1)).pid"
 }
 
+# One process (node with tsx's loader, not the tsx wrapper), so killing the PID
+# kills the worker itself.
 start_worker() {
   local w="$1"
   DATABASE_HOST=127.0.0.1 DATABASE_PORT="$CLUSTER_DB_PORT" \
-    node_modules/.bin/tsx db/scripts/alert-worker.ts >"$CLUSTER_DIR/worker$w.log" 2>&1 &
+    node --import tsx db/scripts/alert-worker.ts >"$CLUSTER_DIR/worker$w.log" 2>&1 &
   echo $! >"$CLUSTER_DIR/worker$w.pid"
 }
 
