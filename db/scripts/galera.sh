@@ -139,6 +139,11 @@ recovered_position() {
 # log_bin_trust_function_creators is on. Triggers fire on the node that takes
 # the write; the others apply its row changes.
 #
+# wsrep_sync_wait=3: a transaction's first read (and every UPDATE or DELETE)
+# waits until the node has applied all that the cluster committed before it.
+# Without it a client that wrote through one node and writes again through
+# another can be told its own settings version is stale.
+#
 # Starts node N; `bootstrap` makes it the first node of a new primary component.
 node_start() {
   local n="$1" mode="${2:-join}" datadir user host position extra=()
@@ -174,7 +179,7 @@ node_start() {
     --wsrep-node-name="node$n" --wsrep-node-address="$host:$(node_gcomm_port "$n")" \
     --wsrep-provider-options="gmcast.listen_addr=tcp://$host:$(node_gcomm_port "$n");ist.recv_addr=$host:$(($(node_gcomm_port "$n") + 1));gcache.size=256M;evs.suspect_timeout=PT3S;evs.inactive_timeout=PT6S;evs.install_timeout=PT6S" \
     --wsrep-sst-method=rsync --wsrep-sst-receive-address="$host:$(($(node_gcomm_port "$n") + 2))" \
-    --wsrep-slave-threads=2 --log-bin-trust-function-creators=ON "${extra[@]}" >/dev/null 2>&1 &
+    --wsrep-slave-threads=2 --log-bin-trust-function-creators=ON --wsrep-sync-wait=3 "${extra[@]}" >/dev/null 2>&1 &
 }
 
 # Waits until node N is Synced; prints the seconds it took.
