@@ -23,7 +23,7 @@ export const ROWS_PER_UPLOAD = 30;
  * Sends until the server answers with anything but 5xx (or a lost connection);
  * a 5xx or a lost answer means "not known whether it landed": send it again.
  */
-async function settle(
+export async function settle(
   send: () => Promise<Response>,
   stats: WriterStats,
 ): Promise<{ status: number; body: unknown }> {
