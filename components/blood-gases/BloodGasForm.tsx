@@ -23,6 +23,7 @@ import { DeviceSettingsFields, devicePrefill } from "@/components/bedside/Device
 import { Button, buttonClasses } from "@/components/ui/Button";
 import { SelectField } from "@/components/ui/SelectField";
 import type { BloodGasInput as BloodGasPayload } from "@/lib/blood-gases/schema";
+import { otherPressureUnit } from "@/lib/blood-gases/pressure-hint";
 import { bloodGasSchema, saturationIssue } from "@/lib/blood-gases/schema";
 import type { BloodGasView } from "@/lib/blood-gases/service";
 import { emptyToUndefined } from "@/lib/number-input";
@@ -268,14 +269,25 @@ function BloodGasEntry({
     setError,
     formState: { errors, isSubmitting },
   } = form;
-  const [typedUnit, sampleType, typedHbUnit] = useWatch({
+  const [typedUnit, sampleType, typedHbUnit, typedPao2, typedPaco2] = useWatch({
     control,
-    name: ["pressureUnit", "sampleType", "hemoglobinUnit"],
+    name: ["pressureUnit", "sampleType", "hemoglobinUnit", "pao2", "paco2"],
   });
   const unit: PressureUnit = PRESSURE_UNITS.find((u) => u === typedUnit) ?? pressureUnit;
   const venous = sampleType === "venous";
   const po2 = venous ? "PvO2" : "PaO2";
   const pco2 = venous ? "PvCO2" : "PaCO2";
+  // A pressure that looks like the other unit is pointed out, never converted.
+  const unitHint = (field: "pao2" | "paco2", label: string, value: unknown) => {
+    const other = typeof value === "number" ? otherPressureUnit(field, value, unit) : undefined;
+    return other
+      ? `${label} ${value as number} looks like ${other}, not ${unit}: set "Pressures in" to ${other}, or check the value.`
+      : null;
+  };
+  const pressureHints = [
+    unitHint("pao2", po2, typedPao2),
+    unitHint("paco2", pco2, typedPaco2),
+  ].filter((h): h is string => h !== null);
 
   const onSubmit = handleSubmit(async (values) => {
     setNotice(null);
@@ -375,8 +387,30 @@ function BloodGasEntry({
         <fieldset className="grid grid-cols-2 gap-x-3 sm:grid-cols-4">
           <legend className="mb-1 text-sm font-semibold">Result</legend>
           <NumberField form={form} id={id} name="ph" label="pH" hint="Optional" />
-          <NumberField form={form} id={id} name="pao2" label={`${po2} (${unit})`} />
-          <NumberField form={form} id={id} name="paco2" label={`${pco2} (${unit})`} />
+          <NumberField
+            form={form}
+            id={id}
+            name="pao2"
+            label={`${po2} (${unit})`}
+            describedBy={pressureHints.length ? `${id}-unit-hint` : undefined}
+          />
+          <NumberField
+            form={form}
+            id={id}
+            name="paco2"
+            label={`${pco2} (${unit})`}
+            describedBy={pressureHints.length ? `${id}-unit-hint` : undefined}
+          />
+          {pressureHints.length > 0 && (
+            <p
+              id={`${id}-unit-hint`}
+              role="status"
+              className="col-span-2 text-sm text-overdue sm:col-span-4"
+              data-testid="pressure-unit-hint"
+            >
+              {pressureHints.join(" ")}
+            </p>
+          )}
           <NumberField form={form} id={id} name="hco3" label="HCO3 (mmol/L)" hint="Optional" />
           <NumberField
             form={form}

@@ -2,6 +2,7 @@
 
 import { useId, useMemo, useState } from "react";
 import { Caution } from "@/components/ui/Caution";
+import { defaultProposedFio2Percent } from "@/lib/oxygenation/forecast-default";
 import { IconWarning } from "@/components/ui/icons";
 import {
   ASSUMED_HEMOGLOBIN,
@@ -35,14 +36,8 @@ export interface OxygenationPanelProps {
   pressureUnit: PressureUnit;
 }
 
-// Weaning is the usual question: start one step of 0.10 below the measured FiO2.
 // The proposed FiO2 is typed in %: the range table's FiO2 range, in %.
 const FIO2_PERCENT = { min: RANGES.fio2.min * 100, max: RANGES.fio2.max * 100 };
-
-function defaultProposalPercent(fio2: number): number {
-  const percent = Math.round(fio2 * 100);
-  return percent - 10 >= FIO2_PERCENT.min ? percent - 10 : Math.min(FIO2_PERCENT.max, percent + 10);
-}
 
 type ForecastOutcome =
   { ok: true; fio2: number; forecast: Fio2Forecast } | { ok: false; message: string };
@@ -67,9 +62,9 @@ export function OxygenationPanel({ assessment, input, pressureUnit }: Oxygenatio
     [input.fio2, input.pao2, input.paco2, input.hemoglobin, input.barometricPressure],
   );
   const samples = useMemo(() => forecastSamples(baseline), [baseline]);
-  const [proposedText, setProposedText] = useState(() =>
-    String(defaultProposalPercent(input.fio2)),
-  );
+  // One step up for a hypoxaemic gas, one step down (weaning) otherwise.
+  const opening = defaultProposedFio2Percent(input, FIO2_PERCENT).percent;
+  const [proposedText, setProposedText] = useState(() => String(opening));
 
   const outcome = useMemo<ForecastOutcome>(() => {
     const percent = proposedText.trim() === "" ? Number.NaN : Number(proposedText);
@@ -96,9 +91,7 @@ export function OxygenationPanel({ assessment, input, pressureUnit }: Oxygenatio
     }
   }, [baseline, proposedText, unit]);
 
-  const sliderValue = outcome.ok
-    ? Math.round(outcome.fio2 * 100)
-    : defaultProposalPercent(input.fio2);
+  const sliderValue = outcome.ok ? Math.round(outcome.fio2 * 100) : opening;
   const forecast = outcome.ok ? outcome.forecast : null;
   const bases = outcome.ok
     ? forecastBasis({ ...baseline, nextFio2: outcome.fio2 }, outcome.forecast)

@@ -1,3 +1,4 @@
+import { otherPressureUnit } from "../blood-gases/pressure-hint";
 import { UcumLhcUtils } from "@lhncbc/ucum-lhc";
 import {
   convertHemoglobin,
@@ -78,14 +79,9 @@ export function unitMismatch(
     field,
     message: `${label} column is labelled ${unitLabel(unit)} but ${fmt(value)} looks like ${other}; check the column's unit.`,
   });
-  if ((field === "pao2" || field === "paco2") && unit === "mm[Hg]" && value > 0) {
-    if ((field === "pao2" && value < 20) || (field === "paco2" && value < 13)) return says("kPa");
-  }
-  if (
-    (field === "pao2" && unit === "kPa" && value > 95) ||
-    (field === "paco2" && unit === "kPa" && value > 21)
-  ) {
-    return says("mmHg");
+  if ((field === "pao2" || field === "paco2") && (unit === "mm[Hg]" || unit === "kPa")) {
+    const other = otherPressureUnit(field, value, unit === "kPa" ? "kPa" : "mmHg");
+    if (other) return says(other);
   }
   if (
     (field === "sao2" || field === "spo2" || field === "fio2") &&

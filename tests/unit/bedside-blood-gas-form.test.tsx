@@ -244,4 +244,26 @@ describe("BloodGasForm", () => {
     expect(screen.getByLabelText("PvO2 (mmHg)")).toBeTruthy();
     expect(screen.getByLabelText("PvCO2 (mmHg)")).toBeTruthy();
   });
+
+  it("points out a PaO2 typed in kPa under mmHg, and says nothing once the unit matches", async () => {
+    render(
+      <BloodGasForm
+        patientId={PATIENT_ID}
+        context={context()}
+        pressureUnit="mmHg"
+        timeZone="UTC"
+      />,
+    );
+    fireEvent.change(screen.getByLabelText("PaO2 (mmHg)"), { target: { value: "8.2" } });
+    const hint = await screen.findByTestId("pressure-unit-hint");
+    expect(hint.textContent).toBe(
+      'PaO2 8.2 looks like kPa, not mmHg: set "Pressures in" to kPa, or check the value.',
+    );
+    // The field is described by the hint, so a screen reader reads it with the value.
+    expect(screen.getByLabelText("PaO2 (mmHg)").getAttribute("aria-describedby")).toContain(
+      hint.id,
+    );
+    fireEvent.change(screen.getByLabelText("Pressures in"), { target: { value: "kPa" } });
+    await waitFor(() => expect(screen.queryByTestId("pressure-unit-hint")).toBeNull());
+  });
 });
