@@ -42,16 +42,19 @@ async function lockChainHead(
   trx: Knex.Transaction,
   chainKey: string,
 ): Promise<{ last_seq: number | string; last_hash: string }> {
-  // Creates the head if missing, then takes its row lock.
-  await trx.raw(
-    "INSERT INTO ledger_chains (chain_key, last_seq, last_hash) VALUES (?, 0, ?) ON DUPLICATE KEY UPDATE chain_key = chain_key",
+  // One statement creates the head if missing and takes its row lock; RETURNING
+  // gives the head as locked (the latest committed one, not this transaction's
+  // snapshot).
+  const [rows] = (await trx.raw(
+    "INSERT INTO ledger_chains (chain_key, last_seq, last_hash) VALUES (?, 0, ?) ON DUPLICATE KEY UPDATE chain_key = chain_key RETURNING last_seq, last_hash",
     [chainKey, GENESIS_HASH],
-  );
-  return (await trx("ledger_chains")
-    .where({ chain_key: chainKey })
-    .forUpdate()
-    .first("last_seq", "last_hash")) as { last_seq: number | string; last_hash: string };
+  )) as [{ last_seq: number | string; last_hash: string }[]];
+  return rows[0]!;
 }
+
+const INSERT_ENTRY = `INSERT INTO ledger_entries (chain_key, chain_seq, prev_hash, hash,
+  actor_user_id, actor_role, occurred_at, action, entity_type, entity_id, patient_id, unit_id,
+  before_json, after_json, rationale) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`;
 
 /**
  * Takes the patient's chain lock up front. Clinical writes take it first (they
@@ -68,7 +71,8 @@ export async function lockPatientChain(trx: Knex.Transaction, patientId: number)
  * chain's head row is locked, so writes on different patients do not queue
  * behind each other. The row's hash is an HMAC under LEDGER_HMAC_KEY, so an
  * account that can INSERT but does not hold the key cannot append a row that
- * verifies; triggers let the chain head advance only one stored row at a time.
+ * verifies; triggers let the chain head advance only one stored row at a time,
+ * and move it with each stored row. Round trips: the head (locked), the row.
  */
 export async function appendLedger(
   trx: Knex.Transaction,
@@ -97,25 +101,24 @@ export async function appendLedger(
     rationale: input.rationale ?? null,
   };
   const hash = keyedLedgerHash(ledgerKeys(), fields);
-  const [id] = await trx("ledger_entries").insert({
-    chain_key: fields.chainKey,
-    chain_seq: fields.chainSeq,
-    prev_hash: fields.prevHash,
+  // Raw SQL: a ledger row goes with every write, and the query builder cost more than the statement.
+  const [inserted] = (await trx.raw(INSERT_ENTRY, [
+    fields.chainKey,
+    fields.chainSeq,
+    fields.prevHash,
     hash,
-    actor_user_id: fields.actorUserId,
-    actor_role: fields.actorRole,
-    occurred_at: fields.occurredAt,
-    action: fields.action,
-    entity_type: fields.entityType,
-    entity_id: fields.entityId,
-    patient_id: fields.patientId,
-    unit_id: fields.unitId,
-    before_json: fields.beforeJson,
-    after_json: fields.afterJson,
-    rationale: fields.rationale,
-  });
-  await trx("ledger_chains")
-    .where({ chain_key: chainKey })
-    .update({ last_seq: fields.chainSeq, last_hash: hash });
-  return { id: Number(id), chainKey, chainSeq: fields.chainSeq, hash };
+    fields.actorUserId,
+    fields.actorRole,
+    fields.occurredAt,
+    fields.action,
+    fields.entityType,
+    fields.entityId,
+    fields.patientId,
+    fields.unitId,
+    fields.beforeJson,
+    fields.afterJson,
+    fields.rationale,
+  ])) as [{ insertId: number | string }];
+  // The insert moved the chain head onto this row (trigger ledger_entries_advance_head).
+  return { id: Number(inserted.insertId), chainKey, chainSeq: fields.chainSeq, hash };
 }

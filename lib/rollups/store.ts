@@ -26,6 +26,16 @@ const ceilTo = (ms: number, step: number) => floorTo(ms + step - 1, step);
 /** Monitor samples read before the refreshed stretch, so the first ones inside it know their interval. */
 const LEAD_MS = 2 * MONITOR_MAX_CARRY_MS;
 
+/**
+ * The readings index a time range of one patient needs. Named because the
+ * optimizer otherwise takes `patient_id = ?` alone (a "ref" over every reading
+ * of the patient) for MAX/MIN and ORDER BY … LIMIT 1 with the admission as an
+ * extra filter: each import batch then read the whole stored series again.
+ */
+const BY_PATIENT_TIME = "FORCE INDEX (readings_patient_id_taken_at_index)";
+/** (admission_id, source, taken_at): the next monitor sample after a time is one index entry. */
+const BY_ADMISSION_SOURCE_TIME = "FORCE INDEX (readings_manual_index)";
+
 type ReadingRow = {
   t: number | string;
   spo2_pct: number;
@@ -45,11 +55,11 @@ async function loadSeries(
   // The reading before the lead window too: a charted value may still hold.
   const [[rows], [carry]] = (await Promise.all([
     knex.raw(
-      `SELECT ${cols} FROM readings WHERE patient_id = ? AND admission_id = ? AND taken_at >= ? AND taken_at < ? ORDER BY taken_at, id`,
+      `SELECT ${cols} FROM readings ${BY_PATIENT_TIME} WHERE patient_id = ? AND admission_id = ? AND taken_at >= ? AND taken_at < ? ORDER BY taken_at, id`,
       [patientId, admissionId, lead, new Date(to)],
     ),
     knex.raw(
-      `SELECT ${cols} FROM readings WHERE patient_id = ? AND admission_id = ? AND taken_at < ? ORDER BY taken_at DESC, id DESC LIMIT 1`,
+      `SELECT ${cols} FROM readings ${BY_PATIENT_TIME} WHERE patient_id = ? AND admission_id = ? AND taken_at < ? ORDER BY taken_at DESC, id DESC LIMIT 1`,
       [patientId, admissionId, lead],
     ),
   ])) as [[ReadingRow[]], [ReadingRow[]]];
@@ -103,6 +113,13 @@ const stayAt = (stays: readonly Stay[], t: number) =>
   // A stay that starts inside the minute still owns it.
   stays.find((s) => s.from < t + MINUTE_MS && t < s.to);
 
+/**
+ * The longest stretch whose readings are loaded at once: a day of 1 Hz monitor
+ * samples is recomputed a quarter at a time, so memory stays flat (about
+ * 22,000 samples) whatever the stretch. Windows end on half hours.
+ */
+const WINDOW_MS = 6 * HOUR_MS;
+
 /** Recomputes the admission's rollups over [from, to), widened to whole minutes and hours. */
 export async function refreshRollups(
   trx: Knex | Knex.Transaction,
@@ -117,38 +134,38 @@ export async function refreshRollups(
   const { patient_id: patientId } = (await trx("admissions")
     .where({ id: admissionId })
     .first("patient_id")) as { patient_id: number };
-  const [stays, { bands, orders }, changes, series] = await Promise.all([
+  const [stays, { bands, orders }, changes] = await Promise.all([
     loadStays(trx, { admissionIds: [admissionId] }),
     loadBands(trx, admissionId),
     trx("adjustments")
       .where({ admission_id: admissionId })
       .where("applied_at", "<", new Date(end))
       .select("applied_at", "to_fio2") as Promise<{ applied_at: Date; to_fio2: number }[]>,
-    loadSeries(trx, { admissionId, patientId }, start, end),
   ]);
-  const minutes = minuteMeasures({
-    series,
-    bands,
-    fio2: fio2Timeline(
-      orders,
-      changes.map((c) => ({ at: c.applied_at.getTime(), fio2: Number(c.to_fio2) })),
-    ),
-    from: start,
-    to: end,
-  });
-  const rows = [];
-  for (const [minute, m] of minutes) {
-    const stay = stayAt(stays, minute);
-    if (!stay) continue; // before admission or after discharge
-    rows.push(minuteRow({ ...stay, admissionId }, minute, m));
+  const fio2 = fio2Timeline(
+    orders,
+    changes.map((c) => ({ at: c.applied_at.getTime(), fio2: Number(c.to_fio2) })),
+  );
+  // Each window loads its own lead and carry, as any refresh does, so its
+  // minutes come out as they would from one pass over the whole stretch.
+  for (let winFrom = start; winFrom < end;) {
+    const winTo = Math.min(end, floorTo(winFrom, SLOT_MS) + WINDOW_MS);
+    const series = await loadSeries(trx, { admissionId, patientId }, winFrom, winTo);
+    const rows = [];
+    for (const [minute, m] of minuteMeasures({ series, bands, fio2, from: winFrom, to: winTo })) {
+      const stay = stayAt(stays, minute);
+      if (!stay) continue; // before admission or after discharge
+      rows.push(minuteRow({ ...stay, admissionId }, minute, m));
+    }
+    await trx("rollup_minutes")
+      .where({ admission_id: admissionId })
+      .where("minute_at", ">=", new Date(winFrom))
+      .where("minute_at", "<", new Date(winTo))
+      .delete();
+    for (let i = 0; i < rows.length; i += 2000)
+      await trx("rollup_minutes").insert(rows.slice(i, i + 2000));
+    winFrom = winTo;
   }
-  await trx("rollup_minutes")
-    .where({ admission_id: admissionId })
-    .where("minute_at", ">=", new Date(start))
-    .where("minute_at", "<", new Date(end))
-    .delete();
-  for (let i = 0; i < rows.length; i += 2000)
-    await trx("rollup_minutes").insert(rows.slice(i, i + 2000));
 
   // The half hours the stretch touches are summed again from their minutes.
   const slotFrom = new Date(floorTo(start, SLOT_MS));
@@ -178,16 +195,16 @@ export async function refreshAfterReadings(
   last: Date,
   source: "manual" | "monitor",
 ): Promise<void> {
-  const [[before], [nextMonitor]] = (await Promise.all([
-    trx("readings")
-      .where({ patient_id: patientId, admission_id: admissionId })
-      .where("taken_at", "<", first)
-      .max({ t: "taken_at" }),
-    trx("readings")
-      .where({ patient_id: patientId, admission_id: admissionId, source: "monitor" })
-      .where("taken_at", ">", last)
-      .min({ t: "taken_at" }),
-  ])) as [{ t: Date | null }[], { t: Date | null }[]];
+  const [[[before]], [[nextMonitor]]] = (await Promise.all([
+    trx.raw(
+      `SELECT taken_at AS t FROM readings ${BY_PATIENT_TIME} WHERE patient_id = ? AND admission_id = ? AND taken_at < ? ORDER BY taken_at DESC LIMIT 1`,
+      [patientId, admissionId, first],
+    ),
+    trx.raw(
+      `SELECT taken_at AS t FROM readings ${BY_ADMISSION_SOURCE_TIME} WHERE admission_id = ? AND source = 'monitor' AND patient_id = ? AND taken_at > ? ORDER BY taken_at LIMIT 1`,
+      [admissionId, patientId, last],
+    ),
+  ])) as [[{ t: Date }[]], [{ t: Date }[]]];
   const from = before?.t ?? first;
   const reach =
     last.getTime() + (source === "manual" ? MAX_CARRY_FORWARD_MS : MONITOR_MAX_CARRY_MS);

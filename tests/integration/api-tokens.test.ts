@@ -324,6 +324,29 @@ describe("API tokens", () => {
     expect((await json(bad)).error?.message).toMatch(/looks separated by semicolon/);
   });
 
+  it("keeps nothing of a monitor body whose CSV breaks after its first batches were written", async () => {
+    const p = await patientOnHfnc();
+    const { token: secret } = await token("write");
+    const start = Date.now() - 3600_000;
+    const lines = ["time,spo2,pulse_rate"];
+    for (let i = 0; i < 2500; i++)
+      lines.push(`${new Date(start + i * 1000).toISOString()},${90 + (i % 8)},80`);
+    // An opening quote never closed: csv-parse finds out only at the end of the body.
+    lines.push(`"${new Date(start + 2_500_000).toISOString()},95,80`);
+    const response = await postMonitor(
+      request(`/api/v1/imports/monitor?mrn=${p.mrn}&bed=${p.bed}`, `${lines.join("\n")}\n`, secret),
+    );
+    expect(response.status).toBe(422);
+    expect((await json(response)).error?.message).toMatch(/not valid CSV/);
+    const left = async (table: string, where: Record<string, unknown>) =>
+      Number(((await appDb()(table).where(where).count({ n: "*" }).first()) as { n: number }).n);
+    expect(await left("readings", { patient_id: p.patientId })).toBe(0);
+    expect(await left("rollup_minutes", { patient_id: p.patientId })).toBe(0);
+    expect(await left("ledger_entries", { patient_id: p.patientId, entity_type: "import" })).toBe(
+      0,
+    );
+  });
+
   it("writes no part of the secret to the ledger when a token is created or revoked", async () => {
     const admin = await actorByEmail(SEEDED.admin);
     const { token: secret, summary } = await token("write");

@@ -542,22 +542,40 @@ describe("monitor CSV", () => {
       .where({ patient_id: p.patientId })
       .orderBy("taken_at")
       .select(
+        "admission_id",
+        "taken_at",
         "spo2_pct",
+        "respiratory_rate_per_min",
         "pulse_rate_per_min",
         "device",
         "fio2",
+        "fio2_estimated",
         "flow_l_min",
         "source",
+        "recorded_by",
+        "import_id",
       )) as Record<string, unknown>[];
     expect(rows).toHaveLength(6);
+    const { id: admissionId } = (await appDb()("admissions")
+      .where({ patient_id: p.patientId })
+      .first("id")) as { id: number };
     expect(rows[0]).toEqual({
+      admission_id: admissionId,
+      taken_at: new Date("2026-11-20T08:00:00Z"),
       spo2_pct: 95,
+      respiratory_rate_per_min: null,
       pulse_rate_per_min: 88,
       device: "hfnc",
       fio2: 0.45,
+      fio2_estimated: 0,
       flow_l_min: 40,
       source: "monitor",
+      recorded_by: therapist.id,
+      import_id: preview.id,
     });
+    expect(rows.map((r) => (r.taken_at as Date).toISOString())).toEqual(
+      [0, 1, 2, 3, 4, 5].map((s) => `2026-11-20T08:00:0${s}.000Z`),
+    );
     expect(rows[3]?.pulse_rate_per_min).toBeNull();
     const ledger = (await appDb()("ledger_entries")
       .where({ entity_type: "import", entity_id: String(preview.id), patient_id: p.patientId })

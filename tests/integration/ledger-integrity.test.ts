@@ -109,6 +109,47 @@ describe("chain heads are guarded at the database level", () => {
     ).toBeDefined();
   });
 
+  it("moves the head with each stored row: refuses a row with no head, or not next to it", async () => {
+    const [row] = await append(appDb(), freshPatient(), 1);
+    const entry = (over: Record<string, unknown>) =>
+      appDb()("ledger_entries").insert({
+        chain_key: row!.chainKey,
+        chain_seq: row!.chainSeq + 1,
+        prev_hash: row!.hash,
+        hash: "e".repeat(64),
+        actor_role: "system",
+        occurred_at: new Date(),
+        action: "reading.chart",
+        entity_type: "reading",
+        entity_id: "1",
+        ...over,
+      });
+    const headless = await refusal(
+      entry({
+        chain_key: chainKeyFor({ patientId: freshPatient() }),
+        chain_seq: 1,
+        prev_hash: GENESIS_HASH,
+      }),
+    );
+    expect(headless?.sqlMessage).toMatch(/needs its chain head/);
+    // Keys compare as bytes: another case is another (headless) chain.
+    const otherCase = await refusal(entry({ chain_key: row!.chainKey.toUpperCase() }));
+    expect(otherCase?.sqlMessage).toMatch(/needs its chain head/);
+    const unlinked = await refusal(entry({ prev_hash: GENESIS_HASH }));
+    expect(unlinked?.sqlMessage).toMatch(/linked to the old head/);
+    const skipped = await refusal(entry({ chain_seq: row!.chainSeq + 2 }));
+    expect(skipped?.sqlMessage).toMatch(/only advances by one row/);
+    // Each refusal took its row with it; the head did not move.
+    expect(await appDb()("ledger_entries").where("hash", "e".repeat(64)).first("id")).toBe(
+      undefined,
+    );
+    expect(
+      await appDb()("ledger_chains")
+        .where({ chain_key: row!.chainKey })
+        .first("last_seq", "last_hash"),
+    ).toMatchObject({ last_seq: row!.chainSeq, last_hash: row!.hash });
+  });
+
   it("refuses a new chain head that does not start at row 0", async () => {
     const refused = await refusal(
       appDb()("ledger_chains").insert({
@@ -327,7 +368,8 @@ describe("tampering is detected", () => {
     });
     const result = await verifyLedger(app, { anchorPath: null });
     expect(result.firstBroken).toMatchObject({ chainKey: row!.chainKey, chainSeq: 2 });
-    // The head was not moved: the row past it is found all the same.
+    // The insert moved the head onto it (the triggers check the link, not the key):
+    // only the row's hash gives it away.
     expect(result.firstBroken?.problem).toMatch(/does not match its keyed hash/);
   });
 

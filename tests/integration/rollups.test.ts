@@ -64,13 +64,17 @@ async function storedRows(admissionId: number): Promise<{ minutes: Stored[]; hou
 }
 
 /** The rows a rebuild from the raw rows leaves, after deleting what the services kept. */
-async function rebuiltFromRaw(admissionId: number, since: number) {
+async function rebuiltFromRaw(
+  admissionId: number,
+  since: number,
+  until = Date.now() + 5 * 3600_000,
+) {
   const knex = appDb();
   await knex("rollup_minutes").where({ admission_id: admissionId }).delete();
   await knex("rollup_slots").where({ admission_id: admissionId }).delete();
   await rebuildRollups(knex, {
     from: new Date(since - 4 * 3600_000),
-    to: new Date(Date.now() + 5 * 3600_000),
+    to: new Date(until),
     admissionIds: [admissionId],
   });
   return storedRows(admissionId);
@@ -254,6 +258,66 @@ describe("rollups kept on write", () => {
     expect(stay.belowMinutes).toBeCloseTo(Number(sums.below) / MIN, 9);
     expect(stay.fio2HoursAboveRoomAir).toBeCloseTo(Number(sums.excess) / 3600, 9);
     expect(stay.windowMinutes).toBeGreaterThan(3 * 60);
+  });
+
+  it("after a monitor file longer than a refresh window (13 h), equal a rebuild and the rules", async () => {
+    const knex = appDb();
+    const { patientId, unitId, bedId } = await admitTestPatient("MICU");
+    const { mrn } = (await knex("patients").where({ id: patientId }).first("mrn")) as {
+      mrn: string;
+    };
+    const { label } = (await knex("beds").where({ id: bedId }).first("label")) as {
+      label: string;
+    };
+    const admission = (await knex("admissions").where({ patient_id: patientId }).first("id")) as {
+      id: number;
+    };
+    await writeOrderOperation.invoke(knex, physician, hfncOrder(patientId));
+    // A sample every 10 s for 13 h, in, below and above the 92–96 % band, in
+    // several insert batches; the rollups are refreshed 6 h at a time from the
+    // first sample's half hour, so a probe-off gap straddles the first window
+    // edge and the series runs on unbroken across the second.
+    const first = Date.now() + MIN + 250;
+    const edge = Math.floor(first / (30 * MIN)) * 30 * MIN + 6 * 3600_000;
+    const pattern = [94, 95, 90, 86, 97, 99, 93];
+    const rows: string[] = [];
+    for (let i = 0; i < 13 * 360; i++) {
+      const t = first + i * 10_000;
+      if (t > edge - 90_000 && t < edge + 75_000) continue;
+      rows.push(`${new Date(t).toISOString()},${pattern[Math.floor(i / 37) % 7]}`);
+    }
+    const last = first + (13 * 360 - 1) * 10_000;
+    const importAt = new Date(last + MIN);
+    const preview = await previewUpload(
+      knex,
+      therapist,
+      { kind: "monitor_csv", unitId, fileName: "long.csv", mrn, bed: label } as UploadInput,
+      Buffer.from(["time,spo2", ...rows].join("\n"), "utf8"),
+      importAt,
+    );
+    expect(preview.counts).toMatchObject({ accepted: rows.length, rejected: 0 });
+    await confirmImportOperation.invoke(
+      knex,
+      therapist,
+      { importId: preview.id, expectedAccepted: rows.length },
+      importAt,
+    );
+    const kept = await storedRows(admission.id);
+    const minuteAt = (m: Stored) => (m.minute_at as Date).getTime();
+    expect(kept.minutes.some((m) => minuteAt(m) < edge - 5 * MIN)).toBe(true);
+    expect(kept.minutes.some((m) => minuteAt(m) > edge + 6 * 3600_000)).toBe(true);
+    expect(kept.minutes.length).toBeGreaterThan(13 * 60 - 10);
+
+    const from = new Date(Math.floor(first / MIN) * MIN);
+    const to = new Date(Math.ceil((last + 10 * MIN) / MIN) * MIN);
+    const rolled = (await timeInBandFromRollups(knex, [admission.id], from, to)).get(admission.id)!;
+    const { bands } = await loadBands(knex, admission.id);
+    const raw = timeInBand({ readings: await rawSeries(admission.id), bands, from, to });
+    expect(rolled.ms).toEqual(raw.ms);
+    expect(raw.ms.below).toBeGreaterThan(0);
+    expect(raw.ms.above).toBeGreaterThan(0);
+
+    expect(await rebuiltFromRaw(admission.id, first, last + 3600_000)).toEqual(kept);
   });
 
   it("serves half-hour rows inside a window and minute rows at its edges and cuts, with the same sums", async () => {
