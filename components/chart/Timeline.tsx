@@ -8,6 +8,7 @@ import { Button } from "@/components/ui/Button";
 import { EmptyState } from "@/components/ui/EmptyState";
 import { formatPfRatio, type PressureUnit } from "@/lib/oxygen/units";
 import type { TimelineItem, TimelineKind, TimelinePage } from "@/lib/chart/timeline";
+import { collapseReadingRuns } from "@/lib/chart/timeline-runs";
 import { type ChartRequestError, formatUnitTime, getChartJson } from "./chart-request";
 
 export const TIMELINE_PAGE_SIZE = 25;
@@ -90,16 +91,26 @@ export function TimelineTable({
           </tr>
         </thead>
         <tbody>
-          {items.map((item) => {
+          {collapseReadingRuns(items).map(({ item, count, firstAt }) => {
             const pressures = pressureText(item, pressureUnit);
+            const stopped = item.discontinued;
             return (
               <tr
                 key={item.cursor}
                 className="border-b border-border align-top last:border-b-0"
                 data-kind={item.kind}
+                data-count={count}
               >
                 <td className="tabular px-3 py-2 whitespace-nowrap">
-                  <time dateTime={item.at}>{formatUnitTime(item.at, timeZone)}</time>
+                  {count > 1 ? (
+                    <>
+                      <time dateTime={firstAt}>{formatUnitTime(firstAt, timeZone)}</time>
+                      {" – "}
+                      <time dateTime={item.at}>{formatUnitTime(item.at, timeZone)}</time>
+                    </>
+                  ) : (
+                    <time dateTime={item.at}>{formatUnitTime(item.at, timeZone)}</time>
+                  )}
                 </td>
                 <td className="px-3 py-2">
                   <span
@@ -112,7 +123,16 @@ export function TimelineTable({
                   <p className="break-words">
                     {item.summary}
                     {pressures ? <span className="tabular">{`: ${pressures}`}</span> : null}
+                    {count > 1 ? (
+                      <span className="text-ink-muted">{` — ${count} identical readings`}</span>
+                    ) : null}
                   </p>
+                  {stopped ? (
+                    <p className="mt-0.5 text-xs break-words" data-testid="timeline-discontinued">
+                      {`Discontinued ${formatUnitTime(stopped.at, timeZone)} by ${stopped.by ?? "an unknown user"}`}
+                      {stopped.reason ? `: ${stopped.reason}` : ""}
+                    </p>
+                  ) : null}
                   {item.rationale ? (
                     <p className="mt-0.5 line-clamp-2 text-xs break-words text-ink-muted">
                       {item.rationale}

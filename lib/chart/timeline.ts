@@ -56,6 +56,8 @@ export type TimelineItem = {
   summary: string;
   /** The clinician's rationale, where the row has one. */
   rationale: string | null;
+  /** An order that was discontinued: when, by whom and why. */
+  discontinued?: { at: string; by: string | null; reason: string | null };
   values: TimelineValues;
 };
 
@@ -92,6 +94,8 @@ type Source = {
   table: string;
   time: string;
   select: string[];
+  /** Selected as written (sub-queries over the row `t`). */
+  raw?: string[];
   map: (row: Record<string, unknown>) => Omit<TimelineItem, "cursor" | "kind">;
 };
 
@@ -133,15 +137,28 @@ const SOURCES: Record<TimelineKind, Source> = {
       "initial_peep_cmh2o",
       "initial_flow_l_min",
       "rationale",
+      "discontinued_at",
+      "discontinue_reason",
     ],
+    raw: ["(SELECT d.name FROM users d WHERE d.id = t.discontinued_by) AS discontinued_by_name"],
     map: (r) => {
       const status = r.status as OrderStatus;
+      const stopped = r.discontinued_at ? (r.discontinued_at as Date).toISOString() : null;
       return {
         id: num(r.id),
         at: (r.at as Date).toISOString(),
         who: (r.who as string | null) ?? null,
         summary: `Order (${STATUS_WORDS[status]}): ${deviceLabel(r.device)}, target band ${num(r.spo2_lower_pct)}–${num(r.spo2_upper_pct)} %, FiO2 ${fio2Text(num(r.fio2_min))}–${fio2Text(num(r.fio2_max))}`,
         rationale: (r.rationale as string | null) ?? null,
+        ...(stopped
+          ? {
+              discontinued: {
+                at: stopped,
+                by: (r.discontinued_by_name as string | null) ?? null,
+                reason: (r.discontinue_reason as string | null) ?? null,
+              },
+            }
+          : {}),
         values: {
           status,
           device: r.device as Device,
@@ -324,7 +341,11 @@ export async function listTimeline(
       const q = knex(`${source.table} as t`)
         .leftJoin("users as u", "u.id", `t.${WHO_COLUMN[kind]}`)
         .where("t.admission_id", admission.admissionId)
-        .select([...source.select.map((c) => `t.${c}`), "u.name as who"])
+        .select([
+          ...source.select.map((c) => `t.${c}`),
+          "u.name as who",
+          ...(source.raw ?? []).map((r) => knex.raw(r)),
+        ])
         .orderBy([
           { column: time, order: "desc" },
           { column: "t.id", order: "desc" },

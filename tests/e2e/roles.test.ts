@@ -72,7 +72,12 @@ describe.each(ROLE_STORIES)("$role", ({ role, email, label, units }) => {
         await page.getByRole("heading", { name: "Not available to your role" }).waitFor();
         expect(await page.getByRole("link", { name: "Users" }).count()).toBe(0);
         // The refusal keeps the header: the Board is one click away in the navigation.
-        expect(await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Board" }).count()).toBe(1);
+        expect(
+          await page
+            .getByRole("navigation", { name: "Main" })
+            .getByRole("link", { name: "Board" })
+            .count(),
+        ).toBe(1);
       }
       await page.screenshot({ path: `${ARTIFACTS}/${role}-admin-users.png` });
     } finally {

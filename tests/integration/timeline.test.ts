@@ -1,6 +1,6 @@
 import { recordAdjustmentOperation } from "@/lib/adjustments/operations";
 import { recordBloodGasOperation } from "@/lib/blood-gases/operations";
-import { writeOrderOperation } from "@/lib/orders/operations";
+import { discontinueOrderOperation, writeOrderOperation } from "@/lib/orders/operations";
 import { chartReadingOperation } from "@/lib/readings/operations";
 import { afterAll, describe, expect, it } from "vitest";
 import { closeDb } from "@/lib/db";
@@ -161,6 +161,28 @@ describe("the Chart's timeline", () => {
     for (let i = 1; i < all.length; i++) {
       expect(Date.parse(all[i - 1]!.at)).toBeGreaterThanOrEqual(Date.parse(all[i]!.at));
     }
+  });
+
+  it("says who discontinued an order, when and why", async () => {
+    const { patientId, order, physician } = await patientWithCare();
+    await discontinueOrderOperation.invoke(
+      appDb(),
+      physician,
+      {
+        orderId: order.id,
+        version: order.version,
+        reason: "Extubated to room air",
+        password: "tidemark-demo",
+      },
+      minutesAgo(5),
+    );
+    const [item] = await readAll(patientId, 50, ["order"]);
+    expect(item?.values.status).toBe("discontinued");
+    expect(item?.discontinued).toMatchObject({
+      by: physician.name,
+      reason: "Extubated to room air",
+    });
+    expect(Date.parse(item!.discontinued!.at)).toBeGreaterThan(Date.parse(item!.at));
   });
 
   it("filters by kind", async () => {
