@@ -58,7 +58,7 @@ export function BedsideFormHeader({
   return (
     <header className="flex flex-wrap items-start justify-between gap-3 rounded-card border border-border bg-surface p-4 shadow-card">
       <div className="min-w-0 space-y-1">
-        <p className="text-xs font-medium tracking-wide text-ink-muted uppercase">
+        <p className="text-xs font-medium tracking-wide text-ink-muted">
           <Link href={`/patients/${patient.id}`} className="text-accent hover:underline">
             Chart
           </Link>{" "}

@@ -63,7 +63,7 @@ export function ApiTokensTable({ tokens }: { tokens: ApiTokenSummary[] }) {
       <div className="overflow-x-auto rounded-card border border-border bg-surface shadow-card">
         <table className="w-full text-left text-sm" data-testid="api-tokens-table">
           <caption className="sr-only">API tokens, active first</caption>
-          <thead className="border-b border-border bg-surface-muted text-xs tracking-wide text-ink-muted uppercase">
+          <thead className="border-b border-border bg-surface-muted text-xs tracking-wide text-ink-muted">
             <tr>
               <th scope="col" className="px-3 py-2">
                 Name

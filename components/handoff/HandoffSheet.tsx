@@ -25,7 +25,7 @@ const pct = (share: number) => `${Math.round(share * 100)} %`;
 function Fact({ label, children }: { label: string; children: ReactNode }) {
   return (
     <div className="min-w-0">
-      <dt className="text-xs font-medium tracking-wide text-ink-muted uppercase">{label}</dt>
+      <dt className="text-xs font-medium tracking-wide text-ink-muted">{label}</dt>
       <dd className="text-sm">{children}</dd>
     </div>
   );

@@ -100,7 +100,7 @@ export function PreviewPanel({
         <div className="overflow-x-auto">
           <table className="w-full text-left text-sm">
             <caption className="mb-1 text-left text-sm font-medium">First good rows</caption>
-            <thead className="border-b border-border bg-surface-muted text-xs tracking-wide text-ink-muted uppercase">
+            <thead className="border-b border-border bg-surface-muted text-xs tracking-wide text-ink-muted">
               <tr>
                 <th scope="col" className="px-2 py-1">
                   Row
@@ -141,7 +141,7 @@ export function PreviewPanel({
               <IconWarning className="mr-1 inline" />
               Rejected rows{preview.rejected.length > 200 ? " (first 200; the report has all)" : ""}
             </caption>
-            <thead className="border-b border-border bg-surface-muted text-xs tracking-wide text-ink-muted uppercase">
+            <thead className="border-b border-border bg-surface-muted text-xs tracking-wide text-ink-muted">
               <tr>
                 <th scope="col" className="px-2 py-1">
                   Row

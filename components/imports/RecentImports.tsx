@@ -20,7 +20,7 @@ export function RecentImports({ imports }: { imports: ImportSummary[] }) {
         <div className="overflow-x-auto rounded-card border border-border bg-surface shadow-card">
           <table className="w-full text-left text-sm">
             <caption className="sr-only">Recent uploads, newest first</caption>
-            <thead className="border-b border-border bg-surface-muted text-xs tracking-wide text-ink-muted uppercase">
+            <thead className="border-b border-border bg-surface-muted text-xs tracking-wide text-ink-muted">
               <tr>
                 <th scope="col" className="px-3 py-2">
                   File

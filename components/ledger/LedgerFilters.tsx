@@ -12,7 +12,9 @@ import { LOCAL_DATE_TIME, utcToZonedLocal, zonedLocalToUtc } from "./LedgerTime"
 
 /** The filters as typed: strings, empty meaning "any". */
 export type LedgerFilterValues = {
+  /** From a link (the Chart's "Ledger"); not typed: people look patients up by MRN. */
   patientId: string;
+  mrn: string;
   actorId: string;
   action: string;
   from: string;
@@ -21,12 +23,13 @@ export type LedgerFilterValues = {
 
 export const EMPTY_FILTERS: LedgerFilterValues = {
   patientId: "",
+  mrn: "",
   actorId: "",
   action: "",
   from: "",
   to: "",
 };
-const FILTER_KEYS = ["patientId", "actorId", "action", "from", "to"] as const;
+const FILTER_KEYS = ["patientId", "mrn", "actorId", "action", "from", "to"] as const;
 type FilterKey = (typeof FILTER_KEYS)[number];
 export type LedgerFilterErrors = Partial<Record<FilterKey, string>>;
 
@@ -53,6 +56,13 @@ const wallTime = (local: string) => zonedLocalToUtc(local, "UTC")?.getTime();
 export const ledgerFilterFormSchema = z
   .object({
     patientId: optionalId("Patient id must be a whole number above 0, such as 12."),
+    mrn: z
+      .string()
+      .trim()
+      .refine(
+        (v) => v === "" || /^[A-Za-z0-9-]{1,32}$/.test(v),
+        "MRN must be 1 to 32 letters, digits or dashes, such as KH402150.",
+      ),
     actorId: optionalId("Choose an actor from the list."),
     action: z
       .string()
@@ -92,6 +102,7 @@ export function filterValuesFromSearch(
   };
   return {
     patientId: read("patientId"),
+    mrn: read("mrn"),
     actorId: read("actorId"),
     action: read("action"),
     from: time("from"),
@@ -181,17 +192,21 @@ export function LedgerFilters({
       className="rounded-card border border-border bg-surface p-4 shadow-card"
     >
       <div className="grid gap-x-4 gap-y-1 sm:grid-cols-2 lg:grid-cols-[13rem_minmax(0,1fr)_minmax(0,1fr)]">
-        <Field id="ledger-patient" label="Patient id" error={errors.patientId?.message}>
+        <Field
+          id="ledger-patient"
+          label="Patient MRN"
+          error={errors.mrn?.message ?? errors.patientId?.message}
+        >
           {(describedBy, invalid) => (
             <input
               id="ledger-patient"
               type="text"
-              inputMode="numeric"
               autoComplete="off"
+              spellCheck={false}
               className={`${inputClasses} tabular`}
               aria-invalid={invalid}
               aria-describedby={describedBy}
-              {...register("patientId")}
+              {...register("mrn")}
             />
           )}
         </Field>

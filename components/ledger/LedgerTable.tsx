@@ -3,6 +3,7 @@
 import { Disclosure, DisclosureButton, DisclosurePanel } from "@headlessui/react";
 import Link from "next/link";
 import { IconChevronDown } from "@/components/ui/icons";
+import { ledgerDiff } from "@/lib/ledger/diff";
 import type { LedgerEntryView } from "@/lib/ledger/queries";
 import { actionLabel, entityLabel, roleLabel } from "./LedgerLabels";
 import { LedgerTime } from "./LedgerTime";
@@ -29,7 +30,7 @@ function JsonBox({
 }) {
   return (
     <div className="min-w-0">
-      <h3 className="mb-1 text-xs font-semibold tracking-wide text-ink-muted uppercase">{title}</h3>
+      <h3 className="mb-1 text-xs font-semibold tracking-wide text-ink-muted">{title}</h3>
       {stored === null ? (
         <p className="rounded-md border border-dashed border-border-strong px-2 py-1.5 text-xs text-ink-muted">
           {emptyText}
@@ -44,6 +45,57 @@ function JsonBox({
           {prettyJson(stored)}
         </pre>
       )}
+    </div>
+  );
+}
+
+/** Before and after field by field; the changed fields stand out, unchanged ones stay readable. */
+function ChangeTable({ entry }: { entry: LedgerEntryView }) {
+  const rows = ledgerDiff(entry.before, entry.after);
+  if (rows.length === 0) {
+    return <p className="text-xs text-ink-muted">No before or after stored for this row.</p>;
+  }
+  const changed = rows.filter((r) => r.changed).length;
+  return (
+    <div className="overflow-x-auto">
+      <table className="w-full text-left text-xs" data-testid="ledger-diff">
+        <caption className="pb-1 text-left text-xs text-ink-muted">
+          {entry.before === null
+            ? "Created with these fields"
+            : `${changed} of ${rows.length} field${rows.length === 1 ? "" : "s"} changed`}
+        </caption>
+        <thead className="text-ink-muted">
+          <tr>
+            <th scope="col" className="py-1 pr-3 font-medium">
+              Field
+            </th>
+            <th scope="col" className="py-1 pr-3 font-medium">
+              Before
+            </th>
+            <th scope="col" className="py-1 font-medium">
+              After
+            </th>
+          </tr>
+        </thead>
+        <tbody>
+          {rows.map((r) => (
+            <tr
+              key={r.field}
+              data-changed={r.changed}
+              className={r.changed ? "font-semibold" : "text-ink-muted"}
+            >
+              <th scope="row" className="py-0.5 pr-3 font-mono font-normal break-all">
+                {r.field}
+              </th>
+              <td className="py-0.5 pr-3 break-all">{r.before ?? "(none)"}</td>
+              <td className="py-0.5 break-all">
+                {r.changed ? <span aria-hidden>→ </span> : null}
+                {r.after ?? "(removed)"}
+              </td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
     </div>
   );
 }
@@ -75,12 +127,14 @@ function EntryRows({ entry, unit }: { entry: LedgerEntryView; unit: LedgerUnit |
             {entity} #{entry.entityId}
             {unit ? <span className="text-xs text-ink-muted"> · {unit.code}</span> : null}
           </div>
-          {entry.patientId !== null ? (
+          {entry.patient ? (
             <Link
-              href={`/patients/${entry.patientId}`}
-              className="text-xs text-accent underline-offset-2 hover:underline"
+              href={`/patients/${entry.patient.id}`}
+              className="block truncate text-xs text-accent underline-offset-2 hover:underline"
+              title={`Chart of ${entry.patient.name}, MRN ${entry.patient.mrn}`}
+              data-testid="ledger-patient"
             >
-              Chart of patient {entry.patientId}
+              {entry.patient.name} · {entry.patient.mrn}
             </Link>
           ) : null}
         </td>
@@ -110,14 +164,20 @@ function EntryRows({ entry, unit }: { entry: LedgerEntryView; unit: LedgerUnit |
       </tr>
       <DisclosurePanel as="tr" className="bg-surface-muted/40">
         <td colSpan={6} className="px-3 pt-1 pb-3">
-          <div className="grid gap-3 md:grid-cols-2">
-            <JsonBox
-              title="Before"
-              stored={entry.before}
-              emptyText="Nothing before: this row created the record."
-            />
-            <JsonBox title="After" stored={entry.after} emptyText="Nothing after this change." />
-          </div>
+          <ChangeTable entry={entry} />
+          <details className="mt-2">
+            <summary className="cursor-pointer text-xs font-medium text-accent">
+              Stored JSON, as hashed
+            </summary>
+            <div className="mt-2 grid gap-3 md:grid-cols-2">
+              <JsonBox
+                title="Before"
+                stored={entry.before}
+                emptyText="Nothing before: this row created the record."
+              />
+              <JsonBox title="After" stored={entry.after} emptyText="Nothing after this change." />
+            </div>
+          </details>
           {entry.rationale ? (
             <p className="mt-2 text-sm break-words whitespace-pre-line">
               <span className="font-medium text-ink-muted">Rationale: </span>
@@ -157,7 +217,7 @@ export function LedgerTable({
           <col />
           <col className="w-[7.5rem]" />
         </colgroup>
-        <thead className="border-b border-border bg-surface-muted text-xs tracking-wide text-ink-muted uppercase">
+        <thead className="border-b border-border bg-surface-muted text-xs tracking-wide text-ink-muted">
           <tr>
             <th scope="col" className="px-3 py-2">
               Time

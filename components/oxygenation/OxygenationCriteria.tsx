@@ -92,9 +92,7 @@ export function OxygenationCriteria({
           className="rounded-card border border-border bg-surface p-3"
           data-testid="berlin-category"
         >
-          <p className="text-xs font-medium tracking-wide text-ink-muted uppercase">
-            Berlin definition 2012
-          </p>
+          <p className="text-xs font-medium tracking-wide text-ink-muted">Berlin definition 2012</p>
           <p className="text-lg font-semibold">{BERLIN_WORDS[classification.berlin.category]}</p>
           <p className="text-sm text-ink-muted">Decided by: {classification.berlin.criterion}</p>
           <BasisDisclosure
@@ -111,9 +109,7 @@ export function OxygenationCriteria({
           className="rounded-card border border-border bg-surface p-3"
           data-testid="global-category"
         >
-          <p className="text-xs font-medium tracking-wide text-ink-muted uppercase">
-            Global definition 2023
-          </p>
+          <p className="text-xs font-medium tracking-wide text-ink-muted">Global definition 2023</p>
           <p className="text-lg font-semibold">{GLOBAL_WORDS[classification.global.category]}</p>
           {classification.global.classifiedBy ? (
             <p className="text-sm font-medium" data-testid="global-classified-by">

@@ -27,7 +27,7 @@ function IndexCard({
       className={`rounded-card border border-border bg-surface p-3 ${wide ? "sm:col-span-2" : ""}`}
       data-testid="oxygenation-index"
     >
-      <p className="text-xs font-medium tracking-wide text-ink-muted uppercase">{label}</p>
+      <p className="text-xs font-medium tracking-wide text-ink-muted">{label}</p>
       <p className="tabular mt-0.5">
         <span className="text-value">{value}</span>{" "}
         <span className="text-sm text-ink-muted">{unit}</span>

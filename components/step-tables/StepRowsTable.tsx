@@ -20,7 +20,7 @@ export function StepRowsTable({
   return (
     <table className="w-full text-left text-sm">
       <caption className="sr-only">{caption}</caption>
-      <thead className="text-xs tracking-wide text-ink-muted uppercase">
+      <thead className="text-xs tracking-wide text-ink-muted">
         <tr>
           <th scope="col" className="py-1 pr-3">
             Step

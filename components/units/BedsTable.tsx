@@ -100,7 +100,7 @@ export function BedsTable({
             <caption className="sr-only">
               Beds of {unitCode}: {active} in use, {beds.length - active} retired
             </caption>
-            <thead className="border-b border-border bg-surface-muted text-xs tracking-wide text-ink-muted uppercase">
+            <thead className="border-b border-border bg-surface-muted text-xs tracking-wide text-ink-muted">
               <tr>
                 <th scope="col" className="px-3 py-2">
                   Bed

@@ -9,7 +9,7 @@ export function UnitsTable({ units }: { units: UnitOverview[] }) {
     <div className="overflow-x-auto rounded-card border border-border bg-surface shadow-card">
       <table className="w-full text-left text-sm" data-testid="units-table">
         <caption className="sr-only">Your units with their beds</caption>
-        <thead className="border-b border-border bg-surface-muted text-xs tracking-wide text-ink-muted uppercase">
+        <thead className="border-b border-border bg-surface-muted text-xs tracking-wide text-ink-muted">
           <tr>
             <th scope="col" className="px-3 py-2">
               Unit

@@ -59,7 +59,7 @@ export function UsersTable({
         <caption className="sr-only">
           Users, sorted by {sort.key} {sort.dir === "asc" ? "ascending" : "descending"}
         </caption>
-        <thead className="border-b border-border bg-surface-muted text-xs tracking-wide text-ink-muted uppercase">
+        <thead className="border-b border-border bg-surface-muted text-xs tracking-wide text-ink-muted">
           <tr>
             {COLUMNS.map((c) => {
               const active = sort.key === c.key;
@@ -73,7 +73,7 @@ export function UsersTable({
                   <button
                     type="button"
                     onClick={() => toggle(c.key)}
-                    className="inline-flex items-center gap-1 uppercase hover:text-ink"
+                    className="inline-flex items-center gap-1 hover:text-ink"
                   >
                     {c.label}
                     <IconSort direction={active ? sort.dir : "none"} />

@@ -7,11 +7,17 @@ import { can } from "../auth/permissions";
 
 export const ledgerFilterSchema = z.object({
   patientId: z.coerce.number().int().positive().optional(),
+  /** The patient by medical record number, as people know them. */
+  mrn: z
+    .string()
+    .trim()
+    .regex(/^[A-Za-z0-9-]{1,32}$/, "MRN must be 1 to 32 letters, digits or dashes.")
+    .optional(),
   actorId: z.coerce.number().int().positive().optional(),
   action: z.enum(LEDGER_ACTIONS).optional(),
   from: queryTime("From").optional(),
   to: queryTime("To").optional(),
-  /** Rows older than this id (newest first). */
+  /** Rows after this row in the list's order (newest first: older, or as old with a lower id). */
   before: z.coerce.number().int().positive().optional(),
   limit: z.coerce.number().int().min(1).max(500).default(50),
 });
@@ -27,6 +33,8 @@ export type LedgerEntryView = {
   entityType: string;
   entityId: string;
   patientId: number | null;
+  /** The patient as people know them; null for rows about no patient. */
+  patient: { id: number; mrn: string; name: string } | null;
   unitId: number | null;
   before: string | null;
   after: string | null;
@@ -39,13 +47,16 @@ function scoped(
   actor: Actor,
   f: Omit<LedgerFilter, "limit" | "before">,
 ): Knex.QueryBuilder {
-  const q = knex("ledger_entries as l").leftJoin("users as u", "u.id", "l.actor_user_id");
+  const q = knex("ledger_entries as l")
+    .leftJoin("users as u", "u.id", "l.actor_user_id")
+    .leftJoin("patients as p", "p.id", "l.patient_id");
   // Clinical rows of the actor's units; administration rows only for those who oversee it.
   q.where((w) => {
     w.whereIn("l.unit_id", actor.unitIds.length ? actor.unitIds : [0]);
     if (can(actor, "ledger.oversee")) w.orWhereNull("l.unit_id");
   });
   if (f.patientId) q.where("l.patient_id", f.patientId);
+  if (f.mrn) q.where("p.mrn", f.mrn);
   if (f.actorId) q.where("l.actor_user_id", f.actorId);
   if (f.action) q.where("l.action", f.action);
   if (f.from) q.where("l.occurred_at", ">=", f.from);
@@ -65,6 +76,9 @@ type Row = {
   entity_type: string;
   entity_id: string;
   patient_id: number | null;
+  patient_mrn: string | null;
+  patient_family: string | null;
+  patient_given: string | null;
   unit_id: number | null;
   before_json: string | null;
   after_json: string | null;
@@ -82,6 +96,14 @@ const toView = (r: Row): LedgerEntryView => ({
   entityType: r.entity_type,
   entityId: r.entity_id,
   patientId: r.patient_id,
+  patient:
+    r.patient_id !== null && r.patient_mrn !== null
+      ? {
+          id: r.patient_id,
+          mrn: r.patient_mrn,
+          name: `${(r.patient_family ?? "").toUpperCase()}, ${r.patient_given ?? ""}`.trim(),
+        }
+      : null,
   unitId: r.unit_id,
   before: r.before_json,
   after: r.after_json,
@@ -101,6 +123,9 @@ const COLUMNS = [
   "l.entity_type",
   "l.entity_id",
   "l.patient_id",
+  "p.mrn as patient_mrn",
+  "p.family_name as patient_family",
+  "p.given_name as patient_given",
   "l.unit_id",
   "l.before_json",
   "l.after_json",
@@ -114,11 +139,25 @@ export async function listLedger(
   actor: Actor,
   filter: LedgerFilter,
 ): Promise<{ entries: LedgerEntryView[]; nextBefore: number | null }> {
+  // Newest first by when it happened: ids follow commit order on one server, but
+  // not the clinical time of back-dated rows, nor across a cluster's nodes.
   const q = scoped(knex, actor, filter)
-    .orderBy("l.id", "desc")
+    .orderBy([
+      { column: "l.occurred_at", order: "desc" },
+      { column: "l.id", order: "desc" },
+    ])
     .limit(filter.limit + 1)
     .select(COLUMNS);
-  if (filter.before) q.where("l.id", "<", filter.before);
+  if (filter.before) {
+    const at = knex("ledger_entries").where("id", filter.before).select("occurred_at");
+    q.where((w) => {
+      void w
+        .where("l.occurred_at", "<", at)
+        .orWhere(
+          (s) => void s.where("l.occurred_at", "=", at).andWhere("l.id", "<", filter.before!),
+        );
+    });
+  }
   const rows = (await q) as Row[];
   const page = rows.slice(0, filter.limit).map(toView);
   return {
@@ -139,7 +178,10 @@ export async function listLedgerForEntity(
 ): Promise<LedgerEntryView[]> {
   const rows = (await scoped(knex, actor, {})
     .where({ "l.entity_type": entityType, "l.entity_id": String(entityId) })
-    .orderBy("l.id")
+    .orderBy([
+      { column: "l.occurred_at", order: "asc" },
+      { column: "l.id", order: "asc" },
+    ])
     .select(COLUMNS)) as Row[];
   return rows.map(toView);
 }
@@ -158,13 +200,24 @@ export async function* ledgerCsv(
   filter: Omit<LedgerFilter, "limit" | "before">,
 ): AsyncGenerator<string> {
   yield "id,occurred_at_utc,actor,actor_role,action,entity_type,entity_id,patient_id,unit_id,rationale,before_json,after_json,chain_key,chain_seq,hash\r\n";
-  let lastId = 0;
+  let last: { at: Date; id: number } | null = null;
   for (;;) {
-    const rows = (await scoped(knex, actor, filter)
-      .where("l.id", ">", lastId)
-      .orderBy("l.id")
+    const q = scoped(knex, actor, filter)
+      .orderBy([
+        { column: "l.occurred_at", order: "asc" },
+        { column: "l.id", order: "asc" },
+      ])
       .limit(1000)
-      .select(COLUMNS)) as Row[];
+      .select(COLUMNS);
+    if (last) {
+      const { at, id } = last;
+      q.where((w) => {
+        void w
+          .where("l.occurred_at", ">", at)
+          .orWhere((s) => void s.where("l.occurred_at", "=", at).andWhere("l.id", ">", id));
+      });
+    }
+    const rows = (await q) as Row[];
     if (rows.length === 0) return;
     for (const r of rows) {
       const v = toView(r);
@@ -190,6 +243,7 @@ export async function* ledgerCsv(
           .join(",") + "\r\n"
       );
     }
-    lastId = Number(rows[rows.length - 1]!.id);
+    const tail = rows[rows.length - 1]!;
+    last = { at: tail.occurred_at, id: Number(tail.id) };
   }
 }

@@ -4,7 +4,9 @@ import { GENESIS_HASH, keyedLedgerHash, type HashedLedgerFields } from "@/lib/le
 import { ledgerKeys } from "@/lib/ledger/keys";
 import { appendLedger, chainKeyFor } from "@/lib/ledger/service";
 import { verifyLedger } from "@/lib/ledger/verify";
-import { actorByEmail, appDb, ownerDb, SEEDED } from "../helpers/db";
+import { listLedger } from "@/lib/ledger/queries";
+import { transact } from "@/lib/transaction";
+import { actorByEmail, admitTestPatient, appDb, ownerDb, SEEDED } from "../helpers/db";
 
 afterAll(async () => {
   await closeDb();
@@ -144,5 +146,54 @@ describe("ledger hash chain", () => {
     expect(keyedLedgerHash(ledgerKeys(), { ...fields, rationale: "recompute probe!" })).not.toBe(
       r.hash,
     );
+  });
+});
+
+describe("the ledger for people", () => {
+  it("lists rows newest first by when they happened, pages without gaps, and finds a patient by MRN", async () => {
+    const { patientId } = await admitTestPatient("MICU");
+    const unit = (await appDb()("units").where({ code: "MICU" }).first("id")) as { id: number };
+    const patient = (await appDb()("patients").where({ id: patientId }).first("mrn")) as {
+      mrn: string;
+    };
+    const physician = await actorByEmail(SEEDED.physician);
+    const base = Date.UTC(2026, 10, 30, 8, 0);
+    // Written in this order, but the second happened earliest (a back-dated entry).
+    for (const minutes of [30, 0, 60, 45]) {
+      await transact(appDb(), (trx) =>
+        appendLedger(
+          trx,
+          physician,
+          {
+            action: "reading.chart",
+            entityType: "reading",
+            entityId: minutes,
+            patientId,
+            unitId: unit.id,
+          },
+          new Date(base + minutes * 60_000),
+        ),
+      );
+    }
+    const seen: { entityId: string; occurredAt: string }[] = [];
+    let before: number | undefined;
+    for (let guard = 0; guard < 10; guard++) {
+      const page = await listLedger(appDb(), physician, {
+        mrn: patient.mrn,
+        limit: 3,
+        ...(before ? { before } : {}),
+      });
+      seen.push(...page.entries.map((e) => ({ entityId: e.entityId, occurredAt: e.occurredAt })));
+      expect(page.entries.every((e) => e.patient?.mrn === patient.mrn)).toBe(true);
+      if (!page.nextBefore) break;
+      before = page.nextBefore;
+    }
+    expect(seen.map((e) => e.entityId)).toEqual(["60", "45", "30", "0"]);
+    const [first] = (await listLedger(appDb(), physician, { patientId, limit: 1 })).entries;
+    expect(first?.patient).toEqual({
+      id: patientId,
+      mrn: patient.mrn,
+      name: "TESTCASE, Iris",
+    });
   });
 });

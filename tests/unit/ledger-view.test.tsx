@@ -33,6 +33,7 @@ const entry: LedgerEntryView = {
   entityType: "order",
   entityId: "88",
   patientId: 2,
+  patient: { id: 2, mrn: "KH402187", name: "ADEBAYO, Tunde" },
   unitId: 1,
   before: null,
   after: '{"device":"hfnc","spo2Lower":92,"spo2Upper":96}',
@@ -160,6 +161,7 @@ describe("ledger filters", () => {
   it("round-trips through the address with times as UTC instants", () => {
     const values = {
       patientId: "2",
+      mrn: "KH402187",
       actorId: "",
       action: "reading.chart",
       from: "2026-07-01T12:00",
@@ -167,7 +169,7 @@ describe("ledger filters", () => {
     };
     const search = searchFromFilterValues(values, "Europe/Vienna");
     expect(search.toString()).toBe(
-      "patientId=2&action=reading.chart&from=2026-07-01T10%3A00%3A00.000Z",
+      "patientId=2&mrn=KH402187&action=reading.chart&from=2026-07-01T10%3A00%3A00.000Z",
     );
     expect(filterValuesFromSearch(search, "Europe/Vienna")).toEqual(values);
     expect(checkFilterValues(values)).toEqual({});
@@ -176,11 +178,12 @@ describe("ledger filters", () => {
 
   it("names each mistyped filter in words", () => {
     const read = filterValuesFromSearch(
-      new URLSearchParams("patientId=0&actorId=x&action=order.erase&from=soon"),
+      new URLSearchParams("patientId=0&mrn=KH%20402&actorId=x&action=order.erase&from=soon"),
       "UTC",
     );
     expect(checkFilterValues(read)).toEqual({
       patientId: "Patient id must be a whole number above 0, such as 12.",
+      mrn: "MRN must be 1 to 32 letters, digits or dashes, such as KH402150.",
       actorId: "Choose an actor from the list.",
       action: "Choose an action from the list.",
       from: "From must be a date and time, such as 2025-03-04 08:00.",
@@ -206,9 +209,10 @@ describe("LedgerTable", () => {
     expect(within(row).getByText("Physician")).toBeTruthy();
     expect(within(row).getByText("Order written and signed")).toBeTruthy();
     expect(within(row).getByTestId("ledger-entity").textContent).toBe("Order #88 · MICU");
-    expect(within(row).getByRole("link", { name: "Chart of patient 2" }).getAttribute("href")).toBe(
-      "/patients/2",
-    );
+    // Named as people know the patient: name and MRN, not a database id.
+    expect(
+      within(row).getByRole("link", { name: "ADEBAYO, Tunde · KH402187" }).getAttribute("href"),
+    ).toBe("/patients/2");
     expect(within(row).getByText("Start HFNC after failed low-flow trial.")).toBeTruthy();
   });
 
@@ -222,6 +226,14 @@ describe("LedgerTable", () => {
     expect(screen.getByLabelText("After (JSON)").textContent).toBe(prettyJson(entry.after ?? ""));
     expect(screen.getByLabelText("After (JSON)").textContent).toContain('\n  "spo2Lower": 92,');
     expect(screen.getByText("Nothing before: this row created the record.")).toBeTruthy();
+    // Field by field: a created record lists each field it was created with.
+    const diff = screen.getByTestId("ledger-diff");
+    expect(within(diff).getByText("Created with these fields")).toBeTruthy();
+    expect(
+      within(diff)
+        .getAllByRole("rowheader")
+        .map((h) => h.textContent),
+    ).toEqual(["device", "spo2Lower", "spo2Upper"]);
     expect(screen.getByText("patient:2")).toBeTruthy();
     // Rows without a unit are shown in UTC, and say so.
     expect(screen.getByTestId("ledger-entry").querySelector("time")?.textContent).toContain(

@@ -151,7 +151,7 @@ export default async function OrderPage({
     <div className="space-y-5">
       <header className="flex flex-wrap items-start justify-between gap-3 rounded-card border border-border bg-surface p-4 shadow-card">
         <div className="space-y-1">
-          <p className="text-xs font-medium tracking-wide text-ink-muted uppercase">Order</p>
+          <p className="text-xs font-medium tracking-wide text-ink-muted">Order</p>
           <div className="flex flex-wrap items-center gap-2">
             <h1 className="text-2xl font-semibold tracking-tight">Order #{order.id}</h1>
             <OrderStatusBadge status={order.status} />

@@ -41,7 +41,7 @@ export default async function CosignQueuePage() {
               {queue.length} order{queue.length === 1 ? "" : "s"} awaiting co-signature, oldest
               first
             </caption>
-            <thead className="border-b border-border bg-surface-muted text-xs tracking-wide text-ink-muted uppercase">
+            <thead className="border-b border-border bg-surface-muted text-xs tracking-wide text-ink-muted">
               <tr>
                 <th scope="col" className="px-3 py-2">
                   Bed

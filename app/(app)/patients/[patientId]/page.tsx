@@ -73,7 +73,7 @@ export default async function ChartPage({ params }: { params: Promise<{ patientI
     <div className="space-y-6">
       <header className="flex flex-wrap items-start justify-between gap-3 rounded-card border border-border bg-surface p-4 shadow-card">
         <div className="space-y-1">
-          <p className="text-xs font-medium tracking-wide text-ink-muted uppercase">Chart</p>
+          <p className="text-xs font-medium tracking-wide text-ink-muted">Chart</p>
           <h1 className="text-2xl font-semibold tracking-tight">
             {patient.givenName} {patient.familyName}
           </h1>

@@ -51,7 +51,7 @@ export default async function NewOrderPage({ params }: { params: Promise<{ patie
     <div className="space-y-5">
       <header className="flex flex-wrap items-start justify-between gap-3 rounded-card border border-border bg-surface p-4 shadow-card">
         <div className="space-y-1">
-          <p className="text-xs font-medium tracking-wide text-ink-muted uppercase">
+          <p className="text-xs font-medium tracking-wide text-ink-muted">
             {physician ? "Write order" : "Enter verbal order"}
           </p>
           <h1 className="text-2xl font-semibold tracking-tight">
