@@ -3,6 +3,7 @@ import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { LedgerVerification } from "@/lib/ledger/verify";
 import { ARTIFACTS, BASE_URL, launchBrowser, signInThroughForm } from "../helpers/browser";
+import { appDb } from "../helpers/db";
 import { Session } from "../helpers/http";
 
 const PHYSICIAN = "ines.varga@kestrel.example"; // MICU and RESP
@@ -40,11 +41,24 @@ async function signInAndOpenLedger(page: Page, email: string): Promise<void> {
   await page.getByRole("heading", { name: "Ledger", level: 1 }).waitFor();
 }
 
-/** Filters by patient from the keyboard, as a person would; the filter lands in the address. */
+/** The patient as the ledger names them: name and MRN. */
+async function patientOf(patientId: number): Promise<{ mrn: string; label: string }> {
+  const p = (await appDb()("patients")
+    .where({ id: patientId })
+    .first("mrn", "family_name", "given_name")) as {
+    mrn: string;
+    family_name: string;
+    given_name: string;
+  };
+  return { mrn: p.mrn, label: `${p.family_name.toUpperCase()}, ${p.given_name} · ${p.mrn}` };
+}
+
+/** Filters by the patient's MRN from the keyboard, as a person would; the filter lands in the address. */
 async function filterByPatient(page: Page, patientId: number, alsoInAddress = ""): Promise<void> {
-  await page.getByLabel("Patient id", { exact: true }).fill(String(patientId));
-  await page.getByLabel("Patient id", { exact: true }).press("Enter");
-  await page.waitForURL(`${BASE_URL}/ledger?patientId=${patientId}${alsoInAddress}`);
+  const { mrn } = await patientOf(patientId);
+  await page.getByLabel("Patient MRN", { exact: true }).fill(mrn);
+  await page.getByLabel("Patient MRN", { exact: true }).press("Enter");
+  await page.waitForURL(`${BASE_URL}/ledger?mrn=${mrn}${alsoInAddress}`);
 }
 
 /** Row ids shown, in order, read from each row's before/after button. */
@@ -92,15 +106,14 @@ describe("the Ledger page", () => {
       await time.getByText("UTC", { exact: true }).waitFor();
       const stored = (await time.getAttribute("datetime")) ?? "";
       expect(await time.innerText()).toBe(`${stored.slice(0, 10)}\n${stored.slice(11, 19)} UTC`);
-      expect(
-        await first
-          .getByRole("link", { name: `Chart of patient ${MICU_PATIENT_ID}` })
-          .getAttribute("href"),
-      ).toBe(`/patients/${MICU_PATIENT_ID}`);
-      // Every row shown belongs to the filtered patient.
+      const { label } = await patientOf(MICU_PATIENT_ID);
+      expect(await first.getByRole("link", { name: label }).getAttribute("href")).toBe(
+        `/patients/${MICU_PATIENT_ID}`,
+      );
+      // Every row shown belongs to the filtered patient, named as people know them.
       const links = await page.getByTestId("ledger-entry").getByRole("link").allInnerTexts();
       expect(links.length).toBeGreaterThan(0);
-      expect(new Set(links)).toEqual(new Set([`Chart of patient ${MICU_PATIENT_ID}`]));
+      expect(new Set(links)).toEqual(new Set([label]));
 
       // Before/after opens from the keyboard and shows the stored JSON, pretty-printed.
       const disclosure = first.getByRole("button", { name: "Before / after of row" });
@@ -188,12 +201,13 @@ describe("the Ledger page", () => {
     try {
       await signInThroughForm(page, REVIEWER);
       await page.waitForURL(`${BASE_URL}/reports`);
-      const address = `${BASE_URL}/ledger?patientId=${MICU_PATIENT_ID}&action=reading.chart&from=${since.toISOString()}`;
+      const { mrn } = await patientOf(MICU_PATIENT_ID);
+      const address = `${BASE_URL}/ledger?mrn=${mrn}&action=reading.chart&from=${since.toISOString()}`;
       await page.goto(address);
       // The shared address fills the form: the period shows in the units' zone.
       await expect
-        .poll(() => page.getByLabel("Patient id", { exact: true }).inputValue())
-        .toBe(String(MICU_PATIENT_ID));
+        .poll(() => page.getByLabel("Patient MRN", { exact: true }).inputValue())
+        .toBe(mrn);
       await expect
         .poll(() => page.getByLabel("From", { exact: true }).inputValue())
         .toBe(since.toISOString().slice(0, 19).replace(/:00$/, ""));
@@ -205,8 +219,12 @@ describe("the Ledger page", () => {
       expect(await page.getByRole("button", { name: "Load older" }).count()).toBe(0);
 
       const ids = await shownRowIds(page);
-      expect(ids).toEqual([...ids].sort((a, b) => b - a));
       expect(new Set(ids).size).toBe(ids.length);
+      // Newest first by when each row happened.
+      const times = await rows
+        .locator("time")
+        .evaluateAll((ts) => ts.map((t) => Date.parse(t.getAttribute("datetime") ?? "")));
+      expect(times).toEqual([...times].sort((a, b) => b - a));
       const entities = await rows.getByTestId("ledger-entity").allInnerTexts();
       for (const id of charted) expect(entities).toContain(`Reading #${id} · MICU`);
     } finally {
@@ -234,14 +252,16 @@ describe("the Ledger page", () => {
     const page = await context.newPage();
     try {
       await signInAndOpenLedger(page, REVIEWER);
-      await page.getByLabel("Patient id", { exact: true }).fill("two");
+      await page.getByLabel("Patient MRN", { exact: true }).fill("KH 402");
       await page.getByLabel("From", { exact: true }).fill("2026-03-04T10:00");
       await page.getByLabel("To", { exact: true }).fill("2026-03-04T09:00");
       await page.getByRole("button", { name: "Apply filters" }).click();
-      await page.getByText("Patient id must be a whole number above 0, such as 12.").waitFor();
+      await page
+        .getByText("MRN must be 1 to 32 letters, digits or dashes, such as KH402150.")
+        .waitFor();
       await page.getByText("To must be later than From.").waitFor();
       expect(
-        await page.getByLabel("Patient id", { exact: true }).getAttribute("aria-invalid"),
+        await page.getByLabel("Patient MRN", { exact: true }).getAttribute("aria-invalid"),
       ).toBe("true");
       expect(page.url()).toBe(`${BASE_URL}/ledger`);
 
