@@ -121,6 +121,15 @@ describe("the Ledger page", () => {
       await disclosure.focus();
       await page.keyboard.press("Enter");
       await expect.poll(() => disclosure.getAttribute("aria-expanded")).toBe("true");
+      // Field by field first; the stored JSON, as hashed, one click further.
+      const diff = first.getByTestId("ledger-diff");
+      await diff.getByText("Created with these fields").waitFor();
+      expect(
+        await diff
+          .locator("tr", { has: page.getByRole("rowheader", { name: "spo2" }) })
+          .innerText(),
+      ).toContain(String(spo2));
+      await first.getByText("Stored JSON, as hashed").click();
       const after = first.getByLabel("After (JSON)");
       await after.waitFor();
       expect(await after.innerText()).toContain(`"spo2": ${spo2}`);
@@ -160,7 +169,8 @@ describe("the Ledger page", () => {
         )
         .toBe(`Reading #${reading.id} · MICU`);
       const href = await page.getByRole("link", { name: "Download CSV" }).getAttribute("href");
-      expect(href).toBe(`/api/v1/ledger/export?patientId=${MICU_PATIENT_ID}&action=reading.chart`);
+      const { mrn } = await patientOf(MICU_PATIENT_ID);
+      expect(href).toBe(`/api/v1/ledger/export?mrn=${mrn}&action=reading.chart`);
     } finally {
       await context.close();
     }
