@@ -1,3 +1,4 @@
+import { allUnknown, shareText } from "@/lib/time-in-band/share-text";
 import Link from "next/link";
 import { AlertCountBadge } from "@/components/alerts/AlertCountBadge";
 import { Spo2Value } from "@/components/readings/Spo2Value";
@@ -7,7 +8,7 @@ import type { BoardRow } from "@/lib/board/queries";
 import type { SortKey, SortState } from "./board-sort";
 import { formatPfRatio, type PressureUnit } from "@/lib/oxygen";
 
-const pct = (share: number) => `${Math.round(share * 100)} %`;
+const pct = shareText;
 
 function minutesLabel(minutes: number): string {
   return minutes < 120 ? `${minutes} min` : `${Math.floor(minutes / 60)} h ${minutes % 60} min`;
@@ -50,6 +51,13 @@ function SortHeader({
 function TimeInBandCell({ row }: { row: BoardRow }) {
   if (!row.order) return <span className="text-ink-muted">—</span>;
   const t = row.timeInBand24h;
+  if (allUnknown(t)) {
+    return (
+      <span className="text-ink-muted" title="Nothing measured in the last 24 h">
+        No data
+      </span>
+    );
+  }
   const title = `Last 24 h: in band ${pct(t.inBand)}, below ${pct(t.below)}, above on O₂ ${pct(t.above)}, no data ${pct(t.unknown)}`;
   return (
     <span className="flex flex-wrap items-center gap-x-1.5" title={title}>

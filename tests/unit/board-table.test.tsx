@@ -66,6 +66,31 @@ describe("Board table", () => {
     expect(screen.getByText("20.0 kPa")).toBeTruthy();
   });
 
+  it("says 'No data' when nothing was measured, and never 100 % beside time out of band", () => {
+    render(
+      <BoardTable
+        rows={[
+          { ...row, timeInBand24h: { below: 0, inBand: 0, above: 0, unknown: 1 } },
+          {
+            ...row,
+            bedId: 2,
+            patientId: 7,
+            // A fresh reading below band: 30 s of the last 24 h.
+            timeInBand24h: { below: 30 / 86_400, inBand: 1 - 30 / 86_400, above: 0, unknown: 0 },
+          },
+        ]}
+        caption="beds"
+        sort={sort}
+        onSort={() => undefined}
+        pressureUnit="mmHg"
+      />,
+    );
+    expect(screen.getByText("No data")).toBeTruthy();
+    expect(screen.queryByText("0 %")).toBeNull();
+    expect(screen.getByText(">99 %")).toBeTruthy();
+    expect(screen.queryByText("100 %")).toBeNull();
+  });
+
   it("shows a patient's open alerts in words, linked to the alerts page", () => {
     render(
       <BoardTable
