@@ -1,7 +1,7 @@
 "use client";
 
 import { zodResolver } from "@hookform/resolvers/zod";
-import { useId } from "react";
+import { useEffect, useId, useRef } from "react";
 import { useForm, useWatch } from "react-hook-form";
 import useSWRMutation from "swr/mutation";
 import { NumberField, useHydrated } from "@/components/bedside/BedsideFormParts";
@@ -11,7 +11,8 @@ import { IconWarning } from "@/components/ui/icons";
 import { SelectField } from "@/components/ui/SelectField";
 import type { FieldErrors } from "@/lib/errors";
 import { emptyToUndefined } from "@/lib/number-input";
-import type { PressureUnit } from "@/lib/oxygen";
+import { fromMmHg, type PressureUnit } from "@/lib/oxygen";
+import { formatUnitTime } from "@/lib/time/zone";
 import type { AssessResponse } from "@/lib/oxygenation/evaluate";
 import {
   type AssessFormOutput,
@@ -91,6 +92,30 @@ async function postAssessment(
   return body as AssessResponse;
 }
 
+/** The admission's latest arterial gas as the Chart loads it (engine units). */
+export type LatestGas = {
+  sampledAt: string;
+  pao2: number;
+  paco2: number;
+  hb: number | null;
+  fio2: number;
+  peep: number | null;
+};
+
+/** The form's values for a recorded gas, pressures in the user's unit, FiO2 in %. */
+export function latestGasValues(gas: LatestGas, unit: PressureUnit): AssessFormValues {
+  const pressure = (mmHg: number) => Math.round(fromMmHg(mmHg, unit) * 100) / 100;
+  return {
+    pressureUnit: unit,
+    hemoglobinUnit: "g/dL",
+    pao2: pressure(gas.pao2),
+    paco2: pressure(gas.paco2),
+    fio2Percent: Math.round(gas.fio2 * 1000) / 10,
+    ...(gas.hb === null ? {} : { hemoglobin: gas.hb }),
+    ...(gas.peep === null ? {} : { peep: gas.peep }),
+  } as AssessFormValues;
+}
+
 /**
  * The Chart's "Evaluate a blood gas": a keyboard-complete form over the shared
  * schema that posts to api/v1/oxygenation/assess and shows the oxygenation
@@ -101,19 +126,27 @@ export function BloodGasEvaluator({
   unitId,
   ageYears,
   unitLabel,
+  latest = null,
+  timeZone = "UTC",
 }: {
   /** The user's preferred unit: the form starts in it and the panel shows it. */
   pressureUnit: PressureUnit;
   unitId: number;
   ageYears: number;
   unitLabel: string;
+  /** The admission's latest arterial gas (mmHg, g/dL, fraction): the form opens with it, evaluated. */
+  latest?: LatestGas | null;
+  /** The unit's clock, for the latest gas's time. */
+  timeZone?: string;
 }) {
   const id = useId();
   // Disabled until hydrated: an early Enter would submit natively, putting the values into the URL.
   const hydrated = useHydrated();
   const form = useForm<AssessFormValues, unknown, AssessFormOutput>({
     resolver: zodResolver(assessFormSchema),
-    defaultValues: { pressureUnit, hemoglobinUnit: "g/dL" },
+    defaultValues: latest
+      ? latestGasValues(latest, pressureUnit)
+      : { pressureUnit, hemoglobinUnit: "g/dL" },
   });
   const { control, handleSubmit, setError } = form;
   const typedUnit = useWatch({ control, name: "pressureUnit" }) ?? pressureUnit;
@@ -136,6 +169,14 @@ export function BloodGasEvaluator({
     }
   });
 
+  // A recorded gas is evaluated as the Chart opens, so the panel shows it without a click.
+  const opened = useRef(false);
+  useEffect(() => {
+    if (!hydrated || !latest || opened.current) return;
+    opened.current = true;
+    void onSubmit();
+  }, [hydrated, latest, onSubmit]);
+
   // Errors with a field sit beside it; the rest (e.g. the unit) are listed here.
   const fieldPaths = error ? Object.keys(error.fieldErrors) : [];
   const unplaced = error
@@ -157,8 +198,11 @@ export function BloodGasEvaluator({
       >
         <fieldset disabled={!hydrated} className="min-w-0 space-y-3">
           <p id={`${id}-form-note`} className="text-sm text-ink-muted">
-            Type a blood gas to see its indices and a forecast. Nothing typed here is saved.
-            Barometric pressure comes from the altitude of {unitLabel} unless you give one.
+            {latest
+              ? `Opened with the latest arterial gas, sampled ${formatUnitTime(latest.sampledAt, timeZone)}; change any value to see what it would mean. `
+              : "Type a blood gas to see its indices and a forecast. "}
+            Nothing typed here is saved. Barometric pressure comes from the altitude of {unitLabel}{" "}
+            unless you give one.
           </p>
           <fieldset className="grid grid-cols-2 gap-x-3 sm:grid-cols-3 lg:grid-cols-6">
             <legend className="mb-1 text-sm font-semibold">Blood gas</legend>
@@ -287,10 +331,9 @@ export function BloodGasEvaluator({
             <div className="h-64 animate-pulse rounded-card bg-surface-muted" />
           </div>
         ) : (
-          <EmptyState title="No blood gases recorded yet">
-            Recording blood gases against this Chart comes with oxygen orders. Until then, type one
-            above to see its indices, the ARDS oxygenation criterion and a forecast for a proposed
-            FiO2, each with its basis.
+          <EmptyState title="No arterial gas recorded in this admission">
+            Type one above to see its indices, the ARDS oxygenation criterion and a forecast for a
+            proposed FiO2, each with its basis.
           </EmptyState>
         )}
       </section>

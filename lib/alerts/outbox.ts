@@ -364,6 +364,11 @@ export async function deliverOutbox(
     )) as OutboxRow[];
   let sent = 0;
   let failed = 0;
+  // A pass over many rows takes time: each claim runs from the moment it is made
+  // (in the caller's clock), or a late row's claim would already have lapsed and
+  // another worker could send it at the same time.
+  const started = Date.now();
+  const clock = () => new Date(now.getTime() + (Date.now() - started));
   for (const row of due) {
     // On a multi-primary cluster two workers can both see the row free on
     // their own nodes; the second commit then fails certification: not ours.
@@ -372,7 +377,7 @@ export async function deliverOutbox(
       .where((q) => {
         void q.whereNull("claimed_until").orWhere("claimed_until", "<", now);
       })
-      .update({ claimed_until: new Date(now.getTime() + claimMs) })
+      .update({ claimed_until: new Date(clock().getTime() + claimMs) })
       .catch((error: unknown) => {
         if (isRetryable(error)) return 0;
         throw error;

@@ -5,8 +5,15 @@ import { isLoopbackHost } from "./loopback";
 
 export type MailTransporter = Transporter<SMTPTransport.SentMessageInfo, SMTPTransport.Options>;
 
-/** A relay that is down or unreachable fails the send within this, rather than hanging a worker. */
-const TIMEOUT_MS = 10_000;
+/**
+ * A relay that is down or unreachable fails the send within this, rather than
+ * hanging a worker — and well within the worker's claim on the e-mail
+ * (OUTBOX_CLAIM_SECONDS), so a slow send never outlives its claim and is sent
+ * again by another worker at the same time.
+ */
+function timeoutMs(): number {
+  return Math.min(10_000, (getEnv().OUTBOX_CLAIM_SECONDS * 1000) / 4);
+}
 
 /**
  * An SMTP transporter for one relay. On loopback (the local fake inbox) it
@@ -32,9 +39,9 @@ export function createMailTransport(opts: {
     ignoreTLS: !secure && loopback,
     requireTLS: !secure && !loopback,
     auth: opts.user ? { user: opts.user, pass: opts.pass ?? "" } : undefined,
-    connectionTimeout: TIMEOUT_MS,
-    greetingTimeout: TIMEOUT_MS,
-    socketTimeout: TIMEOUT_MS,
+    connectionTimeout: timeoutMs(),
+    greetingTimeout: timeoutMs(),
+    socketTimeout: timeoutMs(),
   };
   return nodemailer.createTransport(options);
 }

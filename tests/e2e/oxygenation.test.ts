@@ -187,15 +187,23 @@ describe("the Chart's blood-gas evaluation", () => {
       expect(await page.getByTestId("patient-facts").innerText()).toMatch(
         /MRN[\s\S]*Bed[\s\S]*Unit/,
       );
-      await page.getByText("No blood gases recorded yet").waitFor();
+      // A patient with an arterial gas opens with it evaluated; one without says so.
+      const note = page.getByText(/^Opened with the latest arterial gas, sampled /);
+      const none = page.getByText("No arterial gas recorded in this admission");
+      await note.or(none).first().waitFor();
+      if (await note.count()) await page.getByTestId("oxygenation-index").first().waitFor();
 
-      // Keyboard only: type, Tab to the next field, Enter to submit.
+      // Keyboard only: select what is there and type over it, Tab on, Enter to submit.
+      const type = async (text: string) => {
+        await page.keyboard.press("Control+A");
+        await page.keyboard.type(text);
+      };
       await page.getByLabel("FiO2 (%)", { exact: true }).focus();
-      await page.keyboard.type("21");
+      await type("21");
       await page.keyboard.press("Tab");
-      await page.keyboard.type("50");
+      await type("50");
       await page.keyboard.press("Tab");
-      await page.keyboard.type("140");
+      await type("140");
       await page.keyboard.press("Enter");
       // Refused by the engine on the server: the error sits beside PaCO2, the values stay.
       await page.getByText(/PaCO2 must be between 10 and 118 mmHg/).waitFor();
@@ -212,7 +220,7 @@ describe("the Chart's blood-gas evaluation", () => {
       await page.keyboard.press("Control+A");
       await page.keyboard.type("40");
       await page.keyboard.press("Tab");
-      await page.keyboard.type("12"); // haemoglobin
+      await type("12"); // haemoglobin
       await page.keyboard.press("Tab"); // haemoglobin unit
       await page.keyboard.press("Tab");
       await page.keyboard.type("95"); // SpO2
@@ -221,7 +229,7 @@ describe("the Chart's blood-gas evaluation", () => {
       await page.keyboard.type("Inv"); // support: typeahead picks "Invasive ventilation"
       expect(await page.getByLabel("Support").inputValue()).toBe("invasive");
       await page.keyboard.press("Tab");
-      await page.keyboard.type("10"); // PEEP
+      await type("10"); // PEEP
       await page.keyboard.press("Enter");
 
       const range = page.getByTestId("forecast-range");

@@ -166,6 +166,8 @@ export default async function ChartPage({ params }: { params: Promise<{ patientI
           unitId={unit.id}
           ageYears={age}
           unitLabel={`${unit.name} (${unit.altitudeM} m)`}
+          latest={bedside.latestArterialGas}
+          timeZone={unit.timeZone}
         />
       </section>
     </div>
