@@ -1,5 +1,5 @@
 import { forbidden, redirect } from "next/navigation";
-import { ForbiddenError, UnauthenticatedError } from "../errors";
+import { ForbiddenError, PasswordChangeRequiredError, UnauthenticatedError } from "../errors";
 import type { Actor } from "./actor";
 import { requireRole } from "./guard";
 import type { Role } from "./roles";
@@ -16,6 +16,7 @@ export async function pageActor(...roles: Role[]): Promise<Actor> {
   } catch (error) {
     if (error instanceof SessionEndedError) redirect(`/sign-in?ended=${error.reason}`);
     if (error instanceof UnauthenticatedError) redirect("/sign-in");
+    if (error instanceof PasswordChangeRequiredError) redirect("/change-password");
     if (error instanceof ForbiddenError) forbidden();
     throw error;
   }
