@@ -25,6 +25,11 @@ export const QUOTAS = {
     windowMinutes: 60,
     what: "password-reset requests from your network address",
   },
+  link_client: {
+    perWindow: 30,
+    windowMinutes: 60,
+    what: "passwords set from e-mailed links from your network address",
+  },
 } as const satisfies Record<string, Quota>;
 export type QuotaBucket = keyof typeof QUOTAS;
 
