@@ -5,11 +5,11 @@ import { getEnv } from "../env";
 import { appendLedger, lockPatientChain, SYSTEM_ACTOR } from "../ledger/service";
 import { transact } from "../transaction";
 import { unitCosigners } from "./cosigners";
+import { waitingWords } from "./waiting";
 import {
   composeCosignEmail,
   cosignMessageId,
   cosignStepDue,
-  waitingWords,
   type CosignConfig,
   type CosignStep,
 } from "./cosign-steps";

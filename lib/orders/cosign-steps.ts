@@ -39,17 +39,6 @@ export function cosignStepDue(createdAt: Date, now: Date, cfg: CosignConfig): Co
   };
 }
 
-/** "3 h 10 min", "45 min", "2 d 4 h": how long an order has waited. */
-export function waitingWords(ms: number): string {
-  const minutes = Math.max(0, Math.floor(ms / 60_000));
-  const days = Math.floor(minutes / 1440);
-  const hours = Math.floor((minutes % 1440) / 60);
-  const rest = minutes % 60;
-  if (days > 0) return hours ? `${days} d ${hours} h` : `${days} d`;
-  if (hours > 0) return rest ? `${hours} h ${rest} min` : `${hours} h`;
-  return `${rest} min`;
-}
-
 export type CosignEmailInput = {
   kind: "remind" | "escalate";
   orderId: number;
