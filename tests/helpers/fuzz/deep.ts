@@ -468,5 +468,17 @@ export function deepRequests(
       `/api/v1/users/${own.victimUserId}/active`,
       spec.userActive!,
     ),
+    "POST /api/v1/users/[userId]/invite": json(
+      "POST /api/v1/users/[userId]/invite",
+      "admin",
+      `/api/v1/users/${own.victimUserId}/invite`,
+      spec.invite!,
+    ),
+    "POST /api/v1/me/password": json(
+      "POST /api/v1/me/password",
+      "physician",
+      "/api/v1/me/password",
+      spec.passwordChange!,
+    ),
   };
 }
