@@ -112,10 +112,18 @@ describe("admin manages units and beds", () => {
       currentPassword: DEMO_PASSWORD,
     });
     expect(made.status).toBe(201);
+    // A password an administrator set must be changed before anything else.
+    const own = await Session.signIn(email);
+    const changed = await own.json("/api/v1/me/password", "POST", {
+      currentPassword: DEMO_PASSWORD,
+      password: "unit-builder-own-1",
+      confirmPassword: "unit-builder-own-1",
+    });
+    expect(changed.status).toBe(200);
     const context = await browser.newContext();
     const page = await context.newPage();
     try {
-      await signInThroughForm(page, email);
+      await signInThroughForm(page, email, "unit-builder-own-1");
       await page.waitForURL(`${BASE_URL}/board`);
       await page.goto(`${BASE_URL}/admin/units/new`);
       await page.locator("form[data-ready='true']").waitFor();
