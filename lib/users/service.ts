@@ -79,7 +79,7 @@ export async function createUser(
         action: "user.create",
         entityType: "user",
         entityId: userId,
-        after: { ...ledgerView(created), signIn: input.invite ? "invited" : "password_to_change" },
+        after: { ...ledgerView(created), signIn: input.invite ? "invited" : "set_by_admin" },
         rationale: input.rationale || null,
       });
       if (token) await inviteInTransaction(trx, actor, created, token, now);
