@@ -22,8 +22,8 @@ afterAll(async () => {
 type ListedUnit = { id: number; code: string; beds: number; occupiedBeds: number };
 
 /** An admin's units as the API lists them. */
-async function units(email = ADMIN): Promise<ListedUnit[]> {
-  const api = await Session.signIn(email);
+async function units(email = ADMIN, password = DEMO_PASSWORD): Promise<ListedUnit[]> {
+  const api = await Session.signIn(email, password);
   const res = await api.fetch("/api/v1/units");
   expect(res.status).toBe(200);
   return ((await res.json()) as { units: ListedUnit[] }).units;
@@ -151,7 +151,7 @@ describe("admin manages units and beds", () => {
       await page.getByText(`${code} has no beds yet`).waitFor();
 
       // The creator is a member of the new unit: the API lists it among theirs.
-      const created = (await units(email)).find((u) => u.code === code);
+      const created = (await units(email, "unit-builder-own-1")).find((u) => u.code === code);
       expect(created).toMatchObject({ beds: 0, occupiedBeds: 0 });
     } finally {
       await context.close();
