@@ -7,16 +7,20 @@ import { IconMark } from "@/components/ui/icons";
 import { requireActor } from "@/lib/auth/guard";
 import { safeCallbackPath } from "@/lib/auth/redirects";
 import { SESSION_ENDED_MESSAGES } from "@/lib/auth/sessions";
+import { PasswordChangeRequiredError } from "@/lib/errors";
 
 export const metadata: Metadata = { title: "Sign in" };
 
-/** A live session goes straight on; an ended or idle one (or none) sees the form. */
-async function signedIn(): Promise<boolean> {
+/**
+ * A live session goes straight on (to the change-password page first when an
+ * administrator set the password); an ended or idle one (or none) sees the form.
+ */
+async function signedIn(): Promise<boolean | "change"> {
   try {
     await requireActor();
     return true;
-  } catch {
-    return false;
+  } catch (error) {
+    return error instanceof PasswordChangeRequiredError ? "change" : false;
   }
 }
 
@@ -29,7 +33,9 @@ export default async function SignInPage({
   // Only same-site paths: an open redirect would let a link send staff elsewhere.
   // Without one, "/" sends each role to its home (lib/auth/home.ts).
   const callbackUrl = params.callbackUrl === undefined ? "/" : safeCallbackPath(params.callbackUrl);
-  if (await signedIn()) redirect(callbackUrl);
+  const session = await signedIn();
+  if (session === "change") redirect("/change-password");
+  if (session) redirect(callbackUrl);
   const ended = params.ended === "idle" || params.ended === "ended" ? params.ended : null;
   const passwordSet = params.password === "set";
   const email = typeof params.email === "string" ? params.email.slice(0, 254) : "";
