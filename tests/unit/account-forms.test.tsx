@@ -50,7 +50,7 @@ describe("forgot password", () => {
     );
     const [url, init] = fetchMock.mock.calls[0]!;
     expect(url).toBe("/api/auth/reset");
-    expect(JSON.parse(String(init?.body))).toEqual({ email: "ada@kestrel.example" });
+    expect(JSON.parse(init?.body as string)).toEqual({ email: "ada@kestrel.example" });
   });
 
   it("shows a quota refusal in words", async () => {
