@@ -54,9 +54,11 @@ export async function remindCosigns(
   knex: Knex,
   now: Date,
   cfg: CosignConfig = cosignConfig(),
+  /** The units to sweep (tests and scripts); every unit by default. */
+  opts: { unitIds?: readonly number[] } = {},
 ): Promise<{ reminded: number; escalated: number }> {
   // Through the (unit_id, status) index: the units are few, orders many.
-  const unitIds = (await knex("units").pluck("id")) as number[];
+  const unitIds = opts.unitIds ?? ((await knex("units").pluck("id")) as number[]);
   if (!unitIds.length) return { reminded: 0, escalated: 0 };
   const waiting = (await knex("orders as o")
     .join("admissions as a", "a.id", "o.admission_id")
