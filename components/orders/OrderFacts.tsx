@@ -3,6 +3,7 @@ import { StatusBadge, type Status } from "@/components/ui/StatusBadge";
 import { DEVICE_PROFILES } from "@/lib/devices";
 import type { OrderStatus, OrderView } from "@/lib/orders/queries";
 import { fromMmHg, type PressureUnit } from "@/lib/oxygen";
+import { waitingWords } from "@/lib/orders/waiting";
 
 /** The order states in the product's words. */
 export const ORDER_STATUS_LABELS: Record<OrderStatus, string> = {
@@ -66,11 +67,7 @@ export function formatOrderTime(iso: string | Date, timeZone: string): string {
 
 /** A waiting time in words: "45 min", "3 h 10 min", "2 d 4 h". */
 export function formatDuration(ms: number): string {
-  const minutes = Math.max(0, Math.floor(ms / 60_000));
-  if (minutes < 60) return `${minutes} min`;
-  const hours = Math.floor(minutes / 60);
-  if (hours < 48) return `${hours} h ${minutes % 60} min`;
-  return `${Math.floor(hours / 24)} d ${hours % 24} h`;
+  return waitingWords(ms);
 }
 
 function Row({ term, children }: { term: string; children: ReactNode }) {

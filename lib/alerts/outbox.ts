@@ -238,7 +238,8 @@ export async function queueAlertMail(
 export async function queueUserMail(
   trx: Knex.Transaction,
   purpose: string,
-  recipient: Recipient,
+  /** `id` null: an address with no user behind it (a unit's fallback address). */
+  recipient: { id: number | null; email: string; name: string },
   compose: (env: { baseUrl: string; domain: string }) => {
     subject: string;
     text: string;

@@ -56,6 +56,8 @@ export const PERMISSIONS = {
   "ledger.oversee": ["reviewer", "admin"],
   /** One's own settings: e-mail choices, the unit the Board shows. */
   "account.self": EVERYONE,
+  /** Change one's own password: the one action open while an administrator-set password awaits its change. */
+  "account.password": EVERYONE,
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Permission = keyof typeof PERMISSIONS;

@@ -10,6 +10,7 @@ import {
   writtenOrder,
 } from "./access-fixtures";
 import type { ActionEntry } from "./access-matrix";
+import { ACCOUNT_ACTIONS } from "./access-routes-accounts";
 import { ADT_ACTIONS } from "./access-routes-adt";
 import { HANDOFF_ACTIONS } from "./access-routes-handoff";
 import { UNIT_ACTIONS } from "./access-routes-units";
@@ -222,6 +223,7 @@ export const ACTION_ENTRIES: ActionEntry[] = [
   ...ADT_ACTIONS,
   ...UNIT_ACTIONS,
   ...HANDOFF_ACTIONS,
+  ...ACCOUNT_ACTIONS,
 ].map((e) => ({
   ...e,
   via: "action",

@@ -20,6 +20,7 @@ import {
   type World,
 } from "./access-fixtures";
 import type { Cell, RouteEntry } from "./access-matrix";
+import { ACCOUNT_ROUTES } from "./access-routes-accounts";
 import { ADT_ROUTES } from "./access-routes-adt";
 import { HANDOFF_ROUTES } from "./access-routes-handoff";
 import { REHEARSAL_ROUTES } from "./access-routes-rehearsals";
@@ -498,6 +499,7 @@ export const ROUTE_ENTRIES: RouteEntry[] = [
   ...HANDOFF_ROUTES,
   ...REPORT_ROUTES,
   ...REHEARSAL_ROUTES,
+  ...ACCOUNT_ROUTES,
 ].map((e) => ({
   ...e,
   via: "route",

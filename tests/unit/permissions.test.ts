@@ -25,6 +25,7 @@ const TABLE: Record<Permission, Role[]> = {
   "record.read": ["physician", "therapist", "nurse", "reviewer", "admin"],
   "ledger.oversee": ["reviewer", "admin"],
   "account.self": ["physician", "therapist", "nurse", "reviewer", "admin"],
+  "account.password": ["physician", "therapist", "nurse", "reviewer", "admin"],
 };
 
 describe("the permission table", () => {

@@ -216,6 +216,20 @@ function deepSpecs(s: BodySpecs, own: Own): Record<string, BodySpec> {
       version: fixed(late("USER_VERSION")),
       currentPassword: fixed(DEMO_PASSWORD),
     }),
+    // The victim has a password of their own: an invitation is refused (409), writing nothing.
+    invite: { fields: { currentPassword: fixed(DEMO_PASSWORD) } },
+    // The fuzz physician "changes" to the same password (allowed: not set by an admin), so the
+    // account keeps signing in; the repeat is perturbed only to refused values.
+    passwordChange: {
+      fields: {
+        currentPassword: fixed(DEMO_PASSWORD),
+        password: fixed(DEMO_PASSWORD),
+        confirmPassword: pinId({
+          ...s.passwordChange.fields.confirmPassword!,
+          valid: fc.constant(DEMO_PASSWORD),
+        }),
+      },
+    },
     unitCreate: s.unitCreate,
     unitUpdate: aim(s.unitUpdate, { version: fixed(late("UNIT_VERSION")) }),
     bedCreate: s.bedCreate,
@@ -467,6 +481,18 @@ export function deepRequests(
       "admin",
       `/api/v1/users/${own.victimUserId}/active`,
       spec.userActive!,
+    ),
+    "POST /api/v1/users/[userId]/invite": json(
+      "POST /api/v1/users/[userId]/invite",
+      "admin",
+      `/api/v1/users/${own.victimUserId}/invite`,
+      spec.invite!,
+    ),
+    "POST /api/v1/me/password": json(
+      "POST /api/v1/me/password",
+      "physician",
+      "/api/v1/me/password",
+      spec.passwordChange!,
     ),
   };
 }

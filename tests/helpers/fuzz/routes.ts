@@ -508,6 +508,18 @@ export function writeRoutes(ctx: Context): Record<string, fc.Arbitrary<FuzzCase>
       at("/api/v1/users", userId, "/active"),
       refusedBody(specs.userActive),
     ),
+    "POST /api/v1/users/[userId]/invite": jsonWrite(
+      "POST /api/v1/users/[userId]/invite",
+      "admin",
+      at("/api/v1/users", userId, "/invite"),
+      refusedBody(specs.invite),
+    ),
+    "POST /api/v1/me/password": jsonWrite(
+      "POST /api/v1/me/password",
+      "physician",
+      fixed("/api/v1/me/password"),
+      refusedBody(specs.passwordChange),
+    ),
   };
 }
 

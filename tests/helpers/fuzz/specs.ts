@@ -39,6 +39,7 @@ import {
 } from "@/lib/units/schema";
 import { assignmentWriteSchema } from "@/lib/assignments/schema";
 import { userActiveSchema, userCreateSchema, userUpdateSchema } from "@/lib/users/schema";
+import { changePasswordSchema, inviteSchema } from "@/lib/accounts/schema";
 import type { BodySpec, Field } from "./bodies";
 
 /**
@@ -285,7 +286,12 @@ export function bodySpecs(ids: Ids) {
     password: str(12, 200, false, fc.constant("a-long-enough-password")),
     currentPassword: wrongPassword(1),
   };
-  const userCreate: BodySpec = { fields: userFields };
+  const userCreate: BodySpec = {
+    fields: {
+      ...userFields,
+      invite: optional({ kind: "boolean", required: false, valid: fc.boolean() }),
+    },
+  };
   const userUpdate: BodySpec = {
     fields: {
       ...userFields,
@@ -296,6 +302,14 @@ export function bodySpecs(ids: Ids) {
         valid: fc.constantFrom("", "a-long-enough-password"),
       },
       version: int(1),
+    },
+  };
+  const invite: BodySpec = { fields: { currentPassword: wrongPassword(1) } };
+  const passwordChange: BodySpec = {
+    fields: {
+      currentPassword: wrongPassword(1),
+      password: str(12, 200, false, fc.constant("a-long-enough-password")),
+      confirmPassword: str(0, 200, false, fc.constant("a-long-enough-password")),
     },
   };
   const userActive: BodySpec = {
@@ -454,6 +468,8 @@ export function bodySpecs(ids: Ids) {
     userCreate,
     userUpdate,
     userActive,
+    invite,
+    passwordChange,
   };
 }
 export type BodySpecs = ReturnType<typeof bodySpecs>;
@@ -483,6 +499,8 @@ export const SCHEMAS: Record<keyof BodySpecs, { schema: z.ZodType; fromPath?: st
   userCreate: { schema: userCreateSchema },
   userUpdate: { schema: userUpdateSchema, fromPath: ["id"] },
   userActive: { schema: userActiveSchema, fromPath: ["id"] },
+  invite: { schema: inviteSchema, fromPath: ["id"] },
+  passwordChange: { schema: changePasswordSchema },
   unitCreate: { schema: unitCreateSchema },
   unitUpdate: { schema: unitUpdateSchema, fromPath: ["unitId"] },
   bedCreate: { schema: bedCreateSchema, fromPath: ["unitId"] },
