@@ -2,11 +2,13 @@ import type { Knex } from "knex";
 import { alertConfig, type AlertConfig } from "./config";
 import { deliverOutbox, type MailSender } from "./outbox";
 import { escalateDueAlerts, openOverdueReassessments, raiseSignalLosses } from "./sweeps";
+import { escalateOrderRequests } from "../order-requests/sweep";
 
 export type WorkerPass = {
   escalated: number;
   overdueOpened: number;
   signalLosses: number;
+  requestsEscalated: number;
   sent: number;
   failed: number;
 };
@@ -14,7 +16,8 @@ export type WorkerPass = {
 /**
  * One pass of the background work alerts need besides the writes that raise
  * them: escalate what nobody acknowledged, open overdue reassessments, raise
- * signal loss for monitors gone silent during an excursion, deliver the outbox. Time-driven, so the tests call it with their own clock.
+ * signal loss for monitors gone silent during an excursion, escalate order
+ * requests nobody answered, deliver the outbox. Time-driven, so the tests call it with their own clock.
  */
 export async function runAlertWork(
   knex: Knex,
@@ -25,8 +28,9 @@ export async function runAlertWork(
   const escalated = await escalateDueAlerts(knex, now, cfg);
   const overdueOpened = await openOverdueReassessments(knex, now, cfg);
   const signalLosses = await raiseSignalLosses(knex, now, cfg);
+  const requestsEscalated = await escalateOrderRequests(knex, now);
   const { sent, failed } = await deliverOutbox(knex, sender, now);
-  return { escalated, overdueOpened, signalLosses, sent, failed };
+  return { escalated, overdueOpened, signalLosses, requestsEscalated, sent, failed };
 }
 
 /**
@@ -47,9 +51,16 @@ export function startAlertWorker(
   const tick = () => {
     running = runAlertWork(knex, sender)
       .then((pass) => {
-        if (pass.escalated || pass.overdueOpened || pass.signalLosses || pass.sent || pass.failed)
+        if (
+          pass.escalated ||
+          pass.overdueOpened ||
+          pass.signalLosses ||
+          pass.requestsEscalated ||
+          pass.sent ||
+          pass.failed
+        )
           log(
-            `[alerts] escalated ${pass.escalated}, overdue opened ${pass.overdueOpened}, signal lost ${pass.signalLosses}, mail sent ${pass.sent}` +
+            `[alerts] escalated ${pass.escalated}, overdue opened ${pass.overdueOpened}, signal lost ${pass.signalLosses}, order requests escalated ${pass.requestsEscalated}, mail sent ${pass.sent}` +
               (pass.failed
                 ? `, ${pass.failed} failed (kept in the outbox, retried with backoff)`
                 : ""),

@@ -9,6 +9,12 @@ export const LEDGER_ACTIONS = [
   "order.supersede",
   "order.cosign",
   "order.discontinue",
+  "order.notice",
+  "order.read",
+  "order_request.send",
+  "order_request.escalate",
+  "order_request.close",
+  "order_request.reply",
   "adjustment.record",
   "reading.chart",
   "blood_gas.record",
@@ -62,5 +68,6 @@ export const LEDGER_ENTITY_TYPES = [
   "alert",
   "shift",
   "rehearsal",
+  "order_request",
 ] as const;
 export type LedgerEntityType = (typeof LEDGER_ENTITY_TYPES)[number];
