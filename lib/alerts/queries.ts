@@ -251,7 +251,9 @@ export async function getEmailPreferences(knex: Knex, userId: number): Promise<E
     kind: EmailPreferenceKind;
     email: number | boolean;
   }[];
-  const prefs = Object.fromEntries(EMAIL_PREFERENCE_KINDS.map((k) => [k, true])) as EmailPreferences;
+  const prefs = Object.fromEntries(
+    EMAIL_PREFERENCE_KINDS.map((k) => [k, true]),
+  ) as EmailPreferences;
   for (const r of rows) prefs[r.kind] = Boolean(r.email);
   return prefs;
 }

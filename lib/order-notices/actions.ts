@@ -5,7 +5,9 @@ import { runWriteAction } from "../boundary/next";
 import { readOrderChangeOperation } from "./operations";
 import type { OrderReadResult } from "./service";
 
-export async function readOrderChangeAction(input: unknown): Promise<ActionResult<OrderReadResult>> {
+export async function readOrderChangeAction(
+  input: unknown,
+): Promise<ActionResult<OrderReadResult>> {
   return runWriteAction(readOrderChangeOperation, input, (r) => [
     "/board",
     "/assignments/mine",

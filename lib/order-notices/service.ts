@@ -155,7 +155,11 @@ export async function readOrderChange(
         .where({ order_id: order.id, user_id: actor.id })
         .max({ at: "read_at" })
         .first()) as { at: Date | null } | undefined;
-      return { orderId: order.id, readAt: last?.at ? new Date(last.at).toISOString() : null, marked: 0 };
+      return {
+        orderId: order.id,
+        readAt: last?.at ? new Date(last.at).toISOString() : null,
+        marked: 0,
+      };
     }
     await trx("order_notices")
       .whereIn(

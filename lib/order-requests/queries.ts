@@ -125,7 +125,8 @@ function toView(r: Row): OrderRequestView {
     alertId: r.alert_id,
     source: r.source,
     requestedBy: { id: r.requested_by, name: r.requester_name, role: r.requester_role },
-    physician: r.physician_id !== null ? { id: r.physician_id, name: r.physician_name ?? "?" } : null,
+    physician:
+      r.physician_id !== null ? { id: r.physician_id, name: r.physician_name ?? "?" } : null,
     recipientBasis: r.recipient_basis,
     told: JSON.parse(r.told_json) as OrderRequestView["told"],
     need: r.need,

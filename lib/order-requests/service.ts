@@ -82,7 +82,12 @@ async function placeOf(trx: Knex.Transaction, bedId: number): Promise<Place> {
   return (await trx("beds as b")
     .join("units as u", "u.id", "b.unit_id")
     .where("b.id", bedId)
-    .first("u.code as unit_code", "u.name as unit_name", "u.time_zone", "b.label as bed_label")) as Place;
+    .first(
+      "u.code as unit_code",
+      "u.name as unit_name",
+      "u.time_zone",
+      "b.label as bed_label",
+    )) as Place;
 }
 
 /** Queues one request e-mail per recipient in the caller's transaction; a retry queues nothing new. */
@@ -258,14 +263,9 @@ async function closeRequest(
     .where({ id: before.requestedBy.id, active: true })
     .first("id", "email", "name")) as { id: number; email: string; name: string } | undefined;
   const mailed = requester
-    ? await mailRequest(
-        trx,
-        after,
-        "closed",
-        [{ ...requester, basis: "assigned" }],
-        now,
-        { closedWords: words },
-      )
+    ? await mailRequest(trx, after, "closed", [{ ...requester, basis: "assigned" }], now, {
+        closedWords: words,
+      })
     : [];
   await appendLedger(
     trx,

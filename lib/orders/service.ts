@@ -9,11 +9,7 @@ import { refreshFrom } from "../rollups/store";
 import { appendLedger } from "../ledger/service";
 import { duplicateIndex, isLockWaitTimeout } from "../db-errors";
 import { findOpenAdmission, type OpenAdmission } from "../admissions/access";
-import {
-  DEVICE_PROFILES,
-  stepTableFitsDevice,
-  stepTableMismatchMessage,
-} from "../devices";
+import { DEVICE_PROFILES, stepTableFitsDevice, stepTableMismatchMessage } from "../devices";
 import { DESIGNATED_COSIGN_MEANING, SIGNATURE_MEANING } from "./wording";
 import { cosignersFor, cosignersText, mayCosign } from "./cosigners";
 import { getCurrentOrder, getOrder, type OrderView } from "./queries";
