@@ -58,8 +58,8 @@ export function EmailPreferencesForm({
           ))}
         </div>
         <p className="mt-1 text-xs text-ink-muted">
-          Alerts and order changes always show in the app; unchecking one stops only its e-mail. If you
-          do not acknowledge, the alert still escalates to the next person on schedule.
+          Alerts and order changes always show in the app; unchecking one stops only its e-mail. If
+          you do not acknowledge, the alert still escalates to the next person on schedule.
         </p>
       </fieldset>
       <div className="flex items-center gap-3">
