@@ -12,6 +12,7 @@ import {
 import type { ActionEntry } from "./access-matrix";
 import { ADT_ACTIONS } from "./access-routes-adt";
 import { HANDOFF_ACTIONS } from "./access-routes-handoff";
+import { LOOP_ACTIONS } from "./access-routes-loops";
 import { UNIT_ACTIONS } from "./access-routes-units";
 import { ASSIGNMENT_ACTIONS } from "./access-routes-assignments";
 import {
@@ -223,6 +224,7 @@ export const ACTION_ENTRIES: ActionEntry[] = [
   ...ADT_ACTIONS,
   ...UNIT_ACTIONS,
   ...HANDOFF_ACTIONS,
+  ...LOOP_ACTIONS,
 ].map((e) => ({
   ...e,
   via: "action",

@@ -23,6 +23,7 @@ import type { Cell, RouteEntry } from "./access-matrix";
 import { ADT_ROUTES } from "./access-routes-adt";
 import { HANDOFF_ROUTES } from "./access-routes-handoff";
 import { REHEARSAL_ROUTES } from "./access-routes-rehearsals";
+import { LOOP_ROUTES } from "./access-routes-loops";
 import { REPORT_ROUTES } from "./access-routes-reports";
 import { UNIT_ROUTES } from "./access-routes-units";
 import { ASSIGNMENT_ROUTES } from "./access-routes-assignments";
@@ -498,6 +499,7 @@ export const ROUTE_ENTRIES: RouteEntry[] = [
   ...HANDOFF_ROUTES,
   ...REPORT_ROUTES,
   ...REHEARSAL_ROUTES,
+  ...LOOP_ROUTES,
 ].map((e) => ({
   ...e,
   via: "route",

@@ -71,6 +71,8 @@ export const WATCHED_TABLES = [
   "ledger_chains",
   "ledger_entries",
   "mail_outbox",
+  "order_notices",
+  "order_requests",
   "orders",
   "patients",
   "readings",
