@@ -29,6 +29,11 @@ function at(iso: string): string {
   });
 }
 
+/** Who was told at one step, each with why. */
+function names(told: OrderRequestView["told"][number]): string | null {
+  return told.length ? told.map((t) => `${t.name} (${BASIS_LABELS[t.basis]})`).join(", ") : null;
+}
+
 /**
  * One order request: where, what is needed and why, the bedside at the time
  * of asking, who was told and how it ended. A physician gets the way to the
@@ -44,7 +49,6 @@ export function OrderRequestCard({
   highlight?: boolean;
 }) {
   const s = STATE[r.state];
-  const told = r.told.flat();
   return (
     <li
       id={`request-${r.id}`}
@@ -73,16 +77,17 @@ export function OrderRequestCard({
         </dd>
         <dt className="text-ink-muted">Told</dt>
         <dd>
-          {told.length
-            ? told.map((t, i) => (
-                <span key={i}>
-                  {i ? ", " : ""}
-                  {t.name} ({BASIS_LABELS[t.basis]})
-                </span>
-              ))
-            : "Nobody could be told: no physician, charge nurse or fallback address."}
-          {r.escalatedAt ? ` · escalated ${at(r.escalatedAt)}` : ""}
+          {names(r.told[0] ?? []) ??
+            "Nobody could be told: no physician, charge nurse or fallback address."}
         </dd>
+        {r.escalatedAt ? (
+          <>
+            <dt className="text-ink-muted">Escalated</dt>
+            <dd>
+              {at(r.escalatedAt)}, unanswered, to {names(r.told[1] ?? []) ?? "nobody reachable"}
+            </dd>
+          </>
+        ) : null}
         {r.closedAt ? (
           <>
             <dt className="text-ink-muted">Closed</dt>
