@@ -161,3 +161,28 @@ describe("the order request's schema", () => {
     );
   });
 });
+
+describe("the composer started from a request", () => {
+  it("takes the request's device, maxima and a rationale that quotes it", async () => {
+    const { initialValues, prefillFromRequest } = await import("@/components/orders/order-form");
+    const current = initialValues(null, "mmHg");
+    const next = prefillFromRequest(current, {
+      id: 4,
+      requestedBy: "Jonah Pell",
+      need: "FiO2 up to 0.80",
+      reason: "SpO2 88 % at the maximum",
+      device: "hfnc",
+      fio2Max: 0.8,
+      peepMax: null,
+      flowMax: 60,
+    });
+    expect(next).toMatchObject({
+      device: "hfnc",
+      fio2Max: "0.80",
+      flowMax: "60",
+      rationale: "Order request #4 from Jonah Pell: FiO2 up to 0.80. SpO2 88 % at the maximum",
+    });
+    // The device's other starting limits come with it, for the physician to review.
+    expect(next.fio2Min).not.toBe("");
+  });
+});
