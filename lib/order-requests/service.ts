@@ -5,6 +5,7 @@ import { queueUserMail } from "../alerts/outbox";
 import { recipientsFor, type AlertRecipient, type RecipientBasis } from "../alerts/recipients";
 import type { Device } from "../devices";
 import { getEnv } from "../env";
+import { duplicateIndex } from "../db-errors";
 import { ConflictError, NotFoundError, ValidationError } from "../errors";
 import { once } from "../idempotency";
 import { appendLedger, lockPatientChain } from "../ledger/service";
@@ -178,7 +179,7 @@ export async function sendOrderRequest(
     );
     const physician = recipients.find((r) => r.basis === "assigned" || r.basis === "prescriber");
     const told = recipients.map((r) => ({ name: r.name, basis: r.basis }));
-    const [id] = await trx("order_requests").insert({
+    const [id] = await insertRequest(trx, {
       patient_id: admission.patientId,
       admission_id: admission.admissionId,
       unit_id: admission.unitId,
@@ -200,6 +201,13 @@ export async function sendOrderRequest(
       next_escalation_at: new Date(now.getTime() + escalateAfterMs),
       told_json: JSON.stringify([told]),
       created_at: now,
+    }).catch((error: unknown) => {
+      // Two asks at once for the same stay: the index keeps one open, the other is told.
+      if (duplicateIndex(error) === "order_requests_open_admission_id_unique")
+        throw new ConflictError(
+          "Another order request for this patient was just sent; see it in Order requests.",
+        );
+      throw error;
     });
     const request = (await getOrderRequest(trx, Number(id)))!;
     const messageIds = await mailRequest(trx, request, "ask", recipients, now);
@@ -220,6 +228,9 @@ export async function sendOrderRequest(
     return request;
   });
 }
+
+const insertRequest = (trx: Knex.Transaction, row: Record<string, unknown>) =>
+  trx("order_requests").insert(row) as Promise<number[]>;
 
 /** Cancels a request's e-mail that has not left yet: nobody is asked for what is already answered. */
 async function cancelRequestMail(trx: Knex.Transaction, requestId: number, now: Date) {
