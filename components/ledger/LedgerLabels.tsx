@@ -16,6 +16,7 @@ const ACTION_LABELS: Record<LedgerAction, string> & Record<string, string | unde
   "order.notice": "Order change noticed to the bed's team",
   "order.read": "Order change read",
   "order_request.send": "New order requested",
+  "order_request.notify": "Order request e-mail delivered",
   "order_request.escalate": "Order request escalated",
   "order_request.close": "Order request closed by an order",
   "order_request.reply": "Order request answered",

@@ -76,13 +76,12 @@ export function OrderRequestForm({ start, compact }: { start: RequestStart; comp
       </p>
     );
 
-  const max = (name: "fio2Max" | "peepMax" | "flowMax", label: string, step: string) => (
+  const max = (name: "fio2Max" | "peepMax" | "flowMax", label: string) => (
     <Field id={`${id}-${name}`} label={label} error={errors[name]?.message}>
       {(describedBy, invalid) => (
         <input
           id={`${id}-${name}`}
           inputMode="decimal"
-          step={step}
           className={inputClasses}
           aria-describedby={describedBy}
           aria-invalid={invalid}
@@ -130,9 +129,9 @@ export function OrderRequestForm({ start, compact }: { start: RequestStart; comp
       </Field>
       {uses ? (
         <div className="grid grid-cols-1 gap-3 sm:grid-cols-3">
-          {uses.fio2 === "set" ? max("fio2Max", "Proposed FiO2 maximum", "0.01") : null}
-          {uses.peep ? max("peepMax", "Proposed PEEP maximum (cmH2O)", "1") : null}
-          {uses.flow ? max("flowMax", "Proposed flow maximum (L/min)", "1") : null}
+          {uses.fio2 === "set" ? max("fio2Max", "Proposed FiO2 maximum") : null}
+          {uses.peep ? max("peepMax", "Proposed PEEP maximum (cmH2O)") : null}
+          {uses.flow ? max("flowMax", "Proposed flow maximum (L/min)") : null}
         </div>
       ) : null}
       <div className="flex flex-wrap items-center gap-3">

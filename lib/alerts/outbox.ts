@@ -258,6 +258,7 @@ export type MailSender = {
 type OutboxRow = {
   id: number;
   alert_id: number | null;
+  order_request_id: number | null;
   purpose: string;
   recipient_user_id: number | null;
   to_address: string;
@@ -293,6 +294,7 @@ export async function deliverOutbox(
     .select(
       "id",
       "alert_id",
+      "order_request_id",
       "purpose",
       "recipient_user_id",
       "to_address",
@@ -362,12 +364,11 @@ export async function deliverOutbox(
     }
     await transact(knex, async (trx) => {
       // The patient's chain first, the lock order every clinical write keeps.
-      const owner =
-        row.alert_id === null
-          ? undefined
-          : ((await trx("alerts").where({ id: row.alert_id }).first("patient_id")) as {
-              patient_id: number;
-            });
+      const owner = (await (row.alert_id !== null
+        ? trx("alerts").where({ id: row.alert_id }).first("patient_id")
+        : row.order_request_id !== null
+          ? trx("order_requests").where({ id: row.order_request_id }).first("patient_id")
+          : undefined)) as { patient_id: number } | undefined;
       if (owner) await lockPatientChain(trx, owner.patient_id);
       await trx("mail_outbox")
         .where({ id: row.id })
@@ -378,6 +379,10 @@ export async function deliverOutbox(
           relay_response: response,
           claimed_until: null,
         });
+      if (row.order_request_id !== null) {
+        await noteRequestMailSent(trx, row, now);
+        return;
+      }
       if (row.alert_id === null) return;
       const alert = (await trx("alerts")
         .where({ id: row.alert_id })
@@ -418,4 +423,29 @@ export async function deliverOutbox(
     sent++;
   }
   return { sent, failed };
+}
+
+/** An order request's e-mail accepted by the relay: its "notified" step (the chain is locked). */
+async function noteRequestMailSent(trx: Knex.Transaction, row: OutboxRow, now: Date) {
+  const request = (await trx("order_requests")
+    .where({ id: row.order_request_id })
+    .first("id", "patient_id", "unit_id")) as { id: number; patient_id: number; unit_id: number };
+  await appendLedger(
+    trx,
+    SYSTEM_ACTOR,
+    {
+      action: "order_request.notify",
+      entityType: "order_request",
+      entityId: request.id,
+      patientId: request.patient_id,
+      unitId: request.unit_id,
+      after: {
+        purpose: row.purpose,
+        recipientUserId: row.recipient_user_id,
+        messageId: row.message_id,
+        attempts: row.attempts + 1,
+      },
+    },
+    now,
+  );
 }

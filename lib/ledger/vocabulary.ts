@@ -12,6 +12,7 @@ export const LEDGER_ACTIONS = [
   "order.notice",
   "order.read",
   "order_request.send",
+  "order_request.notify",
   "order_request.escalate",
   "order_request.close",
   "order_request.reply",

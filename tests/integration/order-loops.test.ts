@@ -92,6 +92,9 @@ async function ledger(entityType: string, id: number): Promise<string[]> {
     .pluck("action")) as string[];
 }
 
+/** The steps a person or a sweep took, without the e-mail deliveries between them. */
+const steps = (actions: string[]) => actions.filter((a) => a !== "order_request.notify");
+
 describe("a request for a new order", () => {
   it("reaches the shift's physician by e-mail once, escalates unanswered, and closes with the signed order", async () => {
     const t0 = new Date(Date.now() - 60 * MIN);
@@ -167,10 +170,18 @@ describe("a request for a new order", () => {
     expect(escalated.state).toBe("escalated");
     expect(escalated.told).toHaveLength(2);
     expect(mailTo(team.physician.email, `order-request-${request.id}.escalate.`)).toHaveLength(1);
-    expect(await ledger("order_request", request.id)).toEqual([
+    expect(steps(await ledger("order_request", request.id))).toEqual([
       "order_request.send",
       "order_request.escalate",
     ]);
+    // Each e-mail the relay accepted is a "notified" step of its own.
+    const sent = await appDb()("mail_outbox")
+      .where({ order_request_id: request.id, state: "sent" })
+      .count({ n: "*" });
+    expect(
+      (await ledger("order_request", request.id)).filter((a) => a.endsWith(".notify")),
+    ).toHaveLength(Number(sent[0]!.n));
+    expect(Number(sent[0]!.n)).toBeGreaterThanOrEqual(2);
 
     // The new order, signed, closes it in its own transaction.
     const signed = await order(patientId, new Date(asked.getTime() + 41 * MIN), {
@@ -184,7 +195,7 @@ describe("a request for a new order", () => {
       })
     )[0]!;
     expect(closed).toMatchObject({ state: "closed", closedHow: "order", closedOrderId: signed.id });
-    expect(await ledger("order_request", request.id)).toEqual([
+    expect(steps(await ledger("order_request", request.id))).toEqual([
       "order_request.send",
       "order_request.escalate",
       "order_request.close",
