@@ -63,6 +63,8 @@ const envSchema = z
     ALERT_SUSTAIN_SECONDS: z.coerce.number().int().min(0).max(3600).default(60),
     ALERT_RESOLVE_SECONDS: z.coerce.number().int().min(0).max(86400).default(300),
     ALERT_ESCALATE_MINUTES: z.coerce.number().int().min(1).max(1440).default(10),
+    /** An order request unanswered this long is escalated (lib/order-requests/sweep.ts). */
+    ORDER_REQUEST_ESCALATE_MINUTES: z.coerce.number().int().min(1).max(1440).default(15),
     ALERT_URGENT_BELOW_PCT: z.coerce.number().int().min(50).max(100).default(85),
     ALERT_URGENT_MARGIN_PCT: z.coerce.number().int().min(1).max(30).default(5),
     /** Share of the sustain window's monitored time that must be out of band, in %. */

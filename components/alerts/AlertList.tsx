@@ -80,10 +80,13 @@ export function AlertList({
   canAct,
   focusId,
   compactEmpty,
+  canRequest,
 }: {
   initial: AlertView[];
   apiUrl: string;
   canAct: boolean;
+  /** The user may ask for a new order from an "order limits reached" alert. */
+  canRequest?: boolean;
   focusId?: number;
   /** A one-line empty state (the Chart) instead of the full one. */
   compactEmpty?: string;
@@ -216,6 +219,14 @@ export function AlertList({
                     </>
                   ) : null}
                 </dl>
+                {canRequest && a.kind === "limits_exhausted" && a.state !== "resolved" ? (
+                  <Link
+                    href={`/patients/${a.patient.id}/order-request?from=alert&alertId=${a.id}`}
+                    className="mt-2 inline-block text-sm font-medium text-accent underline underline-offset-2"
+                  >
+                    Ask for a new order
+                  </Link>
+                ) : null}
                 {canAct && a.state !== "resolved" ? (
                   <AlertActions
                     alertId={a.id}

@@ -15,6 +15,13 @@ const ACTION_LABELS: Record<LedgerAction, string> & Record<string, string | unde
   "order.cosign_remind": "Co-sign reminder sent",
   "order.cosign_escalate": "Co-sign escalated",
   "order.discontinue": "Order discontinued",
+  "order.notice": "Order change noticed to the bed's team",
+  "order.read": "Order change read",
+  "order_request.send": "New order requested",
+  "order_request.notify": "Order request e-mail delivered",
+  "order_request.escalate": "Order request escalated",
+  "order_request.close": "Order request closed by an order",
+  "order_request.reply": "Order request answered",
   "adjustment.record": "Adjustment recorded",
   "reading.chart": "Reading charted",
   "blood_gas.record": "Blood gas recorded",
@@ -71,6 +78,7 @@ const ENTITY_LABELS: Record<LedgerEntityType, string> & Record<string, string | 
   import: "Import",
   api_token: "API token",
   shift: "Shift",
+  order_request: "Order request",
 };
 
 /** The human label of a ledger action code ("order.write" → "Order written and signed"). */

@@ -22,6 +22,8 @@ import {
   fio2Text,
   formFieldOf,
   initialValues,
+  prefillFromRequest,
+  type RequestPrefill,
   limitValuesFor,
   restate,
   stepTableFits,
@@ -74,6 +76,7 @@ export function OrderComposer({
   currentStepTableName,
   stepTables,
   physicians,
+  prefill,
 }: {
   patient: { id: number; name: string; bedLabel: string };
   signer: "physician" | "other";
@@ -83,6 +86,8 @@ export function OrderComposer({
   currentStepTableName: string | null;
   stepTables: StepTableChoice[];
   physicians: PhysicianChoice[];
+  /** An order request the composer starts from. */
+  prefill?: RequestPrefill;
 }) {
   const router = useRouter();
   // One key per composer: a double submit or a retry after a lost answer writes once.
@@ -135,7 +140,9 @@ export function OrderComposer({
     formState: { errors, isSubmitting },
   } = useForm<ComposerValues>({
     resolver,
-    defaultValues: initialValues(currentOrder, pressureUnit),
+    defaultValues: prefill
+      ? prefillFromRequest(initialValues(currentOrder, pressureUnit), prefill)
+      : initialValues(currentOrder, pressureUnit),
   });
   const values = useWatch({ control });
   const device = values.device ?? "";
@@ -217,6 +224,12 @@ export function OrderComposer({
   return (
     <div className="grid items-start gap-5 lg:grid-cols-[minmax(0,1fr)_18rem]">
       <form onSubmit={onSubmit} noValidate aria-label="Order" className="min-w-0 space-y-4">
+        {prefill ? (
+          <p className="rounded-card border border-accent/40 bg-surface-muted px-4 py-2 text-sm">
+            Started from order request #{prefill.id} by {prefill.requestedBy}: “{prefill.need}”.
+            Review every field; signing this order closes the request.
+          </p>
+        ) : null}
         <DeviceLimitsSection
           register={register}
           errors={errors}

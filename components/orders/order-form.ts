@@ -306,3 +306,36 @@ export const percentOf = (text: string): string => {
     ? `${Math.round(n * 100)}\u00a0%`
     : "—";
 };
+
+/** What an order request proposes, as the composer starts from it (lib/order-requests). */
+export type RequestPrefill = {
+  id: number;
+  requestedBy: string;
+  need: string;
+  reason: string;
+  device: Device | null;
+  fio2Max: number | null;
+  peepMax: number | null;
+  flowMax: number | null;
+};
+
+/**
+ * The composer's values after an order request: its device (with that
+ * device's starting limits if it differs), its proposed maxima, and a
+ * rationale that quotes it. The physician still reviews every field.
+ */
+export function prefillFromRequest(values: ComposerValues, r: RequestPrefill): ComposerValues {
+  const device = r.device ?? (values.device === "" ? null : values.device);
+  const next: ComposerValues = {
+    ...values,
+    ...(device && device !== values.device ? { device, ...limitValuesFor(device) } : {}),
+  };
+  if (r.fio2Max !== null) next.fio2Max = fio2Text(r.fio2Max);
+  if (r.peepMax !== null) next.peepMax = plainText(r.peepMax);
+  if (r.flowMax !== null) next.flowMax = plainText(r.flowMax);
+  next.rationale = `Order request #${r.id} from ${r.requestedBy}: ${r.need}. ${r.reason}`.slice(
+    0,
+    2000,
+  );
+  return next;
+}

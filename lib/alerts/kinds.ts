@@ -18,6 +18,15 @@ export const ALERT_KIND_LABELS: Record<AlertKind, string> = {
   pao2_above_band: "PaO2 above target on oxygen",
 };
 
+/** What a user chooses e-mail for: each alert kind, and notices of order changes on their beds. */
+export const EMAIL_PREFERENCE_KINDS = [...ALERT_KINDS, "order_change"] as const;
+export type EmailPreferenceKind = (typeof EMAIL_PREFERENCE_KINDS)[number];
+
+export const EMAIL_PREFERENCE_LABELS: Record<EmailPreferenceKind, string> = {
+  ...ALERT_KIND_LABELS,
+  order_change: "Order changes on my beds",
+};
+
 export const ALERT_STATES = [
   "opened",
   "notified",

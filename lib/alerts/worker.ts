@@ -4,6 +4,7 @@ import { deliverOutbox, type MailSender } from "./outbox";
 import { escalateDueAlerts, openOverdueReassessments, raiseSignalLosses } from "./sweeps";
 import { cosignConfig, remindCosigns } from "../orders/cosign-reminders";
 import type { CosignConfig } from "../orders/cosign-steps";
+import { escalateOrderRequests } from "../order-requests/sweep";
 
 export type WorkerPass = {
   escalated: number;
@@ -11,6 +12,7 @@ export type WorkerPass = {
   signalLosses: number;
   cosignReminded: number;
   cosignEscalated: number;
+  requestsEscalated: number;
   sent: number;
   failed: number;
 };
@@ -19,8 +21,9 @@ export type WorkerPass = {
  * One pass of the background work alerts need besides the writes that raise
  * them: escalate what nobody acknowledged, open overdue reassessments, raise
  * signal loss for monitors gone silent during an excursion, remind and
- * escalate verbal orders waiting for co-signature, deliver the outbox.
- * Time-driven, so the tests call it with their own clock.
+ * escalate verbal orders waiting for co-signature, escalate order requests
+ * nobody answered, deliver the outbox. Time-driven, so the tests call it with
+ * their own clock.
  */
 export async function runAlertWork(
   knex: Knex,
@@ -33,6 +36,7 @@ export async function runAlertWork(
   const overdueOpened = await openOverdueReassessments(knex, now, cfg);
   const signalLosses = await raiseSignalLosses(knex, now, cfg);
   const co = await remindCosigns(knex, now, cosign);
+  const requestsEscalated = await escalateOrderRequests(knex, now);
   const { sent, failed } = await deliverOutbox(knex, sender, now);
   return {
     escalated,
@@ -40,6 +44,7 @@ export async function runAlertWork(
     signalLosses,
     cosignReminded: co.reminded,
     cosignEscalated: co.escalated,
+    requestsEscalated,
     sent,
     failed,
   };
@@ -69,11 +74,12 @@ export function startAlertWorker(
           pass.signalLosses ||
           pass.cosignReminded ||
           pass.cosignEscalated ||
+          pass.requestsEscalated ||
           pass.sent ||
           pass.failed
         )
           log(
-            `[alerts] escalated ${pass.escalated}, overdue opened ${pass.overdueOpened}, signal lost ${pass.signalLosses}, co-sign reminded ${pass.cosignReminded} / escalated ${pass.cosignEscalated}, mail sent ${pass.sent}` +
+            `[alerts] escalated ${pass.escalated}, overdue opened ${pass.overdueOpened}, signal lost ${pass.signalLosses}, co-sign reminded ${pass.cosignReminded} / escalated ${pass.cosignEscalated}, order requests escalated ${pass.requestsEscalated}, mail sent ${pass.sent}` +
               (pass.failed
                 ? `, ${pass.failed} failed (kept in the outbox, retried with backoff)`
                 : ""),

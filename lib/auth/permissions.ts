@@ -28,6 +28,12 @@ export const PERMISSIONS = {
   /** Only the named prescriber or a designated co-signer (lib/orders/cosigners). */
   "order.cosign": ["physician"],
   "order.discontinue": ["physician"],
+  /** Ask the responsible physician for a new order (lib/order-requests). */
+  "order_request.send": ["therapist", "nurse"],
+  /** Answer an order request without an order, with a reason. */
+  "order_request.answer": ["physician"],
+  /** Record that one has read a change of a bed's order. */
+  "order.acknowledge_change": CLINICAL,
   /** Nurses on low-flow devices only: see {@link mayAdjustDevice}. */
   "adjustment.record": CLINICAL,
   "reading.chart": CLINICAL,

@@ -11,6 +11,13 @@ export const LEDGER_ACTIONS = [
   "order.discontinue",
   "order.cosign_remind",
   "order.cosign_escalate",
+  "order.notice",
+  "order.read",
+  "order_request.send",
+  "order_request.notify",
+  "order_request.escalate",
+  "order_request.close",
+  "order_request.reply",
   "adjustment.record",
   "reading.chart",
   "blood_gas.record",
@@ -69,5 +76,6 @@ export const LEDGER_ENTITY_TYPES = [
   "alert",
   "shift",
   "rehearsal",
+  "order_request",
 ] as const;
 export type LedgerEntityType = (typeof LEDGER_ENTITY_TYPES)[number];

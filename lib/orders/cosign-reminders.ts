@@ -190,7 +190,8 @@ async function takeStep(knex: Knex, order: Waiting, step: CosignStep, now: Date)
           await queueUserMail(
             trx,
             purpose,
-            r,
+            // The outbox's recipient basis names alert roles; this step's basis is in its ledger row.
+            { id: r.id, email: r.email, name: r.name },
             ({ baseUrl, domain }) => ({
               ...composeCosignEmail({
                 kind: step.kind,

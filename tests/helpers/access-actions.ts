@@ -13,6 +13,7 @@ import type { ActionEntry } from "./access-matrix";
 import { ACCOUNT_ACTIONS } from "./access-routes-accounts";
 import { ADT_ACTIONS } from "./access-routes-adt";
 import { HANDOFF_ACTIONS } from "./access-routes-handoff";
+import { LOOP_ACTIONS } from "./access-routes-loops";
 import { UNIT_ACTIONS } from "./access-routes-units";
 import { ASSIGNMENT_ACTIONS } from "./access-routes-assignments";
 import {
@@ -213,6 +214,7 @@ const ACTIONS: Omit<ActionEntry, "via">[] = [
       reassessment_overdue: true,
       signal_loss: true,
       pao2_above_band: true,
+      order_change: true,
     }),
   },
   ...ASSIGNMENT_ACTIONS,
@@ -224,6 +226,7 @@ export const ACTION_ENTRIES: ActionEntry[] = [
   ...UNIT_ACTIONS,
   ...HANDOFF_ACTIONS,
   ...ACCOUNT_ACTIONS,
+  ...LOOP_ACTIONS,
 ].map((e) => ({
   ...e,
   via: "action",

@@ -24,6 +24,7 @@ import { ACCOUNT_ROUTES } from "./access-routes-accounts";
 import { ADT_ROUTES } from "./access-routes-adt";
 import { HANDOFF_ROUTES } from "./access-routes-handoff";
 import { REHEARSAL_ROUTES } from "./access-routes-rehearsals";
+import { LOOP_ROUTES } from "./access-routes-loops";
 import { REPORT_ROUTES } from "./access-routes-reports";
 import { UNIT_ROUTES } from "./access-routes-units";
 import { ASSIGNMENT_ROUTES } from "./access-routes-assignments";
@@ -500,6 +501,7 @@ export const ROUTE_ENTRIES: RouteEntry[] = [
   ...REPORT_ROUTES,
   ...REHEARSAL_ROUTES,
   ...ACCOUNT_ROUTES,
+  ...LOOP_ROUTES,
 ].map((e) => ({
   ...e,
   via: "route",

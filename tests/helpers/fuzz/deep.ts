@@ -41,7 +41,8 @@ type Late =
   | "GAS_IMPORT_ID"
   | "GAS_IMPORT_ACCEPTED"
   | "USER_VERSION"
-  | "UNIT_VERSION";
+  | "UNIT_VERSION"
+  | "REQUEST_ID";
 const late = (name: Late) => new Raw(`__${name}__`);
 
 /** The placeholders' values now: the own patient's latest order and alert, the own import, the victim's version. */
@@ -71,6 +72,10 @@ export async function lateValues(knex: Knex, own: Own): Promise<Record<Late, num
   const unit = (await knex("units").where({ id: own.fuzzUnitId }).first("version")) as {
     version: number;
   };
+  const request = (await knex("order_requests")
+    .where({ patient_id: own.patientId })
+    .orderBy("id", "desc")
+    .first("id")) as { id: number } | undefined;
   // 999999999 names nothing: the request is then refused as not found.
   return {
     ORDER_ID: order?.id ?? 999_999_999,
@@ -82,6 +87,7 @@ export async function lateValues(knex: Knex, own: Own): Promise<Record<Late, num
     GAS_IMPORT_ACCEPTED: imp?.rows_accepted ?? 0,
     USER_VERSION: user.version,
     UNIT_VERSION: unit.version,
+    REQUEST_ID: request?.id ?? 999_999_999,
   };
 }
 
@@ -178,6 +184,9 @@ function deepSpecs(s: BodySpecs, own: Own): Record<string, BodySpec> {
     }),
     acknowledge: s.acknowledge,
     resolve: s.resolve,
+    orderRequest: aim(s.orderRequest, {}),
+    orderRequestReply: s.orderRequestReply,
+    orderRead: { fields: {} },
     confirm: {
       fields: {
         expectedAccepted: {
@@ -408,6 +417,24 @@ export function deepRequests(
       "physician",
       "/api/v1/alerts/__ALERT_ID__/resolve",
       spec.resolve!,
+    ),
+    "POST /api/v1/order-requests": json(
+      "POST /api/v1/order-requests",
+      "therapist",
+      "/api/v1/order-requests",
+      spec.orderRequest!,
+    ),
+    "POST /api/v1/order-requests/[requestId]/reply": json(
+      "POST /api/v1/order-requests/[requestId]/reply",
+      "physician",
+      "/api/v1/order-requests/__REQUEST_ID__/reply",
+      spec.orderRequestReply!,
+    ),
+    "POST /api/v1/orders/[orderId]/read": json(
+      "POST /api/v1/orders/[orderId]/read",
+      "nurse",
+      "/api/v1/orders/__ORDER_ID__/read",
+      spec.orderRead!,
     ),
     "POST /api/v1/oxygenation/assess": json(
       "POST /api/v1/oxygenation/assess",

@@ -413,6 +413,26 @@ export function writeRoutes(ctx: Context): Record<string, fc.Arbitrary<FuzzCase>
       at("/api/v1/alerts", alertId, "/resolve"),
       refusedBody(specs.resolve),
     ),
+    "POST /api/v1/order-requests": jsonWrite(
+      "POST /api/v1/order-requests",
+      "therapist",
+      fixed("/api/v1/order-requests"),
+      refusedBody(specs.orderRequest),
+      true,
+    ),
+    "POST /api/v1/order-requests/[requestId]/reply": jsonWrite(
+      "POST /api/v1/order-requests/[requestId]/reply",
+      "physician",
+      at("/api/v1/order-requests", fc.oneof(fc.constant("1"), refusedSegment), "/reply"),
+      refusedBody(specs.orderRequestReply),
+    ),
+    // No body to break: refused only because the order cannot exist.
+    "POST /api/v1/orders/[orderId]/read": jsonWrite(
+      "POST /api/v1/orders/[orderId]/read",
+      "nurse",
+      at("/api/v1/orders", refusedSegment, "/read"),
+      anyBody,
+    ),
     "POST /api/v1/oxygenation/assess": jsonWrite(
       "POST /api/v1/oxygenation/assess",
       "physician",

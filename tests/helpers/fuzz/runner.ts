@@ -73,6 +73,8 @@ export const WATCHED_TABLES = [
   "ledger_entries",
   "mail_outbox",
   "order_cosign_notices",
+  "order_notices",
+  "order_requests",
   "orders",
   "patients",
   "readings",

@@ -15,6 +15,11 @@ import { confirmSchema } from "@/lib/imports/upload-rules";
 import { DEVICES } from "@/lib/devices";
 import { handoffAcknowledgeSchema } from "@/lib/handoff/schema";
 import {
+  ORDER_REQUEST_SOURCES,
+  orderRequestReplySchema,
+  orderRequestSchema,
+} from "@/lib/order-requests/schema";
+import {
   cosignSchema,
   discontinueSchema,
   verbalOrderSchema,
@@ -413,6 +418,23 @@ export function bodySpecs(ids: Ids) {
     },
   };
 
+  // A request for a new order: what and why; the device and maxima only proposed.
+  const orderRequest: BodySpec = {
+    fields: {
+      patientId,
+      source: oneOf(ORDER_REQUEST_SOURCES),
+      alertId: optional(int(1)),
+      need: str(5, 500),
+      reason: str(5, 1000),
+      device: { ...devices, required: "typed" },
+      fio2Max: optional(num(0.21, 1)),
+      peepMax: optional(num(0, 30)),
+      flowMax: optional(num(0.5, 70)),
+      idempotencyKey,
+    },
+  };
+  const orderRequestReply: BodySpec = { fields: { reply: str(5, 1000) } };
+
   // Valid values keep every pair in order (lower < upper, urgent below the band).
   const rehearsal: BodySpec = {
     fields: {
@@ -443,6 +465,8 @@ export function bodySpecs(ids: Ids) {
   };
 
   return {
+    orderRequest,
+    orderRequestReply,
     rehearsal,
     admit,
     transfer,
@@ -506,4 +530,6 @@ export const SCHEMAS: Record<keyof BodySpecs, { schema: z.ZodType; fromPath?: st
   bedCreate: { schema: bedCreateSchema, fromPath: ["unitId"] },
   bedUpdate: { schema: bedUpdateSchema, fromPath: ["unitId", "bedId"] },
   handoffAcknowledge: { schema: handoffAcknowledgeSchema, fromPath: ["unitId"] },
+  orderRequest: { schema: orderRequestSchema },
+  orderRequestReply: { schema: orderRequestReplySchema, fromPath: ["requestId"] },
 };

@@ -1,5 +1,7 @@
 import type { Metadata } from "next";
 import Link from "next/link";
+import { PatientRequests } from "@/components/order-requests/PatientRequests";
+import { listOrderRequests } from "@/lib/order-requests/queries";
 import { notFound } from "next/navigation";
 import { z } from "zod";
 import { AlertList } from "@/components/alerts/AlertList";
@@ -49,11 +51,12 @@ export default async function ChartPage({ params }: { params: Promise<{ patientI
   if (!parsed.success) notFound();
   const patient = await loadPatient(db(), actor, parsed.data.patientId);
   const now = new Date();
-  const [bedside, alerts, summary, forecasts] = await Promise.all([
+  const [bedside, alerts, summary, forecasts, requests] = await Promise.all([
     getBedsideContext(db(), actor, patient.id),
     listAlerts(db(), actor, { patientId: patient.id, status: "open" }),
     loadStaySummary(db(), patient.admission, now),
     loadAdmissionForecastAccuracy(db(), patient.id, patient.admission.id),
+    listOrderRequests(db(), actor, { patientId: patient.id, status: "all", limit: 5 }),
   ]);
   const age = ageInYears(patient.birthDate, now);
   const { bed, unit, dischargedAt, disposition } = patient.admission;
@@ -135,11 +138,19 @@ export default async function ChartPage({ params }: { params: Promise<{ patientI
           initial={alerts}
           apiUrl={`/api/v1/alerts?status=open&patientId=${patient.id}`}
           canAct={can(actor, "alert.act")}
+          canRequest={!dischargedAt && can(actor, "order_request.send")}
           compactEmpty="No open alerts for this patient."
         />
       </section>
 
       <BedsideSummary actor={actor} context={bedside} now={now} />
+
+      <PatientRequests
+        patientId={patient.id}
+        requests={requests.filter((r) => r.admissionId === patient.admission.id)}
+        canSend={!dischargedAt && can(actor, "order_request.send")}
+        canAnswer={!dischargedAt && can(actor, "order_request.answer")}
+      />
 
       <StaySummary windows={summary} />
 

@@ -13,6 +13,7 @@ import { getStepTableName, listStepTables } from "@/lib/step-tables/queries";
 import { listUnits } from "@/lib/units/queries";
 import { listUnitPhysicians } from "@/lib/users/queries";
 import { can } from "@/lib/auth/permissions";
+import { getOrderRequest } from "@/lib/order-requests/queries";
 
 export const metadata: Metadata = { title: "Order" };
 
@@ -29,7 +30,13 @@ async function loadPatient(...args: Parameters<typeof getPatientForActor>): Prom
 }
 
 /** The order composer: a physician writes and signs; a nurse or therapist enters a verbal order. */
-export default async function NewOrderPage({ params }: { params: Promise<{ patientId: string }> }) {
+export default async function NewOrderPage({
+  params,
+  searchParams,
+}: {
+  params: Promise<{ patientId: string }>;
+  searchParams: Promise<{ request?: string }>;
+}) {
   const actor = await pagePermission("order.write");
   const parsed = paramsSchema.safeParse(await params);
   if (!parsed.success) notFound();
@@ -45,6 +52,23 @@ export default async function NewOrderPage({ params }: { params: Promise<{ patie
     listUnits(db(), [unit.id]),
   ]);
   const currentStepTableName = await getStepTableName(db(), currentOrder?.stepTableId ?? null);
+  // ?request=ID: the composer starts from an open order request for this patient.
+  const requestId = z.coerce
+    .number()
+    .int()
+    .positive()
+    .safeParse((await searchParams).request);
+  const request = requestId.success ? await getOrderRequest(db(), requestId.data) : null;
+  const prefill =
+    request && request.patientId === patient.id && request.state !== "closed"
+      ? {
+          id: request.id,
+          requestedBy: request.requestedBy.name,
+          need: request.need,
+          reason: request.reason,
+          ...request.proposal,
+        }
+      : undefined;
   const name = `${patient.givenName} ${patient.familyName}`;
 
   return (
@@ -80,6 +104,7 @@ export default async function NewOrderPage({ params }: { params: Promise<{ patie
           unitOwn: t.unitId !== null,
         }))}
         physicians={physicians}
+        {...(prefill ? { prefill } : {})}
       />
     </div>
   );
