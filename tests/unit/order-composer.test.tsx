@@ -44,6 +44,7 @@ const CURRENT: OrderView = {
   limits: { fio2Min: 0.24, fio2Max: 0.37, peepMin: null, peepMax: null, flowMin: 1, flowMax: 4 },
   initial: { fio2: 0.29, peep: null, flow: 2 },
   stepTableId: null,
+  ventilator: null,
   reassessMinutes: 60,
   rationale: "Mild hypoxaemia",
   entryMode: "written",
