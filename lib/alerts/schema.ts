@@ -42,6 +42,7 @@ export const emailPreferencesSchema = z.object({
   reassessment_overdue: z.boolean(),
   signal_loss: z.boolean(),
   pao2_above_band: z.boolean(),
+  lung_protection: z.boolean(),
 });
 export type EmailPreferences = z.infer<typeof emailPreferencesSchema>;
 

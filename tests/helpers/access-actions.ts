@@ -212,6 +212,7 @@ const ACTIONS: Omit<ActionEntry, "via">[] = [
       reassessment_overdue: true,
       signal_loss: true,
       pao2_above_band: true,
+      lung_protection: true,
     }),
   },
   ...ASSIGNMENT_ACTIONS,
