@@ -1,4 +1,5 @@
 import type { Device } from "../devices";
+import { predictedBodyWeight, RANGES, type Sex } from "../oxygen";
 
 // What a ventilator order adds to an oxygen order: the mode, the tidal volume
 // target per kg of predicted body weight, the rate range and the
@@ -81,4 +82,19 @@ export type VentilatorOrderSettings = {
 /** The tidal volume in mL that a target in mL/kg gives for this predicted body weight (whole mL). */
 export function tidalVolumeForTarget(mlPerKg: number, pbwKg: number): number {
   return Math.round(mlPerKg * pbwKg);
+}
+
+/**
+ * A patient's predicted body weight for the screens, or null when the height
+ * is not recorded or lies outside the equation's adult range (RANGES.heightCm):
+ * then the height is asked for, never guessed.
+ */
+export function bodyWeightOf(patient: {
+  heightCm: number | null;
+  sex: Sex;
+}): { pbwKg: number; heightCm: number; sex: Sex } | null {
+  const { heightCm, sex } = patient;
+  if (heightCm === null || heightCm < RANGES.heightCm.min || heightCm > RANGES.heightCm.max)
+    return null;
+  return { pbwKg: Math.round(predictedBodyWeight({ heightCm, sex }) * 10) / 10, heightCm, sex };
 }
