@@ -12,8 +12,12 @@ export async function up(knex: Knex): Promise<void> {
     t.integer("admission_id").unsigned().notNullable().references("admissions.id");
     t.integer("order_id").unsigned().notNullable().references("orders.id");
     t.datetime("checked_at", { precision: 3 }).notNullable();
-    t.enum("vent_mode", ["volume_control", "pressure_control", "pressure_support", "cpap"])
-      .notNullable();
+    t.enum("vent_mode", [
+      "volume_control",
+      "pressure_control",
+      "pressure_support",
+      "cpap",
+    ]).notNullable();
     t.smallint("set_vt_ml").unsigned().nullable();
     t.smallint("measured_vt_ml").unsigned().notNullable();
     t.tinyint("set_rate_per_min").unsigned().nullable();
