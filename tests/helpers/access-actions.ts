@@ -14,6 +14,7 @@ import { ADT_ACTIONS } from "./access-routes-adt";
 import { HANDOFF_ACTIONS } from "./access-routes-handoff";
 import { UNIT_ACTIONS } from "./access-routes-units";
 import { ASSIGNMENT_ACTIONS } from "./access-routes-assignments";
+import { VENTILATION_ACTIONS } from "./access-routes-ventilation";
 import {
   adjustmentAllows,
   adjustmentBody,
@@ -223,6 +224,7 @@ export const ACTION_ENTRIES: ActionEntry[] = [
   ...ADT_ACTIONS,
   ...UNIT_ACTIONS,
   ...HANDOFF_ACTIONS,
+  ...VENTILATION_ACTIONS,
 ].map((e) => ({
   ...e,
   via: "action",

@@ -26,6 +26,7 @@ import { REHEARSAL_ROUTES } from "./access-routes-rehearsals";
 import { REPORT_ROUTES } from "./access-routes-reports";
 import { UNIT_ROUTES } from "./access-routes-units";
 import { ASSIGNMENT_ROUTES } from "./access-routes-assignments";
+import { VENTILATION_ROUTES } from "./access-routes-ventilation";
 import { appDb, uniqueEmail } from "./db";
 import { DEMO_PASSWORD } from "./browser";
 
@@ -498,6 +499,7 @@ export const ROUTE_ENTRIES: RouteEntry[] = [
   ...HANDOFF_ROUTES,
   ...REPORT_ROUTES,
   ...REHEARSAL_ROUTES,
+  ...VENTILATION_ROUTES,
 ].map((e) => ({
   ...e,
   via: "route",
