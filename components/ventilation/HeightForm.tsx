@@ -15,7 +15,7 @@ import {
 } from "@/components/bedside/BedsideFormParts";
 import { Button } from "@/components/ui/Button";
 import { recordHeightAction } from "@/lib/admissions/actions";
-import { heightSchema } from "@/lib/admissions/height";
+import { heightSchema } from "@/lib/admissions/schema";
 
 const formSchema = heightSchema.pick({ heightCm: true });
 type FormInput = z.input<typeof formSchema>;

@@ -1,24 +1,12 @@
 import type { Knex } from "knex";
-import { z } from "zod";
 import type { Actor } from "../auth/actor";
 import { once } from "../idempotency";
 import { appendLedger } from "../ledger/service";
-import { rangedNumber } from "../number-input";
-import { idempotencyKeySchema } from "../orders/schema";
-import { RANGES } from "../oxygen";
 import { findOpenAdmission } from "./access";
+import type { HeightData } from "./schema";
 
 // Recording a patient's height at the bedside: what a ventilator order and a
 // ventilator check need for the predicted body weight, and never guess.
-
-/** Height in cm, within the predicted body weight equation's adult range (RANGES.heightCm). */
-export const heightSchema = z.object({
-  patientId: z.number().int().positive(),
-  heightCm: rangedNumber("Height", RANGES.heightCm),
-  idempotencyKey: idempotencyKeySchema,
-});
-export type HeightInput = z.input<typeof heightSchema>;
-export type HeightData = z.output<typeof heightSchema>;
 
 export type HeightView = { patientId: number; heightCm: number; previousHeightCm: number | null };
 

@@ -1,7 +1,13 @@
 import { defineRead, defineWrite } from "../boundary/operation";
-import { heightSchema, recordHeight } from "./height";
+import { recordHeight } from "./height";
 import { searchPatients } from "./queries";
-import { admitSchema, dischargeSchema, patientSearchSchema, transferSchema } from "./schema";
+import {
+  admitSchema,
+  dischargeSchema,
+  heightSchema,
+  patientSearchSchema,
+  transferSchema,
+} from "./schema";
 import { admitPatient, dischargePatient, transferPatient } from "./service";
 
 export const admitOperation = defineWrite({

@@ -29,7 +29,7 @@ import {
   RESPIRATORY_SUPPORTS,
 } from "@/lib/oxygenation/schema";
 import { readingSchema } from "@/lib/readings/schema";
-import { heightSchema } from "@/lib/admissions/height";
+import { heightSchema } from "@/lib/admissions/schema";
 import { VENT_MODES } from "@/lib/ventilation/settings";
 import { ventilatorCheckSchema } from "@/lib/ventilator-checks/schema";
 import { rehearsalCreateSchema } from "@/lib/rehearsal/schema";
