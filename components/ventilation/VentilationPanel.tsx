@@ -14,22 +14,51 @@ import {
 import type { VentilatorCheckView } from "@/lib/ventilator-checks/queries";
 import { VentilationTrend } from "./VentilationTrend";
 
-const TILES: { key: keyof CheckIndices; label: string; digits: number; breach?: Breach["what"] }[] =
-  [
-    { key: "vtPerKg", label: "VT per kg PBW", digits: 1, breach: "vt_per_kg" },
-    { key: "drivingPressure", label: "Driving pressure", digits: 1, breach: "driving_pressure" },
-    { key: "staticCompliance", label: "Static compliance", digits: 1 },
-    { key: "mechanicalPower", label: "Mechanical power", digits: 1 },
-    { key: "ventilatoryRatio", label: "Ventilatory ratio", digits: 2 },
-  ];
+/** Each computed value, and why it is missing when its inputs were not measured. */
+const TILES: {
+  key: keyof CheckIndices;
+  label: string;
+  digits: number;
+  breach?: Breach["what"];
+  missing: string;
+}[] = [
+  { key: "vtPerKg", label: "VT per kg PBW", digits: 1, breach: "vt_per_kg", missing: "" },
+  {
+    key: "drivingPressure",
+    label: "Driving pressure",
+    digits: 1,
+    breach: "driving_pressure",
+    missing: "Not computed: no plateau pressure recorded.",
+  },
+  {
+    key: "staticCompliance",
+    label: "Static compliance",
+    digits: 1,
+    missing: "Not computed: no plateau pressure recorded.",
+  },
+  {
+    key: "mechanicalPower",
+    label: "Mechanical power",
+    digits: 1,
+    missing: "Not computed: needs both peak and plateau pressure.",
+  },
+  {
+    key: "ventilatoryRatio",
+    label: "Ventilatory ratio",
+    digits: 2,
+    missing: "Not computed: no arterial PaCO2 in the 6 hours before the check.",
+  },
+];
 
 function Tile({
   label,
   value,
   digits,
   beyond,
+  missing,
   pressureUnit,
 }: {
+  missing: string;
   label: string;
   value: IndexValue | undefined;
   digits: number;
@@ -37,7 +66,11 @@ function Tile({
   pressureUnit: PressureUnit;
 }) {
   return (
-    <div className="min-w-0 rounded-md border border-border p-2" data-testid="ventilation-tile">
+    // An opened basis takes the whole row, so its words have room on a phone.
+    <div
+      className="min-w-0 rounded-md border border-border p-2 has-[[data-open]]:col-span-full"
+      data-testid="ventilation-tile"
+    >
       <p className="text-xs text-ink-muted">{label}</p>
       {value ? (
         <>
@@ -51,7 +84,7 @@ function Tile({
           <BasisDisclosure basis={value.basis} pressureUnit={pressureUnit} />
         </>
       ) : (
-        <p className="text-sm text-ink-muted">Not computed: an input was not measured.</p>
+        <p className="text-sm text-ink-muted">{missing}</p>
       )}
     </div>
   );
@@ -153,6 +186,7 @@ export function VentilationPanel({
                   label={t.label}
                   value={latest.indices[t.key]}
                   digits={t.digits}
+                  missing={t.missing}
                   beyond={latest.breaches.find((b) => b.what === t.breach)}
                   pressureUnit={pressureUnit}
                 />
