@@ -35,6 +35,7 @@ import {
 import { OrderInEffect, OrderReadBack } from "./OrderComposerAside";
 import { DeviceLimitsSection, TargetBandSection, TitrationSection } from "./OrderComposerFields";
 import { SigningSection } from "./OrderSigning";
+import { VentilationSection, type OrderBodyWeight } from "./VentilationFields";
 
 // The form mapping lives in ./order-form; these stay importable from here.
 export {
@@ -77,8 +78,11 @@ export function OrderComposer({
   stepTables,
   physicians,
   prefill,
+  bodyWeight = null,
 }: {
   patient: { id: number; name: string; bedLabel: string };
+  /** The patient's predicted body weight (null without a recorded height): the mL of a ventilator order. */
+  bodyWeight?: OrderBodyWeight;
   signer: "physician" | "other";
   pressureUnit: PressureUnit;
   timeZone: string;
@@ -238,6 +242,13 @@ export function OrderComposer({
           followFlow={followFlow}
         />
 
+        <VentilationSection
+          register={register}
+          errors={errors}
+          values={values}
+          bodyWeight={bodyWeight}
+        />
+
         <TargetBandSection
           register={register}
           errors={errors}
@@ -315,7 +326,12 @@ export function OrderComposer({
           timeZone={timeZone}
           patientName={patient.name}
         />
-        <OrderReadBack values={values} pressureUnit={pressureUnit} stepTables={stepTables} />
+        <OrderReadBack
+          values={values}
+          pressureUnit={pressureUnit}
+          stepTables={stepTables}
+          bodyWeight={bodyWeight}
+        />
       </aside>
     </div>
   );

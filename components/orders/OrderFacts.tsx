@@ -4,6 +4,11 @@ import { DEVICE_PROFILES } from "@/lib/devices";
 import type { OrderStatus, OrderView } from "@/lib/orders/queries";
 import { fromMmHg, type PressureUnit } from "@/lib/oxygen";
 import { waitingWords } from "@/lib/orders/waiting";
+import {
+  tidalVolumeForTarget,
+  VENT_MODE_LABELS,
+  type VentilatorOrderSettings,
+} from "@/lib/ventilation/settings";
 
 /** The order states in the product's words. */
 export const ORDER_STATUS_LABELS: Record<OrderStatus, string> = {
@@ -79,6 +84,36 @@ function Row({ term, children }: { term: string; children: ReactNode }) {
   );
 }
 
+/** The ventilator part of an order, the tidal volume also in mL for this patient. */
+function VentilatorFacts({ settings: v }: { settings: VentilatorOrderSettings }) {
+  const ml = (perKg: number) => tidalVolumeForTarget(perKg, v.pbwKg);
+  return (
+    <>
+      <Row term="Mode">{VENT_MODE_LABELS[v.mode]}</Row>
+      <Row term="Tidal volume">
+        <span className="tabular" data-testid="order-vt">
+          {v.vtTargetMlKg} mL/kg PBW = {ml(v.vtTargetMlKg)} mL (range {v.vtMinMlKg}–{v.vtMaxMlKg}{" "}
+          mL/kg, {ml(v.vtMinMlKg)}–{ml(v.vtMaxMlKg)} mL)
+        </span>
+        <span className="block text-xs text-ink-muted">
+          Predicted body weight {v.pbwKg.toFixed(1)} kg from a height of {v.heightCm} cm (ARDS
+          Network equation)
+        </span>
+      </Row>
+      <Row term="Rate">
+        <span className="tabular">
+          {v.rateMin}–{v.rateMax} /min
+        </span>
+      </Row>
+      <Row term="Lung-protective limits">
+        <span className="tabular">
+          plateau ≤ {v.plateauLimit} cmH2O, driving pressure ≤ {v.drivingLimit} cmH2O
+        </span>
+      </Row>
+    </>
+  );
+}
+
 /** Every prescribed field of an order, units beside values. */
 export function OrderFacts({
   order,
@@ -133,6 +168,7 @@ export function OrderFacts({
           {initial.flow !== null ? `, flow ${initial.flow} L/min` : ""}
         </span>
       </Row>
+      {order.ventilator ? <VentilatorFacts settings={order.ventilator} /> : null}
       <Row term="Step table">{stepTableName ?? <span className="text-ink-muted">None</span>}</Row>
       <Row term="Reassess every">
         <span className="tabular">{order.reassessMinutes} min</span>

@@ -7,8 +7,11 @@ import { recipientsFor, type RecipientBasis } from "./recipients";
 
 import { isRetryable, transact } from "../transaction";
 
-/** Who was told at one level and why, as the alert keeps it for the screens. */
-export type Told = { name: string; basis: RecipientBasis }[];
+/**
+ * Who was told at one level and why, as the alert keeps it for the screens;
+ * `duty` names the level a recipient was chosen for when an alert tells two at once.
+ */
+export type Told = { name: string; basis: RecipientBasis; duty?: string }[];
 
 type AlertMailContext = {
   id: number;
@@ -98,6 +101,7 @@ export async function queueAlertMail(
     excursion?: { phase: "pending" | "open"; direction: "below" | "above" };
     pao2?: number;
     pao2Band?: { lower: number; upper: number };
+    breaches?: string[];
   };
   const spo2 = a.worst_spo2_pct ?? a.trigger_spo2_pct;
   const mail = composeAlertEmail({
@@ -126,6 +130,7 @@ export async function queueAlertMail(
     ...(detail.excursion ? { excursion: detail.excursion } : {}),
     ...(detail.pao2 !== undefined ? { pao2: detail.pao2 } : {}),
     ...(detail.pao2Band ? { pao2Band: detail.pao2Band } : {}),
+    ...(detail.breaches ? { breaches: detail.breaches } : {}),
     baseUrl: env.NEXTAUTH_URL,
   });
   // Whoever charted the value that raised the alert is at the bedside: no e-mail for them.

@@ -179,7 +179,7 @@ export async function listAlerts(
     .orderByRaw("a.grade = 'urgent' DESC")
     .orderBy("a.escalation_level", "desc")
     .orderByRaw(
-      "FIELD(a.kind, 'limits_exhausted', 'below_band', 'signal_loss', 'above_band', 'pao2_above_band', 'reassessment_overdue')",
+      "FIELD(a.kind, 'limits_exhausted', 'lung_protection', 'below_band', 'signal_loss', 'above_band', 'pao2_above_band', 'reassessment_overdue')",
     )
     .orderBy("a.opened_at", "desc")
     .limit(f.limit)

@@ -38,6 +38,8 @@ export const PERMISSIONS = {
   "adjustment.record": CLINICAL,
   "reading.chart": CLINICAL,
   "blood_gas.record": CLINICAL,
+  /** A ventilator check (measured volumes and pressures): therapists and physicians. */
+  "ventilator_check.record": ["physician", "therapist"],
   "alert.act": CLINICAL,
   "import.upload": ["therapist", "admin"],
   /** Admit, transfer and discharge patients of one's units. */

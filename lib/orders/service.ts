@@ -31,6 +31,7 @@ import { transact } from "../transaction";
 import { applyStartingSettings } from "./starting-settings";
 import { noticeOrderChange } from "../order-notices/service";
 import { closeRequestsByOrder } from "../order-requests/service";
+import { ventilatorColumns } from "./ventilator";
 
 /** A unit allows only some devices (a ward that does not ventilate): an order for another is refused. */
 async function assertUnitAllowsDevice(knex: Knex, unitId: number, device: Device): Promise<void> {
@@ -77,6 +78,8 @@ export async function writeOrder(
   }
   const admission = await findOpenAdmission(knex, actor, input.patientId);
   await assertUnitAllowsDevice(knex, admission.unitId, input.device);
+  // Before the password: a missing height is refused without spending a signature.
+  const ventilator = await ventilatorColumns(knex, input);
   if (input.entryMode === "written") {
     await confirmPassword(knex, actor.id, input.password);
   } else {
@@ -117,17 +120,19 @@ export async function writeOrder(
   return once(knex, actor.id, input.idempotencyKey, "order.write", async (trx) => {
     // Two writers who both saw "no order in effect" meet at the unique index
     // (a deadlock is not caught here: once() runs the victim again).
-    return writeOrderInTransaction(trx, actor, input, admission, now).catch((error: unknown) => {
-      if (
-        duplicateIndex(error) === "orders_current_patient_id_unique" ||
-        isLockWaitTimeout(error)
-      ) {
-        throw new ConflictError(
-          "Another order was just written for this patient. Review it, then write yours again if it is still needed.",
-        );
-      }
-      throw error;
-    });
+    return writeOrderInTransaction(trx, actor, input, ventilator, admission, now).catch(
+      (error: unknown) => {
+        if (
+          duplicateIndex(error) === "orders_current_patient_id_unique" ||
+          isLockWaitTimeout(error)
+        ) {
+          throw new ConflictError(
+            "Another order was just written for this patient. Review it, then write yours again if it is still needed.",
+          );
+        }
+        throw error;
+      },
+    );
   });
 }
 
@@ -135,6 +140,7 @@ async function writeOrderInTransaction(
   trx: Knex.Transaction,
   actor: Actor,
   input: ParsedOrder,
+  ventilator: Record<string, number | string | null>,
   admission: OpenAdmission,
   now: Date,
 ): Promise<OrderView> {
@@ -179,6 +185,7 @@ async function writeOrderInTransaction(
     initial_peep_cmh2o: input.initialPeep ?? null,
     initial_flow_l_min: input.initialFlow ?? null,
     step_table_id: input.stepTableId ?? null,
+    ...ventilator,
     reassess_minutes: input.reassessMinutes,
     rationale: input.rationale,
     entry_mode: input.entryMode,

@@ -16,6 +16,7 @@ import { HANDOFF_ACTIONS } from "./access-routes-handoff";
 import { LOOP_ACTIONS } from "./access-routes-loops";
 import { UNIT_ACTIONS } from "./access-routes-units";
 import { ASSIGNMENT_ACTIONS } from "./access-routes-assignments";
+import { VENTILATION_ACTIONS } from "./access-routes-ventilation";
 import {
   adjustmentAllows,
   adjustmentBody,
@@ -215,6 +216,7 @@ const ACTIONS: Omit<ActionEntry, "via">[] = [
       signal_loss: true,
       pao2_above_band: true,
       order_change: true,
+      lung_protection: true,
     }),
   },
   ...ASSIGNMENT_ACTIONS,
@@ -227,6 +229,7 @@ export const ACTION_ENTRIES: ActionEntry[] = [
   ...HANDOFF_ACTIONS,
   ...ACCOUNT_ACTIONS,
   ...LOOP_ACTIONS,
+  ...VENTILATION_ACTIONS,
 ].map((e) => ({
   ...e,
   via: "action",

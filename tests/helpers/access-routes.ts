@@ -28,6 +28,7 @@ import { LOOP_ROUTES } from "./access-routes-loops";
 import { REPORT_ROUTES } from "./access-routes-reports";
 import { UNIT_ROUTES } from "./access-routes-units";
 import { ASSIGNMENT_ROUTES } from "./access-routes-assignments";
+import { VENTILATION_ROUTES } from "./access-routes-ventilation";
 import { appDb, uniqueEmail } from "./db";
 import { DEMO_PASSWORD } from "./browser";
 
@@ -502,6 +503,7 @@ export const ROUTE_ENTRIES: RouteEntry[] = [
   ...REHEARSAL_ROUTES,
   ...ACCOUNT_ROUTES,
   ...LOOP_ROUTES,
+  ...VENTILATION_ROUTES,
 ].map((e) => ({
   ...e,
   via: "route",

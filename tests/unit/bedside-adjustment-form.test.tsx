@@ -52,6 +52,7 @@ function order(device: Device, limits: Partial<OrderView["limits"]> = {}): Order
     },
     initial: { fio2: 0.4, peep: null, flow: 40 },
     stepTableId: null,
+    ventilator: null,
     reassessMinutes: 60,
     rationale: "Type 1 failure",
     entryMode: "written",

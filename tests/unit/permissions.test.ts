@@ -15,6 +15,7 @@ const TABLE: Record<Permission, Role[]> = {
   "adjustment.record": ["physician", "therapist", "nurse"],
   "reading.chart": ["physician", "therapist", "nurse"],
   "blood_gas.record": ["physician", "therapist", "nurse"],
+  "ventilator_check.record": ["physician", "therapist"],
   "alert.act": ["physician", "therapist", "nurse"],
   "import.upload": ["therapist", "admin"],
   "admission.manage": ["physician", "nurse", "admin"],

@@ -149,6 +149,21 @@ function deepSpecs(s: BodySpecs, own: Own): Record<string, BodySpec> {
       sampleType: { ...s.bloodGas.fields.sampleType!, valid: fc.constant("arterial") },
       sao2: { ...s.bloodGas.fields.sao2!, valid: fc.double({ min: 40, max: 100, noNaN: true }) },
     }),
+    // Pressures in their order (PEEP < plateau ≤ peak); the own patient is on high flow, so
+    // a check is refused deep in the service (no ventilator order) unless perturbed earlier.
+    ventilatorCheck: aim(s.ventilatorCheck, {
+      totalPeep: between(s.ventilatorCheck.fields.totalPeep!, 5, 8),
+      plateau: between(s.ventilatorCheck.fields.plateau!, 20, 28),
+      peak: between(s.ventilatorCheck.fields.peak!, 28, 35),
+      checkedAt: {
+        kind: "coerced",
+        required: true,
+        valid: fc
+          .integer({ min: 1, max: 30 })
+          .map((m) => new Date(Date.now() - m * 60_000).toISOString()),
+      },
+    }),
+    height: s.height,
     adjustment: aim(s.adjustment, {
       settingsVersion: fixed(late("SETTINGS_VERSION")),
       toFio2: {
@@ -386,6 +401,18 @@ export function deepRequests(
       "physician",
       "/api/v1/blood-gases",
       spec.bloodGas!,
+    ),
+    "POST /api/v1/ventilator-checks": json(
+      "POST /api/v1/ventilator-checks",
+      "therapist",
+      "/api/v1/ventilator-checks",
+      spec.ventilatorCheck!,
+    ),
+    "POST /api/v1/patients/[patientId]/height": json(
+      "POST /api/v1/patients/[patientId]/height",
+      "physician",
+      `/api/v1/patients/${own.patientId}/height`,
+      spec.height!,
     ),
     "POST /api/v1/adjustments": json(
       "POST /api/v1/adjustments",

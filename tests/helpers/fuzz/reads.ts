@@ -209,6 +209,13 @@ export function parameterisedReads(all: Ids & ReadIds): Record<string, fc.Arbitr
         }),
       ),
     ),
+    "GET /api/v1/ventilator-checks": read(
+      "GET /api/v1/ventilator-checks",
+      "physician",
+      queryString({ patientId: ids(all.patients), limit }).map(
+        (q) => `/api/v1/ventilator-checks${q}`,
+      ),
+    ),
     "GET /api/v1/patients/[patientId]/forecast-accuracy": read(
       "GET /api/v1/patients/[patientId]/forecast-accuracy",
       "physician",

@@ -385,6 +385,20 @@ export function writeRoutes(ctx: Context): Record<string, fc.Arbitrary<FuzzCase>
       refusedBody(specs.bloodGas),
       true,
     ),
+    "POST /api/v1/ventilator-checks": jsonWrite(
+      "POST /api/v1/ventilator-checks",
+      "therapist",
+      fixed("/api/v1/ventilator-checks"),
+      refusedBody(specs.ventilatorCheck),
+      true,
+    ),
+    "POST /api/v1/patients/[patientId]/height": jsonWrite(
+      "POST /api/v1/patients/[patientId]/height",
+      "physician",
+      at("/api/v1/patients", fc.oneof(refusedSegment, idSegment(ids.patients)), "/height"),
+      refusedBody(specs.height),
+      true,
+    ),
     "POST /api/v1/adjustments": jsonWrite(
       "POST /api/v1/adjustments",
       "physician",

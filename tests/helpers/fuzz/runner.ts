@@ -86,6 +86,7 @@ export const WATCHED_TABLES = [
   "units",
   "user_units",
   "users",
+  "ventilator_checks",
 ] as const;
 
 export type Snapshot = Record<string, string>;

@@ -34,6 +34,9 @@ import {
   RESPIRATORY_SUPPORTS,
 } from "@/lib/oxygenation/schema";
 import { readingSchema } from "@/lib/readings/schema";
+import { heightSchema } from "@/lib/admissions/schema";
+import { VENT_MODES } from "@/lib/ventilation/settings";
+import { ventilatorCheckSchema } from "@/lib/ventilator-checks/schema";
 import { rehearsalCreateSchema } from "@/lib/rehearsal/schema";
 import {
   bedCreateSchema,
@@ -204,6 +207,14 @@ export function bodySpecs(ids: Ids) {
     initialPeep: optional(num(0, 30)),
     initialFlow: optional(num(0.5, 70)),
     stepTableId: optional(int(1)),
+    ventMode: oneOf(VENT_MODES, false),
+    vtTarget: optional(engine("tidalVolumeTarget")),
+    vtMin: optional(engine("tidalVolumeTarget")),
+    vtMax: optional(engine("tidalVolumeTarget")),
+    rateMin: optional(int(RANGES.ventilatorRate.min, RANGES.ventilatorRate.max)),
+    rateMax: optional(int(RANGES.ventilatorRate.min, RANGES.ventilatorRate.max)),
+    plateauLimit: optional(engine("plateauLimit")),
+    drivingLimit: optional(engine("drivingLimit")),
     reassessMinutes: int(15, 1440),
     rationale: str(5, 2000),
     supersedesOrderId: {
@@ -223,6 +234,23 @@ export function bodySpecs(ids: Ids) {
       readBackConfirmed: { kind: "boolean", required: true, valid: fc.constant(true) },
     },
   };
+
+  const ventilatorCheck: BodySpec = {
+    fields: {
+      patientId,
+      checkedAt: recent(72),
+      setVt: optional(int(RANGES.tidalVolumeMl.min, RANGES.tidalVolumeMl.max)),
+      measuredVt: int(RANGES.tidalVolumeMl.min, RANGES.tidalVolumeMl.max),
+      setRate: optional(int(RANGES.respiratoryRate.min, RANGES.respiratoryRate.max)),
+      measuredRate: int(RANGES.respiratoryRate.min, RANGES.respiratoryRate.max),
+      minuteVentilation: optional(engine("minuteVentilation")),
+      peak: optional(engine("peakPressure")),
+      plateau: optional(engine("plateauPressure")),
+      totalPeep: engine("peep"),
+      idempotencyKey,
+    },
+  };
+  const height: BodySpec = { fields: { heightCm: engine("heightCm"), idempotencyKey } };
 
   const version = int(1, undefined, pick(ids.orderVersion));
   const cosign: BodySpec = { fields: { version, password: wrongPassword(1) } };
@@ -479,6 +507,8 @@ export function bodySpecs(ids: Ids) {
     handoffAcknowledge,
     reading,
     bloodGas,
+    ventilatorCheck,
+    height,
     adjustment,
     writtenOrder,
     verbalOrder,
@@ -510,6 +540,8 @@ export const SCHEMAS: Record<keyof BodySpecs, { schema: z.ZodType; fromPath?: st
   assignmentSet: { schema: assignmentWriteSchema, fromPath: ["unitId"] },
   reading: { schema: readingSchema },
   bloodGas: { schema: bloodGasSchema },
+  ventilatorCheck: { schema: ventilatorCheckSchema },
+  height: { schema: heightSchema, fromPath: ["patientId"] },
   adjustment: { schema: adjustmentSchema },
   writtenOrder: { schema: writtenOrderSchema },
   verbalOrder: { schema: verbalOrderSchema },

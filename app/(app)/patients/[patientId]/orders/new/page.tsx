@@ -3,6 +3,7 @@ import Link from "next/link";
 import { notFound } from "next/navigation";
 import { z } from "zod";
 import { OrderComposer } from "@/components/orders/OrderComposer";
+import { HeightForm } from "@/components/ventilation/HeightForm";
 import { buttonClasses } from "@/components/ui/Button";
 import { pagePermission } from "@/lib/auth/page-guard";
 import { db } from "@/lib/db";
@@ -14,6 +15,7 @@ import { listUnits } from "@/lib/units/queries";
 import { listUnitPhysicians } from "@/lib/users/queries";
 import { can } from "@/lib/auth/permissions";
 import { getOrderRequest } from "@/lib/order-requests/queries";
+import { bodyWeightOf } from "@/lib/ventilation/settings";
 
 export const metadata: Metadata = { title: "Order" };
 
@@ -70,6 +72,7 @@ export default async function NewOrderPage({
         }
       : undefined;
   const name = `${patient.givenName} ${patient.familyName}`;
+  const bodyWeight = bodyWeightOf(patient);
 
   return (
     <div className="space-y-5">
@@ -90,7 +93,18 @@ export default async function NewOrderPage({
           Back to the Chart
         </Link>
       </header>
+      {bodyWeight === null && can(actor, "reading.chart") ? (
+        <HeightForm
+          patientId={patient.id}
+          reason={
+            patient.heightCm === null
+              ? "No height is recorded for this patient. A ventilator order (invasive ventilation or NIV) sets its tidal volume per kg of predicted body weight, which needs the height; Tidemark never estimates it."
+              : `The recorded height, ${patient.heightCm} cm, lies outside 130–230 cm, where the predicted body weight equation holds. Correct it if it was mistyped.`
+          }
+        />
+      ) : null}
       <OrderComposer
+        bodyWeight={bodyWeight}
         patient={{ id: patient.id, name, bedLabel: bed.label }}
         signer={physician ? "physician" : "other"}
         pressureUnit={actor.pressureUnit}
