@@ -3,8 +3,8 @@ import { withAuth } from "next-auth/middleware";
 import { getEnv } from "./lib/env";
 import { allowedOrigins, refuseCrossSiteWrite } from "./lib/request-guard";
 
-// Every page needs a session; sign-in, NextAuth's own routes and static files
-// are exempt. The JSON API answers 401 itself through the guard, but its writes
+// Every page needs a session; sign-in, forgot-password, set-password (an
+// e-mailed link), NextAuth's own routes and static files are exempt. The JSON API answers 401 itself through the guard, but its writes
 // pass the cross-site check here first (lib/request-guard.ts). Roles are
 // checked by the guard in each page, action and route, not here.
 export default withAuth(
@@ -49,6 +49,7 @@ export default withAuth(
 export const config = {
   matcher: [
     "/api/v1/((?!imports$|imports/hl7$|imports/monitor$).*)",
-    "/((?!sign-in|api/|_next/static|_next/image|favicon.ico).*)",
+    // The account pages an e-mailed link opens need no session; the link is the credential.
+    "/((?!sign-in|forgot-password|set-password|api/|_next/static|_next/image|favicon.ico).*)",
   ],
 };

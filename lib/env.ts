@@ -63,6 +63,8 @@ const envSchema = z
     ALERT_SUSTAIN_SECONDS: z.coerce.number().int().min(0).max(3600).default(60),
     ALERT_RESOLVE_SECONDS: z.coerce.number().int().min(0).max(86400).default(300),
     ALERT_ESCALATE_MINUTES: z.coerce.number().int().min(1).max(1440).default(10),
+    /** An order request unanswered this long is escalated (lib/order-requests/sweep.ts). */
+    ORDER_REQUEST_ESCALATE_MINUTES: z.coerce.number().int().min(1).max(1440).default(15),
     ALERT_URGENT_BELOW_PCT: z.coerce.number().int().min(50).max(100).default(85),
     ALERT_URGENT_MARGIN_PCT: z.coerce.number().int().min(1).max(30).default(5),
     /** Share of the sustain window's monitored time that must be out of band, in %. */
@@ -104,6 +106,20 @@ const envSchema = z
     OUTBOX_CLAIM_SECONDS: z.coerce.number().int().min(5).max(3600).default(120),
     /** HTTP port of the local fake inbox's readable page (`npm run mail:inbox`, the demo). */
     MAIL_INBOX_PORT: z.coerce.number().int().min(1).max(65535).default(2580),
+    // --- Account e-mails and co-sign reminders (lib/accounts, lib/orders/cosign-reminders.ts) ---
+    /** An invitation link works this many hours. */
+    INVITE_LINK_HOURS: z.coerce
+      .number()
+      .int()
+      .min(1)
+      .max(30 * 24)
+      .default(72),
+    /** A password-reset link works this many minutes. */
+    RESET_LINK_MINUTES: z.coerce.number().int().min(5).max(1440).default(30),
+    /** A verbal or telephone order waiting for co-signature is reminded to its prescriber this often. */
+    COSIGN_REMIND_MINUTES: z.coerce.number().int().min(5).max(1440).default(60),
+    /** …and escalated to the unit's designated co-signers this many hours after it was entered. */
+    COSIGN_ESCALATE_HOURS: z.coerce.number().int().min(1).max(168).default(24),
     // --- Ledger integrity (lib/ledger; README "What the ledger promises") ---
     /** The ledger's HMAC secret. Kept out of the database, so an account that can INSERT cannot forge rows. */
     LEDGER_HMAC_KEY: z

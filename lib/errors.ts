@@ -29,6 +29,18 @@ export class ForbiddenError extends DomainError {
   }
 }
 
+/**
+ * The password an administrator set has not been changed yet: nothing but the
+ * change-password page and its route is open until it is (lib/accounts).
+ */
+export class PasswordChangeRequiredError extends ForbiddenError {
+  constructor() {
+    super(
+      "Set a password of your own first: the one you signed in with was set by an administrator. Open /change-password.",
+    );
+  }
+}
+
 export class NotFoundError extends DomainError {
   constructor(message = "Not found.") {
     super(message, 404);

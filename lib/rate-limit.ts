@@ -2,19 +2,36 @@ import type { Knex } from "knex";
 import { TooManyRequestsError } from "./errors";
 
 /**
- * Per-user quotas for the reads that cost the server most, in fixed one-minute
- * windows counted in the database (one count for every app server). Over the
- * quota: 429 with Retry-After, the seconds until the window turns.
+ * Per-user quotas for the reads that cost the server most, in fixed windows
+ * (one minute unless named) counted in the database (one count for every app
+ * server). Over the quota: 429 with Retry-After, the seconds until the window
+ * turns. Password-reset requests are counted per typed address and per client
+ * address, known account or not, so the quota says nothing about who exists.
  */
-export const QUOTAS = {
-  ledger_verify: { perMinute: 6, what: "ledger verifications" },
-  ledger_export: { perMinute: 10, what: "ledger exports" },
-  fhir_export: { perMinute: 30, what: "FHIR exports" },
-  forecast: { perMinute: 120, what: "forecasts" },
-} as const;
-export type QuotaBucket = keyof typeof QUOTAS;
+type Quota = { perWindow: number; windowMinutes?: number; what: string };
 
-const WINDOW_MS = 60_000;
+export const QUOTAS = {
+  ledger_verify: { perWindow: 6, what: "ledger verifications" },
+  ledger_export: { perWindow: 10, what: "ledger exports" },
+  fhir_export: { perWindow: 30, what: "FHIR exports" },
+  forecast: { perWindow: 120, what: "forecasts" },
+  reset_account: {
+    perWindow: 3,
+    windowMinutes: 60,
+    what: "password-reset requests for this address",
+  },
+  reset_client: {
+    perWindow: 20,
+    windowMinutes: 60,
+    what: "password-reset requests from your network address",
+  },
+  link_client: {
+    perWindow: 30,
+    windowMinutes: 60,
+    what: "passwords set from e-mailed links from your network address",
+  },
+} as const satisfies Record<string, Quota>;
+export type QuotaBucket = keyof typeof QUOTAS;
 
 /** Counts one request of `subject` (a user, or a token) and refuses it past the quota. */
 export async function consumeQuota(
@@ -23,7 +40,9 @@ export async function consumeQuota(
   bucket: QuotaBucket,
   now: Date = new Date(),
 ): Promise<void> {
-  const windowStart = new Date(Math.floor(now.getTime() / WINDOW_MS) * WINDOW_MS);
+  const { perWindow, windowMinutes = 1, what }: Quota = QUOTAS[bucket];
+  const windowMs = windowMinutes * 60_000;
+  const windowStart = new Date(Math.floor(now.getTime() / windowMs) * windowMs);
   await knex.raw(
     "INSERT INTO request_quotas (subject, bucket, window_start, used) VALUES (?, ?, ?, 1) ON DUPLICATE KEY UPDATE used = used + 1",
     [subject, bucket, windowStart],
@@ -31,21 +50,17 @@ export async function consumeQuota(
   const row = (await knex("request_quotas")
     .where({ subject, bucket, window_start: windowStart })
     .first("used")) as { used: number } | undefined;
-  const { perMinute, what } = QUOTAS[bucket];
-  if ((row?.used ?? 0) > perMinute) {
-    const retry = Math.max(
-      1,
-      Math.ceil((windowStart.getTime() + WINDOW_MS - now.getTime()) / 1000),
-    );
+  if ((row?.used ?? 0) > perWindow) {
+    const retry = Math.max(1, Math.ceil((windowStart.getTime() + windowMs - now.getTime()) / 1000));
     throw new TooManyRequestsError(
-      `Too many ${what}: at most ${perMinute} a minute. Try again in ${retry} seconds.`,
+      `Too many ${what}: at most ${perWindow} ${windowMinutes === 1 ? "a minute" : `in ${windowMinutes} minutes`}. Try again in ${retry < 90 ? `${retry} seconds` : `${Math.ceil(retry / 60)} minutes`}.`,
       retry,
     );
   }
   // Old windows are dropped now and then by whoever is counting.
   if (Math.random() < 0.01) {
     await knex("request_quotas")
-      .where("window_start", "<", new Date(now.getTime() - 3600_000))
+      .where("window_start", "<", new Date(now.getTime() - 2 * 3600_000))
       .delete();
   }
 }

@@ -23,6 +23,8 @@ import {
   useIdempotencyKey,
 } from "@/components/bedside/BedsideFormParts";
 import { Button, buttonClasses } from "@/components/ui/Button";
+import { OrderRequestForm } from "@/components/order-requests/OrderRequestForm";
+import { requestFromRefusal } from "@/components/order-requests/request-defaults";
 import { Caution } from "@/components/ui/Caution";
 import { EmptyState } from "@/components/ui/EmptyState";
 import { Field, inputClasses } from "@/components/ui/Field";
@@ -61,6 +63,8 @@ export function AdjustmentForm(props: {
   timeZone: string;
   /** This stay's checked forecasts: the empirical interval beside the forecast. */
   forecastPairs?: readonly ForecastPairView[];
+  /** The user may ask for a new order when a change is outside the limits. */
+  canRequest?: boolean;
 }) {
   // A cache of this page's own: the context the server rendered is what the
   // form starts from, never one left in a shared cache by an earlier visit.
@@ -77,12 +81,14 @@ function AdjustmentFormWithContext({
   pressureUnit,
   timeZone,
   forecastPairs,
+  canRequest,
 }: {
   patientId: number;
   initialContext: BedsideContext;
   pressureUnit: PressureUnit;
   timeZone: string;
   forecastPairs?: readonly ForecastPairView[];
+  canRequest?: boolean;
 }) {
   const bedsideUrl = `/api/v1/patients/${patientId}/bedside`;
   // A blood gas older than the site's limit drives the proposal only when the
@@ -126,6 +132,7 @@ function AdjustmentFormWithContext({
       pressureUnit={pressureUnit}
       timeZone={timeZone}
       forecastPairs={forecastPairs}
+      canRequest={canRequest ?? false}
       reload={async () => {
         await mutate();
       }}
@@ -152,8 +159,10 @@ function AdjustmentFormBody({
   useStaleGas,
   onUseStaleGasChange,
   forecastPairs,
+  canRequest,
 }: {
   patientId: number;
+  canRequest: boolean;
   context: BedsideContext;
   order: OrderView;
   settings: BedsideSettings;
@@ -218,6 +227,13 @@ function AdjustmentFormBody({
     order,
     { fio2: nextFio2, peep: asNumber(typedPeep), flow: asNumber(typedFlow) },
     fio2Estimated,
+  );
+  // Outside the limits: the way out is a new order, asked for right here.
+  const askFor = requestFromRefusal(
+    patientId,
+    order,
+    { fio2: nextFio2, peep: asNumber(typedPeep), flow: asNumber(typedFlow) },
+    context.latestReading?.spo2 ?? null,
   );
   const peep = asNumber(typedPeep);
   const peepChanges =
@@ -469,6 +485,14 @@ function AdjustmentFormBody({
           <Caution />
         </div>
       </form>
+      {canRequest && askFor ? (
+        <section aria-labelledby={`${id}-ask`} className="space-y-2">
+          <h2 id={`${id}-ask`} className="text-lg font-semibold">
+            Ask for a new order
+          </h2>
+          <OrderRequestForm key={askFor.need} start={askFor} compact />
+        </section>
+      ) : null}
     </div>
   );
 }

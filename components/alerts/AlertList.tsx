@@ -27,7 +27,10 @@ const BASIS_WORDS: Record<string, (duty: string) => string> = {
   fallback: (duty) => `unit fallback address — no ${duty} and no charge nurse on this shift`,
 };
 
-type ToldDetail = { level: number; recipients: { name: string; basis: string }[] };
+type ToldDetail = {
+  level: number;
+  recipients: { name: string; basis: string; duty?: string }[];
+};
 
 /** The people (or address) this level reached, each with the reason they were chosen. */
 function toldWho(a: AlertView): string | null {
@@ -35,7 +38,7 @@ function toldWho(a: AlertView): string | null {
   if (!told || told.level !== a.escalationLevel || !told.recipients.length) return null;
   const duty = ESCALATION_DUTIES[a.escalationLevel] ?? "care team";
   return told.recipients
-    .map((r) => `${r.name} (${BASIS_WORDS[r.basis]?.(duty) ?? r.basis})`)
+    .map((r) => `${r.name} (${BASIS_WORDS[r.basis]?.(r.duty ?? duty) ?? r.basis})`)
     .join(", ");
 }
 
@@ -64,7 +67,10 @@ function statusOf(a: AlertView): { status: Status; label: string } {
   // No signal is "no data", not a side of the band.
   if (a.kind === "signal_loss") return { status: "overdue", label: ALERT_STATE_LABELS[a.state] };
   return {
-    status: a.kind === "above_band" || a.kind === "pao2_above_band" ? "above" : "below",
+    status:
+      a.kind === "above_band" || a.kind === "pao2_above_band" || a.kind === "lung_protection"
+        ? "above"
+        : "below",
     label: ALERT_STATE_LABELS[a.state],
   };
 }
@@ -80,10 +86,13 @@ export function AlertList({
   canAct,
   focusId,
   compactEmpty,
+  canRequest,
 }: {
   initial: AlertView[];
   apiUrl: string;
   canAct: boolean;
+  /** The user may ask for a new order from an "order limits reached" alert. */
+  canRequest?: boolean;
   focusId?: number;
   /** A one-line empty state (the Chart) instead of the full one. */
   compactEmpty?: string;
@@ -165,6 +174,7 @@ export function AlertList({
                     excursion: a.detail.excursion as AlertEmailInput["excursion"],
                     pao2: a.detail.pao2 as number | undefined,
                     pao2Band: a.detail.pao2Band as AlertEmailInput["pao2Band"],
+                    breaches: a.detail.breaches as string[] | undefined,
                     ...(typeof a.detail.lastSampleAt === "string"
                       ? { lastSampleText: at(a.detail.lastSampleAt, tz) }
                       : {}),
@@ -216,6 +226,14 @@ export function AlertList({
                     </>
                   ) : null}
                 </dl>
+                {canRequest && a.kind === "limits_exhausted" && a.state !== "resolved" ? (
+                  <Link
+                    href={`/patients/${a.patient.id}/order-request?from=alert&alertId=${a.id}`}
+                    className="mt-2 inline-block text-sm font-medium text-accent underline underline-offset-2"
+                  >
+                    Ask for a new order
+                  </Link>
+                ) : null}
                 {canAct && a.state !== "resolved" ? (
                   <AlertActions
                     alertId={a.id}

@@ -5,7 +5,7 @@ import { useState } from "react";
 import { useForm } from "react-hook-form";
 import { saveEmailPreferencesAction } from "@/lib/alerts/actions";
 import { Button } from "@/components/ui/Button";
-import { ALERT_KINDS, ALERT_KIND_LABELS } from "@/lib/alerts/kinds";
+import { EMAIL_PREFERENCE_KINDS, EMAIL_PREFERENCE_LABELS } from "@/lib/alerts/kinds";
 import { emailPreferencesSchema, type EmailPreferences } from "@/lib/alerts/schema";
 
 /**
@@ -50,16 +50,16 @@ export function EmailPreferencesForm({
           about:
         </legend>
         <div className="mt-2 grid gap-1 sm:grid-cols-2">
-          {ALERT_KINDS.map((kind) => (
+          {EMAIL_PREFERENCE_KINDS.map((kind) => (
             <label key={kind} className="flex items-center gap-2 text-sm">
               <input type="checkbox" className="size-4 accent-accent" {...register(kind)} />
-              {ALERT_KIND_LABELS[kind]}
+              {EMAIL_PREFERENCE_LABELS[kind]}
             </label>
           ))}
         </div>
         <p className="mt-1 text-xs text-ink-muted">
-          Alerts always show here and in the header; unchecking a kind stops only its e-mail. If you
-          do not acknowledge, the alert still escalates to the next person on schedule.
+          Alerts and order changes always show in the app; unchecking one stops only its e-mail. If
+          you do not acknowledge, the alert still escalates to the next person on schedule.
         </p>
       </fieldset>
       <div className="flex items-center gap-3">

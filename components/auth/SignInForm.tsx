@@ -9,7 +9,7 @@ import { Button } from "@/components/ui/Button";
 import { Field, inputClasses } from "@/components/ui/Field";
 import { signInSchema, type SignInInput } from "@/lib/auth/schema";
 
-export function SignInForm({ callbackUrl }: { callbackUrl: string }) {
+export function SignInForm({ callbackUrl, email = "" }: { callbackUrl: string; email?: string }) {
   const router = useRouter();
   const [formError, setFormError] = useState<string | null>(null);
   const {
@@ -18,7 +18,7 @@ export function SignInForm({ callbackUrl }: { callbackUrl: string }) {
     formState: { errors, isSubmitting },
   } = useForm<SignInInput>({
     resolver: zodResolver(signInSchema),
-    defaultValues: { email: "", password: "" },
+    defaultValues: { email, password: "" },
   });
 
   const onSubmit = handleSubmit(async (values) => {
@@ -45,7 +45,7 @@ export function SignInForm({ callbackUrl }: { callbackUrl: string }) {
             id="email"
             type="email"
             autoComplete="username"
-            autoFocus
+            autoFocus={!email}
             className={inputClasses}
             aria-invalid={invalid}
             aria-describedby={describedBy}

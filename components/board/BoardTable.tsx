@@ -151,6 +151,14 @@ export function BoardTable({
                     <StatusBadge status="neutral" label="No order" />
                   </span>
                 ) : null}
+                {r.orderUnread ? (
+                  <span
+                    className="mt-0.5 block whitespace-nowrap [&>span]:whitespace-nowrap"
+                    data-testid="order-unread"
+                  >
+                    <StatusBadge status="escalated" label="New order not read by nurse" />
+                  </span>
+                ) : null}
               </td>
               <td className="px-2 py-1.5">
                 {r.deviceLabel ?? <span className="text-ink-muted">—</span>}

@@ -22,6 +22,8 @@ import {
   fio2Text,
   formFieldOf,
   initialValues,
+  prefillFromRequest,
+  type RequestPrefill,
   limitValuesFor,
   restate,
   stepTableFits,
@@ -33,6 +35,7 @@ import {
 import { OrderInEffect, OrderReadBack } from "./OrderComposerAside";
 import { DeviceLimitsSection, TargetBandSection, TitrationSection } from "./OrderComposerFields";
 import { SigningSection } from "./OrderSigning";
+import { VentilationSection, type OrderBodyWeight } from "./VentilationFields";
 
 // The form mapping lives in ./order-form; these stay importable from here.
 export {
@@ -74,8 +77,12 @@ export function OrderComposer({
   currentStepTableName,
   stepTables,
   physicians,
+  prefill,
+  bodyWeight = null,
 }: {
   patient: { id: number; name: string; bedLabel: string };
+  /** The patient's predicted body weight (null without a recorded height): the mL of a ventilator order. */
+  bodyWeight?: OrderBodyWeight;
   signer: "physician" | "other";
   pressureUnit: PressureUnit;
   timeZone: string;
@@ -83,6 +90,8 @@ export function OrderComposer({
   currentStepTableName: string | null;
   stepTables: StepTableChoice[];
   physicians: PhysicianChoice[];
+  /** An order request the composer starts from. */
+  prefill?: RequestPrefill;
 }) {
   const router = useRouter();
   // One key per composer: a double submit or a retry after a lost answer writes once.
@@ -135,7 +144,9 @@ export function OrderComposer({
     formState: { errors, isSubmitting },
   } = useForm<ComposerValues>({
     resolver,
-    defaultValues: initialValues(currentOrder, pressureUnit),
+    defaultValues: prefill
+      ? prefillFromRequest(initialValues(currentOrder, pressureUnit), prefill)
+      : initialValues(currentOrder, pressureUnit),
   });
   const values = useWatch({ control });
   const device = values.device ?? "";
@@ -217,12 +228,25 @@ export function OrderComposer({
   return (
     <div className="grid items-start gap-5 lg:grid-cols-[minmax(0,1fr)_18rem]">
       <form onSubmit={onSubmit} noValidate aria-label="Order" className="min-w-0 space-y-4">
+        {prefill ? (
+          <p className="rounded-card border border-accent/40 bg-surface-muted px-4 py-2 text-sm">
+            Started from order request #{prefill.id} by {prefill.requestedBy}: “{prefill.need}”.
+            Review every field; signing this order closes the request.
+          </p>
+        ) : null}
         <DeviceLimitsSection
           register={register}
           errors={errors}
           values={values}
           chooseDevice={chooseDevice}
           followFlow={followFlow}
+        />
+
+        <VentilationSection
+          register={register}
+          errors={errors}
+          values={values}
+          bodyWeight={bodyWeight}
         />
 
         <TargetBandSection
@@ -302,7 +326,12 @@ export function OrderComposer({
           timeZone={timeZone}
           patientName={patient.name}
         />
-        <OrderReadBack values={values} pressureUnit={pressureUnit} stepTables={stepTables} />
+        <OrderReadBack
+          values={values}
+          pressureUnit={pressureUnit}
+          stepTables={stepTables}
+          bodyWeight={bodyWeight}
+        />
       </aside>
     </div>
   );

@@ -12,6 +12,8 @@ import {
   type StepTableChoice,
 } from "./order-form";
 import { formatFio2Range, formatOrderTime, OrderStatusBadge } from "./OrderFacts";
+import { mlFor, type OrderBodyWeight } from "./VentilationFields";
+import { isVentilatorDevice, VENT_MODE_LABELS } from "@/lib/ventilation/settings";
 
 /** The order in effect, which the new one replaces. */
 export function OrderInEffect({
@@ -93,10 +95,12 @@ export function OrderReadBack({
   values,
   pressureUnit,
   stepTables,
+  bodyWeight = null,
 }: {
   values: Partial<ComposerValues>;
   pressureUnit: PressureUnit;
   stepTables: StepTableChoice[];
+  bodyWeight?: OrderBodyWeight;
 }) {
   const device = values.device ?? "";
   const profile = device === "" ? null : DEVICE_PROFILES[device];
@@ -131,6 +135,18 @@ export function OrderReadBack({
       lines.push(["PEEP", range(values.peepMin, values.peepMax, values.initialPeep, "cmH2O")]);
     if (profile.uses.flow)
       lines.push(["Flow", range(values.flowMin, values.flowMax, values.initialFlow, "L/min")]);
+  }
+  if (device !== "" && isVentilatorDevice(device)) {
+    lines.push(["Mode", values.ventMode ? VENT_MODE_LABELS[values.ventMode] : "—"]);
+    lines.push([
+      "Tidal volume",
+      `${show(values.vtTarget)} mL/kg PBW (${mlFor(values.vtTarget, bodyWeight)}), range ${show(values.vtMin)}–${show(values.vtMax)} mL/kg`,
+    ]);
+    lines.push(["Rate", `${show(values.rateMin)}–${show(values.rateMax)} /min`]);
+    lines.push([
+      "Limits",
+      `plateau ≤ ${show(values.plateauLimit)}, driving pressure ≤ ${show(values.drivingLimit)} cmH2O`,
+    ]);
   }
   const table = stepTables.find((t) => String(t.id) === values.stepTableId);
   lines.push(["Step table", table?.name ?? "None"]);

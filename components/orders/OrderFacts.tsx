@@ -3,6 +3,12 @@ import { StatusBadge, type Status } from "@/components/ui/StatusBadge";
 import { DEVICE_PROFILES } from "@/lib/devices";
 import type { OrderStatus, OrderView } from "@/lib/orders/queries";
 import { fromMmHg, type PressureUnit } from "@/lib/oxygen";
+import { waitingWords } from "@/lib/orders/waiting";
+import {
+  tidalVolumeForTarget,
+  VENT_MODE_LABELS,
+  type VentilatorOrderSettings,
+} from "@/lib/ventilation/settings";
 
 /** The order states in the product's words. */
 export const ORDER_STATUS_LABELS: Record<OrderStatus, string> = {
@@ -66,11 +72,7 @@ export function formatOrderTime(iso: string | Date, timeZone: string): string {
 
 /** A waiting time in words: "45 min", "3 h 10 min", "2 d 4 h". */
 export function formatDuration(ms: number): string {
-  const minutes = Math.max(0, Math.floor(ms / 60_000));
-  if (minutes < 60) return `${minutes} min`;
-  const hours = Math.floor(minutes / 60);
-  if (hours < 48) return `${hours} h ${minutes % 60} min`;
-  return `${Math.floor(hours / 24)} d ${hours % 24} h`;
+  return waitingWords(ms);
 }
 
 function Row({ term, children }: { term: string; children: ReactNode }) {
@@ -78,6 +80,36 @@ function Row({ term, children }: { term: string; children: ReactNode }) {
     <>
       <dt className="text-ink-muted">{term}</dt>
       <dd className="min-w-0 break-words">{children}</dd>
+    </>
+  );
+}
+
+/** The ventilator part of an order, the tidal volume also in mL for this patient. */
+function VentilatorFacts({ settings: v }: { settings: VentilatorOrderSettings }) {
+  const ml = (perKg: number) => tidalVolumeForTarget(perKg, v.pbwKg);
+  return (
+    <>
+      <Row term="Mode">{VENT_MODE_LABELS[v.mode]}</Row>
+      <Row term="Tidal volume">
+        <span className="tabular" data-testid="order-vt">
+          {v.vtTargetMlKg} mL/kg PBW = {ml(v.vtTargetMlKg)} mL (range {v.vtMinMlKg}–{v.vtMaxMlKg}{" "}
+          mL/kg, {ml(v.vtMinMlKg)}–{ml(v.vtMaxMlKg)} mL)
+        </span>
+        <span className="block text-xs text-ink-muted">
+          Predicted body weight {v.pbwKg.toFixed(1)} kg from a height of {v.heightCm} cm (ARDS
+          Network equation)
+        </span>
+      </Row>
+      <Row term="Rate">
+        <span className="tabular">
+          {v.rateMin}–{v.rateMax} /min
+        </span>
+      </Row>
+      <Row term="Lung-protective limits">
+        <span className="tabular">
+          plateau ≤ {v.plateauLimit} cmH2O, driving pressure ≤ {v.drivingLimit} cmH2O
+        </span>
+      </Row>
     </>
   );
 }
@@ -136,6 +168,7 @@ export function OrderFacts({
           {initial.flow !== null ? `, flow ${initial.flow} L/min` : ""}
         </span>
       </Row>
+      {order.ventilator ? <VentilatorFacts settings={order.ventilator} /> : null}
       <Row term="Step table">{stepTableName ?? <span className="text-ink-muted">None</span>}</Row>
       <Row term="Reassess every">
         <span className="tabular">{order.reassessMinutes} min</span>

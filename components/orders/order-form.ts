@@ -3,6 +3,12 @@ import { TARGET_BAND_PRESETS } from "@/lib/orders/wording";
 import type { OrderView } from "@/lib/orders/queries";
 import { toNumber } from "@/lib/number-input";
 import {
+  defaultModeFor,
+  isVentilatorDevice,
+  VENT_DEFAULTS,
+  type VentMode,
+} from "@/lib/ventilation/settings";
+import {
   betweenWords,
   fromMmHg,
   RANGES,
@@ -32,6 +38,15 @@ export type ComposerValues = {
   flowMin: string;
   flowMax: string;
   initialFlow: string;
+  /** Ventilator orders only (invasive ventilation, NIV). */
+  ventMode: VentMode | "";
+  vtTarget: string;
+  vtMin: string;
+  vtMax: string;
+  rateMin: string;
+  rateMax: string;
+  plateauLimit: string;
+  drivingLimit: string;
   stepTableId: string;
   reassessChoice: string;
   reassessCustom: string;
@@ -50,7 +65,22 @@ type NumericField =
   | "initialPeep"
   | "flowMin"
   | "flowMax"
-  | "initialFlow";
+  | "initialFlow"
+  | VentNumericField;
+type VentNumericField =
+  "vtTarget" | "vtMin" | "vtMax" | "rateMin" | "rateMax" | "plateauLimit" | "drivingLimit";
+
+/** The ventilator fields with their labels, in the schema's words. */
+export const VENT_FIELD_LABELS: Record<VentNumericField, string> = {
+  vtTarget: "Tidal volume target",
+  vtMin: "Tidal volume minimum",
+  vtMax: "Tidal volume maximum",
+  rateMin: "Rate minimum",
+  rateMax: "Rate maximum",
+  plateauLimit: "Plateau pressure limit",
+  drivingLimit: "Driving pressure limit",
+};
+const VENT_NUMERIC = Object.keys(VENT_FIELD_LABELS) as VentNumericField[];
 
 export const BAND_CHOICES = TARGET_BAND_PRESETS.map((p) => ({
   value: `${p.lower}-${p.upper}`,
@@ -84,9 +114,21 @@ export function limitValuesFor(
   | "flowMin"
   | "flowMax"
   | "initialFlow"
+  | "ventMode"
+  | VentNumericField
 > {
   const d = DEVICE_DEFAULTS[device];
+  const vent = isVentilatorDevice(device);
+  const v = (n: number) => (vent ? String(n) : "");
   return {
+    ventMode: defaultModeFor(device) ?? "",
+    vtTarget: v(VENT_DEFAULTS.vtTarget),
+    vtMin: v(VENT_DEFAULTS.vtMin),
+    vtMax: v(VENT_DEFAULTS.vtMax),
+    rateMin: v(VENT_DEFAULTS.rateMin),
+    rateMax: v(VENT_DEFAULTS.rateMax),
+    plateauLimit: v(VENT_DEFAULTS.plateauLimit),
+    drivingLimit: v(VENT_DEFAULTS.drivingLimit),
     fio2Min: fio2Text(d.fio2[0]),
     fio2Max: fio2Text(d.fio2[1]),
     initialFio2: fio2Text(d.fio2[2]),
@@ -122,6 +164,14 @@ export function initialValues(
     flowMin: "",
     flowMax: "",
     initialFlow: "",
+    ventMode: "",
+    vtTarget: "",
+    vtMin: "",
+    vtMax: "",
+    rateMin: "",
+    rateMax: "",
+    plateauLimit: "",
+    drivingLimit: "",
     stepTableId: "",
     reassessChoice: "60",
     reassessCustom: "",
@@ -153,6 +203,18 @@ export function initialValues(
     flowMin: plainText(current.limits.flowMin),
     flowMax: plainText(current.limits.flowMax),
     initialFlow: plainText(current.initial.flow),
+    ...(current.ventilator
+      ? {
+          ventMode: current.ventilator.mode,
+          vtTarget: String(current.ventilator.vtTargetMlKg),
+          vtMin: String(current.ventilator.vtMinMlKg),
+          vtMax: String(current.ventilator.vtMaxMlKg),
+          rateMin: String(current.ventilator.rateMin),
+          rateMax: String(current.ventilator.rateMax),
+          plateauLimit: String(current.ventilator.plateauLimit),
+          drivingLimit: String(current.ventilator.drivingLimit),
+        }
+      : {}),
     stepTableId: current.stepTableId === null ? "" : String(current.stepTableId),
     reassessChoice: reassessPreset ? String(current.reassessMinutes) : CUSTOM,
     reassessCustom: reassessPreset ? "" : String(current.reassessMinutes),
@@ -203,6 +265,13 @@ export function buildOrderInput(
   const pao2Upper = pao2("pao2Upper", "PaO2 upper bound");
   const peep = profile?.uses.peep ?? false;
   const flow = profile?.uses.flow ?? false;
+  const vent = values.device !== "" && isVentilatorDevice(values.device);
+  const ventilator: Record<string, unknown> = vent
+    ? {
+        ventMode: values.ventMode === "" ? undefined : values.ventMode,
+        ...Object.fromEntries(VENT_NUMERIC.map((f) => [f, optional(f, VENT_FIELD_LABELS[f])])),
+      }
+    : {};
   const input: Record<string, unknown> = {
     patientId: ctx.patientId,
     device: values.device === "" ? undefined : values.device,
@@ -220,6 +289,7 @@ export function buildOrderInput(
     flowMax: flow ? optional("flowMax", "Flow maximum") : undefined,
     initialFlow: flow ? optional("initialFlow", "Starting flow") : undefined,
     stepTableId: values.stepTableId === "" ? undefined : Number(values.stepTableId),
+    ...ventilator,
     reassessMinutes:
       values.reassessChoice === CUSTOM
         ? toNumber(values.reassessCustom)
@@ -257,6 +327,8 @@ const DIRECT_FIELDS = new Set<string>([
   "flowMin",
   "flowMax",
   "initialFlow",
+  "ventMode",
+  ...VENT_NUMERIC,
   "stepTableId",
   "rationale",
   "password",
@@ -306,3 +378,36 @@ export const percentOf = (text: string): string => {
     ? `${Math.round(n * 100)}\u00a0%`
     : "—";
 };
+
+/** What an order request proposes, as the composer starts from it (lib/order-requests). */
+export type RequestPrefill = {
+  id: number;
+  requestedBy: string;
+  need: string;
+  reason: string;
+  device: Device | null;
+  fio2Max: number | null;
+  peepMax: number | null;
+  flowMax: number | null;
+};
+
+/**
+ * The composer's values after an order request: its device (with that
+ * device's starting limits if it differs), its proposed maxima, and a
+ * rationale that quotes it. The physician still reviews every field.
+ */
+export function prefillFromRequest(values: ComposerValues, r: RequestPrefill): ComposerValues {
+  const device = r.device ?? (values.device === "" ? null : values.device);
+  const next: ComposerValues = {
+    ...values,
+    ...(device && device !== values.device ? { device, ...limitValuesFor(device) } : {}),
+  };
+  if (r.fio2Max !== null) next.fio2Max = fio2Text(r.fio2Max);
+  if (r.peepMax !== null) next.peepMax = plainText(r.peepMax);
+  if (r.flowMax !== null) next.flowMax = plainText(r.flowMax);
+  next.rationale = `Order request #${r.id} from ${r.requestedBy}: ${r.need}. ${r.reason}`.slice(
+    0,
+    2000,
+  );
+  return next;
+}

@@ -19,6 +19,8 @@ function navFor(role: Role): NavItem[] {
     { href: "/assignments", label: "Assignments" },
   ];
   if (can({ role }, "order.cosign")) items.push({ href: "/orders/cosign", label: "Co-sign" });
+  if (can({ role }, "order_request.answer") || can({ role }, "order_request.send"))
+    items.push({ href: "/order-requests", label: "Order requests" });
   if (can({ role }, "admission.manage")) items.push({ href: "/admit", label: "Admit" });
   items.push({ href: "/handoff", label: "Handoff" });
   items.push({ href: "/ledger", label: "Ledger" });

@@ -32,6 +32,7 @@ const FIELDS = [
   "rationale",
   "password",
   "currentPassword",
+  "invite",
 ] as const;
 
 /** Create or edit an account. Server refusals land beside the fields; typed values stay. */
@@ -49,6 +50,7 @@ export function UserForm({ mode, units, user }: Props) {
     handleSubmit,
     setError,
     reset,
+    watch,
     formState: { errors, isSubmitting, isDirty },
   } = useForm<UserFormValues>({
     resolver: zodResolver(schema) as unknown as Resolver<UserFormValues>,
@@ -61,8 +63,10 @@ export function UserForm({ mode, units, user }: Props) {
       rationale: "",
       password: "",
       currentPassword: "",
+      ...(mode === "create" ? { invite: false } : {}),
     },
   });
+  const inviting = mode === "create" && watch("invite") === true;
 
   const onSubmit = handleSubmit(async (values) => {
     setFormError(null);
@@ -169,29 +173,52 @@ export function UserForm({ mode, units, user }: Props) {
           )}
         />
 
+        {mode === "create" ? (
+          <div className="flex items-start gap-2">
+            <input
+              id="invite"
+              type="checkbox"
+              className="mt-1 size-4 accent-accent"
+              aria-describedby="invite-hint"
+              {...register("invite")}
+            />
+            <div>
+              <label htmlFor="invite" className="text-sm font-medium text-ink">
+                E-mail an invitation to choose a password
+              </label>
+              <p id="invite-hint" className="text-xs text-ink-muted">
+                The person gets a link that works once; no password is shared. Otherwise set an
+                initial password below, which they must change when they first sign in.
+              </p>
+            </div>
+          </div>
+        ) : null}
+
         <div className="grid gap-x-4 sm:grid-cols-2">
-          <Field
-            id="password"
-            label={mode === "create" ? "Initial password" : "New password"}
-            hint={
-              mode === "create"
-                ? `At least ${PASSWORD_MIN} characters; share it with the person privately.`
-                : "Leave empty to keep the current password."
-            }
-            error={errors.password?.message}
-          >
-            {(d, invalid) => (
-              <input
-                id="password"
-                type="password"
-                autoComplete="new-password"
-                className={inputClasses}
-                aria-invalid={invalid}
-                aria-describedby={d}
-                {...register("password")}
-              />
-            )}
-          </Field>
+          {inviting ? null : (
+            <Field
+              id="password"
+              label={mode === "create" ? "Initial password" : "New password"}
+              hint={
+                mode === "create"
+                  ? `${PASSWORD_MIN} to 200 characters; share it with the person privately. They choose their own at first sign-in.`
+                  : "Leave empty to keep the current password. A password you set here must be changed at the next sign-in."
+              }
+              error={errors.password?.message}
+            >
+              {(d, invalid) => (
+                <input
+                  id="password"
+                  type="password"
+                  autoComplete="new-password"
+                  className={inputClasses}
+                  aria-invalid={invalid}
+                  aria-describedby={d}
+                  {...register("password")}
+                />
+              )}
+            </Field>
+          )}
           <Field
             id="rationale"
             label="Reason for the change (optional)"
@@ -220,7 +247,13 @@ export function UserForm({ mode, units, user }: Props) {
 
         <div className="flex flex-wrap items-center gap-3">
           <Button type="submit" disabled={isSubmitting || (mode === "edit" && !isDirty)}>
-            {isSubmitting ? "Saving…" : mode === "create" ? "Create user" : "Save changes"}
+            {isSubmitting
+              ? "Saving…"
+              : mode === "create"
+                ? inviting
+                  ? "Create user and send invitation"
+                  : "Create user"
+                : "Save changes"}
           </Button>
           <p role="status" aria-live="polite" className="text-sm">
             {formError ? <span className="font-medium text-below">{formError}</span> : null}

@@ -7,6 +7,7 @@ import { StatusBadge } from "@/components/ui/StatusBadge";
 import { ROLE_LABELS } from "@/lib/auth/roles";
 import type { UserSummary } from "@/lib/users/queries";
 import type { UserSortKey } from "@/lib/users/schema";
+import { signInWords } from "./invitation-words";
 
 const COLUMNS: { key: UserSortKey; label: string }[] = [
   { key: "name", label: "Name" },
@@ -82,6 +83,9 @@ export function UsersTable({
               );
             })}
             <th scope="col" className="px-3 py-2">
+              Sign-in
+            </th>
+            <th scope="col" className="px-3 py-2">
               Units
             </th>
           </tr>
@@ -112,11 +116,24 @@ export function UsersTable({
               <td className="tabular px-3 py-2">
                 {u.updatedAt.slice(0, 16).replace("T", " ")} UTC
               </td>
+              <td className="px-3 py-2" data-testid="user-sign-in">
+                <SignInCell user={u} />
+              </td>
               <td className="px-3 py-2">{u.units.map((x) => x.code).join(", ") || "—"}</td>
             </tr>
           ))}
         </tbody>
       </table>
     </div>
+  );
+}
+
+function SignInCell({ user }: { user: UserSummary }) {
+  const words = signInWords(user);
+  return (
+    <span title={words.detail}>
+      <StatusBadge status={words.tone} label={words.label} />
+      <span className="sr-only">: {words.detail}</span>
+    </span>
   );
 }

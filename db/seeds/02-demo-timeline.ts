@@ -18,6 +18,7 @@ import { stepTableCreateSchema } from "../../lib/step-tables/schema";
 import { createStepTable } from "../../lib/step-tables/service";
 import { parseInput } from "../../lib/validation";
 import { DEMO_PASSWORD } from "../demo/people";
+import { seedVentilatorCheck, ventilatorOrderFields, type VentPlan } from "../demo/ventilation";
 
 // The seed backdates its writes, so it calls the services with a clock of its
 // own; the input is parsed with each noun's schema, as the boundary would.
@@ -49,6 +50,8 @@ type Plan = {
   peep?: [number, number, number];
   flow?: [number, number, number];
   stepTable?: string;
+  /** Invasive ventilation and NIV: mode and VT per kg of predicted body weight. */
+  vent?: VentPlan;
   rationale: string;
 };
 
@@ -60,6 +63,7 @@ const ICU_PLANS: Plan[] = [
     peep: [5, 10, 16],
     stepTable: "ardsnet-lower-peep",
     rationale: "Moderate ARDS after pneumonia; protective ventilation, lower-PEEP table.",
+    vent: { mode: "volume_control", vt: [4, 6, 8] },
   },
   {
     device: "invasive",
@@ -68,6 +72,7 @@ const ICU_PLANS: Plan[] = [
     peep: [8, 12, 18],
     stepTable: "ardsnet-higher-peep",
     rationale: "Severe ARDS; higher-PEEP strategy agreed on rounds.",
+    vent: { mode: "volume_control", vt: [4, 6, 8] },
   },
   {
     device: "invasive",
@@ -75,6 +80,7 @@ const ICU_PLANS: Plan[] = [
     fio2: [0.3, 0.4, 0.6],
     peep: [5, 8, 12],
     rationale: "Post-operative ventilation, weaning planned.",
+    vent: { mode: "pressure_support", vt: [6, 7, 9] },
   },
   {
     device: "niv",
@@ -82,6 +88,7 @@ const ICU_PLANS: Plan[] = [
     fio2: [0.25, 0.35, 0.6],
     peep: [4, 6, 10],
     rationale: "COPD exacerbation with hypercapnia; NIV.",
+    vent: { mode: "pressure_support", vt: [5, 7, 9] },
   },
   {
     device: "hfnc",
@@ -97,6 +104,7 @@ const ICU_PLANS: Plan[] = [
     peep: [5, 8, 14],
     stepTable: "ardsnet-lower-peep",
     rationale: "Aspiration pneumonitis; lung-protective settings.",
+    vent: { mode: "volume_control", vt: [4, 6, 8] },
   },
   {
     device: "hfnc",
@@ -111,6 +119,7 @@ const ICU_PLANS: Plan[] = [
     fio2: [0.3, 0.4, 0.6],
     peep: [5, 8, 12],
     rationale: "Cardiogenic pulmonary oedema; CPAP.",
+    vent: { mode: "cpap", vt: [5, 7, 9] },
   },
   {
     device: "nasal_cannula",
@@ -125,6 +134,7 @@ const ICU_PLANS: Plan[] = [
     fio2: [0.3, 0.35, 0.6],
     peep: [5, 6, 10],
     rationale: "Airway protection after overdose; lungs healthy.",
+    vent: { mode: "volume_control", vt: [6, 8, 10] },
   },
 ];
 
@@ -238,6 +248,7 @@ function orderInput(plan: Plan, patientId: number, stepTableId: number | undefin
       ? { flowMin: plan.flow[0], initialFlow: plan.flow[1], flowMax: plan.flow[2] }
       : {}),
     ...(stepTableId ? { stepTableId } : {}),
+    ...ventilatorOrderFields(plan.vent),
     reassessMinutes: plan.device === "invasive" || plan.device === "niv" ? 60 : 120,
     rationale: plan.rationale,
     supersedesOrderId: null,
@@ -307,7 +318,7 @@ export async function seed(knex: Knex): Promise<void> {
 
   const end = Date.now() - 10 * 60_000;
   const start = end - 50 * 3600_000;
-  let counts = { orders: 0, readings: 0, adjustments: 0, gases: 0 };
+  let counts = { orders: 0, readings: 0, adjustments: 0, gases: 0, checks: 0 };
 
   for (const [index, p] of patients.entries()) {
     const unitPatients = patients.filter((x) => x.code === p.code);
@@ -389,6 +400,18 @@ export async function seed(knex: Knex): Promise<void> {
         at,
       );
       counts.readings++;
+      // A ventilator check every four hours, before any titration of this round.
+      if (plan.vent && plan.peep && step % 2 === 0) {
+        const vent = { device: plan.device, vent: plan.vent, peep: plan.peep[1] };
+        await seedVentilatorCheck(
+          knex,
+          team.therapist,
+          p.patient_id,
+          vent,
+          new Date(t + 10 * 60_000),
+        );
+        counts.checks++;
+      }
 
       if (p.code === "MICU" && step % 6 === 0 && profile.uses.fio2 === "set") {
         const sao2 = clamp(shownSpo2 + (random() - 0.5) * 2, 80, 99.5);
@@ -496,7 +519,7 @@ export async function seed(knex: Knex): Promise<void> {
   }
   await seedStay(knex, staff, end);
   console.log(
-    `[seed] demo timeline: ${counts.orders} orders, ${counts.readings} readings, ${counts.adjustments} adjustments, ${counts.gases} blood gases`,
+    `[seed] demo timeline: ${counts.orders} orders, ${counts.readings} readings, ${counts.adjustments} adjustments, ${counts.gases} blood gases, ${counts.checks} ventilator checks`,
   );
 }
 

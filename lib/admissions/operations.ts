@@ -1,6 +1,13 @@
 import { defineRead, defineWrite } from "../boundary/operation";
+import { recordHeight } from "./height";
 import { searchPatients } from "./queries";
-import { admitSchema, dischargeSchema, patientSearchSchema, transferSchema } from "./schema";
+import {
+  admitSchema,
+  dischargeSchema,
+  heightSchema,
+  patientSearchSchema,
+  transferSchema,
+} from "./schema";
 import { admitPatient, dischargePatient, transferPatient } from "./service";
 
 export const admitOperation = defineWrite({
@@ -19,6 +26,13 @@ export const dischargeOperation = defineWrite({
   permission: "admission.manage",
   schema: dischargeSchema,
   run: (knex, actor, input, now) => dischargePatient(knex, actor, input, now),
+});
+
+/** A patient's height, recorded at the bedside (a measurement, like a reading). */
+export const recordHeightOperation = defineWrite({
+  permission: "reading.chart",
+  schema: heightSchema,
+  run: (knex, actor, input, now) => recordHeight(knex, actor, input, now),
 });
 
 /** The header's search: patients of the actor's units by MRN, name or bed. */

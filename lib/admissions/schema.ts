@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { optionalNumber, rangedNumber } from "../number-input";
 import { idempotencyKeySchema } from "../orders/schema";
+import { RANGES } from "../oxygen/ranges";
 
 // One schema per admission write, shared by the forms and the server.
 
@@ -116,3 +117,12 @@ export const patientSearchSchema = z.object({
     .min(2, "Type at least 2 characters of an MRN, a name or a bed.")
     .max(80, "The search must be at most 80 characters."),
 });
+
+/** Height in cm, within the predicted body weight equation's adult range (RANGES.heightCm). */
+export const heightSchema = z.object({
+  patientId: z.number().int().positive(),
+  heightCm: rangedNumber("Height", RANGES.heightCm),
+  idempotencyKey: idempotencyKeySchema,
+});
+export type HeightInput = z.input<typeof heightSchema>;
+export type HeightData = z.output<typeof heightSchema>;

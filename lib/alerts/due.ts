@@ -31,6 +31,27 @@ export function reassessmentOverdueMinutes(
   reassessMinutes: number,
   now: number,
 ): number | null {
-  const due = lastReassessedAt + reassessMinutes * 60_000;
+  const due = reassessmentDueAt(lastReassessedAt, reassessMinutes);
   return now > due ? Math.floor((now - due) / 60_000) : null;
+}
+
+/** When the next reassessment falls due: the last one plus the order's interval (ms). */
+export function reassessmentDueAt(lastReassessedAt: number, reassessMinutes: number): number {
+  return lastReassessedAt + reassessMinutes * 60_000;
+}
+
+/**
+ * "Due soon": not yet overdue (the sweep opens "reassessment overdue" only
+ * past the due time) and due within `windowMinutes`. Returns the whole
+ * minutes left, or null when it is not due soon.
+ */
+export function reassessmentDueSoonMinutes(
+  lastReassessedAt: number,
+  reassessMinutes: number,
+  now: number,
+  windowMinutes: number,
+): number | null {
+  const due = reassessmentDueAt(lastReassessedAt, reassessMinutes);
+  if (reassessmentOverdueMinutes(lastReassessedAt, reassessMinutes, now) !== null) return null;
+  return due - now <= windowMinutes * 60_000 ? Math.floor((due - now) / 60_000) : null;
 }

@@ -29,6 +29,8 @@ export type AlertEmailInput = {
   /** For PaO2 above band: the measured PaO2 and the order's PaO2 band, mmHg. */
   pao2?: number;
   pao2Band?: { lower: number; upper: number };
+  /** For lung protection: each limit the ventilator check was beyond, in words. */
+  breaches?: string[];
   baseUrl: string;
 };
 
@@ -65,7 +67,15 @@ export function spo2Text(spo2: number | null | undefined): string {
 export function describeAlert(
   input: Pick<
     AlertEmailInput,
-    "kind" | "band" | "spo2" | "limitsAtMax" | "overdueMinutes" | "excursion" | "pao2" | "pao2Band"
+    | "kind"
+    | "band"
+    | "spo2"
+    | "limitsAtMax"
+    | "overdueMinutes"
+    | "excursion"
+    | "pao2"
+    | "pao2Band"
+    | "breaches"
   > & { lastSampleText?: string },
 ): string {
   const band = input.band ? `target ${input.band.lower}–${input.band.upper} %` : "no target band";
@@ -95,6 +105,8 @@ export function describeAlert(
         : "PaO2 target";
       return `PaO2 ${input.pao2 ?? "?"} mmHg on supplemental oxygen, above the ${pao2Band}: consider weaning.`;
     }
+    case "lung_protection":
+      return `A ventilator check beyond the order's lung-protective limits: ${(input.breaches ?? []).join("; ") || "a limit"}. Review the settings with the order.`;
   }
 }
 

@@ -6,6 +6,7 @@ export const ALERT_KINDS = [
   "reassessment_overdue",
   "signal_loss",
   "pao2_above_band",
+  "lung_protection",
 ] as const;
 export type AlertKind = (typeof ALERT_KINDS)[number];
 
@@ -16,6 +17,16 @@ export const ALERT_KIND_LABELS: Record<AlertKind, string> = {
   reassessment_overdue: "Reassessment overdue",
   signal_loss: "Monitor signal lost",
   pao2_above_band: "PaO2 above target on oxygen",
+  lung_protection: "Lung protection",
+};
+
+/** What a user chooses e-mail for: each alert kind, and notices of order changes on their beds. */
+export const EMAIL_PREFERENCE_KINDS = [...ALERT_KINDS, "order_change"] as const;
+export type EmailPreferenceKind = (typeof EMAIL_PREFERENCE_KINDS)[number];
+
+export const EMAIL_PREFERENCE_LABELS: Record<EmailPreferenceKind, string> = {
+  ...ALERT_KIND_LABELS,
+  order_change: "Order changes on my beds",
 };
 
 export const ALERT_STATES = [

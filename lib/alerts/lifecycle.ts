@@ -2,7 +2,7 @@ import type { Knex } from "knex";
 import { appendLedger, type LedgerActor } from "../ledger/service";
 import type { AlertConfig } from "./config";
 import { idleWatch, restoreWatch, storableWatch, type WatchState } from "./detect";
-import type { AlertKind } from "./kinds";
+import { ESCALATION_DUTIES, type AlertKind } from "./kinds";
 import { cancelPendingMail, queueAlertMail, type Told } from "./outbox";
 
 // The steps every alert goes through, whatever raised it: open (with its
@@ -79,6 +79,8 @@ export type OpenSpec = {
   detail: Record<string, unknown>;
   /** Who charted the value that raised it: at the bedside already, so not e-mailed about it. */
   chartedBy?: number | null;
+  /** Lower levels told at once as well (lung protection: the therapist beside the physician). */
+  alsoLevels?: readonly number[];
 };
 
 export async function openAlert(
@@ -109,9 +111,21 @@ export async function openAlert(
     next_escalation_at: spec.level < 2 ? new Date(now.getTime() + cfg.escalateAfterMs) : null,
   });
   const alertId = Number(id);
-  const mail = await queueAlertMail(trx, alertId, spec.level, "notify", now, {
-    exclude: spec.chartedBy ?? null,
-  });
+  const exclude = { exclude: spec.chartedBy ?? null };
+  const mail = await queueAlertMail(trx, alertId, spec.level, "notify", now, exclude);
+  // Each further level's mail shares the purpose, so one person at two levels gets one e-mail.
+  for (const level of spec.alsoLevels ?? []) {
+    const more = await queueAlertMail(trx, alertId, level, "notify", now, exclude);
+    const duty = (d: number) => ESCALATION_DUTIES[Math.min(d, 2)]!;
+    mail.told = [
+      ...more.told.map((t) => ({ ...t, duty: duty(level) })),
+      ...mail.told.map((t) => ({ ...t, duty: duty(spec.level) })),
+    ];
+    mail.recipients = [...more.recipients, ...mail.recipients];
+    mail.mailed = [...new Set([...more.mailed, ...mail.mailed])];
+    mail.optedOut = [...new Set([...more.optedOut, ...mail.optedOut])];
+    mail.excluded = [...new Set([...more.excluded, ...mail.excluded])];
+  }
   await noteRecipients(trx, alertId, spec.level, mail.told);
   await appendLedger(
     trx,

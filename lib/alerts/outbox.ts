@@ -2,76 +2,16 @@ import type { Knex } from "knex";
 import { getEnv } from "../env";
 import { appendLedger, lockPatientChain, SYSTEM_ACTOR } from "../ledger/service";
 import { alertMessageId, composeAlertEmail, retryDelayMs } from "./email";
-import { ESCALATION_DUTIES, type AlertKind } from "./kinds";
+import type { AlertKind } from "./kinds";
+import { recipientsFor, type RecipientBasis } from "./recipients";
+
 import { isRetryable, transact } from "../transaction";
 
-export type Recipient = { id: number; email: string; name: string };
-
-/** Why a recipient was chosen: the bed's assignment first, never nobody if the unit has a fallback. */
-export type RecipientBasis = "assigned" | "prescriber" | "charge" | "fallback";
-
-/** An alert's recipient; the unit's fallback address has no user behind it. */
-export type AlertRecipient = {
-  id: number | null;
-  email: string;
-  name: string;
-  basis: RecipientBasis;
-};
-
 /**
- * Who an escalation level reaches now: the shift's care-team assignment for
- * the bed (nurse, therapist, physician); for the physician level, the order's
- * prescriber when no physician is assigned; then the unit's charge nurse of
- * the shift; then the unit's fallback address. Empty only when the unit has
- * none of these.
+ * Who was told at one level and why, as the alert keeps it for the screens;
+ * `duty` names the level a recipient was chosen for when an alert tells two at once.
  */
-export async function recipientsFor(
-  trx: Knex.Transaction | Knex,
-  alert: { bedId: number; unitId: number; orderId: number | null },
-  level: number,
-  now: Date,
-): Promise<AlertRecipient[]> {
-  const duty = ESCALATION_DUTIES[Math.min(level, 2)]!;
-  const people = (rows: Recipient[], basis: RecipientBasis) =>
-    rows.map((r) => ({ id: r.id, email: r.email, name: r.name, basis }));
-  const assigned = (await trx("care_assignments as c")
-    .join("users as u", "u.id", "c.user_id")
-    .where({ "c.bed_id": alert.bedId, "c.duty": duty, "u.active": true })
-    .where("c.starts_at", "<=", now)
-    .where("c.ends_at", ">", now)
-    .distinct("u.id", "u.email", "u.name")) as Recipient[];
-  if (assigned.length) return people(assigned, "assigned");
-  if (duty === "physician" && alert.orderId !== null) {
-    const prescriber = (await trx("orders as o")
-      .join("users as u", "u.id", "o.prescriber_id")
-      .where({ "o.id": alert.orderId, "u.active": true })
-      .select("u.id", "u.email", "u.name")) as Recipient[];
-    if (prescriber.length) return people(prescriber, "prescriber");
-  }
-  const charge = (await trx("unit_charge_duties as d")
-    .join("users as u", "u.id", "d.user_id")
-    .where({ "d.unit_id": alert.unitId, "u.active": true })
-    .where("d.starts_at", "<=", now)
-    .where("d.ends_at", ">", now)
-    .select("u.id", "u.email", "u.name")) as Recipient[];
-  if (charge.length) return people(charge, "charge");
-  const unit = (await trx("units").where({ id: alert.unitId }).first("code", "fallback_email")) as
-    { code: string; fallback_email: string | null } | undefined;
-  if (unit?.fallback_email) {
-    return [
-      {
-        id: null,
-        email: unit.fallback_email,
-        name: `${unit.code} fallback address`,
-        basis: "fallback",
-      },
-    ];
-  }
-  return [];
-}
-
-/** Who was told at one level and why, as the alert keeps it for the screens. */
-export type Told = { name: string; basis: RecipientBasis }[];
+export type Told = { name: string; basis: RecipientBasis; duty?: string }[];
 
 type AlertMailContext = {
   id: number;
@@ -161,6 +101,7 @@ export async function queueAlertMail(
     excursion?: { phase: "pending" | "open"; direction: "below" | "above" };
     pao2?: number;
     pao2Band?: { lower: number; upper: number };
+    breaches?: string[];
   };
   const spo2 = a.worst_spo2_pct ?? a.trigger_spo2_pct;
   const mail = composeAlertEmail({
@@ -189,6 +130,7 @@ export async function queueAlertMail(
     ...(detail.excursion ? { excursion: detail.excursion } : {}),
     ...(detail.pao2 !== undefined ? { pao2: detail.pao2 } : {}),
     ...(detail.pao2Band ? { pao2Band: detail.pao2Band } : {}),
+    ...(detail.breaches ? { breaches: detail.breaches } : {}),
     baseUrl: env.NEXTAUTH_URL,
   });
   // Whoever charted the value that raised the alert is at the bedside: no e-mail for them.
@@ -231,14 +173,15 @@ export async function queueAlertMail(
 
 /**
  * Writes one e-mail that belongs to no alert (`alert_id` null, e.g. an order
- * notice) into the outbox, inside the caller's transaction; the worker
- * delivers it like alert mail. The Message-ID is unique, so a repeated step
- * queues it once. Returns the Message-ID.
+ * notice or an order request) into the outbox, inside the caller's
+ * transaction; the worker delivers it like alert mail. The Message-ID is
+ * unique, so a repeated step queues it once. Returns the Message-ID.
  */
 export async function queueUserMail(
   trx: Knex.Transaction,
   purpose: string,
-  recipient: Recipient,
+  /** `id` null: an address with no user behind it (a unit's fallback address). */
+  recipient: { id: number | null; email: string; name: string; basis?: RecipientBasis },
   compose: (env: { baseUrl: string; domain: string }) => {
     subject: string;
     text: string;
@@ -246,14 +189,17 @@ export async function queueUserMail(
     messageId: string;
   },
   now: Date,
+  orderRequestId: number | null = null,
 ): Promise<string> {
   const env = getEnv();
   const mail = compose({ baseUrl: env.NEXTAUTH_URL, domain: mailDomain(env.SMTP_FROM) });
   await trx("mail_outbox")
     .insert({
       alert_id: null,
+      order_request_id: orderRequestId,
       purpose,
       recipient_user_id: recipient.id,
+      recipient_basis: recipient.basis ?? null,
       to_address: recipient.email,
       subject: mail.subject,
       text_body: mail.text,
@@ -318,6 +264,7 @@ export type MailSender = {
 type OutboxRow = {
   id: number;
   alert_id: number | null;
+  order_request_id: number | null;
   purpose: string;
   recipient_user_id: number | null;
   to_address: string;
@@ -353,6 +300,7 @@ export async function deliverOutbox(
     .select(
       "id",
       "alert_id",
+      "order_request_id",
       "purpose",
       "recipient_user_id",
       "to_address",
@@ -427,12 +375,11 @@ export async function deliverOutbox(
     }
     await transact(knex, async (trx) => {
       // The patient's chain first, the lock order every clinical write keeps.
-      const owner =
-        row.alert_id === null
-          ? undefined
-          : ((await trx("alerts").where({ id: row.alert_id }).first("patient_id")) as {
-              patient_id: number;
-            });
+      const owner = (await (row.alert_id !== null
+        ? trx("alerts").where({ id: row.alert_id }).first("patient_id")
+        : row.order_request_id !== null
+          ? trx("order_requests").where({ id: row.order_request_id }).first("patient_id")
+          : undefined)) as { patient_id: number } | undefined;
       if (owner) await lockPatientChain(trx, owner.patient_id);
       await trx("mail_outbox")
         .where({ id: row.id })
@@ -443,6 +390,10 @@ export async function deliverOutbox(
           relay_response: response,
           claimed_until: null,
         });
+      if (row.order_request_id !== null) {
+        await noteRequestMailSent(trx, row, now);
+        return;
+      }
       if (row.alert_id === null) return;
       const alert = (await trx("alerts")
         .where({ id: row.alert_id })
@@ -483,4 +434,29 @@ export async function deliverOutbox(
     sent++;
   }
   return { sent, failed };
+}
+
+/** An order request's e-mail accepted by the relay: its "notified" step (the chain is locked). */
+async function noteRequestMailSent(trx: Knex.Transaction, row: OutboxRow, now: Date) {
+  const request = (await trx("order_requests")
+    .where({ id: row.order_request_id })
+    .first("id", "patient_id", "unit_id")) as { id: number; patient_id: number; unit_id: number };
+  await appendLedger(
+    trx,
+    SYSTEM_ACTOR,
+    {
+      action: "order_request.notify",
+      entityType: "order_request",
+      entityId: request.id,
+      patientId: request.patient_id,
+      unitId: request.unit_id,
+      after: {
+        purpose: row.purpose,
+        recipientUserId: row.recipient_user_id,
+        messageId: row.message_id,
+        attempts: row.attempts + 1,
+      },
+    },
+    now,
+  );
 }

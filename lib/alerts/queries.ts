@@ -1,7 +1,12 @@
 import type { Knex } from "knex";
 import type { Actor } from "../auth/actor";
 import { appendLedger } from "../ledger/service";
-import { ALERT_KINDS, type AlertKind, type AlertState } from "./kinds";
+import {
+  EMAIL_PREFERENCE_KINDS,
+  type AlertKind,
+  type AlertState,
+  type EmailPreferenceKind,
+} from "./kinds";
 import type { AlertFilter, EmailPreferences } from "./schema";
 import { transact } from "../transaction";
 
@@ -174,7 +179,7 @@ export async function listAlerts(
     .orderByRaw("a.grade = 'urgent' DESC")
     .orderBy("a.escalation_level", "desc")
     .orderByRaw(
-      "FIELD(a.kind, 'limits_exhausted', 'below_band', 'signal_loss', 'above_band', 'pao2_above_band', 'reassessment_overdue')",
+      "FIELD(a.kind, 'limits_exhausted', 'lung_protection', 'below_band', 'signal_loss', 'above_band', 'pao2_above_band', 'reassessment_overdue')",
     )
     .orderBy("a.opened_at", "desc")
     .limit(f.limit)
@@ -243,10 +248,12 @@ export async function getEmailPreferences(knex: Knex, userId: number): Promise<E
   const rows = (await knex("alert_email_preferences")
     .where({ user_id: userId })
     .select("kind", "email")) as {
-    kind: AlertKind;
+    kind: EmailPreferenceKind;
     email: number | boolean;
   }[];
-  const prefs = Object.fromEntries(ALERT_KINDS.map((k) => [k, true])) as EmailPreferences;
+  const prefs = Object.fromEntries(
+    EMAIL_PREFERENCE_KINDS.map((k) => [k, true]),
+  ) as EmailPreferences;
   for (const r of rows) prefs[r.kind] = Boolean(r.email);
   return prefs;
 }
@@ -260,7 +267,7 @@ export async function setEmailPreferences(
 ): Promise<EmailPreferences> {
   return transact(knex, async (trx) => {
     const before = await getEmailPreferences(trx, actor.id);
-    for (const kind of ALERT_KINDS) {
+    for (const kind of EMAIL_PREFERENCE_KINDS) {
       await trx("alert_email_preferences")
         .insert({ user_id: actor.id, kind, email: prefs[kind], updated_at: now })
         .onConflict(["user_id", "kind"])

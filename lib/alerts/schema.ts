@@ -42,6 +42,8 @@ export const emailPreferencesSchema = z.object({
   reassessment_overdue: z.boolean(),
   signal_loss: z.boolean(),
   pao2_above_band: z.boolean(),
+  order_change: z.boolean(),
+  lung_protection: z.boolean(),
 });
 export type EmailPreferences = z.infer<typeof emailPreferencesSchema>;
 

@@ -10,5 +10,6 @@ export {
   type ChartedReading,
 } from "./triggers";
 export { afterBloodGasRecorded, type RecordedGas } from "./pao2-alert";
+export { afterVentilatorCheckRecorded, type RecordedVentilatorCheck } from "./lung-protection";
 export { acknowledgeAlert, resolveAlert, type AlertStepResult } from "./clinician-steps";
 export { escalateDueAlerts, openOverdueReassessments, raiseSignalLosses } from "./sweeps";

@@ -46,6 +46,8 @@ export type OrderForAlerts = {
   fio2_max: string | number;
   peep_max_cmh2o: string | number | null;
   flow_max_l_min: string | number | null;
+  /** Null unless the order is for invasive ventilation or NIV. */
+  vent_mode: string | null;
 };
 
 export const num = (v: string | number | null): number | null => (v === null ? null : Number(v));
@@ -68,6 +70,7 @@ export async function currentOrder(
       "fio2_max",
       "peep_max_cmh2o",
       "flow_max_l_min",
+      "vent_mode",
     )) as OrderForAlerts | undefined;
 }
 
@@ -410,6 +413,17 @@ export async function afterOrderChanged(
   for (const kind of ["limits_exhausted", "reassessment_overdue", "pao2_above_band"] as const)
     await resolveOpen(trx, actor, admission, kind, "A new order was written.", now, now);
   const order = await currentOrder(trx, admission.patientId);
+  // Lung-protective limits live on a ventilator order: without one, none are left to be beyond.
+  if (!order || order.vent_mode === null)
+    await resolveOpen(
+      trx,
+      actor,
+      admission,
+      "lung_protection",
+      "No ventilator order in effect: no lung-protective limits.",
+      now,
+      now,
+    );
   const state = await lockWatch(trx, admission.admissionId, now);
   if (order) return;
   for (const kind of ["below_band", "above_band", "signal_loss"] as const)

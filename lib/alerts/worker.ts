@@ -2,11 +2,17 @@ import type { Knex } from "knex";
 import { alertConfig, type AlertConfig } from "./config";
 import { deliverOutbox, type MailSender } from "./outbox";
 import { escalateDueAlerts, openOverdueReassessments, raiseSignalLosses } from "./sweeps";
+import { cosignConfig, remindCosigns } from "../orders/cosign-reminders";
+import type { CosignConfig } from "../orders/cosign-steps";
+import { escalateOrderRequests } from "../order-requests/sweep";
 
 export type WorkerPass = {
   escalated: number;
   overdueOpened: number;
   signalLosses: number;
+  cosignReminded: number;
+  cosignEscalated: number;
+  requestsEscalated: number;
   sent: number;
   failed: number;
 };
@@ -14,19 +20,34 @@ export type WorkerPass = {
 /**
  * One pass of the background work alerts need besides the writes that raise
  * them: escalate what nobody acknowledged, open overdue reassessments, raise
- * signal loss for monitors gone silent during an excursion, deliver the outbox. Time-driven, so the tests call it with their own clock.
+ * signal loss for monitors gone silent during an excursion, remind and
+ * escalate verbal orders waiting for co-signature, escalate order requests
+ * nobody answered, deliver the outbox. Time-driven, so the tests call it with
+ * their own clock.
  */
 export async function runAlertWork(
   knex: Knex,
   sender: MailSender,
   now: Date = new Date(),
   cfg: AlertConfig = alertConfig(),
+  cosign: CosignConfig = cosignConfig(),
 ): Promise<WorkerPass> {
   const escalated = await escalateDueAlerts(knex, now, cfg);
   const overdueOpened = await openOverdueReassessments(knex, now, cfg);
   const signalLosses = await raiseSignalLosses(knex, now, cfg);
+  const co = await remindCosigns(knex, now, cosign);
+  const requestsEscalated = await escalateOrderRequests(knex, now);
   const { sent, failed } = await deliverOutbox(knex, sender, now);
-  return { escalated, overdueOpened, signalLosses, sent, failed };
+  return {
+    escalated,
+    overdueOpened,
+    signalLosses,
+    cosignReminded: co.reminded,
+    cosignEscalated: co.escalated,
+    requestsEscalated,
+    sent,
+    failed,
+  };
 }
 
 /**
@@ -47,9 +68,18 @@ export function startAlertWorker(
   const tick = () => {
     running = runAlertWork(knex, sender)
       .then((pass) => {
-        if (pass.escalated || pass.overdueOpened || pass.signalLosses || pass.sent || pass.failed)
+        if (
+          pass.escalated ||
+          pass.overdueOpened ||
+          pass.signalLosses ||
+          pass.cosignReminded ||
+          pass.cosignEscalated ||
+          pass.requestsEscalated ||
+          pass.sent ||
+          pass.failed
+        )
           log(
-            `[alerts] escalated ${pass.escalated}, overdue opened ${pass.overdueOpened}, signal lost ${pass.signalLosses}, mail sent ${pass.sent}` +
+            `[alerts] escalated ${pass.escalated}, overdue opened ${pass.overdueOpened}, signal lost ${pass.signalLosses}, co-sign reminded ${pass.cosignReminded} / escalated ${pass.cosignEscalated}, order requests escalated ${pass.requestsEscalated}, mail sent ${pass.sent}` +
               (pass.failed
                 ? `, ${pass.failed} failed (kept in the outbox, retried with backoff)`
                 : ""),

@@ -8,4 +8,6 @@ export type Actor = {
   role: Role;
   unitIds: number[];
   pressureUnit: "mmHg" | "kPa";
+  /** The session's row in user_sessions; set only for a change of one's own password (kept open). */
+  sessionId?: string;
 };

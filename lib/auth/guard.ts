@@ -12,15 +12,30 @@ import { checkSession } from "./sessions";
  * The one server-side guard. Every server action, route handler and protected
  * page calls it first: no session, no query.
  */
-export async function requireRole(...roles: Role[]): Promise<Actor> {
+export function requireRole(...roles: Role[]): Promise<Actor> {
+  return guard(roles, {});
+}
+
+/** The session's actor and its session id (the row in user_sessions). */
+export async function requireSession(
+  roles: readonly Role[],
+  opts: { allowPasswordChange?: boolean },
+): Promise<{ actor: Actor; sessionId: string }> {
   const session = await getServerSession(authOptions);
   const userId = session?.user?.id;
   const sessionId = session?.user?.sid;
   if (typeof userId !== "number" || typeof sessionId !== "string") throw new UnauthenticatedError();
   await checkSession(db(), sessionId, userId);
-  const actor = await loadActor(db(), userId);
+  const actor = await loadActor(db(), userId, opts);
   if (roles.length > 0) assertRole(actor, roles);
-  return actor;
+  return { actor, sessionId };
+}
+
+async function guard(
+  roles: readonly Role[],
+  opts: { allowPasswordChange?: boolean },
+): Promise<Actor> {
+  return (await requireSession(roles, opts)).actor;
 }
 
 /** Any signed-in, active user. */
@@ -30,5 +45,10 @@ export function requireActor(): Promise<Actor> {
 
 /** The guard for one action of the permission table (lib/auth/permissions.ts). */
 export function requirePermission(permission: Permission): Promise<Actor> {
-  return requireRole(...rolesFor(permission));
+  // Changing one's own password is the one thing open while an
+  // administrator-set password still has to be changed.
+  if (permission !== "account.password") return guard(rolesFor(permission), {});
+  return requireSession(rolesFor(permission), { allowPasswordChange: true }).then(
+    ({ actor, sessionId }) => ({ ...actor, sessionId }),
+  );
 }

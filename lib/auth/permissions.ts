@@ -28,10 +28,18 @@ export const PERMISSIONS = {
   /** Only the named prescriber or a designated co-signer (lib/orders/cosigners). */
   "order.cosign": ["physician"],
   "order.discontinue": ["physician"],
+  /** Ask the responsible physician for a new order (lib/order-requests). */
+  "order_request.send": ["therapist", "nurse"],
+  /** Answer an order request without an order, with a reason. */
+  "order_request.answer": ["physician"],
+  /** Record that one has read a change of a bed's order. */
+  "order.acknowledge_change": CLINICAL,
   /** Nurses on low-flow devices only: see {@link mayAdjustDevice}. */
   "adjustment.record": CLINICAL,
   "reading.chart": CLINICAL,
   "blood_gas.record": CLINICAL,
+  /** A ventilator check (measured volumes and pressures): therapists and physicians. */
+  "ventilator_check.record": ["physician", "therapist"],
   "alert.act": CLINICAL,
   "import.upload": ["therapist", "admin"],
   /** Admit, transfer and discharge patients of one's units. */
@@ -56,6 +64,8 @@ export const PERMISSIONS = {
   "ledger.oversee": ["reviewer", "admin"],
   /** One's own settings: e-mail choices, the unit the Board shows. */
   "account.self": EVERYONE,
+  /** Change one's own password: the one action open while an administrator-set password awaits its change. */
+  "account.password": EVERYONE,
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Permission = keyof typeof PERMISSIONS;

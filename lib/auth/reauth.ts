@@ -25,7 +25,7 @@ export async function confirmPassword(
   const user = (await knex("users")
     .where({ id: userId })
     .first("id", "email", "role", "password_hash")) as
-    { id: number; email: string; role: string; password_hash: string } | undefined;
+    { id: number; email: string; role: string; password_hash: string | null } | undefined;
   if (!user || !isRole(user.role)) throw new UnauthenticatedError();
   const actor = { id: user.id, role: user.role };
   const emailKey = user.email.trim().toLowerCase();
@@ -57,7 +57,7 @@ export async function confirmPassword(
       [words.field]: [message],
     });
   }
-  if (!(await verifyPassword(password, user.password_hash))) {
+  if (!user.password_hash || !(await verifyPassword(password, user.password_hash))) {
     await refuse("wrong", {});
     throw new ValidationError(`The password does not match; ${words.notDone}.`, {
       [words.field]: ["The password does not match your account."],

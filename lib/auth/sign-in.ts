@@ -62,7 +62,7 @@ export async function verifySignIn(
         email: string;
         name: string;
         role: string;
-        password_hash: string;
+        password_hash: string | null;
         active: number;
       }
     | undefined;
@@ -70,7 +70,8 @@ export async function verifySignIn(
     parsed.data.password,
     user?.password_hash ?? (await decoyPasswordHash()),
   );
-  const ok = Boolean(user && matches && user.active && isRole(user.role));
+  // An invited user without a password yet never signs in (the decoy is no password of theirs).
+  const ok = Boolean(user?.password_hash && matches && user.active && isRole(user.role));
   await recordAttempt(
     knex,
     { emailKey, clientIp, purpose: "sign_in", outcome: ok ? "ok" : "wrong" },

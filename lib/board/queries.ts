@@ -5,6 +5,7 @@ import { DEVICE_PROFILES, type Device } from "../devices";
 import { ageInYears, initialsOf } from "../admissions/display";
 import { timeInBandFromRollups } from "../rollups/time-in-band";
 import { classifySpo2, type TimeInBand } from "../time-in-band";
+import { unreadByNurse } from "../order-notices/queries";
 
 export type BoardRow = {
   bedId: number;
@@ -52,6 +53,8 @@ export type BoardRow = {
   overdue: boolean;
   /** Unresolved alerts of the admission, null when there are none. */
   alerts: AdmissionAlerts | null;
+  /** The assigned nurse has not yet read the change that made the current order (lib/order-notices). */
+  orderUnread: boolean;
 };
 
 export type BoardUnit = {
@@ -130,8 +133,8 @@ export async function listOccupiedBeds(
           .whereIn("c.bed_id", bedIds)
           .where("c.starts_at", "<=", now)
           .where("c.ends_at", ">", now)
-          .select("c.bed_id", "c.duty", "s.name") as Promise<
-          { bed_id: number; duty: string; name: string }[]
+          .select("c.bed_id", "c.duty", "s.name", "s.id as user_id") as Promise<
+          { bed_id: number; duty: string; name: string; user_id: number }[]
         >)
       : Promise.resolve([]),
     loadClinical(knex, admissionIds, patientIds, now),
@@ -139,8 +142,21 @@ export async function listOccupiedBeds(
   ]);
   const carer = (bedId: number, duty: string) =>
     carers.find((c) => c.bed_id === bedId && c.duty === duty)?.name ?? null;
+  const clinicalOf = new Map(
+    rows.map((r) => [r.admission_id, clinical(r.admission_id, r.patient_id)]),
+  );
+  const unread = await unreadByNurse(
+    knex,
+    rows.flatMap((r) => {
+      const orderId = clinicalOf.get(r.admission_id)?.order?.id;
+      const nurse = carers.find((c) => c.bed_id === r.bed_id && c.duty === "nurse");
+      return orderId && nurse
+        ? [{ admissionId: r.admission_id, orderId, nurseId: nurse.user_id }]
+        : [];
+    }),
+  );
   return rows.map((r) => ({
-    ...clinical(r.admission_id, r.patient_id),
+    ...clinicalOf.get(r.admission_id)!,
     bedId: r.bed_id,
     bedLabel: r.bed_label,
     unitId: r.unit_id,
@@ -153,6 +169,7 @@ export async function listOccupiedBeds(
     nurse: carer(r.bed_id, "nurse"),
     therapist: carer(r.bed_id, "therapist"),
     alerts: alerts.get(r.admission_id) ?? null,
+    orderUnread: unread.has(r.admission_id),
   }));
 }
 
@@ -172,6 +189,7 @@ type Clinical = Omit<
   | "nurse"
   | "therapist"
   | "alerts"
+  | "orderUnread"
 >;
 
 /**

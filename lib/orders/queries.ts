@@ -1,6 +1,7 @@
 import type { Knex } from "knex";
 import { unitCosigners, type Cosigners } from "./cosigners";
 import type { Device } from "../devices";
+import type { VentilatorOrderSettings, VentMode } from "../ventilation/settings";
 
 export type OrderStatus = "draft" | "awaiting_cosign" | "active" | "superseded" | "discontinued";
 
@@ -23,6 +24,8 @@ export type OrderView = {
   };
   initial: { fio2: number; peep: number | null; flow: number | null };
   stepTableId: number | null;
+  /** Invasive ventilation and NIV: mode, tidal volume target, rate range, pressure limits. */
+  ventilator: VentilatorOrderSettings | null;
   reassessMinutes: number;
   rationale: string;
   entryMode: "written" | "verbal" | "telephone";
@@ -67,6 +70,16 @@ export type OrderRow = {
   initial_peep_cmh2o: number | null;
   initial_flow_l_min: number | null;
   step_table_id: number | null;
+  vent_mode: VentMode | null;
+  vt_target_ml_kg: number | null;
+  vt_min_ml_kg: number | null;
+  vt_max_ml_kg: number | null;
+  rate_min_per_min: number | null;
+  rate_max_per_min: number | null;
+  plateau_limit_cmh2o: number | null;
+  driving_limit_cmh2o: number | null;
+  pbw_kg: number | null;
+  pbw_height_cm: number | null;
   reassess_minutes: number;
   rationale: string;
   entry_mode: "written" | "verbal" | "telephone";
@@ -98,6 +111,23 @@ const iso = (d: Date | null) => (d ? d.toISOString() : null);
 const person = (id: number | null, name: string | null) =>
   id !== null ? { id, name: name ?? "" } : null;
 
+/** The ventilator part of an order row; null on devices without one. */
+function ventilatorOf(r: OrderRow): VentilatorOrderSettings | null {
+  if (r.vent_mode === null) return null;
+  return {
+    mode: r.vent_mode,
+    vtTargetMlKg: Number(r.vt_target_ml_kg),
+    vtMinMlKg: Number(r.vt_min_ml_kg),
+    vtMaxMlKg: Number(r.vt_max_ml_kg),
+    rateMin: Number(r.rate_min_per_min),
+    rateMax: Number(r.rate_max_per_min),
+    plateauLimit: Number(r.plateau_limit_cmh2o),
+    drivingLimit: Number(r.driving_limit_cmh2o),
+    pbwKg: Number(r.pbw_kg),
+    heightCm: Number(r.pbw_height_cm),
+  };
+}
+
 /** An order row from `orderQuery` as the views and the ledger show it. */
 export function toOrderView(r: OrderRow): OrderView {
   return {
@@ -122,6 +152,7 @@ export function toOrderView(r: OrderRow): OrderView {
     },
     initial: { fio2: r.initial_fio2, peep: r.initial_peep_cmh2o, flow: r.initial_flow_l_min },
     stepTableId: r.step_table_id,
+    ventilator: ventilatorOf(r),
     reassessMinutes: r.reassess_minutes,
     rationale: r.rationale,
     entryMode: r.entry_mode,

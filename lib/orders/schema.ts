@@ -2,6 +2,7 @@ import { z } from "zod";
 import { optionalNumber, rangedNumber } from "../number-input";
 import { betweenWords, RANGES } from "../oxygen";
 import { DEVICE_PROFILES, DEVICES } from "../devices";
+import { checkVentilatorFields, ventilatorOrderFields } from "./ventilator-schema";
 
 // One schema per write, shared by the order composer and the server.
 
@@ -36,6 +37,7 @@ export const orderFieldsSchema = z.object({
   initialPeep: optionalNumber(peep("Starting PEEP")),
   initialFlow: optionalNumber(flow("Starting flow")),
   stepTableId: optionalNumber(z.number().int().positive()),
+  ...ventilatorOrderFields,
   reassessMinutes: z
     .number({ error: "Reassessment interval must be between 15 and 1440 minutes." })
     .int()
@@ -132,6 +134,7 @@ function checkOrder(o: OrderFields, ctx: z.RefinementCtx): void {
   };
   pair("peep", o.peepMin, o.peepMax, o.initialPeep, "cmH2O", "PEEP");
   pair("flow", o.flowMin, o.flowMax, o.initialFlow, "L/min", "flow");
+  checkVentilatorFields(o, issue);
 }
 
 /** A physician's written order, signed by re-entering the password. */

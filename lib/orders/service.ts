@@ -9,12 +9,7 @@ import { refreshFrom } from "../rollups/store";
 import { appendLedger } from "../ledger/service";
 import { duplicateIndex, isLockWaitTimeout } from "../db-errors";
 import { findOpenAdmission, type OpenAdmission } from "../admissions/access";
-import {
-  DEVICE_PROFILES,
-  estimateFio2,
-  stepTableFitsDevice,
-  stepTableMismatchMessage,
-} from "../devices";
+import { DEVICE_PROFILES, stepTableFitsDevice, stepTableMismatchMessage } from "../devices";
 import { DESIGNATED_COSIGN_MEANING, SIGNATURE_MEANING } from "./wording";
 import { cosignersFor, cosignersText, mayCosign } from "./cosigners";
 import { getCurrentOrder, getOrder, type OrderView } from "./queries";
@@ -33,6 +28,10 @@ import { can } from "../auth/permissions";
 import type { Device } from "../devices";
 import { parseDevices } from "../units/queries";
 import { transact } from "../transaction";
+import { applyStartingSettings } from "./starting-settings";
+import { noticeOrderChange } from "../order-notices/service";
+import { closeRequestsByOrder } from "../order-requests/service";
+import { ventilatorColumns } from "./ventilator";
 
 /** A unit allows only some devices (a ward that does not ventilate): an order for another is refused. */
 async function assertUnitAllowsDevice(knex: Knex, unitId: number, device: Device): Promise<void> {
@@ -79,6 +78,8 @@ export async function writeOrder(
   }
   const admission = await findOpenAdmission(knex, actor, input.patientId);
   await assertUnitAllowsDevice(knex, admission.unitId, input.device);
+  // Before the password: a missing height is refused without spending a signature.
+  const ventilator = await ventilatorColumns(knex, input);
   if (input.entryMode === "written") {
     await confirmPassword(knex, actor.id, input.password);
   } else {
@@ -119,17 +120,19 @@ export async function writeOrder(
   return once(knex, actor.id, input.idempotencyKey, "order.write", async (trx) => {
     // Two writers who both saw "no order in effect" meet at the unique index
     // (a deadlock is not caught here: once() runs the victim again).
-    return writeOrderInTransaction(trx, actor, input, admission, now).catch((error: unknown) => {
-      if (
-        duplicateIndex(error) === "orders_current_patient_id_unique" ||
-        isLockWaitTimeout(error)
-      ) {
-        throw new ConflictError(
-          "Another order was just written for this patient. Review it, then write yours again if it is still needed.",
-        );
-      }
-      throw error;
-    });
+    return writeOrderInTransaction(trx, actor, input, ventilator, admission, now).catch(
+      (error: unknown) => {
+        if (
+          duplicateIndex(error) === "orders_current_patient_id_unique" ||
+          isLockWaitTimeout(error)
+        ) {
+          throw new ConflictError(
+            "Another order was just written for this patient. Review it, then write yours again if it is still needed.",
+          );
+        }
+        throw error;
+      },
+    );
   });
 }
 
@@ -137,6 +140,7 @@ async function writeOrderInTransaction(
   trx: Knex.Transaction,
   actor: Actor,
   input: ParsedOrder,
+  ventilator: Record<string, number | string | null>,
   admission: OpenAdmission,
   now: Date,
 ): Promise<OrderView> {
@@ -181,6 +185,7 @@ async function writeOrderInTransaction(
     initial_peep_cmh2o: input.initialPeep ?? null,
     initial_flow_l_min: input.initialFlow ?? null,
     step_table_id: input.stepTableId ?? null,
+    ...ventilator,
     reassess_minutes: input.reassessMinutes,
     rationale: input.rationale,
     entry_mode: input.entryMode,
@@ -244,6 +249,10 @@ async function writeOrderInTransaction(
     },
     now,
   );
+  // The bed's nurse and therapist hear of it; a signed order answers an open request.
+  const change = { order, before, bedId: admission.bedId, timeZone: admission.timeZone };
+  await noticeOrderChange(trx, actor, { ...change, event: before ? "supersede" : "new" }, now);
+  if (written) await closeRequestsByOrder(trx, actor, admission.admissionId, newId, now);
   await afterOrderChanged(trx, actor, admission, now);
   await refreshFrom(trx, admission.admissionId, now, now);
   return order;
@@ -305,43 +314,6 @@ async function noticeToPrescriber(
     words: `its prescriber, ${recipient.name}, is e-mailed`,
     detail: { orderId: replaced.id, recipientUserId: recipient.id, mailed: true, messageId },
   };
-}
-
-async function applyStartingSettings(trx: Knex.Transaction, order: OrderView, now: Date) {
-  const profile = DEVICE_PROFILES[order.device];
-  const estimated = profile.uses.fio2 === "estimated";
-  const settings = {
-    device: order.device,
-    fio2: estimated
-      ? (estimateFio2(order.device, order.initial.flow) ?? order.initial.fio2)
-      : order.initial.fio2,
-    fio2_estimated: estimated,
-    peep_cmh2o: order.initial.peep,
-    flow_l_min: order.initial.flow,
-  };
-  const existing = (await trx("bedside_settings")
-    .where({ admission_id: order.admissionId })
-    .forUpdate()
-    .first("version")) as { version: number } | undefined;
-  if (existing) {
-    await trx("bedside_settings")
-      .where({ admission_id: order.admissionId })
-      .update({
-        ...settings,
-        version: existing.version + 1,
-        updated_at: now,
-        last_reassessed_at: now,
-      });
-  } else {
-    await trx("bedside_settings").insert({
-      admission_id: order.admissionId,
-      patient_id: order.patientId,
-      ...settings,
-      updated_at: now,
-      last_reassessed_at: now,
-    });
-  }
-  return settings;
 }
 
 async function lockOrder(
@@ -416,6 +388,8 @@ export async function cosignOrder(knex: Knex, actor: Actor, input: CosignData): 
       },
       now,
     );
+    // Now signed: it answers an open request for the patient.
+    await closeRequestsByOrder(trx, actor, before.admissionId, before.id, now);
     return after;
   });
 }
@@ -459,9 +433,24 @@ export async function discontinueOrder(
       },
       now,
     );
-    const bed = (await trx("admissions").where({ id: before.admissionId }).first("bed_id")) as {
-      bed_id: number;
-    };
+    const bed = (await trx("admissions as a")
+      .join("beds as b", "b.id", "a.bed_id")
+      .join("units as u", "u.id", "b.unit_id")
+      .where("a.id", before.admissionId)
+      .first("a.bed_id", "u.time_zone")) as { bed_id: number; time_zone: string };
+    await noticeOrderChange(
+      trx,
+      actor,
+      {
+        event: "discontinue",
+        order: after,
+        before,
+        bedId: bed.bed_id,
+        timeZone: bed.time_zone,
+        reason: input.reason,
+      },
+      now,
+    );
     await afterOrderChanged(
       trx,
       actor,

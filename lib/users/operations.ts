@@ -8,7 +8,7 @@ import { createUser, setUserActive, updateUser } from "./service";
 export const createUserOperation = defineWrite({
   permission: "user.manage",
   schema: userCreateSchema,
-  run: (knex, actor, input) => createUser(knex, actor, input),
+  run: (knex, actor, input, now) => createUser(knex, actor, input, now),
 });
 
 /** Full update; the input names the version it was based on (409 if stale). */

@@ -11,6 +11,19 @@ export type UserSummary = {
   version: number;
   updatedAt: string;
   units: { id: number; code: string; name: string }[];
+  /**
+   * How the user signs in: a password of their own, one an administrator set
+   * (to be changed at first sign-in), or none yet (invited, or never set).
+   */
+  password: "own" | "set_by_admin" | "none";
+  /** The latest invitation, if any was sent. */
+  invitation: Invitation | null;
+};
+
+export type Invitation = {
+  state: "pending" | "used" | "expired" | "voided";
+  sentAt: string;
+  expiresAt: string;
 };
 
 type UserRow = {
@@ -22,22 +35,69 @@ type UserRow = {
   pressure_unit: "mmHg" | "kPa";
   version: number;
   updated_at: Date;
+  has_password: number;
+  password_change_required: number;
 };
+
+const USER_COLUMNS = [
+  "id",
+  "email",
+  "name",
+  "role",
+  "active",
+  "pressure_unit",
+  "version",
+  "updated_at",
+  "password_change_required",
+] as const;
+
+/** The latest invitation of each user asked about (one query). */
+async function latestInvitations(
+  knex: Knex,
+  userIds: readonly number[] | null,
+): Promise<Map<number, Invitation>> {
+  const q = knex("account_tokens as t")
+    .where("t.kind", "invite")
+    .whereNotExists(function newer() {
+      void this.from("account_tokens as n")
+        .whereRaw("n.user_id = t.user_id")
+        .where("n.kind", "invite")
+        .whereRaw("n.id > t.id");
+    })
+    .select("t.user_id", "t.created_at", "t.expires_at", "t.used_at", "t.voided_at");
+  if (userIds) void q.whereIn("t.user_id", userIds);
+  const rows = (await q) as {
+    user_id: number;
+    created_at: Date;
+    expires_at: Date;
+    used_at: Date | null;
+    voided_at: Date | null;
+  }[];
+  const now = Date.now();
+  return new Map(
+    rows.map((r) => [
+      r.user_id,
+      {
+        state: r.used_at
+          ? "used"
+          : r.voided_at
+            ? "voided"
+            : new Date(r.expires_at).getTime() <= now
+              ? "expired"
+              : "pending",
+        sentAt: new Date(r.created_at).toISOString(),
+        expiresAt: new Date(r.expires_at).toISOString(),
+      },
+    ]),
+  );
+}
 
 /** All users with their units, for the admin area (two queries, no N+1). */
 export async function listUsers(knex: Knex): Promise<UserSummary[]> {
   const users = (await knex("users")
     .orderBy("name")
-    .select(
-      "id",
-      "email",
-      "name",
-      "role",
-      "active",
-      "pressure_unit",
-      "version",
-      "updated_at",
-    )) as UserRow[];
+    .select(knex.raw("password_hash IS NOT NULL AS has_password"), ...USER_COLUMNS)) as UserRow[];
+  const invitations = await latestInvitations(knex, null);
   const links = (await knex("user_units")
     .join("units", "units.id", "user_units.unit_id")
     .orderBy("units.code")
@@ -53,13 +113,13 @@ export async function listUsers(knex: Knex): Promise<UserSummary[]> {
     list.push({ id: l.id, code: l.code, name: l.name });
     byUser.set(l.user_id, list);
   }
-  return users.map((u) => toSummary(u, byUser.get(u.id) ?? []));
+  return users.map((u) => toSummary(u, byUser.get(u.id) ?? [], invitations.get(u.id) ?? null));
 }
 
 export async function getUser(knex: Knex, id: number): Promise<UserSummary | undefined> {
   const u = (await knex("users")
     .where({ id })
-    .first("id", "email", "name", "role", "active", "pressure_unit", "version", "updated_at")) as
+    .first(knex.raw("password_hash IS NOT NULL AS has_password"), ...USER_COLUMNS)) as
     UserRow | undefined;
   if (!u) return undefined;
   const units = (await knex("user_units")
@@ -67,10 +127,15 @@ export async function getUser(knex: Knex, id: number): Promise<UserSummary | und
     .where({ user_id: id })
     .orderBy("units.code")
     .select("units.id", "units.code", "units.name")) as UserSummary["units"];
-  return toSummary(u, units);
+  const invitation = (await latestInvitations(knex, [id])).get(id) ?? null;
+  return toSummary(u, units, invitation);
 }
 
-function toSummary(u: UserRow, units: UserSummary["units"]): UserSummary {
+function toSummary(
+  u: UserRow,
+  units: UserSummary["units"],
+  invitation: Invitation | null,
+): UserSummary {
   return {
     id: u.id,
     email: u.email,
@@ -81,6 +146,8 @@ function toSummary(u: UserRow, units: UserSummary["units"]): UserSummary {
     version: u.version,
     updatedAt: u.updated_at.toISOString(),
     units,
+    password: !u.has_password ? "none" : u.password_change_required ? "set_by_admin" : "own",
+    invitation,
   };
 }
 

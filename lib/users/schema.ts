@@ -24,7 +24,7 @@ const unitIds = z
   .max(50, "At most 50 units.");
 
 export const PASSWORD_MIN = 12;
-const newPassword = z
+export const newPassword = z
   .string()
   .min(PASSWORD_MIN, `Password must be ${PASSWORD_MIN} to 200 characters.`)
   .max(200, `Password must be ${PASSWORD_MIN} to 200 characters.`);
@@ -56,7 +56,23 @@ export const userFieldsSchema = z.object({
   currentPassword,
 });
 
-export const userCreateSchema = userFieldsSchema.extend({ password: newPassword });
+/**
+ * A new user gets either a password from the administrator (to be changed at
+ * first sign-in) or an e-mailed invitation to choose one (`invite`).
+ */
+export const userCreateSchema = userFieldsSchema
+  .extend({
+    invite: z.boolean({ error: "Invite must be true or false." }).optional().default(false),
+  })
+  .superRefine((v, ctx) => {
+    if (!v.invite && v.password === "") {
+      ctx.addIssue({
+        code: "custom",
+        path: ["password"],
+        message: `Set a password of ${PASSWORD_MIN} to 200 characters, or send an invitation instead.`,
+      });
+    }
+  });
 export type UserCreateInput = z.input<typeof userCreateSchema>;
 
 export const userUpdateSchema = userFieldsSchema.extend({
@@ -65,8 +81,8 @@ export const userUpdateSchema = userFieldsSchema.extend({
 });
 export type UserUpdateInput = z.input<typeof userUpdateSchema>;
 
-/** What the admin form holds (create and edit alike). */
-export type UserFormValues = z.input<typeof userFieldsSchema>;
+/** What the admin form holds (create and edit alike; `invite` only on create). */
+export type UserFormValues = z.input<typeof userFieldsSchema> & { invite?: boolean };
 
 export const userActiveSchema = z.object({
   id: z.number().int().positive(),

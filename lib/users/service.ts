@@ -9,6 +9,8 @@ import { appendLedger } from "../ledger/service";
 import { getUser, type UserSummary } from "./queries";
 import { type UserActiveData, type UserCreateData, type UserUpdateData } from "./schema";
 import { transact } from "../transaction";
+import { inviteInTransaction } from "../accounts/service";
+import { newAccountToken } from "../accounts/tokens";
 
 /** What the ledger records of a user: never the password hash. */
 function ledgerView(u: UserSummary) {
@@ -50,9 +52,13 @@ export async function createUser(
   knex: Knex,
   actor: Actor,
   input: UserCreateData,
+  now: Date = new Date(),
 ): Promise<UserSummary> {
   await confirmAdminPassword(knex, actor.id, input.currentPassword);
-  const passwordHash = await hashPassword(input.password);
+  // Invited: no password until the user chooses one. Otherwise the
+  // administrator's password opens only the change-password page.
+  const passwordHash = input.invite ? null : await hashPassword(input.password);
+  const token = input.invite ? newAccountToken() : null;
   try {
     return await transact(knex, async (trx) => {
       await assertUnitsExist(trx, input.unitIds);
@@ -61,6 +67,7 @@ export async function createUser(
         name: input.name,
         role: input.role,
         password_hash: passwordHash,
+        password_change_required: !input.invite,
         pressure_unit: input.pressureUnit,
       });
       const userId = Number(id);
@@ -72,10 +79,11 @@ export async function createUser(
         action: "user.create",
         entityType: "user",
         entityId: userId,
-        after: ledgerView(created),
+        after: { ...ledgerView(created), signIn: input.invite ? "invited" : "set_by_admin" },
         rationale: input.rationale || null,
       });
-      return created;
+      if (token) await inviteInTransaction(trx, actor, created, token, now);
+      return token ? (await getUser(trx, userId))! : created;
     });
   } catch (error) {
     rethrowDuplicate(error);
@@ -123,7 +131,10 @@ export async function updateUser(
           name: input.name,
           role: input.role,
           pressure_unit: input.pressureUnit,
-          ...(passwordHash ? { password_hash: passwordHash } : {}),
+          // A password set for someone else is theirs to change at next sign-in.
+          ...(passwordHash
+            ? { password_hash: passwordHash, password_change_required: input.id !== actor.id }
+            : {}),
           version: before.version + 1,
           updated_at: trx.fn.now(3),
         });

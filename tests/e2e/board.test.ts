@@ -39,7 +39,12 @@ describe.each(ROLES)("$role", ({ role, email, units }) => {
     const page = await context.newPage();
     try {
       await openBoard(page, email, role);
-      expect(await page.getByRole("heading", { level: 2 }).count()).toBe(units);
+      // One section per unit; above them, what waits for this person.
+      expect(await page.locator("h2[id^='unit-']").count()).toBe(units);
+      const panels = { physician: ["waiting-requests"], therapist: ["due-soon", "order-notices"] };
+      for (const panel of panels[role as keyof typeof panels] ??
+        (role === "nurse" ? panels.therapist : []))
+        await page.getByTestId(panel).waitFor();
       // Fits a tablet: no sideways scroll at 1024 px.
       expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(
         1024,
@@ -73,7 +78,7 @@ describe.each(ROLES)("$role", ({ role, email, units }) => {
       const unitSelect = page.getByLabel("Unit", { exact: true });
       const firstUnit = await unitSelect.locator("option").nth(1).getAttribute("value");
       await unitSelect.selectOption(firstUnit!);
-      expect(await page.getByRole("heading", { level: 2 }).count()).toBe(1);
+      expect(await page.locator("h2[id^='unit-']").count()).toBe(1);
       await unitSelect.selectOption("all");
 
       if (role === "physician") {

@@ -22,8 +22,8 @@ afterAll(async () => {
 type ListedUnit = { id: number; code: string; beds: number; occupiedBeds: number };
 
 /** An admin's units as the API lists them. */
-async function units(email = ADMIN): Promise<ListedUnit[]> {
-  const api = await Session.signIn(email);
+async function units(email = ADMIN, password = DEMO_PASSWORD): Promise<ListedUnit[]> {
+  const api = await Session.signIn(email, password);
   const res = await api.fetch("/api/v1/units");
   expect(res.status).toBe(200);
   return ((await res.json()) as { units: ListedUnit[] }).units;
@@ -112,10 +112,18 @@ describe("admin manages units and beds", () => {
       currentPassword: DEMO_PASSWORD,
     });
     expect(made.status).toBe(201);
+    // A password an administrator set must be changed before anything else.
+    const own = await Session.signIn(email);
+    const changed = await own.json("/api/v1/me/password", "POST", {
+      currentPassword: DEMO_PASSWORD,
+      password: "unit-builder-own-1",
+      confirmPassword: "unit-builder-own-1",
+    });
+    expect(changed.status).toBe(200);
     const context = await browser.newContext();
     const page = await context.newPage();
     try {
-      await signInThroughForm(page, email);
+      await signInThroughForm(page, email, "unit-builder-own-1");
       await page.waitForURL(`${BASE_URL}/board`);
       await page.goto(`${BASE_URL}/admin/units/new`);
       await page.locator("form[data-ready='true']").waitFor();
@@ -143,7 +151,7 @@ describe("admin manages units and beds", () => {
       await page.getByText(`${code} has no beds yet`).waitFor();
 
       // The creator is a member of the new unit: the API lists it among theirs.
-      const created = (await units(email)).find((u) => u.code === code);
+      const created = (await units(email, "unit-builder-own-1")).find((u) => u.code === code);
       expect(created).toMatchObject({ beds: 0, occupiedBeds: 0 });
     } finally {
       await context.close();

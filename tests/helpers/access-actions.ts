@@ -10,10 +10,13 @@ import {
   writtenOrder,
 } from "./access-fixtures";
 import type { ActionEntry } from "./access-matrix";
+import { ACCOUNT_ACTIONS } from "./access-routes-accounts";
 import { ADT_ACTIONS } from "./access-routes-adt";
 import { HANDOFF_ACTIONS } from "./access-routes-handoff";
+import { LOOP_ACTIONS } from "./access-routes-loops";
 import { UNIT_ACTIONS } from "./access-routes-units";
 import { ASSIGNMENT_ACTIONS } from "./access-routes-assignments";
+import { VENTILATION_ACTIONS } from "./access-routes-ventilation";
 import {
   adjustmentAllows,
   adjustmentBody,
@@ -212,6 +215,8 @@ const ACTIONS: Omit<ActionEntry, "via">[] = [
       reassessment_overdue: true,
       signal_loss: true,
       pao2_above_band: true,
+      order_change: true,
+      lung_protection: true,
     }),
   },
   ...ASSIGNMENT_ACTIONS,
@@ -222,6 +227,9 @@ export const ACTION_ENTRIES: ActionEntry[] = [
   ...ADT_ACTIONS,
   ...UNIT_ACTIONS,
   ...HANDOFF_ACTIONS,
+  ...ACCOUNT_ACTIONS,
+  ...LOOP_ACTIONS,
+  ...VENTILATION_ACTIONS,
 ].map((e) => ({
   ...e,
   via: "action",

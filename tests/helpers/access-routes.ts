@@ -20,12 +20,15 @@ import {
   type World,
 } from "./access-fixtures";
 import type { Cell, RouteEntry } from "./access-matrix";
+import { ACCOUNT_ROUTES } from "./access-routes-accounts";
 import { ADT_ROUTES } from "./access-routes-adt";
 import { HANDOFF_ROUTES } from "./access-routes-handoff";
 import { REHEARSAL_ROUTES } from "./access-routes-rehearsals";
+import { LOOP_ROUTES } from "./access-routes-loops";
 import { REPORT_ROUTES } from "./access-routes-reports";
 import { UNIT_ROUTES } from "./access-routes-units";
 import { ASSIGNMENT_ROUTES } from "./access-routes-assignments";
+import { VENTILATION_ROUTES } from "./access-routes-ventilation";
 import { appDb, uniqueEmail } from "./db";
 import { DEMO_PASSWORD } from "./browser";
 
@@ -498,6 +501,9 @@ export const ROUTE_ENTRIES: RouteEntry[] = [
   ...HANDOFF_ROUTES,
   ...REPORT_ROUTES,
   ...REHEARSAL_ROUTES,
+  ...ACCOUNT_ROUTES,
+  ...LOOP_ROUTES,
+  ...VENTILATION_ROUTES,
 ].map((e) => ({
   ...e,
   via: "route",

@@ -274,7 +274,7 @@ describe("quotas on expensive reads", () => {
   it("answers the request past the quota with 429 and the seconds until the minute turns", async () => {
     const subject = `user:quota-${Date.now()}-${Math.random()}`;
     const now = new Date(Math.floor(Date.now() / 60_000) * 60_000 + 15_000);
-    for (let i = 0; i < QUOTAS.ledger_verify.perMinute; i++)
+    for (let i = 0; i < QUOTAS.ledger_verify.perWindow; i++)
       await consumeQuota(appDb(), subject, "ledger_verify", now);
     const error = (await consumeQuota(appDb(), subject, "ledger_verify", now).catch(
       (e: unknown) => e,

@@ -1,6 +1,8 @@
 import { fireEvent, render, screen, waitFor, within } from "@testing-library/react";
 import { afterEach, beforeEach, describe, expect, it, vi } from "vitest";
 import type { recordAdjustmentAction } from "@/lib/adjustments/actions";
+import type { sendOrderRequestAction } from "@/lib/order-requests/actions";
+import type { OrderRequestView } from "@/lib/order-requests/queries";
 import {
   AdjustmentForm,
   adjustmentFormSchema,
@@ -14,10 +16,14 @@ import type { ForecastPairView } from "@/lib/forecast-accuracy/views";
 
 const mocks = vi.hoisted(() => ({
   record: vi.fn<typeof recordAdjustmentAction>(),
+  ask: vi.fn<typeof sendOrderRequestAction>(),
   push: vi.fn<(href: string) => void>(),
 }));
 vi.mock("@/lib/adjustments/actions", () => ({
   recordAdjustmentAction: mocks.record,
+}));
+vi.mock("@/lib/order-requests/actions", () => ({
+  sendOrderRequestAction: mocks.ask,
 }));
 vi.mock("next/navigation", () => ({
   useRouter: () => ({ push: mocks.push, refresh: vi.fn(), replace: vi.fn(), prefetch: vi.fn() }),
@@ -46,6 +52,7 @@ function order(device: Device, limits: Partial<OrderView["limits"]> = {}): Order
     },
     initial: { fio2: 0.4, peep: null, flow: 40 },
     stepTableId: null,
+    ventilator: null,
     reassessMinutes: 60,
     rationale: "Type 1 failure",
     entryMode: "written",
@@ -137,6 +144,7 @@ function hfncContext(overrides: Partial<BedsideContext> = {}): BedsideContext {
 function renderForm(
   context: BedsideContext = hfncContext(),
   forecastPairs?: readonly ForecastPairView[],
+  canRequest = false,
 ) {
   return render(
     <AdjustmentForm
@@ -144,6 +152,7 @@ function renderForm(
       initialContext={context}
       pressureUnit="mmHg"
       timeZone="UTC"
+      canRequest={canRequest}
       {...(forecastPairs ? { forecastPairs } : {})}
     />,
   );
@@ -191,6 +200,7 @@ const recorded: AdjustmentView = {
 
 beforeEach(() => {
   mocks.record.mockReset();
+  mocks.ask.mockReset();
   mocks.push.mockReset();
 });
 afterEach(() => {
@@ -501,5 +511,50 @@ describe("adjustmentFormSchema and limitWarnings", () => {
       "Estimated FiO2 0.25 is below this order's minimum of 0.30 — ask the physician for a new order.",
     );
     expect(limitWarnings(order("hfnc"), { fio2: 40 }, false).toFio2).toMatch(/FiO2 is a fraction/);
+  });
+});
+
+describe("asking for a new order from a refused change", () => {
+  it("offers the request, prefilled from the value over the limit, and sends it in one click", async () => {
+    mocks.ask.mockResolvedValue({
+      ok: true,
+      data: {
+        id: 12,
+        told: [[{ name: "Dr Ines Varga", basis: "assigned" }]],
+      } as unknown as OrderRequestView,
+    });
+    renderForm(hfncContext(), undefined, true);
+    expect(screen.queryByRole("form", { name: "Ask for a new order" })).toBeNull();
+    type("New FiO2", "0.7");
+    const ask = await screen.findByRole("form", { name: "Ask for a new order" });
+    expect((within(ask).getByLabelText("What is needed") as HTMLInputElement).value).toBe(
+      "New limits: FiO2 up to 0.70 (order maximum 0.60)",
+    );
+    expect((within(ask).getByLabelText("Why") as HTMLTextAreaElement).value).toBe(
+      "Latest SpO2 89 % (target 92–96 %) on High-flow nasal cannula: the change needed is outside the order's limits.",
+    );
+    fireEvent.click(within(ask).getByRole("button", { name: "Send the request" }));
+    await screen.findByText(/Request #12 sent to Dr Ines Varga \(responsible physician\)/);
+    expect(mocks.ask).toHaveBeenCalledTimes(1);
+    expect(mocks.ask.mock.calls[0]![0]).toMatchObject({
+      patientId: PATIENT_ID,
+      source: "limit_refusal",
+      device: "hfnc",
+      fio2Max: 0.7,
+    });
+    // Nothing was recorded: the change itself stays refused.
+    expect(mocks.record).not.toHaveBeenCalled();
+  });
+
+  it("is not offered to someone who may not ask", () => {
+    renderForm(hfncContext(), undefined, false);
+    type("New FiO2", "0.7");
+    expect(screen.queryByRole("form", { name: "Ask for a new order" })).toBeNull();
+  });
+
+  it("is not offered for a value within the limits", () => {
+    renderForm(hfncContext(), undefined, true);
+    type("New FiO2", "0.5");
+    expect(screen.queryByRole("form", { name: "Ask for a new order" })).toBeNull();
   });
 });

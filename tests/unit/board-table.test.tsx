@@ -36,6 +36,7 @@ const row: BoardRow = {
   minutesSinceReassessment: 10,
   overdue: false,
   alerts: null,
+  orderUnread: false,
 };
 
 const sort = { key: "bed", direction: "asc" } as const;

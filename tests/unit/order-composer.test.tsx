@@ -44,6 +44,7 @@ const CURRENT: OrderView = {
   limits: { fio2Min: 0.24, fio2Max: 0.37, peepMin: null, peepMax: null, flowMin: 1, flowMax: 4 },
   initial: { fio2: 0.29, peep: null, flow: 2 },
   stepTableId: null,
+  ventilator: null,
   reassessMinutes: 60,
   rationale: "Mild hypoxaemia",
   entryMode: "written",
@@ -235,5 +236,66 @@ describe("OrderComposer", () => {
       supersedesOrderId: 41,
     });
     expect(sentInputs()[0]).not.toHaveProperty("password");
+  });
+});
+
+describe("OrderComposer on a ventilator", () => {
+  const FEMALE_165 = { pbwKg: 57, heightCm: 165, sex: "female" as const };
+
+  it("shows the mL each tidal volume target gives this patient, and sends the ventilator settings", async () => {
+    writeOrderAction.mockResolvedValueOnce({ ok: true, data: { ...CURRENT, id: 43 } });
+    renderComposer({ bodyWeight: FEMALE_165 });
+    fireEvent.change(screen.getByLabelText("Delivery device"), { target: { value: "invasive" } });
+    expect((screen.getByLabelText("Mode") as HTMLSelectElement).value).toBe("volume_control");
+    expect(input("Tidal volume target").value).toBe("6");
+    // 6 × 57.0 kg = 342 mL; 8 × 57.0 = 456 mL (predicted body weight, ARDS Network equation).
+    expect(screen.getByTestId("order-vtTarget-ml").textContent).toBe("342\u00a0mL");
+    expect(screen.getByTestId("order-vtMax-ml").textContent).toBe("456\u00a0mL");
+    type("Tidal volume target", "7");
+    expect(screen.getByTestId("order-vtTarget-ml").textContent).toBe("399\u00a0mL");
+    expect(screen.getByTestId("order-read-back").textContent).toContain(
+      "7 mL/kg PBW (399\u00a0mL)",
+    );
+
+    type("Rationale", "ARDS, lung-protective ventilation");
+    type("Password to sign", "tidemark-demo");
+    fireEvent.click(screen.getByRole("button", { name: "Sign order" }));
+    await waitFor(() => expect(writeOrderAction).toHaveBeenCalledTimes(1));
+    expect(sentInputs()[0]).toMatchObject({
+      device: "invasive",
+      ventMode: "volume_control",
+      vtTarget: 7,
+      vtMin: 4,
+      vtMax: 8,
+      rateMin: 10,
+      rateMax: 35,
+      plateauLimit: 30,
+      drivingLimit: 15,
+    });
+  });
+
+  it("says the height is missing instead of showing a volume, and refuses a target outside its range beside the field", async () => {
+    renderComposer({ bodyWeight: null });
+    fireEvent.change(screen.getByLabelText("Delivery device"), { target: { value: "invasive" } });
+    expect(screen.getByTestId("order-pbw").textContent).toContain("Height not recorded");
+    expect(screen.getByTestId("order-vtTarget-ml").textContent).toBe("—");
+    type("Tidal volume target", "12");
+    type("Rationale", "ARDS, lung-protective ventilation");
+    type("Password to sign", "tidemark-demo");
+    fireEvent.click(screen.getByRole("button", { name: "Sign order" }));
+    await screen.findByText("Tidal volume target must be between 4 and 10 mL/kg PBW.");
+    expect(writeOrderAction).not.toHaveBeenCalled();
+  });
+
+  it("leaves the ventilator settings out for a device without a ventilator", async () => {
+    writeOrderAction.mockResolvedValueOnce({ ok: true, data: { ...CURRENT, id: 44 } });
+    renderComposer({ bodyWeight: FEMALE_165 });
+    fireEvent.change(screen.getByLabelText("Delivery device"), { target: { value: "hfnc" } });
+    expect(screen.queryByLabelText("Mode")).toBeNull();
+    type("Rationale", "High flow for pneumonia");
+    type("Password to sign", "tidemark-demo");
+    fireEvent.click(screen.getByRole("button", { name: "Sign order" }));
+    await waitFor(() => expect(writeOrderAction).toHaveBeenCalledTimes(1));
+    expect(Object.keys(sentInputs()[0]!)).not.toContain("vtTarget");
   });
 });

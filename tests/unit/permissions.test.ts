@@ -9,9 +9,13 @@ const TABLE: Record<Permission, Role[]> = {
   "order.sign": ["physician"],
   "order.cosign": ["physician"],
   "order.discontinue": ["physician"],
+  "order_request.send": ["therapist", "nurse"],
+  "order_request.answer": ["physician"],
+  "order.acknowledge_change": ["physician", "therapist", "nurse"],
   "adjustment.record": ["physician", "therapist", "nurse"],
   "reading.chart": ["physician", "therapist", "nurse"],
   "blood_gas.record": ["physician", "therapist", "nurse"],
+  "ventilator_check.record": ["physician", "therapist"],
   "alert.act": ["physician", "therapist", "nurse"],
   "import.upload": ["therapist", "admin"],
   "admission.manage": ["physician", "nurse", "admin"],
@@ -25,6 +29,7 @@ const TABLE: Record<Permission, Role[]> = {
   "record.read": ["physician", "therapist", "nurse", "reviewer", "admin"],
   "ledger.oversee": ["reviewer", "admin"],
   "account.self": ["physician", "therapist", "nurse", "reviewer", "admin"],
+  "account.password": ["physician", "therapist", "nurse", "reviewer", "admin"],
 };
 
 describe("the permission table", () => {

@@ -129,6 +129,7 @@ export default async function AlertsPage({
         initial={alerts}
         apiUrl={`/api/v1/alerts?${query.toString()}`}
         canAct={canAct}
+        canRequest={can(actor, "order_request.send")}
         focusId={focus}
       />
 

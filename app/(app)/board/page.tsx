@@ -4,6 +4,8 @@ import { BoardView } from "@/components/board/BoardView";
 import { Caution } from "@/components/ui/Caution";
 import { pageActor } from "@/lib/auth/page-guard";
 import { loadBoard } from "@/lib/board/queries";
+import { loadMyWork } from "@/lib/board/my-work";
+import { MyWorkPanels } from "@/components/board/MyWorkPanels";
 import { db } from "@/lib/db";
 import { resolveUnitChoice, UNIT_COOKIE } from "@/lib/preferences/unit";
 
@@ -16,7 +18,7 @@ export default async function BoardPage() {
     actor.unitIds,
   );
   // The first paint comes from here; the client then refreshes from the same API.
-  const board = await loadBoard(db(), unitIds);
+  const [board, work] = await Promise.all([loadBoard(db(), unitIds), loadMyWork(db(), actor)]);
   const apiUrl = choice === "all" ? "/api/v1/board" : `/api/v1/board?unitId=${choice}`;
 
   return (
@@ -29,6 +31,7 @@ export default async function BoardPage() {
             .join(" · ")}
         </p>
       </div>
+      <MyWorkPanels work={work} />
       <BoardView key={apiUrl} initial={board} apiUrl={apiUrl} pressureUnit={actor.pressureUnit} />
       <Caution compact />
     </div>

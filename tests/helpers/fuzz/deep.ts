@@ -41,7 +41,8 @@ type Late =
   | "GAS_IMPORT_ID"
   | "GAS_IMPORT_ACCEPTED"
   | "USER_VERSION"
-  | "UNIT_VERSION";
+  | "UNIT_VERSION"
+  | "REQUEST_ID";
 const late = (name: Late) => new Raw(`__${name}__`);
 
 /** The placeholders' values now: the own patient's latest order and alert, the own import, the victim's version. */
@@ -71,6 +72,10 @@ export async function lateValues(knex: Knex, own: Own): Promise<Record<Late, num
   const unit = (await knex("units").where({ id: own.fuzzUnitId }).first("version")) as {
     version: number;
   };
+  const request = (await knex("order_requests")
+    .where({ patient_id: own.patientId })
+    .orderBy("id", "desc")
+    .first("id")) as { id: number } | undefined;
   // 999999999 names nothing: the request is then refused as not found.
   return {
     ORDER_ID: order?.id ?? 999_999_999,
@@ -82,6 +87,7 @@ export async function lateValues(knex: Knex, own: Own): Promise<Record<Late, num
     GAS_IMPORT_ACCEPTED: imp?.rows_accepted ?? 0,
     USER_VERSION: user.version,
     UNIT_VERSION: unit.version,
+    REQUEST_ID: request?.id ?? 999_999_999,
   };
 }
 
@@ -143,6 +149,21 @@ function deepSpecs(s: BodySpecs, own: Own): Record<string, BodySpec> {
       sampleType: { ...s.bloodGas.fields.sampleType!, valid: fc.constant("arterial") },
       sao2: { ...s.bloodGas.fields.sao2!, valid: fc.double({ min: 40, max: 100, noNaN: true }) },
     }),
+    // Pressures in their order (PEEP < plateau ≤ peak); the own patient is on high flow, so
+    // a check is refused deep in the service (no ventilator order) unless perturbed earlier.
+    ventilatorCheck: aim(s.ventilatorCheck, {
+      totalPeep: between(s.ventilatorCheck.fields.totalPeep!, 5, 8),
+      plateau: between(s.ventilatorCheck.fields.plateau!, 20, 28),
+      peak: between(s.ventilatorCheck.fields.peak!, 28, 35),
+      checkedAt: {
+        kind: "coerced",
+        required: true,
+        valid: fc
+          .integer({ min: 1, max: 30 })
+          .map((m) => new Date(Date.now() - m * 60_000).toISOString()),
+      },
+    }),
+    height: s.height,
     adjustment: aim(s.adjustment, {
       settingsVersion: fixed(late("SETTINGS_VERSION")),
       toFio2: {
@@ -178,6 +199,9 @@ function deepSpecs(s: BodySpecs, own: Own): Record<string, BodySpec> {
     }),
     acknowledge: s.acknowledge,
     resolve: s.resolve,
+    orderRequest: aim(s.orderRequest, {}),
+    orderRequestReply: s.orderRequestReply,
+    orderRead: { fields: {} },
     confirm: {
       fields: {
         expectedAccepted: {
@@ -216,6 +240,20 @@ function deepSpecs(s: BodySpecs, own: Own): Record<string, BodySpec> {
       version: fixed(late("USER_VERSION")),
       currentPassword: fixed(DEMO_PASSWORD),
     }),
+    // The victim has a password of their own: an invitation is refused (409), writing nothing.
+    invite: { fields: { currentPassword: fixed(DEMO_PASSWORD) } },
+    // The fuzz physician "changes" to the same password (allowed: not set by an admin), so the
+    // account keeps signing in; the repeat is perturbed only to refused values.
+    passwordChange: {
+      fields: {
+        currentPassword: fixed(DEMO_PASSWORD),
+        password: fixed(DEMO_PASSWORD),
+        confirmPassword: pinId({
+          ...s.passwordChange.fields.confirmPassword!,
+          valid: fc.constant(DEMO_PASSWORD),
+        }),
+      },
+    },
     unitCreate: s.unitCreate,
     unitUpdate: aim(s.unitUpdate, { version: fixed(late("UNIT_VERSION")) }),
     bedCreate: s.bedCreate,
@@ -364,6 +402,18 @@ export function deepRequests(
       "/api/v1/blood-gases",
       spec.bloodGas!,
     ),
+    "POST /api/v1/ventilator-checks": json(
+      "POST /api/v1/ventilator-checks",
+      "therapist",
+      "/api/v1/ventilator-checks",
+      spec.ventilatorCheck!,
+    ),
+    "POST /api/v1/patients/[patientId]/height": json(
+      "POST /api/v1/patients/[patientId]/height",
+      "physician",
+      `/api/v1/patients/${own.patientId}/height`,
+      spec.height!,
+    ),
     "POST /api/v1/adjustments": json(
       "POST /api/v1/adjustments",
       "physician",
@@ -394,6 +444,24 @@ export function deepRequests(
       "physician",
       "/api/v1/alerts/__ALERT_ID__/resolve",
       spec.resolve!,
+    ),
+    "POST /api/v1/order-requests": json(
+      "POST /api/v1/order-requests",
+      "therapist",
+      "/api/v1/order-requests",
+      spec.orderRequest!,
+    ),
+    "POST /api/v1/order-requests/[requestId]/reply": json(
+      "POST /api/v1/order-requests/[requestId]/reply",
+      "physician",
+      "/api/v1/order-requests/__REQUEST_ID__/reply",
+      spec.orderRequestReply!,
+    ),
+    "POST /api/v1/orders/[orderId]/read": json(
+      "POST /api/v1/orders/[orderId]/read",
+      "nurse",
+      "/api/v1/orders/__ORDER_ID__/read",
+      spec.orderRead!,
     ),
     "POST /api/v1/oxygenation/assess": json(
       "POST /api/v1/oxygenation/assess",
@@ -467,6 +535,18 @@ export function deepRequests(
       "admin",
       `/api/v1/users/${own.victimUserId}/active`,
       spec.userActive!,
+    ),
+    "POST /api/v1/users/[userId]/invite": json(
+      "POST /api/v1/users/[userId]/invite",
+      "admin",
+      `/api/v1/users/${own.victimUserId}/invite`,
+      spec.invite!,
+    ),
+    "POST /api/v1/me/password": json(
+      "POST /api/v1/me/password",
+      "physician",
+      "/api/v1/me/password",
+      spec.passwordChange!,
     ),
   };
 }

@@ -102,6 +102,22 @@ export function parameterisedReads(all: Ids & ReadIds): Record<string, fc.Arbitr
         limit,
       }).map((q) => `/api/v1/alerts${q}`),
     ),
+    "GET /api/v1/order-requests": read(
+      "GET /api/v1/order-requests",
+      "therapist",
+      queryString({
+        status: oneOf(["open", "closed", "all"]),
+        patientId: ids(all.patients),
+        requestId: ids([1, 2, 3]),
+        limit,
+      }).map((q) => `/api/v1/order-requests${q}`),
+    ),
+    // No parameters: unknown keys are ignored.
+    "GET /api/v1/me/due": read(
+      "GET /api/v1/me/due",
+      "nurse",
+      fc.constantFrom("", "?status=open", "?x=%00", "?limit=-1").map((q) => `/api/v1/me/due${q}`),
+    ),
     "GET /api/v1/rehearsals": read(
       "GET /api/v1/rehearsals",
       "nurse",
@@ -191,6 +207,13 @@ export function parameterisedReads(all: Ids & ReadIds): Record<string, fc.Arbitr
           before: fc.oneof(time, fc.string({ maxLength: 100 }).map(enc)),
           limit,
         }),
+      ),
+    ),
+    "GET /api/v1/ventilator-checks": read(
+      "GET /api/v1/ventilator-checks",
+      "physician",
+      queryString({ patientId: ids(all.patients), limit }).map(
+        (q) => `/api/v1/ventilator-checks${q}`,
       ),
     ),
     "GET /api/v1/patients/[patientId]/forecast-accuracy": read(

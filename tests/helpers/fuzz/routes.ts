@@ -385,6 +385,20 @@ export function writeRoutes(ctx: Context): Record<string, fc.Arbitrary<FuzzCase>
       refusedBody(specs.bloodGas),
       true,
     ),
+    "POST /api/v1/ventilator-checks": jsonWrite(
+      "POST /api/v1/ventilator-checks",
+      "therapist",
+      fixed("/api/v1/ventilator-checks"),
+      refusedBody(specs.ventilatorCheck),
+      true,
+    ),
+    "POST /api/v1/patients/[patientId]/height": jsonWrite(
+      "POST /api/v1/patients/[patientId]/height",
+      "physician",
+      at("/api/v1/patients", fc.oneof(refusedSegment, idSegment(ids.patients)), "/height"),
+      refusedBody(specs.height),
+      true,
+    ),
     "POST /api/v1/adjustments": jsonWrite(
       "POST /api/v1/adjustments",
       "physician",
@@ -412,6 +426,26 @@ export function writeRoutes(ctx: Context): Record<string, fc.Arbitrary<FuzzCase>
       "physician",
       at("/api/v1/alerts", alertId, "/resolve"),
       refusedBody(specs.resolve),
+    ),
+    "POST /api/v1/order-requests": jsonWrite(
+      "POST /api/v1/order-requests",
+      "therapist",
+      fixed("/api/v1/order-requests"),
+      refusedBody(specs.orderRequest),
+      true,
+    ),
+    "POST /api/v1/order-requests/[requestId]/reply": jsonWrite(
+      "POST /api/v1/order-requests/[requestId]/reply",
+      "physician",
+      at("/api/v1/order-requests", fc.oneof(fc.constant("1"), refusedSegment), "/reply"),
+      refusedBody(specs.orderRequestReply),
+    ),
+    // No body to break: refused only because the order cannot exist.
+    "POST /api/v1/orders/[orderId]/read": jsonWrite(
+      "POST /api/v1/orders/[orderId]/read",
+      "nurse",
+      at("/api/v1/orders", refusedSegment, "/read"),
+      anyBody,
     ),
     "POST /api/v1/oxygenation/assess": jsonWrite(
       "POST /api/v1/oxygenation/assess",
@@ -507,6 +541,18 @@ export function writeRoutes(ctx: Context): Record<string, fc.Arbitrary<FuzzCase>
       "admin",
       at("/api/v1/users", userId, "/active"),
       refusedBody(specs.userActive),
+    ),
+    "POST /api/v1/users/[userId]/invite": jsonWrite(
+      "POST /api/v1/users/[userId]/invite",
+      "admin",
+      at("/api/v1/users", userId, "/invite"),
+      refusedBody(specs.invite),
+    ),
+    "POST /api/v1/me/password": jsonWrite(
+      "POST /api/v1/me/password",
+      "physician",
+      fixed("/api/v1/me/password"),
+      refusedBody(specs.passwordChange),
     ),
   };
 }

@@ -56,6 +56,7 @@ export async function inPool<T, R>(
  * user_sessions (sign-in) — and api_tokens, whose last-used time a token request updates.
  */
 export const WATCHED_TABLES = [
+  "account_tokens",
   "admissions",
   "adjustments",
   "alert_email_preferences",
@@ -71,6 +72,9 @@ export const WATCHED_TABLES = [
   "ledger_chains",
   "ledger_entries",
   "mail_outbox",
+  "order_cosign_notices",
+  "order_notices",
+  "order_requests",
   "orders",
   "patients",
   "readings",
@@ -82,6 +86,7 @@ export const WATCHED_TABLES = [
   "units",
   "user_units",
   "users",
+  "ventilator_checks",
 ] as const;
 
 export type Snapshot = Record<string, string>;

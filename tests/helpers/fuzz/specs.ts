@@ -15,6 +15,11 @@ import { confirmSchema } from "@/lib/imports/upload-rules";
 import { DEVICES } from "@/lib/devices";
 import { handoffAcknowledgeSchema } from "@/lib/handoff/schema";
 import {
+  ORDER_REQUEST_SOURCES,
+  orderRequestReplySchema,
+  orderRequestSchema,
+} from "@/lib/order-requests/schema";
+import {
   cosignSchema,
   discontinueSchema,
   verbalOrderSchema,
@@ -29,6 +34,9 @@ import {
   RESPIRATORY_SUPPORTS,
 } from "@/lib/oxygenation/schema";
 import { readingSchema } from "@/lib/readings/schema";
+import { heightSchema } from "@/lib/admissions/schema";
+import { VENT_MODES } from "@/lib/ventilation/settings";
+import { ventilatorCheckSchema } from "@/lib/ventilator-checks/schema";
 import { rehearsalCreateSchema } from "@/lib/rehearsal/schema";
 import {
   bedCreateSchema,
@@ -39,6 +47,7 @@ import {
 } from "@/lib/units/schema";
 import { assignmentWriteSchema } from "@/lib/assignments/schema";
 import { userActiveSchema, userCreateSchema, userUpdateSchema } from "@/lib/users/schema";
+import { changePasswordSchema, inviteSchema } from "@/lib/accounts/schema";
 import type { BodySpec, Field } from "./bodies";
 
 /**
@@ -198,6 +207,14 @@ export function bodySpecs(ids: Ids) {
     initialPeep: optional(num(0, 30)),
     initialFlow: optional(num(0.5, 70)),
     stepTableId: optional(int(1)),
+    ventMode: oneOf(VENT_MODES, false),
+    vtTarget: optional(engine("tidalVolumeTarget")),
+    vtMin: optional(engine("tidalVolumeTarget")),
+    vtMax: optional(engine("tidalVolumeTarget")),
+    rateMin: optional(int(RANGES.ventilatorRate.min, RANGES.ventilatorRate.max)),
+    rateMax: optional(int(RANGES.ventilatorRate.min, RANGES.ventilatorRate.max)),
+    plateauLimit: optional(engine("plateauLimit")),
+    drivingLimit: optional(engine("drivingLimit")),
     reassessMinutes: int(15, 1440),
     rationale: str(5, 2000),
     supersedesOrderId: {
@@ -217,6 +234,23 @@ export function bodySpecs(ids: Ids) {
       readBackConfirmed: { kind: "boolean", required: true, valid: fc.constant(true) },
     },
   };
+
+  const ventilatorCheck: BodySpec = {
+    fields: {
+      patientId,
+      checkedAt: recent(72),
+      setVt: optional(int(RANGES.tidalVolumeMl.min, RANGES.tidalVolumeMl.max)),
+      measuredVt: int(RANGES.tidalVolumeMl.min, RANGES.tidalVolumeMl.max),
+      setRate: optional(int(RANGES.respiratoryRate.min, RANGES.respiratoryRate.max)),
+      measuredRate: int(RANGES.respiratoryRate.min, RANGES.respiratoryRate.max),
+      minuteVentilation: optional(engine("minuteVentilation")),
+      peak: optional(engine("peakPressure")),
+      plateau: optional(engine("plateauPressure")),
+      totalPeep: engine("peep"),
+      idempotencyKey,
+    },
+  };
+  const height: BodySpec = { fields: { heightCm: engine("heightCm"), idempotencyKey } };
 
   const version = int(1, undefined, pick(ids.orderVersion));
   const cosign: BodySpec = { fields: { version, password: wrongPassword(1) } };
@@ -285,7 +319,12 @@ export function bodySpecs(ids: Ids) {
     password: str(12, 200, false, fc.constant("a-long-enough-password")),
     currentPassword: wrongPassword(1),
   };
-  const userCreate: BodySpec = { fields: userFields };
+  const userCreate: BodySpec = {
+    fields: {
+      ...userFields,
+      invite: optional({ kind: "boolean", required: false, valid: fc.boolean() }),
+    },
+  };
   const userUpdate: BodySpec = {
     fields: {
       ...userFields,
@@ -296,6 +335,14 @@ export function bodySpecs(ids: Ids) {
         valid: fc.constantFrom("", "a-long-enough-password"),
       },
       version: int(1),
+    },
+  };
+  const invite: BodySpec = { fields: { currentPassword: wrongPassword(1) } };
+  const passwordChange: BodySpec = {
+    fields: {
+      currentPassword: wrongPassword(1),
+      password: str(12, 200, false, fc.constant("a-long-enough-password")),
+      confirmPassword: str(0, 200, false, fc.constant("a-long-enough-password")),
     },
   };
   const userActive: BodySpec = {
@@ -399,6 +446,23 @@ export function bodySpecs(ids: Ids) {
     },
   };
 
+  // A request for a new order: what and why; the device and maxima only proposed.
+  const orderRequest: BodySpec = {
+    fields: {
+      patientId,
+      source: oneOf(ORDER_REQUEST_SOURCES),
+      alertId: optional(int(1)),
+      need: str(5, 500),
+      reason: str(5, 1000),
+      device: { ...devices, required: "typed" },
+      fio2Max: optional(num(0.21, 1)),
+      peepMax: optional(num(0, 30)),
+      flowMax: optional(num(0.5, 70)),
+      idempotencyKey,
+    },
+  };
+  const orderRequestReply: BodySpec = { fields: { reply: str(5, 1000) } };
+
   // Valid values keep every pair in order (lower < upper, urgent below the band).
   const rehearsal: BodySpec = {
     fields: {
@@ -429,6 +493,8 @@ export function bodySpecs(ids: Ids) {
   };
 
   return {
+    orderRequest,
+    orderRequestReply,
     rehearsal,
     admit,
     transfer,
@@ -441,6 +507,8 @@ export function bodySpecs(ids: Ids) {
     handoffAcknowledge,
     reading,
     bloodGas,
+    ventilatorCheck,
+    height,
     adjustment,
     writtenOrder,
     verbalOrder,
@@ -454,6 +522,8 @@ export function bodySpecs(ids: Ids) {
     userCreate,
     userUpdate,
     userActive,
+    invite,
+    passwordChange,
   };
 }
 export type BodySpecs = ReturnType<typeof bodySpecs>;
@@ -470,6 +540,8 @@ export const SCHEMAS: Record<keyof BodySpecs, { schema: z.ZodType; fromPath?: st
   assignmentSet: { schema: assignmentWriteSchema, fromPath: ["unitId"] },
   reading: { schema: readingSchema },
   bloodGas: { schema: bloodGasSchema },
+  ventilatorCheck: { schema: ventilatorCheckSchema },
+  height: { schema: heightSchema, fromPath: ["patientId"] },
   adjustment: { schema: adjustmentSchema },
   writtenOrder: { schema: writtenOrderSchema },
   verbalOrder: { schema: verbalOrderSchema },
@@ -483,9 +555,13 @@ export const SCHEMAS: Record<keyof BodySpecs, { schema: z.ZodType; fromPath?: st
   userCreate: { schema: userCreateSchema },
   userUpdate: { schema: userUpdateSchema, fromPath: ["id"] },
   userActive: { schema: userActiveSchema, fromPath: ["id"] },
+  invite: { schema: inviteSchema, fromPath: ["id"] },
+  passwordChange: { schema: changePasswordSchema },
   unitCreate: { schema: unitCreateSchema },
   unitUpdate: { schema: unitUpdateSchema, fromPath: ["unitId"] },
   bedCreate: { schema: bedCreateSchema, fromPath: ["unitId"] },
   bedUpdate: { schema: bedUpdateSchema, fromPath: ["unitId", "bedId"] },
   handoffAcknowledge: { schema: handoffAcknowledgeSchema, fromPath: ["unitId"] },
+  orderRequest: { schema: orderRequestSchema },
+  orderRequestReply: { schema: orderRequestReplySchema, fromPath: ["requestId"] },
 };

@@ -32,6 +32,7 @@ function order(
     limits: { fio2Min: 0.24, fio2Max: 0.45, peepMin: null, peepMax: null, flowMin: 1, flowMax: 6 },
     initial: { fio2: 0.29, peep: null, flow: 2 },
     stepTableId: null,
+    ventilator: null,
     reassessMinutes: 60,
     rationale: "Community-acquired pneumonia, hypoxaemic on air",
     entryMode: "written",

@@ -4,6 +4,8 @@ import { EmptyState } from "@/components/ui/EmptyState";
 import { myBeds } from "@/lib/assignments/queries";
 import { pagePermission } from "@/lib/auth/page-guard";
 import { db } from "@/lib/db";
+import { loadMyWork } from "@/lib/board/my-work";
+import { MyWorkPanels } from "@/components/board/MyWorkPanels";
 
 export const metadata: Metadata = { title: "My beds" };
 
@@ -11,7 +13,7 @@ const DUTY_WORDS = { nurse: "Nurse", therapist: "Therapist", physician: "Physici
 
 export default async function MyBedsPage() {
   const actor = await pagePermission("record.read");
-  const beds = await myBeds(db(), actor);
+  const [beds, work] = await Promise.all([myBeds(db(), actor), loadMyWork(db(), actor)]);
   const endsAt = beds[0]?.endsAt;
 
   return (
@@ -26,6 +28,7 @@ export default async function MyBedsPage() {
           .
         </p>
       </div>
+      <MyWorkPanels work={{ ...work, waiting: null }} />
       {beds.length === 0 ? (
         <EmptyState title="No beds assigned to you now">
           The charge nurse or an administrator sets the shift&apos;s assignments on the{" "}

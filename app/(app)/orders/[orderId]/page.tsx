@@ -16,6 +16,8 @@ import { buttonClasses } from "@/components/ui/Button";
 import { inputClasses } from "@/components/ui/Field";
 import { IconInfo } from "@/components/ui/icons";
 import { pageActor } from "@/lib/auth/page-guard";
+import { OrderNoticeList } from "@/components/order-notices/OrderNoticeList";
+import { unreadOrderNotices } from "@/lib/order-notices/queries";
 import { db } from "@/lib/db";
 import { NotFoundError } from "@/lib/errors";
 import { listLedgerForEntity } from "@/lib/ledger/queries";
@@ -107,7 +109,7 @@ export default async function OrderPage({
   // Another unit's order answers 404, like one that does not exist.
   if (!order || !actor.unitIds.includes(order.unitId)) notFound();
 
-  const [history, patient, tableName, units] = await Promise.all([
+  const [history, patient, tableName, units, notices] = await Promise.all([
     listLedgerForEntity(db(), actor, "order", order.id),
     getAdmissionPatient(db(), actor, order.admissionId).catch((error: unknown) => {
       if (error instanceof NotFoundError) notFound();
@@ -115,7 +117,9 @@ export default async function OrderPage({
     }),
     getStepTableName(db(), order.stepTableId),
     listUnits(db(), [order.unitId]),
+    unreadOrderNotices(db(), actor),
   ]);
+  const unread = notices.filter((n) => n.orderId === order.id);
   const timeZone = units[0]?.timeZone ?? "UTC";
   const time = (d: string | Date) => formatOrderTime(d, timeZone);
   const now = new Date();
@@ -177,6 +181,7 @@ export default async function OrderPage({
       </header>
 
       <StateBanner order={order} time={time} now={now} />
+      {unread.length ? <OrderNoticeList notices={unread} /> : null}
 
       <div className="grid items-start gap-5 lg:grid-cols-[minmax(0,1fr)_22rem]">
         <div className="min-w-0 space-y-5">

@@ -8,6 +8,8 @@ import { db } from "@/lib/db";
 import { mayCosign } from "@/lib/orders/cosigners";
 import { DEVICE_PROFILES } from "@/lib/devices";
 import { listCosignQueue } from "@/lib/orders/queries";
+import { cosignNotices } from "@/lib/orders/cosign-reminders";
+import { CosignNoticeLine } from "@/components/orders/CosignNoticeLine";
 
 export const metadata: Metadata = { title: "Co-sign queue" };
 
@@ -17,6 +19,10 @@ const MODE_WORDS = { verbal: "Verbal", telephone: "Telephone", written: "Written
 export default async function CosignQueuePage() {
   const actor = await pagePermission("order.cosign");
   const queue = await listCosignQueue(db(), actor.unitIds);
+  const notices = await cosignNotices(
+    db(),
+    queue.map((o) => o.id),
+  );
   const now = new Date();
 
   return (
@@ -96,9 +102,10 @@ export default async function CosignQueuePage() {
                   <td className="tabular px-3 py-2">{formatOrderTime(o.createdAt, o.timeZone)}</td>
                   <td className="px-3 py-2 whitespace-nowrap">
                     <StatusBadge
-                      status="overdue"
-                      label={formatDuration(now.getTime() - Date.parse(o.createdAt))}
+                      status={notices.get(o.id)?.escalatedAt ? "escalated" : "overdue"}
+                      label={`waiting ${formatDuration(now.getTime() - Date.parse(o.createdAt))}`}
                     />
+                    <CosignNoticeLine notices={notices.get(o.id)} timeZone={o.timeZone} />
                   </td>
                   <td className="px-3 py-2 text-right">
                     {mayCosign(actor.id, o.cosigners) ? (

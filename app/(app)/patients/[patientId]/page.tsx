@@ -1,5 +1,7 @@
 import type { Metadata } from "next";
 import Link from "next/link";
+import { PatientRequests } from "@/components/order-requests/PatientRequests";
+import { listOrderRequests } from "@/lib/order-requests/queries";
 import { notFound } from "next/navigation";
 import { z } from "zod";
 import { AlertList } from "@/components/alerts/AlertList";
@@ -9,6 +11,8 @@ import { StaySummary } from "@/components/chart/StaySummary";
 import { TrendChart } from "@/components/chart/TrendChart";
 import { ForecastAccuracyPanel } from "@/components/forecast-accuracy/ForecastAccuracyPanel";
 import { BloodGasEvaluator } from "@/components/oxygenation/BloodGasEvaluator";
+import { VentilationPanel } from "@/components/ventilation/VentilationPanel";
+import { listVentilatorChecks } from "@/lib/ventilator-checks/queries";
 import { buttonClasses } from "@/components/ui/Button";
 import { listAlerts } from "@/lib/alerts/queries";
 import { pageActor } from "@/lib/auth/page-guard";
@@ -49,12 +53,15 @@ export default async function ChartPage({ params }: { params: Promise<{ patientI
   if (!parsed.success) notFound();
   const patient = await loadPatient(db(), actor, parsed.data.patientId);
   const now = new Date();
-  const [bedside, alerts, summary, forecasts] = await Promise.all([
+  const [bedside, alerts, summary, forecasts, requests, ventilatorChecks] = await Promise.all([
     getBedsideContext(db(), actor, patient.id),
     listAlerts(db(), actor, { patientId: patient.id, status: "open" }),
     loadStaySummary(db(), patient.admission, now),
     loadAdmissionForecastAccuracy(db(), patient.id, patient.admission.id),
+    listOrderRequests(db(), actor, { patientId: patient.id, status: "all", limit: 5 }),
+    listVentilatorChecks(db(), patient.admission.id),
   ]);
+  const ventilator = bedside.order?.ventilator ?? null;
   const age = ageInYears(patient.birthDate, now);
   const { bed, unit, dischargedAt, disposition } = patient.admission;
   const mayMove = !dischargedAt && can(actor, "admission.manage");
@@ -62,6 +69,7 @@ export default async function ChartPage({ params }: { params: Promise<{ patientI
     ["MRN", patient.mrn],
     ["Age", `${age} y`],
     ["Sex", patient.sex === "female" ? "Female" : "Male"],
+    ["Height", patient.heightCm === null ? "not recorded" : `${patient.heightCm} cm`],
     ["Bed", bed.label],
     ["Unit", `${unit.name} (${unit.code})`],
     dischargedAt
@@ -135,11 +143,29 @@ export default async function ChartPage({ params }: { params: Promise<{ patientI
           initial={alerts}
           apiUrl={`/api/v1/alerts?status=open&patientId=${patient.id}`}
           canAct={can(actor, "alert.act")}
+          canRequest={!dischargedAt && can(actor, "order_request.send")}
           compactEmpty="No open alerts for this patient."
         />
       </section>
 
       <BedsideSummary actor={actor} context={bedside} now={now} />
+
+      <PatientRequests
+        patientId={patient.id}
+        requests={requests.filter((r) => r.admissionId === patient.admission.id)}
+        canSend={!dischargedAt && can(actor, "order_request.send")}
+        canAnswer={!dischargedAt && can(actor, "order_request.answer")}
+      />
+      {ventilator || ventilatorChecks.length ? (
+        <VentilationPanel
+          patientId={patient.id}
+          ventilator={ventilator}
+          checks={ventilatorChecks}
+          timeZone={unit.timeZone}
+          pressureUnit={actor.pressureUnit}
+          mayRecord={!dischargedAt && can(actor, "ventilator_check.record")}
+        />
+      ) : null}
 
       <StaySummary windows={summary} />
 

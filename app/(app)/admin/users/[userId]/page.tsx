@@ -3,6 +3,8 @@ import { notFound } from "next/navigation";
 import { z } from "zod";
 import { UserActivePanel } from "@/components/users/UserActivePanel";
 import { UserForm } from "@/components/users/UserForm";
+import { UserInvitePanel } from "@/components/users/UserInvitePanel";
+import { getEnv } from "@/lib/env";
 import { pagePermission } from "@/lib/auth/page-guard";
 import { db } from "@/lib/db";
 import { listUnits } from "@/lib/units/queries";
@@ -26,6 +28,7 @@ export default async function EditUserPage({ params }: { params: Promise<{ userI
         user={user}
         units={units.map((u) => ({ id: u.id, label: `${u.code} · ${u.name}` }))}
       />
+      <UserInvitePanel user={user} linkHours={getEnv().INVITE_LINK_HOURS} />
       <UserActivePanel user={user} isSelf={user.id === actor.id} />
     </div>
   );

@@ -7,7 +7,7 @@ import { EmptyState } from "@/components/ui/EmptyState";
 import { pagePermission } from "@/lib/auth/page-guard";
 import { db } from "@/lib/db";
 import { loadAdmissionForecastPairs } from "@/lib/forecast-accuracy/queries";
-import { mayAdjustDevice } from "@/lib/auth/permissions";
+import { can, mayAdjustDevice } from "@/lib/auth/permissions";
 import { DEVICE_PROFILES } from "@/lib/devices";
 
 export const metadata: Metadata = { title: "Record adjustment" };
@@ -68,6 +68,7 @@ export default async function NewAdjustmentPage({
         pressureUnit={actor.pressureUnit}
         timeZone={timeZone}
         forecastPairs={forecastPairs}
+        canRequest={can(actor, "order_request.send")}
       />
     );
   }

@@ -3,6 +3,7 @@ import Link from "next/link";
 import { notFound } from "next/navigation";
 import { z } from "zod";
 import { OrderComposer } from "@/components/orders/OrderComposer";
+import { HeightForm } from "@/components/ventilation/HeightForm";
 import { buttonClasses } from "@/components/ui/Button";
 import { pagePermission } from "@/lib/auth/page-guard";
 import { db } from "@/lib/db";
@@ -13,6 +14,8 @@ import { getStepTableName, listStepTables } from "@/lib/step-tables/queries";
 import { listUnits } from "@/lib/units/queries";
 import { listUnitPhysicians } from "@/lib/users/queries";
 import { can } from "@/lib/auth/permissions";
+import { getOrderRequest } from "@/lib/order-requests/queries";
+import { bodyWeightOf } from "@/lib/ventilation/settings";
 
 export const metadata: Metadata = { title: "Order" };
 
@@ -29,7 +32,13 @@ async function loadPatient(...args: Parameters<typeof getPatientForActor>): Prom
 }
 
 /** The order composer: a physician writes and signs; a nurse or therapist enters a verbal order. */
-export default async function NewOrderPage({ params }: { params: Promise<{ patientId: string }> }) {
+export default async function NewOrderPage({
+  params,
+  searchParams,
+}: {
+  params: Promise<{ patientId: string }>;
+  searchParams: Promise<{ request?: string }>;
+}) {
   const actor = await pagePermission("order.write");
   const parsed = paramsSchema.safeParse(await params);
   if (!parsed.success) notFound();
@@ -45,7 +54,25 @@ export default async function NewOrderPage({ params }: { params: Promise<{ patie
     listUnits(db(), [unit.id]),
   ]);
   const currentStepTableName = await getStepTableName(db(), currentOrder?.stepTableId ?? null);
+  // ?request=ID: the composer starts from an open order request for this patient.
+  const requestId = z.coerce
+    .number()
+    .int()
+    .positive()
+    .safeParse((await searchParams).request);
+  const request = requestId.success ? await getOrderRequest(db(), requestId.data) : null;
+  const prefill =
+    request && request.patientId === patient.id && request.state !== "closed"
+      ? {
+          id: request.id,
+          requestedBy: request.requestedBy.name,
+          need: request.need,
+          reason: request.reason,
+          ...request.proposal,
+        }
+      : undefined;
   const name = `${patient.givenName} ${patient.familyName}`;
+  const bodyWeight = bodyWeightOf(patient);
 
   return (
     <div className="space-y-5">
@@ -66,7 +93,18 @@ export default async function NewOrderPage({ params }: { params: Promise<{ patie
           Back to the Chart
         </Link>
       </header>
+      {bodyWeight === null && can(actor, "reading.chart") ? (
+        <HeightForm
+          patientId={patient.id}
+          reason={
+            patient.heightCm === null
+              ? "No height is recorded for this patient. A ventilator order (invasive ventilation or NIV) sets its tidal volume per kg of predicted body weight, which needs the height; Tidemark never estimates it."
+              : `The recorded height, ${patient.heightCm} cm, lies outside 130–230 cm, where the predicted body weight equation holds. Correct it if it was mistyped.`
+          }
+        />
+      ) : null}
       <OrderComposer
+        bodyWeight={bodyWeight}
         patient={{ id: patient.id, name, bedLabel: bed.label }}
         signer={physician ? "physician" : "other"}
         pressureUnit={actor.pressureUnit}
@@ -80,6 +118,7 @@ export default async function NewOrderPage({ params }: { params: Promise<{ patie
           unitOwn: t.unitId !== null,
         }))}
         physicians={physicians}
+        {...(prefill ? { prefill } : {})}
       />
     </div>
   );
