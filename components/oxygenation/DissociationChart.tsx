@@ -230,32 +230,35 @@ export function DissociationChart({
           ))}
         </g>
       </svg>
-      <table className="sr-only">
-        <caption>{`Points on the dissociation curve (PO2 in ${unit}, saturation in %)`}</caption>
-        <thead>
-          <tr>
-            <th scope="col">Point</th>
-            <th scope="col">PO2</th>
-            <th scope="col">Saturation</th>
-          </tr>
-        </thead>
-        <tbody>
-          {points.map((p, i) => (
-            <tr key={`${p.kind}-${i}`}>
-              <th scope="row">{p.label}</th>
-              <td>{`${text(p.po2)} ${unit}`}</td>
-              <td>{`${formatNumber(p.saturation, 1)} %`}</td>
+      {/* A table cannot shrink to the 1 px of sr-only: its box would widen a phone's page. */}
+      <div className="sr-only">
+        <table>
+          <caption>{`Points on the dissociation curve (PO2 in ${unit}, saturation in %)`}</caption>
+          <thead>
+            <tr>
+              <th scope="col">Point</th>
+              <th scope="col">PO2</th>
+              <th scope="col">Saturation</th>
             </tr>
-          ))}
-          {TABLE_PO2.map((po2) => (
-            <tr key={po2}>
-              <th scope="row">Standard curve</th>
-              <td>{`${text(po2)} ${unit}`}</td>
-              <td>{`${formatNumber(100 * saturationFromPO2(po2), 1)} %`}</td>
-            </tr>
-          ))}
-        </tbody>
-      </table>
+          </thead>
+          <tbody>
+            {points.map((p, i) => (
+              <tr key={`${p.kind}-${i}`}>
+                <th scope="row">{p.label}</th>
+                <td>{`${text(p.po2)} ${unit}`}</td>
+                <td>{`${formatNumber(p.saturation, 1)} %`}</td>
+              </tr>
+            ))}
+            {TABLE_PO2.map((po2) => (
+              <tr key={po2}>
+                <th scope="row">Standard curve</th>
+                <td>{`${text(po2)} ${unit}`}</td>
+                <td>{`${formatNumber(100 * saturationFromPO2(po2), 1)} %`}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </div>
     </figure>
   );
 }

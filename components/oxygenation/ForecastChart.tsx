@@ -375,44 +375,47 @@ export function ForecastChart({
           </text>
         </g>
       </svg>
-      <table className="sr-only">
-        <caption>{`Forecast PaO2 (${unit}) by model at each FiO2`}</caption>
-        <thead>
-          <tr>
-            <th scope="col">FiO2</th>
-            {MODELS.map((m) => (
-              <th key={m.key} scope="col">
-                {m.label}
-              </th>
-            ))}
-            <th scope="col">Range</th>
-          </tr>
-        </thead>
-        <tbody>
-          <tr>
-            <th scope="row">{`${formatFio2(measured.fio2)} (measured)`}</th>
-            <td colSpan={MODELS.length + 1}>{`PaO2 ${text(measured.pao2)} ${unit}`}</td>
-          </tr>
-          {proposed ? (
+      {/* A table cannot shrink to the 1 px of sr-only: its box would widen a phone's page. */}
+      <div className="sr-only">
+        <table>
+          <caption>{`Forecast PaO2 (${unit}) by model at each FiO2`}</caption>
+          <thead>
             <tr>
-              <th scope="row">{`${formatFio2(proposed.fio2)} (proposed)`}</th>
+              <th scope="col">FiO2</th>
               {MODELS.map((m) => (
-                <td key={m.key}>{text(proposed.forecast.models[m.key].pao2)}</td>
+                <th key={m.key} scope="col">
+                  {m.label}
+                </th>
               ))}
-              <td>{rangeText}</td>
+              <th scope="col">Range</th>
             </tr>
-          ) : null}
-          {tableRows.map((s) => (
-            <tr key={s.fio2}>
-              <th scope="row">{formatFio2(s.fio2)}</th>
-              {MODELS.map((m) => (
-                <td key={m.key}>{text(s.models[m.key])}</td>
-              ))}
-              <td>{`${text(s.low)}–${text(s.high)}`}</td>
+          </thead>
+          <tbody>
+            <tr>
+              <th scope="row">{`${formatFio2(measured.fio2)} (measured)`}</th>
+              <td colSpan={MODELS.length + 1}>{`PaO2 ${text(measured.pao2)} ${unit}`}</td>
             </tr>
-          ))}
-        </tbody>
-      </table>
+            {proposed ? (
+              <tr>
+                <th scope="row">{`${formatFio2(proposed.fio2)} (proposed)`}</th>
+                {MODELS.map((m) => (
+                  <td key={m.key}>{text(proposed.forecast.models[m.key].pao2)}</td>
+                ))}
+                <td>{rangeText}</td>
+              </tr>
+            ) : null}
+            {tableRows.map((s) => (
+              <tr key={s.fio2}>
+                <th scope="row">{formatFio2(s.fio2)}</th>
+                {MODELS.map((m) => (
+                  <td key={m.key}>{text(s.models[m.key])}</td>
+                ))}
+                <td>{`${text(s.low)}–${text(s.high)}`}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </div>
     </figure>
   );
 }

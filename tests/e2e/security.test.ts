@@ -122,6 +122,14 @@ describe("sessions that end", () => {
     });
     expect((await session.fetch("/api/v1/me")).status).toBe(401);
     const again = await Session.signIn(user.email, "a-fresh-password-789");
+    // A password an administrator set must be changed before anything else.
+    expect((await again.fetch("/api/v1/me")).status).toBe(403);
+    const changed = await again.json("/api/v1/me/password", "POST", {
+      currentPassword: "a-fresh-password-789",
+      password: "my-own-password-789",
+      confirmPassword: "my-own-password-789",
+    });
+    expect(changed.status).toBe(200);
     expect((await again.fetch("/api/v1/me")).status).toBe(200);
   });
 });
