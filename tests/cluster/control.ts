@@ -4,6 +4,7 @@
  * its subcommands) and a direct connection to each Galera node.
  */
 import { execFile, execFileSync } from "node:child_process";
+import { userInfo } from "node:os";
 import { promisify } from "node:util";
 import knex, { type Knex } from "knex";
 import { connectionConfig } from "../../lib/db";
@@ -48,7 +49,8 @@ export function nodeSocketDb(node: ClusterNode): Knex {
     client: "mysql2",
     connection: {
       socketPath: node.socket,
-      user: process.env.USER === undefined || process.getuid?.() === 0 ? "root" : process.env.USER,
+      // The OS user whose socket login administers the nodes (galera.sh's GALERA_ADMIN).
+      user: userInfo().username,
       database: process.env.DATABASE_NAME,
       timezone: "Z",
     },
